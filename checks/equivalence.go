@@ -1,0 +1,222 @@
+package checks
+
+import (
+	"context"
+	"fmt"
+	"math/big"
+
+	"github.com/pathvet/pathvet/checks/dag"
+)
+
+// MaxListedMembers is how many members of a class the report lists.
+const MaxListedMembers = 50
+
+// equivalence: which graphs fit the data exactly as well, and did the
+// authors say so? (checks.md) This is its graph half: the CPDAG, both
+// class sizes, and which claimed arrows the data cannot orient.
+var equivalenceCheck = Check{
+	ID:    "equivalence",
+	Title: "Equivalent graphs",
+	Run:   runEquivalence,
+}
+
+// equivalenceResult is the declared graph's class, shared by the checks.
+type equivalenceResult struct {
+	cpdag     *dag.PDAG
+	size      *big.Int
+	plausible *big.Int // nil when it could not be counted exactly
+	countErr  error
+}
+
+// equivalenceClass computes the class of the declared graph once.
+func (a *Analysis) equivalenceClass() *equivalenceResult {
+	if a.equivalence == nil {
+		c := dag.CPDAG(a.Study.Declared)
+		r := &equivalenceResult{cpdag: c, size: dag.ClassSize(c)}
+		r.plausible, r.countErr = dag.PlausibleSize(c, a.Study.Background)
+		if r.countErr != nil {
+			r.plausible = nil
+		}
+		a.equivalence = r
+	}
+	return a.equivalence
+}
+
+func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
+	s := a.Study
+	if s.Declared == nil {
+		return CheckResult{Status: StatusNotApplicable, Summary: "No causal graph is declared, so there is no equivalence class to report."}, nil
+	}
+	eq := a.equivalenceClass()
+	graph, err := graphReport(s, eq)
+	if err != nil {
+		return CheckResult{}, err
+	}
+	a.Graph = graph
+	if err := ctx.Err(); err != nil {
+		return CheckResult{}, err
+	}
+	var fs []Finding
+	reversible := 0
+	for i, c := range s.Package.Claims {
+		f, rev, err := arrowFinding(s, eq, c)
+		if err != nil {
+			return CheckResult{}, err
+		}
+		if rev != nil {
+			a.Claims[i].ArrowReversible = rev
+			if rev.InPlausible {
+				reversible++
+			}
+		}
+		fs = append(fs, f...)
+	}
+	fs = append(fs, discussionFinding(s, eq)...)
+	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: equivalenceMetrics(eq, reversible)}
+	res.Summary = equivalenceSummary(s, eq, res.Status, reversible)
+	return res, nil
+}
+
+func equivalenceMetrics(eq *equivalenceResult, reversible int) map[string]any {
+	m := map[string]any{
+		"reversible_edges":  len(eq.cpdag.Lines()),
+		"claims_reversible": reversible,
+	}
+	m["equivalence_class_size"], m["equivalence_class_size_log10"] = countMetric(eq.size)
+	m["plausible_class_size"], m["plausible_class_size_log10"] = countMetric(eq.plausible)
+	if eq.countErr != nil {
+		m["plausible_class_size_error"] = eq.countErr.Error()
+	}
+	return m
+}
+
+func countMetric(n *big.Int) (any, any) {
+	if n == nil {
+		return nil, nil
+	}
+	v, l := exactCount(n)
+	if l == nil {
+		return v, nil
+	}
+	return v, *l
+}
+
+// arrowFinding says whether the arrow of a direct-effect claim can point
+// the other way in a member of the class, and in a plausible member.
+func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversibility, error) {
+	from, to := s.Index[c.From], s.Index[c.To]
+	if c.Kind != KindDirect || !s.Declared.HasArc(from, to) {
+		return nil, nil, nil
+	}
+	rev := &Reversibility{InClass: eq.cpdag.HasLine(from, to), PlausibleReversed: int64(0)}
+	if !rev.InClass {
+		return nil, rev, nil
+	}
+	n, err := dag.PlausibleSize(eq.cpdag, append(append([]dag.Edge(nil), s.Background...), dag.Edge{From: to, To: from}))
+	if err != nil {
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s: whether background knowledge fixes the direction of %s → %s could not be counted exactly (%v).", c.ID, c.From, c.To, err)}}, rev, nil
+	}
+	rev.PlausibleReversed, _ = exactCount(n)
+	rev.InPlausible = n.Sign() > 0
+	if !rev.InPlausible {
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			"The data alone cannot orient the arrow %s → %s behind %s; only the stated background knowledge (exogenous variables, fixed arrows) does.",
+			c.From, c.To, c.ID)}}, rev, nil
+	}
+	sev := StatusWarn
+	if c.Headline && !s.Package.Graph.EquivalentsDiscussed {
+		sev = StatusFail
+	}
+	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible equivalent graphs it does, those graphs fit the data exactly as well, and in them the direct effect of %s on %s is zero.",
+		c.From, c.To, c.ID, n, countText(eq.plausible), c.From, c.To)}}, rev, nil
+}
+
+// verb picks the singular or plural form for a count.
+func verb(n *big.Int, one, many string) string {
+	if n != nil && n.Cmp(big.NewInt(1)) == 0 {
+		return one
+	}
+	return many
+}
+
+func countText(n *big.Int) string {
+	if n == nil {
+		return "(uncounted)"
+	}
+	return n.String()
+}
+
+func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
+	if eq.size.Cmp(big.NewInt(1)) <= 0 {
+		return nil
+	}
+	if s.Package.Graph.EquivalentsDiscussed {
+		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
+			"The authors say they discussed the graphs equivalent to theirs (%s in the whole class).", eq.size)}}
+	}
+	return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
+		"%s graphs fit any data exactly as well as the declared one (%s of them %s the stated background knowledge), and the authors do not discuss them.",
+		eq.size, countText(eq.plausible), verb(eq.plausible, "respects", "respect"))}}
+}
+
+func equivalenceSummary(s *Study, eq *equivalenceResult, status string, reversible int) string {
+	switch {
+	case status == StatusFail:
+		return fmt.Sprintf("A headline claim rests on an arrow the data cannot orient, among %s plausible equivalent graphs the paper does not discuss; ask the authors to justify its direction or report the claim under every equivalent graph.", countText(eq.plausible))
+	case reversible > 0:
+		return fmt.Sprintf("%d claim(s) rest on arrows the data cannot orient; the paper should justify those directions or show the claims under the equivalent graphs.", reversible)
+	case eq.size.Cmp(big.NewInt(1)) == 0:
+		return "The declared graph is the only member of its equivalence class: the data could in principle tell it from every other graph on its skeleton."
+	case status == StatusWarn:
+		return fmt.Sprintf("The declared graph has %s equivalent graphs that fit equally well, which the paper does not discuss, though no claimed arrow depends on them.", eq.size)
+	}
+	return fmt.Sprintf("The declared graph has %s equivalent graphs; no claimed arrow changes direction among the %s plausible ones.", eq.size, countText(eq.plausible))
+}
+
+// graphReport fills the report's graph section: the CPDAG, both class
+// sizes and the first members of each.
+func graphReport(s *Study, eq *equivalenceResult) (*GraphReport, error) {
+	g := &GraphReport{Acyclic: true}
+	for i, in := range s.InGraph {
+		if in {
+			g.Nodes = append(g.Nodes, s.Names[i])
+		}
+	}
+	g.CPDAG.Directed = namedArcs(s, eq.cpdag.Arcs())
+	g.CPDAG.Undirected = [][2]string{}
+	for _, l := range eq.cpdag.Lines() {
+		g.CPDAG.Undirected = append(g.CPDAG.Undirected, [2]string{s.Names[l[0]], s.Names[l[1]]})
+	}
+	g.EquivalenceClassSize, g.EquivalenceClassSizeLog10 = exactCount(eq.size)
+	if eq.plausible != nil {
+		g.PlausibleClassSize, g.PlausibleClassSizeLog10 = exactCount(eq.plausible)
+	}
+	var err error
+	g.EquivalentDAGs, g.EquivalentDAGsTruncated, err = listMembers(s, eq.cpdag, nil)
+	if err != nil {
+		return nil, err
+	}
+	if eq.plausible != nil {
+		g.PlausibleDAGs, g.PlausibleDAGsTruncated, err = listMembers(s, eq.cpdag, s.Background)
+	}
+	return g, err
+}
+
+func listMembers(s *Study, c *dag.PDAG, required []dag.Edge) ([][][2]string, bool, error) {
+	ms, truncated, err := dag.Members(c, required, MaxListedMembers)
+	out := make([][][2]string, len(ms))
+	for i, m := range ms {
+		out[i] = namedArcs(s, m.Arcs())
+	}
+	return out, truncated, err
+}
+
+func namedArcs(s *Study, arcs []dag.Edge) [][2]string {
+	out := make([][2]string, len(arcs))
+	for i, e := range arcs {
+		out[i] = [2]string{s.Names[e.From], s.Names[e.To]}
+	}
+	return out
+}

@@ -1,0 +1,165 @@
+package checks
+
+import (
+	"context"
+	"encoding/json"
+	"fmt"
+	"runtime/debug"
+	"time"
+)
+
+// Check is one step of the screening pipeline.
+type Check struct {
+	ID    string
+	Title string
+	Run   func(ctx context.Context, a *Analysis) (CheckResult, error)
+}
+
+// Pipeline returns the checks in pipeline order (report-format.md, "Fixed
+// check ids"). Checks whose computations are not yet part of pathvet are
+// not listed, so that no check pretends to run.
+func Pipeline() []Check {
+	return []Check{
+		graphDeclaredCheck,
+		equivalenceCheck,
+	}
+}
+
+// Options tune one run of the pipeline.
+type Options struct {
+	// Alpha is the significance level; 0 means DefaultAlpha.
+	Alpha float64
+	// Now stamps the report; nil means time.Now.
+	Now func() time.Time
+	// Checks to run; nil means Pipeline().
+	Checks []Check
+}
+
+// Analysis is one run of the pipeline over a study: the study, results
+// that several checks share, computed once on first use, and the report's
+// graph and claim sections, which the checks fill in.
+type Analysis struct {
+	Study  *Study
+	Alpha  float64
+	Graph  *GraphReport
+	Claims []ClaimReport
+
+	equivalence *equivalenceResult
+}
+
+// Run screens the study and returns its report. It stops with ctx's error
+// when ctx is cancelled. A check that panics or fails is reported as a
+// failed check with its reason; the other checks still run.
+func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
+	if opt.Alpha == 0 {
+		opt.Alpha = DefaultAlpha
+	}
+	if opt.Now == nil {
+		opt.Now = time.Now
+	}
+	if opt.Checks == nil {
+		opt.Checks = Pipeline()
+	}
+	a := &Analysis{Study: s, Alpha: opt.Alpha, Claims: claimReports(s.Package)}
+	rep := &Report{
+		FormatVersion: ReportFormatVersion, ToolVersion: ToolVersion, PackageSHA256: s.SHA256,
+		Title: s.Package.Title, ManuscriptID: s.Package.ManuscriptID, Design: s.Package.Design,
+		Caution: Caution, SignificanceLevel: opt.Alpha,
+	}
+	for _, c := range opt.Checks {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		res := runCheck(ctx, c, a)
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		rep.Checks = append(rep.Checks, res)
+	}
+	rep.Graph, rep.Claims = a.Graph, a.Claims
+	score(rep)
+	rep.GeneratedAt = opt.Now().UTC().Truncate(time.Second)
+	return rep, nil
+}
+
+// runCheck runs one check, turning a panic, an error or a result that
+// cannot be encoded into a failed check that says so.
+func runCheck(ctx context.Context, c Check, a *Analysis) (res CheckResult) {
+	defer func() {
+		if p := recover(); p != nil {
+			res = failedToRun(c, fmt.Sprintf("internal error: %v", p))
+			res.Metrics["stack"] = string(debug.Stack())
+		}
+	}()
+	res, err := c.Run(ctx, a)
+	if err != nil {
+		return failedToRun(c, err.Error())
+	}
+	res.ID, res.Title = c.ID, c.Title
+	if res.Findings == nil {
+		res.Findings = []Finding{}
+	}
+	if res.Metrics == nil {
+		res.Metrics = map[string]any{}
+	}
+	if _, err := json.Marshal(res); err != nil {
+		return failedToRun(c, "its result could not be encoded: "+err.Error())
+	}
+	return res
+}
+
+func failedToRun(c Check, why string) CheckResult {
+	return CheckResult{
+		ID: c.ID, Title: c.Title, Status: StatusFail,
+		Summary:  "This check could not run to the end, so the report is incomplete; a reviewer should look at this part by hand.",
+		Findings: []Finding{}, Metrics: map[string]any{}, RunError: why,
+	}
+}
+
+func claimReports(pkg *Package) []ClaimReport {
+	out := make([]ClaimReport, len(pkg.Claims))
+	for i, c := range pkg.Claims {
+		out[i] = ClaimReport{
+			ID: c.ID, Kind: c.Kind, From: c.From, To: c.To, Headline: c.Headline,
+			Reported: Reported{
+				Estimate: c.Estimate, EstimateScale: c.EstimateScale, StdError: c.StdError,
+				CI: c.CI, CILevel: c.CILevel, PValue: c.PValue, PRelation: c.PRelation,
+			},
+		}
+	}
+	return out
+}
+
+// worst returns the more serious of two statuses or severities.
+func worst(a, b string) string {
+	if rank(b) > rank(a) {
+		return b
+	}
+	return a
+}
+
+func rank(s string) int {
+	switch s {
+	case StatusFail:
+		return 4
+	case StatusWarn:
+		return 3
+	case StatusPass:
+		return 2
+	case SeverityInfo:
+		return 1
+	}
+	return 0
+}
+
+// statusOf is the status that a list of findings earns: its worst
+// severity, pass when none is worse than info.
+func statusOf(findings []Finding) string {
+	s := StatusPass
+	for _, f := range findings {
+		if f.Severity == StatusWarn || f.Severity == StatusFail {
+			s = worst(s, f.Severity)
+		}
+	}
+	return s
+}

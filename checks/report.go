@@ -1,0 +1,158 @@
+package checks
+
+import (
+	"math"
+	"math/big"
+	"time"
+)
+
+// The screening report, format version 1 (../shared/spec/report-format.md;
+// the JSON Schema is schema/report-v1.schema.json).
+
+// ReportFormatVersion is the version of the report format.
+const ReportFormatVersion = 1
+
+// ToolVersion is the version of pathvet written into every report.
+const ToolVersion = "0.1.0"
+
+// Caution is the text every report carries.
+const Caution = "An automated screen, not a verdict: pathvet recomputes what the claims rest on " +
+	"and points to where they depend on untestable choices. Decisions rest with the editors " +
+	"and qualified statistical reviewers."
+
+// Statuses of a check, and severities of a finding (which add info).
+const (
+	StatusPass          = "pass"
+	StatusWarn          = "warn"
+	StatusFail          = "fail"
+	StatusNotApplicable = "not_applicable"
+	SeverityInfo        = "info"
+)
+
+// Bands of the score.
+const (
+	BandLow      = "low-concern"
+	BandModerate = "moderate-concern"
+	BandHigh     = "high-concern"
+)
+
+// Report is the result of one run of the pipeline over one package.
+type Report struct {
+	FormatVersion     int           `json:"format_version"`
+	ToolVersion       string        `json:"tool_version"`
+	PackageSHA256     string        `json:"package_sha256"`
+	GeneratedAt       time.Time     `json:"generated_at"`
+	Title             string        `json:"title"`
+	ManuscriptID      string        `json:"manuscript_id,omitempty"`
+	Design            string        `json:"design"`
+	Score             int           `json:"score"`
+	Band              string        `json:"band"`
+	Caution           string        `json:"caution"`
+	SignificanceLevel float64       `json:"significance_level"`
+	Checks            []CheckResult `json:"checks"`
+	Graph             *GraphReport  `json:"graph,omitempty"`
+	Claims            []ClaimReport `json:"claims"`
+}
+
+// CheckResult is what one check found.
+type CheckResult struct {
+	ID       string         `json:"id"`
+	Title    string         `json:"title"`
+	Status   string         `json:"status"`
+	Summary  string         `json:"summary"`
+	Findings []Finding      `json:"findings"`
+	Metrics  map[string]any `json:"metrics"`
+	// Deduction is what this check took off the score (README, "Score").
+	Deduction int `json:"score_deduction"`
+	// RunError is set when the check could not run to the end.
+	RunError string `json:"run_error,omitempty"`
+}
+
+// Finding is one observation, tied to a claim where it is about one.
+type Finding struct {
+	Severity string         `json:"severity"`
+	Claim    string         `json:"claim,omitempty"`
+	Message  string         `json:"message"`
+	Details  map[string]any `json:"details,omitempty"`
+}
+
+// GraphReport describes the declared graph and its equivalence class.
+type GraphReport struct {
+	Acyclic bool `json:"acyclic"`
+	// Nodes are the variables that some edge of the declared graph names.
+	Nodes []string `json:"nodes"`
+	CPDAG struct {
+		Directed   [][2]string `json:"directed"`
+		Undirected [][2]string `json:"undirected"`
+	} `json:"cpdag"`
+	EquivalenceClassSize      any      `json:"equivalence_class_size"`
+	EquivalenceClassSizeLog10 *float64 `json:"equivalence_class_size_log10"`
+	PlausibleClassSize        any      `json:"plausible_class_size"`
+	PlausibleClassSizeLog10   *float64 `json:"plausible_class_size_log10"`
+	// EquivalentDAGs lists members of the whole class, each as its arcs;
+	// PlausibleDAGs the members that respect the background knowledge.
+	EquivalentDAGs          [][][2]string `json:"equivalent_dags"`
+	EquivalentDAGsTruncated bool          `json:"equivalent_dags_truncated"`
+	PlausibleDAGs           [][][2]string `json:"plausible_dags"`
+	PlausibleDAGsTruncated  bool          `json:"plausible_dags_truncated"`
+}
+
+// ClaimReport gathers what the checks found about one claim.
+type ClaimReport struct {
+	ID       string   `json:"id"`
+	Kind     string   `json:"kind"`
+	From     string   `json:"from"`
+	To       string   `json:"to"`
+	Headline bool     `json:"headline"`
+	Reported Reported `json:"reported"`
+	// ArrowReversible says, for a direct effect, whether the arrow can
+	// point the other way in some member of the class, and in some
+	// plausible member.
+	ArrowReversible *Reversibility `json:"arrow_reversible,omitempty"`
+}
+
+// Reported are the figures the package reports for a claim.
+type Reported struct {
+	Estimate      *float64  `json:"estimate,omitempty"`
+	EstimateScale string    `json:"estimate_scale,omitempty"`
+	StdError      *float64  `json:"std_error,omitempty"`
+	CI            []float64 `json:"ci,omitempty"`
+	CILevel       *float64  `json:"ci_level,omitempty"`
+	PValue        *float64  `json:"p_value,omitempty"`
+	PRelation     string    `json:"p_relation,omitempty"`
+}
+
+// Reversibility of a claim's arrow across the equivalence class.
+type Reversibility struct {
+	InClass     bool `json:"in_class"`
+	InPlausible bool `json:"in_plausible"`
+	// PlausibleReversed counts the plausible members where it points the
+	// other way (a JSON integer or, past 2^53, a decimal string).
+	PlausibleReversed any `json:"plausible_reversed"`
+}
+
+// num returns x for a JSON metric, or nil where x is not a finite number:
+// NaN and Inf never reach a report.
+func num(x float64) any {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nil
+	}
+	return x
+}
+
+// exactCount returns n as a JSON integer while it is below 2^53 and as a
+// decimal string above, with its base-10 logarithm (nil for 0).
+func exactCount(n *big.Int) (any, *float64) {
+	var v any = n.String()
+	if n.IsInt64() && n.Int64() < 1<<53 {
+		v = n.Int64()
+	}
+	if n.Sign() <= 0 {
+		return v, nil
+	}
+	mant := new(big.Float)
+	exp := new(big.Float).SetInt(n).MantExp(mant)
+	m, _ := mant.Float64()
+	l := math.Round((math.Log10(m)+float64(exp)*math.Log10(2))*1e6) / 1e6
+	return v, &l
+}

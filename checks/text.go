@@ -1,0 +1,87 @@
+package checks
+
+import (
+	"fmt"
+	"io"
+	"sort"
+	"strings"
+)
+
+// TextWidth is the width the text report is wrapped to.
+const TextWidth = 100
+
+// WriteText writes the report as plain text for a terminal or an e-mail:
+// the score and band first, then one block per check, worst first.
+func WriteText(w io.Writer, r *Report) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "Score %d/100: %s\n", r.Score, r.Band)
+	wrap(&b, "", r.Title)
+	if r.ManuscriptID != "" {
+		fmt.Fprintf(&b, "Manuscript %s. ", r.ManuscriptID)
+	}
+	fmt.Fprintf(&b, "Design: %s. Significance level %g. pathvet %s.\n", r.Design, r.SignificanceLevel, r.ToolVersion)
+	wrap(&b, "", r.Caution)
+	for _, c := range byConcern(r.Checks) {
+		b.WriteString("\n")
+		head := fmt.Sprintf("%-4s  %s (%s)", statusLabel(c.Status), c.Title, c.ID)
+		if c.Deduction > 0 {
+			head += fmt.Sprintf("  -%d", c.Deduction)
+		}
+		b.WriteString(head + "\n")
+		wrap(&b, "      ", c.Summary)
+		if c.RunError != "" {
+			wrap(&b, "      ", "Reason: "+c.RunError)
+		}
+		for _, f := range byConcernFindings(c.Findings) {
+			wrapHanging(&b, "      ", fmt.Sprintf("- %s: ", statusLabel(f.Severity)), f.Message)
+		}
+	}
+	b.WriteString("\nPackage sha256 " + r.PackageSHA256 + "\n")
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func statusLabel(s string) string {
+	switch s {
+	case StatusNotApplicable:
+		return "n/a"
+	}
+	return strings.ToUpper(s)
+}
+
+func byConcern(cs []CheckResult) []CheckResult {
+	out := append([]CheckResult(nil), cs...)
+	sort.SliceStable(out, func(i, j int) bool { return rank(out[i].Status) > rank(out[j].Status) })
+	return out
+}
+
+func byConcernFindings(fs []Finding) []Finding {
+	out := append([]Finding(nil), fs...)
+	sort.SliceStable(out, func(i, j int) bool { return rank(out[i].Severity) > rank(out[j].Severity) })
+	return out
+}
+
+func wrap(b *strings.Builder, indent, text string) { wrapHanging(b, indent, "", text) }
+
+// wrapHanging writes text wrapped at TextWidth, the first line after
+// indent+lead, the rest indented to line up under the text.
+func wrapHanging(b *strings.Builder, indent, lead, text string) {
+	prefix := indent + lead
+	pad := strings.Repeat(" ", len([]rune(prefix)))
+	line := prefix
+	width := len([]rune(line))
+	for _, word := range strings.Fields(text) {
+		n := len([]rune(word))
+		if width > len([]rune(pad)) && width+1+n > TextWidth {
+			b.WriteString(strings.TrimRight(line, " ") + "\n")
+			line, width = pad, len([]rune(pad))
+		}
+		if width > len([]rune(pad)) {
+			line += " "
+			width++
+		}
+		line += word
+		width += n
+	}
+	b.WriteString(line + "\n")
+}

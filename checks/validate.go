@@ -1,0 +1,243 @@
+package checks
+
+import (
+	"fmt"
+	"reflect"
+	"regexp"
+	"strings"
+	"sync"
+
+	"github.com/go-playground/validator/v10"
+
+	"github.com/pathvet/pathvet/checks/dag"
+)
+
+var (
+	varNameRE = regexp.MustCompile(`^[A-Za-z][A-Za-z0-9_]{0,63}$`)
+	claimIDRE = regexp.MustCompile(`^[A-Za-z0-9_.-]{1,32}$`)
+	indexRE   = regexp.MustCompile(`\[(\d+)\]`)
+)
+
+// fieldRules is the validator for the tags in package.go, built once.
+var fieldRules = sync.OnceValue(func() *validator.Validate {
+	v := validator.New(validator.WithRequiredStructEnabled())
+	v.RegisterTagNameFunc(jsonName)
+	must := func(tag string, re *regexp.Regexp) {
+		if err := v.RegisterValidation(tag, func(fl validator.FieldLevel) bool {
+			return re.MatchString(fl.Field().String())
+		}); err != nil {
+			panic(err)
+		}
+	}
+	must("varname", varNameRE)
+	must("claimid", claimIDRE)
+	return v
+})
+
+// checkFields runs the validator and turns each failure into a Problem
+// with the field's JSON pointer.
+func checkFields(pkg *Package, ps *problems) {
+	err := fieldRules().Struct(pkg)
+	if err == nil {
+		return
+	}
+	errs, ok := err.(validator.ValidationErrors)
+	if !ok {
+		ps.at("", "%v", err)
+		return
+	}
+	for _, fe := range errs {
+		ps.at(namespacePointer(fe.Namespace()), "%s", ruleText(fe))
+	}
+}
+
+// namespacePointer turns "Package.claims[2].to" into "/claims/2/to".
+func namespacePointer(ns string) string {
+	_, rest, _ := strings.Cut(ns, ".")
+	rest = indexRE.ReplaceAllString(rest, ".$1")
+	return "/" + strings.ReplaceAll(rest, ".", "/")
+}
+
+func ruleText(fe validator.FieldError) string {
+	p := fe.Param()
+	counted := fe.Kind() == reflect.Slice || fe.Kind() == reflect.Map
+	switch fe.Tag() {
+	case "required":
+		return "is required"
+	case "eq":
+		return "must be " + p
+	case "len":
+		return "must have exactly " + p + " entries"
+	case "min", "max":
+		bound := map[string]string{"min": "at least", "max": "at most"}[fe.Tag()]
+		switch {
+		case counted:
+			return fmt.Sprintf("must have %s %s entries", bound, p)
+		case fe.Kind() == reflect.String:
+			return fmt.Sprintf("must be %s %s characters long", bound, p)
+		}
+		return fmt.Sprintf("must be %s %s", bound, p)
+	case "oneof":
+		return "must be one of: " + strings.ReplaceAll(p, " ", ", ")
+	case "gt":
+		return "must be greater than " + p
+	case "gte":
+		return "must be at least " + p
+	case "lt":
+		return "must be less than " + p
+	case "lte":
+		return "must be at most " + p
+	case "varname":
+		return "must match " + varNameRE.String()
+	case "claimid":
+		return "must match " + claimIDRE.String()
+	}
+	return "fails the rule " + fe.Tag()
+}
+
+// checkLimits reports every count above its limit, naming the limit.
+func checkLimits(pkg *Package, lim Limits, ps *problems) {
+	over := func(ptr, what string, n, max int) {
+		if n > max {
+			ps.at(ptr, "has %d %s; the limit is %d", n, what, max)
+		}
+	}
+	over("/variables", "variables", len(pkg.Variables), lim.Variables)
+	over("/claims", "claims", len(pkg.Claims), lim.Claims)
+	over("/alternatives", "alternatives", len(pkg.Alternatives), lim.Alternatives)
+	if pkg.Graph != nil {
+		over("/graph/edges", "edges", len(pkg.Graph.Edges), lim.Edges)
+		over("/graph/fixed_edges", "edges", len(pkg.Graph.FixedEdges), lim.Edges)
+	}
+	for i, a := range pkg.Alternatives {
+		over(pointer("alternatives", i, "edges"), "edges", len(a.Edges), lim.Edges)
+	}
+}
+
+// indexVariables maps names to positions and reports duplicates.
+func indexVariables(pkg *Package, ps *problems) map[string]int {
+	index := map[string]int{}
+	for i, v := range pkg.Variables {
+		if j, dup := index[v.Name]; dup {
+			ps.at(pointer("variables", i, "name"), "%q is already the name of /variables/%d", v.Name, j)
+			continue
+		}
+		index[v.Name] = i
+	}
+	return index
+}
+
+// graphEdges resolves a list of named edges: names declared, no
+// self-loops, no duplicates. It returns nil when any edge is bad.
+func graphEdges(base string, edges []Edge, index map[string]int, ps *problems) []dag.Edge {
+	out := make([]dag.Edge, 0, len(edges))
+	seen := map[[2]int]int{}
+	bad := false
+	for i, e := range edges {
+		at := pointer(i)
+		from, okF := index[e.From]
+		to, okT := index[e.To]
+		switch {
+		case !okF:
+			ps.at(base+at+"/from", "%q names no declared variable", e.From)
+		case !okT:
+			ps.at(base+at+"/to", "%q names no declared variable", e.To)
+		case from == to:
+			ps.at(base+at, "is a self-loop on %q", e.From)
+		default:
+			if j, dup := seen[[2]int{from, to}]; dup {
+				ps.at(base+at, "repeats %s%s", base, pointer(j))
+			} else if _, back := seen[[2]int{to, from}]; back {
+				ps.at(base, "has a cycle: %s → %s → %s", e.From, e.To, e.From)
+			} else {
+				seen[[2]int{from, to}] = i
+				out = append(out, dag.Edge{From: from, To: to})
+				continue
+			}
+		}
+		bad = true
+	}
+	if bad {
+		return nil
+	}
+	return out
+}
+
+// acyclicGraph builds the DAG of the edges and reports a cycle, naming its
+// nodes in order.
+func acyclicGraph(base string, n int, edges []dag.Edge, names []string, ps *problems) *dag.PDAG {
+	g := dag.FromArcs(n, edges)
+	if cyc := dag.FindCycle(g); cyc != nil {
+		parts := make([]string, 0, len(cyc)+1)
+		for _, v := range append(cyc, cyc[0]) {
+			parts = append(parts, names[v])
+		}
+		ps.at(base, "has a cycle: %s", strings.Join(parts, " → "))
+		return nil
+	}
+	return g
+}
+
+// checkExogenous reports every edge that points into an exogenous variable.
+func checkExogenous(base string, pkg *Package, edges []Edge, index map[string]int, ps *problems) {
+	for i, e := range edges {
+		if j, ok := index[e.To]; ok && pkg.Variables[j].Exogenous {
+			ps.at(base+pointer(i, "to"), "points into %q, which /variables/%d declares exogenous", e.To, j)
+		}
+	}
+}
+
+// checkClaims checks the claims' ids and the variables they name.
+func checkClaims(pkg *Package, index map[string]int, ps *problems) {
+	ids := map[string]int{}
+	for i, c := range pkg.Claims {
+		at := pointer("claims", i)
+		if j, dup := ids[c.ID]; dup && c.ID != "" {
+			ps.at(at+"/id", "%q is already the id of /claims/%d", c.ID, j)
+		}
+		ids[c.ID] = i
+		for _, f := range []struct{ name, value string }{{"from", c.From}, {"to", c.To}} {
+			if _, ok := index[f.value]; !ok && f.value != "" {
+				ps.at(at+"/"+f.name, "%q names no declared variable", f.value)
+			}
+		}
+		if c.From == c.To && c.From != "" {
+			ps.at(at+"/to", "is the same variable as from")
+		}
+		checkAdjustFor(at, c, index, ps)
+		checkReported(at, c, ps)
+	}
+}
+
+func checkAdjustFor(at string, c Claim, index map[string]int, ps *problems) {
+	seen := map[string]bool{}
+	for k, a := range c.AdjustFor {
+		p := at + pointer("adjust_for", k)
+		switch _, ok := index[a]; {
+		case !ok:
+			ps.at(p, "%q names no declared variable", a)
+		case a == c.From || a == c.To:
+			ps.at(p, "%q is the claim's own from or to variable", a)
+		case seen[a]:
+			ps.at(p, "%q is listed twice", a)
+		}
+		seen[a] = true
+	}
+}
+
+func checkReported(at string, c Claim, ps *problems) {
+	if len(c.CI) == 2 && c.CI[0] > c.CI[1] {
+		ps.at(at+"/ci", "lower limit %g is above upper limit %g", c.CI[0], c.CI[1])
+	}
+	if c.EstimateScale == "odds_ratio" {
+		if c.Estimate != nil && *c.Estimate <= 0 {
+			ps.at(at+"/estimate", "an odds ratio must be positive")
+		}
+		if len(c.CI) == 2 && c.CI[0] <= 0 {
+			ps.at(at+"/ci", "an odds ratio's interval must be positive")
+		}
+	}
+	if c.Estimate != nil && len(c.CI) == 2 && (*c.Estimate < c.CI[0] || *c.Estimate > c.CI[1]) {
+		ps.at(at+"/estimate", "%g lies outside its own interval [%g, %g]", *c.Estimate, c.CI[0], c.CI[1])
+	}
+}

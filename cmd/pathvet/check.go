@@ -1,0 +1,135 @@
+package main
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+func toolVersion() string { return checks.ToolVersion }
+
+// parseInterspersed parses flags that may stand before or after the
+// positional arguments, and returns the positional ones.
+func parseInterspersed(fs *flag.FlagSet, args []string) ([]string, error) {
+	var pos []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return nil, err
+		}
+		if fs.NArg() == 0 {
+			return pos, nil
+		}
+		pos = append(pos, fs.Arg(0))
+		args = fs.Args()[1:]
+	}
+}
+
+// runCheck is `pathvet check`: screen a package offline and print the
+// report.
+func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	fs := flag.NewFlagSet("check", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	format := fs.String("format", "text", "report format: text or json")
+	out := fs.String("out", "", "write the report to this file instead of standard output")
+	failUnder := fs.Int("fail-under", 0, "exit with status 1 when the score is below this")
+	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
+	fs.Usage = func() {
+		fmt.Fprintln(stderr, "Usage: pathvet check [flags] PACKAGE.json\n\nScreens a submission package offline and prints its report.\nExit status: 0 report made, 1 score below --fail-under, 2 invalid package.\n\nFlags:")
+		fs.PrintDefaults()
+	}
+	pos, err := parseInterspersed(fs, args)
+	switch {
+	case errors.Is(err, flag.ErrHelp):
+		return exitOK
+	case err != nil:
+		return exitInvalid
+	case len(pos) != 1:
+		fmt.Fprintln(stderr, "pathvet check: give exactly one package file")
+		return exitInvalid
+	case *format != "text" && *format != "json":
+		fmt.Fprintf(stderr, "pathvet check: --format is text or json, not %q\n", *format)
+		return exitInvalid
+	case *alpha <= 0 || *alpha >= 1:
+		fmt.Fprintln(stderr, "pathvet check: --alpha must lie strictly between 0 and 1")
+		return exitInvalid
+	}
+	rep, code := screenFile(ctx, pos[0], *alpha, stderr)
+	if rep == nil {
+		return code
+	}
+	if err := writeReport(rep, *format, *out, stdout); err != nil {
+		fmt.Fprintln(stderr, "pathvet check:", err)
+		return exitInternal
+	}
+	if rep.Score < *failUnder {
+		return exitBelow
+	}
+	return exitOK
+}
+
+// screenFile loads the package at path and runs the pipeline on it. On
+// failure it prints the problems and returns a nil report and the exit
+// code.
+func screenFile(ctx context.Context, path string, alpha float64, stderr io.Writer) (*checks.Report, int) {
+	doc, err := os.ReadFile(path)
+	if err != nil {
+		fmt.Fprintln(stderr, "pathvet check:", err)
+		return nil, exitInvalid
+	}
+	dir := filepath.Dir(path)
+	study, err := checks.Load(doc, checks.LoadOptions{
+		ReadFile: func(name string) ([]byte, error) { return readBeside(dir, name) },
+	})
+	var invalid *checks.InvalidPackageError
+	if errors.As(err, &invalid) {
+		for _, p := range invalid.Problems {
+			fmt.Fprintf(stderr, "%s: %s\n", path, p)
+		}
+		return nil, exitInvalid
+	}
+	if err != nil {
+		fmt.Fprintln(stderr, "pathvet check:", err)
+		return nil, exitInternal
+	}
+	rep, err := checks.Run(ctx, study, checks.Options{Alpha: alpha})
+	if err != nil {
+		fmt.Fprintln(stderr, "pathvet check:", err)
+		return nil, exitInternal
+	}
+	return rep, exitOK
+}
+
+// readBeside reads a data file named relative to the package's folder.
+func readBeside(dir, name string) ([]byte, error) {
+	if filepath.IsAbs(name) {
+		return os.ReadFile(name)
+	}
+	return os.ReadFile(filepath.Join(dir, filepath.FromSlash(name)))
+}
+
+func writeReport(rep *checks.Report, format, out string, stdout io.Writer) error {
+	var b strings.Builder
+	if format == "json" {
+		enc := json.NewEncoder(&b)
+		enc.SetIndent("", "  ")
+		enc.SetEscapeHTML(false)
+		if err := enc.Encode(rep); err != nil {
+			return err
+		}
+	} else if err := checks.WriteText(&b, rep); err != nil {
+		return err
+	}
+	if out == "" {
+		_, err := io.WriteString(stdout, b.String())
+		return err
+	}
+	return os.WriteFile(out, []byte(b.String()), 0o644)
+}
