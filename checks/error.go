@@ -66,7 +66,7 @@ func (p Problem) String() string {
 	case p.Line > 0:
 		return fmt.Sprintf("data line %d: %s", p.Line, p.Detail)
 	case p.Pointer == "":
-		return "/: " + p.Detail
+		return "package: " + p.Detail
 	}
 	return p.Pointer + ": " + p.Detail
 }

@@ -351,6 +351,23 @@ func TestClassSize_RandomAgainstBruteForce(t *testing.T) {
 	}
 }
 
+// Twenty disjoint complete five-node blocks: (5!)^20 = 120^20 members, far
+// past any machine integer (report-format.md uses this example).
+func TestClassSize_DisjointBlocks(t *testing.T) {
+	var lines [][2]int
+	for b := range 20 {
+		for u := range 5 {
+			for v := u + 1; v < 5; v++ {
+				lines = append(lines, [2]int{5*b + u, 5*b + v})
+			}
+		}
+	}
+	want := new(big.Int).Exp(big.NewInt(120), big.NewInt(20), nil)
+	if got := ClassSize(New(100, nil, lines)); got.Cmp(want) != 0 {
+		t.Fatalf("got %v, want 120^20 = %v", got, want)
+	}
+}
+
 func TestMembers_Truncated(t *testing.T) {
 	c := complete(5)
 	got, truncated, err := Members(c, nil, 7)

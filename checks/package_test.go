@@ -1,0 +1,240 @@
+package checks_test
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/santhosh-tekuri/jsonschema/v6"
+
+	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/schema"
+)
+
+type badCase struct {
+	File          string `json:"file"`
+	Place         string `json:"place"`
+	SchemaRejects *bool  `json:"schema_rejects"`
+}
+
+func badCases(tb testing.TB) []badCase {
+	tb.Helper()
+	b, err := os.ReadFile("../testdata/bad/cases.json")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	var cases []badCase
+	if err := json.Unmarshal(b, &cases); err != nil {
+		tb.Fatal(err)
+	}
+	return cases
+}
+
+// demoPackages returns the path of every demo package.
+func demoPackages(tb testing.TB) []string {
+	tb.Helper()
+	paths, err := filepath.Glob("../testdata/demo/*/package.json")
+	if err != nil || len(paths) == 0 {
+		tb.Fatalf("no demo packages: %v", err)
+	}
+	return paths
+}
+
+// MustLoad loads a package file, reading its data file beside it.
+func MustLoad(tb testing.TB, path string) *checks.Study {
+	tb.Helper()
+	s, err := load(path)
+	if err != nil {
+		tb.Fatalf("%s: %v", path, err)
+	}
+	return s
+}
+
+func load(path string) (*checks.Study, error) {
+	doc, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	return checks.Load(doc, checks.LoadOptions{ReadFile: func(name string) ([]byte, error) {
+		return os.ReadFile(filepath.Join(filepath.Dir(path), name))
+	}})
+}
+
+func TestLoad_BadInputs(t *testing.T) {
+	for _, tc := range badCases(t) {
+		t.Run(tc.File, func(t *testing.T) {
+			_, err := load("../testdata/bad/" + tc.File)
+			var invalid *checks.InvalidPackageError
+			if !errors.As(err, &invalid) {
+				t.Fatalf("want an invalid-package error, got %v", err)
+			}
+			for _, p := range invalid.Problems {
+				if strings.Contains(p.String(), tc.Place) {
+					return
+				}
+			}
+			t.Fatalf("no problem names %q; got:\n%v", tc.Place, err)
+		})
+	}
+}
+
+func TestLoad_Demos(t *testing.T) {
+	for _, path := range demoPackages(t) {
+		s := MustLoad(t, path)
+		if len(s.SHA256) != 64 {
+			t.Errorf("%s: hash %q", path, s.SHA256)
+		}
+	}
+}
+
+// The package hash covers the data: the same rows inline and from a file
+// hash alike, and a changed cell changes the hash.
+func TestLoad_HashCoversData(t *testing.T) {
+	path := "../testdata/demo/coding-club/package.json"
+	fromFile := MustLoad(t, path)
+	doc, _ := os.ReadFile(path)
+	rows, _ := os.ReadFile("../testdata/demo/coding-club/rows.csv")
+	var m map[string]any
+	if err := json.Unmarshal(doc, &m); err != nil {
+		t.Fatal(err)
+	}
+	data := m["data"].(map[string]any)
+	delete(data, "file")
+	data["csv"] = string(rows)
+	inline, _ := json.Marshal(m)
+	s, err := checks.Load(inline, checks.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.SHA256 != fromFile.SHA256 {
+		t.Errorf("inline rows hash %s, file rows %s", s.SHA256, fromFile.SHA256)
+	}
+	data["csv"] = strings.Replace(string(rows), "3.77", "3.78", 1)
+	changed, _ := json.Marshal(m)
+	if s2, _ := checks.Load(changed, checks.LoadOptions{}); s2.SHA256 == s.SHA256 {
+		t.Error("a changed data cell kept the hash")
+	}
+}
+
+func TestLoad_SummaryLowerTriangleEqualsFull(t *testing.T) {
+	s := MustLoad(t, "../testdata/demo/tutoring-anxiety/package.json")
+	doc, _ := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
+	var m map[string]any
+	_ = json.Unmarshal(doc, &m)
+	p := s.Data.Cor.SymmetricDim()
+	full := make([][]float64, p)
+	for i := range p {
+		for j := range p {
+			full[i] = append(full[i], s.Data.Cor.At(i, j))
+		}
+	}
+	m["data"].(map[string]any)["correlations"] = full
+	b, _ := json.Marshal(m)
+	s2, err := checks.Load(b, checks.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range p {
+		for j := range p {
+			if s.Data.Cor.At(i, j) != s2.Data.Cor.At(i, j) {
+				t.Fatalf("entry %d,%d differs", i, j)
+			}
+		}
+	}
+}
+
+func TestLoad_Limits(t *testing.T) {
+	doc, _ := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
+	lim := checks.DefaultLimits
+	lim.PackageBytes = 100
+	_, err := checks.Load(doc, checks.LoadOptions{Limits: lim})
+	if checks.ErrorCode(err) != checks.ETooLarge || !strings.Contains(err.Error(), "the limit is 100") {
+		t.Fatalf("package over the byte limit: %v", err)
+	}
+	lim = checks.DefaultLimits
+	lim.Rows = 10
+	_, err = load("../testdata/demo/coding-club/package.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	cdoc, _ := os.ReadFile("../testdata/demo/coding-club/package.json")
+	_, err = checks.Load(cdoc, checks.LoadOptions{Limits: lim, ReadFile: func(string) ([]byte, error) {
+		return os.ReadFile("../testdata/demo/coding-club/rows.csv")
+	}})
+	if err == nil || !strings.Contains(err.Error(), "the limit is 10") {
+		t.Fatalf("rows over the limit: %v", err)
+	}
+}
+
+// Every problem is reported at once, not only the first.
+func TestLoad_AllProblemsAtOnce(t *testing.T) {
+	doc := []byte(`{"format_version": 1, "title": "t", "design": "cohort", "titel": 1,
+		"variables": [{"name": "a", "scale": "continuous"}, {"name": "b", "scale": "nominal"}],
+		"claims": [{"id": "C1", "text": "t", "kind": "association", "from": "a", "to": "b", "p_value": 2}],
+		"data": {"kind": "summary", "n": 10, "variables": ["a", "b"], "correlations": [[1], [0.2, 1]]}}`)
+	_, err := checks.Load(doc, checks.LoadOptions{})
+	if err == nil || !strings.Contains(err.Error(), "/titel") {
+		t.Fatalf("structural pass: %v", err)
+	}
+	doc = bytes.Replace(doc, []byte(`"titel": 1,`), nil, 1)
+	_, err = checks.Load(doc, checks.LoadOptions{})
+	for _, want := range []string{"/design", "/variables/1/scale", "/claims/0/p_value"} {
+		if err == nil || !strings.Contains(err.Error(), want) {
+			t.Errorf("missing %s in %v", want, err)
+		}
+	}
+}
+
+func compileSchema(tb testing.TB) *jsonschema.Schema {
+	tb.Helper()
+	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(schema.Package))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	c := jsonschema.NewCompiler()
+	if err := c.AddResource("package-v1.schema.json", doc); err != nil {
+		tb.Fatal(err)
+	}
+	sch, err := c.Compile("package-v1.schema.json")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return sch
+}
+
+func schemaAccepts(tb testing.TB, sch *jsonschema.Schema, path string) bool {
+	tb.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	defer f.Close()
+	v, err := jsonschema.UnmarshalJSON(f)
+	if err != nil {
+		tb.Fatalf("%s: %v", path, err)
+	}
+	return sch.Validate(v) == nil
+}
+
+// The shipped JSON Schema accepts every demo and rejects every bad
+// package whose fault is structural (cases.json says which).
+func TestPackageSchema(t *testing.T) {
+	sch := compileSchema(t)
+	for _, path := range demoPackages(t) {
+		if !schemaAccepts(t, sch, path) {
+			t.Errorf("schema rejects demo %s", path)
+		}
+	}
+	for _, tc := range badCases(t) {
+		if tc.SchemaRejects == nil {
+			continue // not JSON at all
+		}
+		if got := !schemaAccepts(t, sch, "../testdata/bad/"+tc.File); got != *tc.SchemaRejects {
+			t.Errorf("%s: schema rejects = %v, want %v", tc.File, got, *tc.SchemaRejects)
+		}
+	}
+}

@@ -1,0 +1,10 @@
+// Package schema ships the JSON Schemas of pathvet's formats: the
+// submission package and the screening report, format version 1.
+package schema
+
+import _ "embed"
+
+// Package is the JSON Schema (draft 2020-12) of the submission package.
+//
+//go:embed package-v1.schema.json
+var Package []byte

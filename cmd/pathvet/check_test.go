@@ -1,0 +1,87 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func runCLI(args ...string) (code int, stdout, stderr string) {
+	var o, e bytes.Buffer
+	code = run(context.Background(), args, &o, &e)
+	return code, o.String(), e.String()
+}
+
+func TestCheck_Demos(t *testing.T) {
+	paths, _ := filepath.Glob("../../testdata/demo/*/package.json")
+	if len(paths) < 2 {
+		t.Fatalf("found %d demos", len(paths))
+	}
+	for _, p := range paths {
+		code, out, errOut := runCLI("check", p)
+		if code != exitOK || errOut != "" {
+			t.Fatalf("%s: exit %d, stderr %q", p, code, errOut)
+		}
+		first := strings.SplitN(out, "\n", 2)[0]
+		if !strings.HasPrefix(first, "Score ") || !strings.Contains(out, "not a verdict") {
+			t.Errorf("%s: text report starts %q", p, first)
+		}
+		for i, line := range strings.Split(out, "\n") {
+			if n := len([]rune(line)); n > 100 && !strings.HasPrefix(line, "Package sha256") {
+				t.Errorf("%s: line %d is %d columns wide", p, i+1, n)
+			}
+		}
+		code, out, _ = runCLI("check", "--format", "json", p)
+		var rep map[string]any
+		if code != exitOK || json.Unmarshal([]byte(out), &rep) != nil || rep["format_version"] != 1.0 {
+			t.Fatalf("%s: json report: exit %d", p, code)
+		}
+	}
+}
+
+func TestCheck_FailUnderAndOut(t *testing.T) {
+	pkg := "../../testdata/demo/tutoring-anxiety/package.json" // scores below 100
+	if code, _, _ := runCLI("check", "--fail-under", "101", pkg); code != exitBelow {
+		t.Fatalf("--fail-under 101: exit %d, want %d", code, exitBelow)
+	}
+	if code, _, _ := runCLI("check", pkg, "--fail-under", "0"); code != exitOK {
+		t.Fatalf("flag after the package: exit %d", code)
+	}
+	out := filepath.Join(t.TempDir(), "r.json")
+	if code, stdout, _ := runCLI("check", "--format", "json", "--out", out, pkg); code != exitOK || stdout != "" {
+		t.Fatalf("--out: exit %d, stdout %q", code, stdout)
+	}
+	if b, err := os.ReadFile(out); err != nil || !json.Valid(b) {
+		t.Fatalf("--out file: %v", err)
+	}
+}
+
+func TestCheck_Usage(t *testing.T) {
+	for _, args := range [][]string{{}, {"check"}, {"check", "a.json", "b.json"}, {"check", "--format", "xml", "a.json"}, {"nope"}} {
+		if code, _, _ := runCLI(args...); code != exitInvalid {
+			t.Errorf("%v: exit %d, want %d", args, code, exitInvalid)
+		}
+	}
+}
+
+// Every bad input of the corpus: exit 2, and stderr names the place.
+func TestCheck_BadInputs(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/bad/cases.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var cases []struct{ File, Place string }
+	if err := json.Unmarshal(b, &cases); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range cases {
+		code, out, errOut := runCLI("check", "../../testdata/bad/"+tc.File)
+		if code != exitInvalid || out != "" || !strings.Contains(errOut, tc.Place) {
+			t.Errorf("%s: exit %d, stderr %q; want exit 2 naming %q", tc.File, code, errOut, tc.Place)
+		}
+	}
+}

@@ -1,0 +1,106 @@
+#!/usr/bin/env python3
+"""Write the bad-input corpus: each case is a valid package with one fault.
+
+cases.json lists, for each file, the place its error must name (a JSON
+pointer or a CSV line and column) and whether the JSON Schema alone
+rejects it. Run from this folder: python3 make.py
+"""
+import copy, json
+
+base = {
+    "format_version": 1,
+    "title": "Bad-input corpus base (invented)",
+    "design": "observational",
+    "variables": [
+        {"name": "a", "scale": "binary", "exogenous": True},
+        {"name": "b", "scale": "continuous", "reliability": 0.8},
+        {"name": "c", "scale": "continuous"},
+        {"name": "d", "scale": "continuous"},
+    ],
+    "graph": {"edges": [{"from": "a", "to": "b"}, {"from": "b", "to": "c"}, {"from": "c", "to": "d"}]},
+    "claims": [
+        {"id": "C1", "text": "b raises c", "kind": "direct_effect", "from": "b", "to": "c",
+         "estimate": 0.3, "std_error": 0.05, "ci": [0.2, 0.4], "p_value": 0.001},
+        {"id": "C2", "text": "c goes with d", "kind": "association", "from": "c", "to": "d"},
+    ],
+    "data": {"kind": "summary", "n": 200, "variables": ["a", "b", "c", "d"],
+             "correlations": [[1], [0.2, 1], [0.1, 0.4, 1], [0.05, 0.2, 0.5, 1]]},
+}
+rows = "a,b,c,d\n1,2.5,3.1,0.2\n0,1.5,2.2,\n1,NA,1.0,4.4\n"
+
+cases = []
+
+def case(name, place, schema, mutate=None, raw=None):
+    doc = copy.deepcopy(base)
+    if mutate:
+        mutate(doc)
+    with open(name + ".json", "w") as f:
+        f.write(raw if raw is not None else json.dumps(doc, indent=1, ensure_ascii=False))
+    cases.append({"file": name + ".json", "place": place, "schema_rejects": schema})
+
+def as_rows(doc, csv):
+    doc["data"] = {"kind": "rows", "csv": csv}
+
+def setp(path, value):
+    def m(doc):
+        node = doc
+        for k in path[:-1]:
+            node = node[k]
+        node[path[-1]] = value
+    return m
+
+def full_matrix(doc, m):
+    doc["data"]["correlations"] = m
+
+case("not-json", "not valid JSON", None, raw='{"format_version": 1,')
+case("unknown-field", "/titel", True, setp(["titel"], "x"))
+case("unknown-nested-field", "/claims/0/estimat", True, setp(["claims", 0, "estimat"], 0.3))
+case("wrong-type", "/variables/1/reliability", True, setp(["variables", 1, "reliability"], "high"))
+case("null-title", "/title", True, setp(["title"], None))
+case("format-version", "/format_version", True, setp(["format_version"], 2))
+case("design", "/design", True, setp(["design"], "cohort"))
+case("variable-name", "/variables/0/name", True, setp(["variables", 0, "name"], "2nd"))
+case("duplicate-variable", "/variables/3/name", False, setp(["variables", 3, "name"], "c"))
+case("edge-unknown-variable", "/graph/edges/2/to", False, setp(["graph", "edges", 2, "to"], "e"))
+case("self-loop", "/graph/edges/2", False, setp(["graph", "edges", 2], {"from": "c", "to": "c"}))
+case("duplicate-edge", "/graph/edges/3", False, lambda d: d["graph"]["edges"].append({"from": "c", "to": "d"}))
+case("cycle", "/graph/edges: has a cycle: b → c → d → b", False, lambda d: d["graph"]["edges"].append({"from": "d", "to": "b"}))
+case("two-cycle", "/graph/edges: has a cycle: c → b → c", False, lambda d: d["graph"]["edges"].append({"from": "c", "to": "b"}))
+case("exogenous-violated", "/graph/edges/3/to", False, lambda d: d["graph"]["edges"].append({"from": "d", "to": "a"}))
+case("fixed-edge-not-in-graph", "/graph/fixed_edges/0", False, setp(["graph", "fixed_edges"], [{"from": "a", "to": "c"}]))
+case("alternative-cycle", "/alternatives/0/edges", False, setp(["alternatives"], [
+    {"name": "loop", "edges": [{"from": "b", "to": "c"}, {"from": "c", "to": "d"}, {"from": "d", "to": "b"}]}]))
+case("claim-unknown-variable", "/claims/0/from", False, setp(["claims", 0, "from"], "e"))
+case("claim-same-variables", "/claims/0/to", False, setp(["claims", 0, "to"], "b"))
+case("duplicate-claim-id", "/claims/1/id", False, setp(["claims", 1, "id"], "C1"))
+case("claim-id-pattern", "/claims/0/id", True, setp(["claims", 0, "id"], "claim one"))
+case("adjust-for-self", "/claims/1/adjust_for/0", False, setp(["claims", 1, "adjust_for"], ["c"]))
+case("ci-reversed", "/claims/0/ci", False, setp(["claims", 0, "ci"], [0.4, 0.2]))
+case("ci-length", "/claims/0/ci", True, setp(["claims", 0, "ci"], [0.2]))
+case("p-value-range", "/claims/0/p_value", True, setp(["claims", 0, "p_value"], 1.5))
+case("no-claims", "/claims", True, setp(["claims"], []))
+case("too-many-claims", "/claims: has 201 claims; the limit is 200", True, lambda d: d.__setitem__("claims", [
+    {"id": f"C{i}", "text": "t", "kind": "association", "from": "c", "to": "d"} for i in range(201)]))
+case("corr-not-symmetric", "/data/correlations/1/0", False, lambda d: full_matrix(d, [
+    [1, 0.2, 0.1, 0.05], [0.25, 1, 0.4, 0.2], [0.1, 0.4, 1, 0.5], [0.05, 0.2, 0.5, 1]]))
+case("corr-diagonal", "/data/correlations/1/1", False, setp(["data", "correlations", 1, 1], 0.9))
+case("corr-range", "/data/correlations/2/1", True, setp(["data", "correlations", 2, 1], 1.2))
+case("corr-not-positive-definite", "/data/correlations: is not positive definite: its smallest eigenvalue is", False,
+     setp(["data", "correlations"], [[1], [0.9, 1], [0.9, -0.9, 1], [0.05, 0.2, 0.5, 1]]))
+case("corr-shape", "/data/correlations/2", False, setp(["data", "correlations", 2], [0.1, 0.4]))
+case("summary-variable-missing", "/variables/3/name", False, lambda d: d["data"].update(
+    {"variables": ["a", "b", "c"], "correlations": [[1], [0.2, 1], [0.1, 0.4, 1]]}))
+case("summary-sds-length", "/data/sds", False, setp(["data", "sds"], [1, 2]))
+case("summary-with-csv", "/data/csv", True, setp(["data", "csv"], rows))
+case("rows-without-data", "/data", False, lambda d: d.__setitem__("data", {"kind": "rows"}))
+case("csv-not-a-number", "data line 3, column 2", False, lambda d: as_rows(d, rows.replace("1.5", "abc")))
+case("csv-unknown-column", "data line 1, column 5", False, lambda d: as_rows(d, "a,b,c,d,e\n1,2.5,3.1,0.2,9\n0,1.5,2.2,,9\n"))
+case("csv-field-count", "data line 4", False, lambda d: as_rows(d, rows.replace("1,NA,1.0,4.4", "1,NA,1.0")))
+case("csv-binary-code", "data line 2, column 1", False, lambda d: as_rows(d, rows.replace("1,2.5", "2,2.5")))
+case("csv-missing-column", "/variables/3/name", False, lambda d: as_rows(d, "a,b,c\n1,2,3\n0,1,2\n"))
+case("csv-no-rows", "data line 1", False, lambda d: as_rows(d, "a,b,c,d\n"))
+case("csv-bad-quote", "data line 2", False, lambda d: as_rows(d, 'a,b,c,d\n1,"2.5,3,4\n'))
+
+with open("cases.json", "w") as f:
+    json.dump(cases, f, indent=1, ensure_ascii=False)
+    f.write("\n")
