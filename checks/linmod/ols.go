@@ -1,0 +1,202 @@
+package linmod
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// MaxCondition is the largest condition number of a design (or of its
+// correlation matrix) that the fits accept; above it the coefficients
+// carry too few correct digits to report.
+const MaxCondition = 1e12
+
+// SingularError reports a design that is singular or too near it.
+type SingularError struct {
+	Condition float64 // the condition number found (+Inf when singular)
+}
+
+func (e *SingularError) Error() string {
+	if math.IsInf(e.Condition, 1) {
+		return "linmod: the predictors are exactly collinear"
+	}
+	return fmt.Sprintf("linmod: the predictors are nearly collinear (condition number %.3g)", e.Condition)
+}
+
+// ErrTooFewCases is returned when n − k − 1 < 1.
+var ErrTooFewCases = errors.New("linmod: fewer cases than the model needs (n − k − 1 < 1)")
+
+// ErrPerfectFit is returned when the predictors explain the outcome
+// exactly, so no standard error exists.
+var ErrPerfectFit = errors.New("linmod: the predictors explain the outcome exactly")
+
+// Coef is one estimated coefficient with its inference.
+type Coef struct {
+	Estimate float64
+	StdError float64
+	Stat     float64 // t (OLS) or z (logistic)
+	P        float64 // two-sided
+	CI       [2]float64
+}
+
+// Fit is an ordinary least squares fit.
+type Fit struct {
+	Coefs     []Coef // one per predictor, in the order given
+	Intercept *Coef  // when means (or rows) were given
+	R2        float64
+	Sigma2    float64 // residual variance, divisor n − k − 1
+	DF        int     // residual degrees of freedom, n − k − 1
+	N         int
+}
+
+// tCoef fills the t-based inference for an estimate and its SE.
+func tCoef(est, se float64, df int, level float64) Coef {
+	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}
+	q := t.Quantile(0.5 + level/2)
+	stat := est / se
+	return Coef{Estimate: est, StdError: se, Stat: stat, P: 2 * t.Survival(math.Abs(stat)), CI: [2]float64{est - q*se, est + q*se}}
+}
+
+// FromMoments fits y on the predictors x by least squares from the
+// covariance matrix cov (divisor n − 1) of n cases, or from their
+// correlation matrix, which gives standardized coefficients:
+//
+//	b = S_xx⁻¹ s_xy,  σ̂² = (s_yy − bᵀs_xy)(n − 1)/(n − k − 1),  Cov(b) = σ̂² S_xx⁻¹/(n − 1)
+//
+// With means (nil to omit) it also gives the intercept ȳ − bᵀx̄, with
+// variance σ̂²/n + x̄ᵀCov(b)x̄. The system is solved on the correlation
+// scale (the predictors rescaled to unit variance) by a Cholesky
+// factorization whose condition number is checked against MaxCondition.
+func FromMoments(cov mat.Symmetric, means []float64, n, y int, x []int, level float64) (*Fit, error) {
+	k := len(x)
+	df := n - k - 1
+	if df < 1 {
+		return nil, ErrTooFewCases
+	}
+	sd := make([]float64, k)
+	for i, xi := range x {
+		sd[i] = math.Sqrt(cov.At(xi, xi))
+	}
+	rxx := mat.NewSymDense(max(k, 1), nil)
+	rxy := mat.NewVecDense(max(k, 1), nil)
+	for i, xi := range x {
+		for j, xj := range x[:i+1] {
+			rxx.SetSym(i, j, cov.At(xi, xj)/(sd[i]*sd[j]))
+		}
+		rxy.SetVec(i, cov.At(xi, y)/sd[i])
+	}
+	syy := cov.At(y, y)
+	b := mat.NewVecDense(max(k, 1), nil)
+	inv := mat.NewSymDense(max(k, 1), nil)
+	if k > 0 {
+		var ch mat.Cholesky
+		if !ch.Factorize(rxx) {
+			return nil, &SingularError{Condition: math.Inf(1)}
+		}
+		if c := ch.Cond(); c > MaxCondition {
+			return nil, &SingularError{Condition: c}
+		}
+		if err := ch.SolveVecTo(b, rxy); err != nil {
+			return nil, &SingularError{Condition: ch.Cond()}
+		}
+		if err := ch.InverseTo(inv); err != nil {
+			return nil, &SingularError{Condition: ch.Cond()}
+		}
+	}
+	explained := 0.0
+	if k > 0 {
+		explained = mat.Dot(b, rxy)
+	}
+	resid := syy - explained
+	if resid <= 1e-12*syy {
+		return nil, ErrPerfectFit
+	}
+	sigma2 := resid * float64(n-1) / float64(df)
+	fit := &Fit{R2: explained / syy, Sigma2: sigma2, DF: df, N: n, Coefs: make([]Coef, k)}
+	for i := range k {
+		est := b.AtVec(i) / sd[i]
+		se := math.Sqrt(sigma2*inv.At(i, i)/float64(n-1)) / sd[i]
+		fit.Coefs[i] = tCoef(est, se, df, level)
+	}
+	if means != nil {
+		fit.Intercept = intercept(fit, inv, sd, means, y, x, n, level)
+	}
+	return fit, nil
+}
+
+func intercept(fit *Fit, inv *mat.SymDense, sd, means []float64, y int, x []int, n int, level float64) *Coef {
+	b0 := means[y]
+	v := fit.Sigma2 / float64(n)
+	for i, xi := range x {
+		b0 -= fit.Coefs[i].Estimate * means[xi]
+		for j, xj := range x {
+			v += means[xi] * means[xj] * fit.Sigma2 * inv.At(i, j) / (float64(n-1) * sd[i] * sd[j])
+		}
+	}
+	c := tCoef(b0, math.Sqrt(v), fit.DF, level)
+	return &c
+}
+
+// FromRows fits y on the columns of x (n × k, no intercept column) with an
+// intercept by least squares, through a QR factorization of the design
+// (Golub & Van Loan, Matrix Computations, §5.3); Cov(b) = σ̂²(RᵀR)⁻¹.
+func FromRows(x *mat.Dense, y []float64, level float64) (*Fit, error) {
+	n, k := x.Dims()
+	df := n - k - 1
+	if df < 1 {
+		return nil, ErrTooFewCases
+	}
+	d := mat.NewDense(n, k+1, nil)
+	for i := range n {
+		d.Set(i, 0, 1)
+		for j := range k {
+			d.Set(i, j+1, x.At(i, j))
+		}
+	}
+	var qr mat.QR
+	qr.Factorize(d)
+	if c := qr.Cond(); c > MaxCondition*1e2 || math.IsNaN(c) {
+		return nil, &SingularError{Condition: c}
+	}
+	yv := mat.NewVecDense(n, append([]float64(nil), y...))
+	var beta mat.VecDense
+	if err := qr.SolveVecTo(&beta, false, yv); err != nil {
+		return nil, &SingularError{Condition: qr.Cond()}
+	}
+	var fitted mat.VecDense
+	fitted.MulVec(d, &beta)
+	rss, tss, mean := 0.0, 0.0, mat.Sum(yv)/float64(n)
+	for i := range n {
+		r := y[i] - fitted.AtVec(i)
+		rss += r * r
+		tss += (y[i] - mean) * (y[i] - mean)
+	}
+	if rss <= 1e-24*tss || tss == 0 {
+		return nil, ErrPerfectFit
+	}
+	var rd mat.Dense
+	qr.RTo(&rd)
+	r := mat.NewTriDense(k+1, mat.Upper, nil)
+	for i := range k + 1 {
+		for j := i; j < k+1; j++ {
+			r.SetTri(i, j, rd.At(i, j))
+		}
+	}
+	var rinv mat.TriDense
+	if err := rinv.InverseTri(r); err != nil {
+		return nil, &SingularError{Condition: math.Inf(1)}
+	}
+	var covb mat.Dense
+	covb.Mul(&rinv, rinv.T()) // (RᵀR)⁻¹ = R⁻¹R⁻ᵀ
+	sigma2 := rss / float64(df)
+	fit := &Fit{R2: 1 - rss/tss, Sigma2: sigma2, DF: df, N: n, Coefs: make([]Coef, k)}
+	c0 := tCoef(beta.AtVec(0), math.Sqrt(sigma2*covb.At(0, 0)), df, level)
+	fit.Intercept = &c0
+	for j := range k {
+		fit.Coefs[j] = tCoef(beta.AtVec(j+1), math.Sqrt(sigma2*covb.At(j+1, j+1)), df, level)
+	}
+	return fit, nil
+}

@@ -1,0 +1,161 @@
+package sem
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/pathvet/pathvet/checks/linmod"
+)
+
+// Fit is the maximum likelihood fit of a recursive path model.
+type Fit struct {
+	N          int
+	Variables  int // p
+	FreeParams int // q: one per arrow plus one (residual) variance per variable
+	// ChiSquare is T = (N − 1) F_ML on DF = p(p + 1)/2 − q degrees of
+	// freedom; for a DAG over all p variables DF is the number of
+	// non-adjacent pairs. P is nil-valued (NaN) when DF = 0.
+	ChiSquare, P float64
+	DF           int
+	RMSEA        float64
+	RMSEACI      [2]float64 // 90%
+	CFI, TLI     float64    // TLI is NaN when DF = 0
+	SRMR         float64
+	AIC, BIC     float64 // T + 2q and T + q ln N
+	// The independence (baseline) model: every variable on its own.
+	BaselineChiSquare float64
+	BaselineDF        int
+	// Coefficients[i][k] is the coefficient of parents[i][k] in i's
+	// equation; Residual[i] its residual variance.
+	Coefficients [][]float64
+	Residual     []float64
+	Implied      *mat.SymDense
+}
+
+// ErrNotPositiveDefinite is returned when the sample matrix is not.
+var ErrNotPositiveDefinite = errors.New("sem: the covariance matrix is not positive definite")
+
+// FitDAG fits the DAG given by parents (parents[i] are the parents of
+// variable i, indices into s) to the covariance or correlation matrix s of
+// n cases. Each variable is regressed on its parents, which for a
+// recursive model is the maximum likelihood fit; the implied covariance is
+//
+//	Σ̂ = (I − B)⁻¹ Ψ (I − B)⁻ᵀ
+//
+// and the discrepancy F_ML = ln|Σ̂| − ln|S| + tr(S Σ̂⁻¹) − p, with
+// T = (N − 1) F_ML (../shared/spec/checks.md).
+func FitDAG(s mat.Symmetric, n int, parents [][]int) (*Fit, error) {
+	p := s.SymmetricDim()
+	var chS mat.Cholesky
+	if !chS.Factorize(s) {
+		return nil, ErrNotPositiveDefinite
+	}
+	f := &Fit{N: n, Variables: p, Coefficients: make([][]float64, p), Residual: make([]float64, p)}
+	a := mat.NewDense(p, p, nil) // I − B
+	psi := mat.NewDiagDense(p, nil)
+	edges := 0
+	for i, pa := range parents {
+		a.Set(i, i, 1)
+		f.Residual[i] = s.At(i, i)
+		if len(pa) > 0 {
+			reg, err := linmod.FromMoments(s, nil, n, i, pa, 0.95)
+			if err != nil {
+				return nil, fmt.Errorf("sem: equation of variable %d: %w", i, err)
+			}
+			f.Coefficients[i] = make([]float64, len(pa))
+			for k, c := range reg.Coefs {
+				f.Coefficients[i][k] = c.Estimate
+				a.Set(i, pa[k], -c.Estimate)
+			}
+			f.Residual[i] = reg.Sigma2 * float64(reg.DF) / float64(n-1) // ML residual variance on s's scale
+		}
+		psi.SetDiag(i, f.Residual[i])
+		edges += len(pa)
+	}
+	var ainv mat.Dense
+	if err := ainv.Inverse(a); err != nil {
+		return nil, fmt.Errorf("sem: the graph is not recursive: %w", err)
+	}
+	var tmp, implied mat.Dense
+	tmp.Mul(&ainv, psi)
+	implied.Mul(&tmp, ainv.T())
+	f.Implied = symmetrize(&implied)
+	f.FreeParams = edges + p
+	f.DF = p*(p+1)/2 - f.FreeParams
+	if err := f.discrepancy(s, &chS); err != nil {
+		return nil, err
+	}
+	f.indices(s)
+	return f, nil
+}
+
+func symmetrize(m *mat.Dense) *mat.SymDense {
+	p, _ := m.Dims()
+	out := mat.NewSymDense(p, nil)
+	for i := range p {
+		for j := 0; j <= i; j++ {
+			out.SetSym(i, j, (m.At(i, j)+m.At(j, i))/2)
+		}
+	}
+	return out
+}
+
+// discrepancy computes T and the baseline T_B.
+func (f *Fit) discrepancy(s mat.Symmetric, chS *mat.Cholesky) error {
+	p := f.Variables
+	var chI mat.Cholesky
+	if !chI.Factorize(f.Implied) {
+		return ErrNotPositiveDefinite
+	}
+	var inv mat.SymDense
+	if err := chI.InverseTo(&inv); err != nil {
+		return err
+	}
+	var prod mat.Dense
+	prod.Mul(s, &inv)
+	fml := chI.LogDet() - chS.LogDet() + mat.Trace(&prod) - float64(p)
+	f.ChiSquare = math.Max(float64(f.N-1)*fml, 0)
+	if f.ChiSquare < 1e-9 {
+		f.ChiSquare = 0 // rounding in a saturated or exactly fitting model
+	}
+	logDiag := 0.0
+	for i := range p {
+		logDiag += math.Log(s.At(i, i))
+	}
+	f.BaselineChiSquare = float64(f.N-1) * (logDiag - chS.LogDet())
+	f.BaselineDF = p * (p - 1) / 2
+	return nil
+}
+
+// indices computes p, RMSEA and its interval, CFI, TLI, SRMR, AIC, BIC.
+func (f *Fit) indices(s mat.Symmetric) {
+	t, df, n := f.ChiSquare, float64(f.DF), float64(f.N)
+	f.P, f.TLI = math.NaN(), math.NaN()
+	if f.DF > 0 {
+		f.P = distuv.ChiSquared{K: df}.Survival(t)
+		f.RMSEA = math.Sqrt(math.Max(t-df, 0) / (df * (n - 1)))
+		f.RMSEACI = RMSEAInterval(t, f.DF, f.N)
+		tb, dfb := f.BaselineChiSquare, float64(f.BaselineDF)
+		f.TLI = (tb/dfb - t/df) / (tb/dfb - 1)
+	}
+	f.CFI = 1
+	if den := math.Max(math.Max(f.BaselineChiSquare-float64(f.BaselineDF), t-df), 0); den > 0 {
+		f.CFI = 1 - math.Max(t-df, 0)/den
+	}
+	sum, count := 0.0, 0
+	for i := range f.Variables {
+		for j := 0; j <= i; j++ {
+			r := (s.At(i, j) - f.Implied.At(i, j)) / math.Sqrt(s.At(i, i)*s.At(j, j))
+			sum += r * r
+			count++
+		}
+	}
+	f.SRMR = math.Sqrt(sum / float64(count))
+	q := float64(f.FreeParams)
+	f.AIC = t + 2*q
+	f.BIC = t + q*math.Log(n)
+}
