@@ -3,7 +3,9 @@ package checks
 import (
 	"context"
 	"fmt"
+	"math"
 	"math/big"
+	"strings"
 
 	"github.com/pathvet/pathvet/checks/dag"
 )
@@ -57,7 +59,7 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 		return CheckResult{}, err
 	}
 	var fs []Finding
-	reversible := 0
+	reversible, unstable := 0, 0
 	for i, c := range s.Package.Claims {
 		f, rev, err := arrowFinding(s, eq, c)
 		if err != nil {
@@ -69,12 +71,90 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 				reversible++
 			}
 		}
-		fs = append(fs, f...)
+		if !Causal(c.Kind) || !a.claimInGraph(c) {
+			fs = append(fs, f...)
+			continue
+		}
+		across, finding := a.claimAcross(i, c, f)
+		a.Claims[i].AcrossEquivalents = across
+		if across != nil && across.Unstable {
+			unstable++
+		}
+		fs = append(fs, finding...)
+		if err := ctx.Err(); err != nil {
+			return CheckResult{}, err
+		}
 	}
 	fs = append(fs, discussionFinding(s, eq)...)
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: equivalenceMetrics(eq, reversible)}
-	res.Summary = equivalenceSummary(s, eq, res.Status, reversible)
+	res.Metrics["claims_unstable"] = unstable
+	res.Summary = equivalenceSummary(s, eq, res.Status, unstable)
 	return res, nil
+}
+
+// claimAcross re-estimates a causal claim over the plausible graphs and
+// words the finding; structural is the graph-only finding, kept when the
+// claim cannot be estimated.
+func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEquivalents, []Finding) {
+	decl := a.declaredEstimate(i)
+	if !decl.ok() {
+		return nil, structural
+	}
+	across, err := a.acrossEquivalents(c, decl)
+	if err != nil {
+		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})
+	}
+	if !across.Unstable {
+		if len(structural) > 0 && structural[0].Severity != SeverityInfo {
+			return across, []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+				"The arrow %s → %s behind %s can point the other way in an equivalent graph, but the claim's conclusion is the same in every plausible one (%s under the declared graph).",
+				c.From, c.To, c.ID, valueText(decl))}}
+		}
+		return across, structural
+	}
+	sev := StatusWarn
+	if c.Headline && !a.Study.Package.Graph.EquivalentsDiscussed {
+		sev = StatusFail
+	}
+	return across, []Finding{{Severity: sev, Claim: c.ID, Message: a.unstableText(c, decl, across),
+		Details: map[string]any{"graphs": across.Graphs, "graphs_differing": across.Differing, "method": across.Method}}}
+}
+
+// unstableText says in one sentence how a claim depends on the choice
+// among equivalent graphs.
+func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) string {
+	eq := a.equivalenceClass()
+	ct := across.Contrast
+	other := "zero"
+	if ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
+		p := math.NaN()
+		if ct.Estimate.PValue != nil {
+			p = *ct.Estimate.PValue
+		}
+		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
+	}
+	where := ""
+	switch {
+	case len(ct.ReversedArrows) > 0:
+		parts := make([]string, 0, 3)
+		for _, r := range ct.ReversedArrows[:min(3, len(ct.ReversedArrows))] {
+			parts = append(parts, r[0]+" → "+r[1])
+		}
+		where = ", for instance if " + strings.Join(parts, " and ")
+	case ct.ParentSet != nil:
+		node := c.To
+		if c.Kind == KindTotal {
+			node = c.From
+		}
+		where = fmt.Sprintf(", for instance if the parents of %s are {%s}", node, strings.Join(ct.ParentSet, ", "))
+	}
+	scope := fmt.Sprintf("in %d of the %s plausible equivalent graphs", across.Differing, countText(eq.plausible))
+	if across.Method == AcrossParentSets {
+		scope = fmt.Sprintf("under %d of the %d locally valid parent sets (the class is too large to list)", across.Differing, across.Graphs)
+	}
+	return fmt.Sprintf("%s is %s under the declared graph but %s %s%s; the data fit those graphs exactly as well, so the data do not decide this claim, the choice of graph does.",
+		c.ID, valueText(decl), other, scope, where)
 }
 
 func equivalenceMetrics(eq *equivalenceResult, reversible int) map[string]any {
@@ -161,12 +241,14 @@ func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
 		eq.size, countText(eq.plausible), verb(eq.plausible, "respects", "respect"))}}
 }
 
-func equivalenceSummary(s *Study, eq *equivalenceResult, status string, reversible int) string {
+func equivalenceSummary(s *Study, eq *equivalenceResult, status string, unstable int) string {
 	switch {
+	case status == StatusFail && unstable > 0:
+		return fmt.Sprintf("A headline claim changes sign or significance among the %s plausible graphs that fit the data exactly as well, and the paper does not discuss them; ask the authors to justify the arrows it rests on or to report it under every equivalent graph.", countText(eq.plausible))
 	case status == StatusFail:
 		return fmt.Sprintf("A headline claim rests on an arrow the data cannot orient, among %s plausible equivalent graphs the paper does not discuss; ask the authors to justify its direction or report the claim under every equivalent graph.", countText(eq.plausible))
-	case reversible > 0:
-		return fmt.Sprintf("%d claim(s) rest on arrows the data cannot orient; the paper should justify those directions or show the claims under the equivalent graphs.", reversible)
+	case unstable > 0:
+		return fmt.Sprintf("%d claim(s) change sign or significance among the equivalent graphs; the paper should justify the arrows they rest on or show them under every equivalent graph.", unstable)
 	case eq.size.Cmp(big.NewInt(1)) == 0:
 		return "The declared graph is the only member of its equivalence class: the data could in principle tell it from every other graph on its skeleton."
 	case status == StatusWarn:

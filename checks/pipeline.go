@@ -21,7 +21,9 @@ type Check struct {
 func Pipeline() []Check {
 	return []Check{
 		graphDeclaredCheck,
+		graphFitCheck,
 		equivalenceCheck,
+		alternativesCheck,
 	}
 }
 
@@ -44,7 +46,13 @@ type Analysis struct {
 	Graph  *GraphReport
 	Claims []ClaimReport
 
-	equivalence *equivalenceResult
+	equivalence  *equivalenceResult
+	mom          *Moments
+	momErr       error
+	fits         map[string]est
+	declared     []*est
+	plausible    []alternativeGraph
+	plausibleErr error
 }
 
 // Run screens the study and returns its report. It stops with ctx's error
@@ -76,6 +84,8 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 		}
 		rep.Checks = append(rep.Checks, res)
 	}
+	a.fillDeclared()
+	rep.Data = a.dataReport()
 	rep.Graph, rep.Claims = a.Graph, a.Claims
 	score(rep)
 	rep.GeneratedAt = opt.Now().UTC().Truncate(time.Second)
@@ -114,6 +124,44 @@ func failedToRun(c Check, why string) CheckResult {
 		Summary:  "This check could not run to the end, so the report is incomplete; a reviewer should look at this part by hand.",
 		Findings: []Finding{}, Metrics: map[string]any{}, RunError: why,
 	}
+}
+
+func (a *Analysis) dataReport() DataReport {
+	d := a.Study.Data
+	r := DataReport{Kind: d.Kind, Estimation: "summary"}
+	if d.Kind == DataSummary {
+		r.N = d.N
+		return r
+	}
+	r.Rows, r.Estimation = d.N, "complete_cases"
+	m, err := a.moments()
+	if err != nil {
+		r.Note = err.Error()
+		return r
+	}
+	r.CompleteCases = m.N
+	if m.N < d.N {
+		r.Note = fmt.Sprintf("estimates use the %d complete cases of %d rows", m.N, d.N)
+	}
+	return r
+}
+
+// fillDeclared puts every claim's declared estimate into the report.
+func (a *Analysis) fillDeclared() {
+	for i := range a.Claims {
+		a.Claims[i].Declared = a.safeDeclared(i)
+	}
+}
+
+// safeDeclared is the declared estimate of claim i; a panic in the
+// estimators becomes an estimate that says it could not be made.
+func (a *Analysis) safeDeclared(i int) (r *Estimate) {
+	defer func() {
+		if p := recover(); p != nil {
+			r = &Estimate{Error: fmt.Sprintf("internal error: %v", p), AdjustedFor: []string{}}
+		}
+	}()
+	return a.report(a.declaredEstimate(i))
 }
 
 func claimReports(pkg *Package) []ClaimReport {

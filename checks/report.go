@@ -50,8 +50,22 @@ type Report struct {
 	Caution           string        `json:"caution"`
 	SignificanceLevel float64       `json:"significance_level"`
 	Checks            []CheckResult `json:"checks"`
+	Data              DataReport    `json:"data"`
 	Graph             *GraphReport  `json:"graph,omitempty"`
 	Claims            []ClaimReport `json:"claims"`
+}
+
+// DataReport says what the estimates were computed from.
+type DataReport struct {
+	Kind string `json:"kind"`
+	// Rows (raw rows) or N (summary statistics).
+	Rows int `json:"rows,omitempty"`
+	N    int `json:"n,omitempty"`
+	// CompleteCases is the number of rows with every variable observed;
+	// Estimation names the moments behind claims[].declared and the fit.
+	CompleteCases int    `json:"complete_cases,omitempty"`
+	Estimation    string `json:"estimation"`
+	Note          string `json:"note,omitempty"`
 }
 
 // CheckResult is what one check found.
@@ -109,6 +123,25 @@ type ClaimReport struct {
 	// point the other way in some member of the class, and in some
 	// plausible member.
 	ArrowReversible *Reversibility `json:"arrow_reversible,omitempty"`
+	// Declared is the claim re-estimated under the declared graph.
+	Declared *Estimate `json:"declared"`
+	// AcrossEquivalents ranges over the plausible equivalent graphs
+	// (causal claims with a declared graph).
+	AcrossEquivalents *AcrossEquivalents `json:"across_equivalents,omitempty"`
+	// UnderAlternatives has one entry per stated alternative.
+	UnderAlternatives []AlternativeEstimate `json:"under_alternatives,omitempty"`
+}
+
+// AlternativeEstimate is a claim re-estimated under a stated alternative.
+type AlternativeEstimate struct {
+	Name       string    `json:"name"`
+	Estimate   *float64  `json:"estimate"`
+	CI         []float64 `json:"ci"`
+	PValue     *float64  `json:"p_value"`
+	Method     string    `json:"method"`
+	Equivalent bool      `json:"equivalent"`
+	Changed    bool      `json:"changed"`
+	Error      string    `json:"error,omitempty"`
 }
 
 // Reported are the figures the package reports for a claim.
@@ -139,6 +172,8 @@ func num(x float64) any {
 	}
 	return x
 }
+
+func bigInt(n int64) *big.Int { return big.NewInt(n) }
 
 // exactCount returns n as a JSON integer while it is below 2^53 and as a
 // decimal string above, with its base-10 logarithm (nil for 0).

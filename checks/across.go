@@ -1,0 +1,207 @@
+package checks
+
+import (
+	"math"
+	"slices"
+
+	"github.com/pathvet/pathvet/checks/dag"
+)
+
+// MaxMembersForEstimation is the largest plausible class whose members
+// are all listed to re-estimate the claims; a larger class is covered by
+// IDA's locally valid parent sets instead.
+const MaxMembersForEstimation = 2000
+
+// Methods of claims[].across_equivalents.
+const (
+	AcrossMembers    = "all_plausible_members"
+	AcrossParentSets = "local_parent_sets"
+)
+
+// AcrossEquivalents is a causal claim's value over the plausible members
+// of the declared graph's equivalence class.
+type AcrossEquivalents struct {
+	Min    *float64 `json:"min"`
+	Max    *float64 `json:"max"`
+	Graphs int      `json:"graphs"`
+	// ShareSignificantSameSign is the share of the graphs used in which
+	// the claim is significant with the sign of its declared estimate.
+	ShareSignificantSameSign *float64 `json:"share_significant_same_sign"`
+	Method                   string   `json:"method"`
+	// Unstable: the claim's sign or significance differs in some graph.
+	Unstable  bool      `json:"unstable"`
+	Differing int       `json:"graphs_differing"`
+	Failed    int       `json:"estimates_failed,omitempty"`
+	Contrast  *Contrast `json:"contrast,omitempty"`
+}
+
+// Contrast is the graph in which the claim differs most from its declared
+// value: the one nearest zero among those that differ.
+type Contrast struct {
+	Estimate *Estimate `json:"estimate"`
+	// ReversedArrows are the declared arrows that point the other way in
+	// that graph (all plausible members listed), or the parent set used
+	// (local parent sets).
+	ReversedArrows [][2]string `json:"reversed_arrows,omitempty"`
+	ParentSet      []string    `json:"parent_set,omitempty"`
+	reversed       []dag.Edge
+}
+
+// alternativeGraph is one graph in which a claim was estimated.
+type alternativeGraph struct {
+	pa       parentsFunc
+	reversed []dag.Edge // declared arrows reversed in it
+	parents  []int      // the parent set, for local parent sets
+}
+
+// plausibleGraphs returns the graphs over which causal claims are
+// re-estimated: every plausible member when there are at most
+// MaxMembersForEstimation, else nil.
+func (a *Analysis) plausibleGraphs() ([]alternativeGraph, error) {
+	if a.plausible != nil || a.plausibleErr != nil {
+		return a.plausible, a.plausibleErr
+	}
+	eq := a.equivalenceClass()
+	if eq.plausible == nil || eq.plausible.Cmp(bigInt(MaxMembersForEstimation)) > 0 {
+		return nil, nil
+	}
+	ms, _, err := dag.Members(eq.cpdag, a.Study.Background, MaxMembersForEstimation)
+	if err != nil {
+		a.plausibleErr = err
+		return nil, err
+	}
+	for _, m := range ms {
+		a.plausible = append(a.plausible, alternativeGraph{pa: m.Parents, reversed: reversedArcs(a.Study.Declared, m)})
+	}
+	return a.plausible, nil
+}
+
+func reversedArcs(declared, m *dag.PDAG) []dag.Edge {
+	var out []dag.Edge
+	for _, e := range declared.Arcs() {
+		if m.HasArc(e.To, e.From) {
+			out = append(out, e)
+		}
+	}
+	return out
+}
+
+// localGraphs covers a large class by the locally valid parent sets of
+// the node whose parents the claim's estimate uses (IDA, Maathuis, Kalisch
+// & Bühlmann 2009), keeping the sets that agree with the background
+// knowledge at that node. That filter is necessary, not sufficient, so
+// the sets may include a few that no plausible member has.
+func (a *Analysis) localGraphs(node int) ([]alternativeGraph, error) {
+	eq := a.equivalenceClass()
+	sets, err := dag.LocalParentSets(eq.cpdag, node)
+	if err != nil {
+		return nil, err
+	}
+	var out []alternativeGraph
+	for _, set := range sets {
+		if !respectsBackground(a.Study.Background, node, set) {
+			continue
+		}
+		out = append(out, alternativeGraph{parents: set, pa: func(int) []int { return set }})
+	}
+	return out, nil
+}
+
+func respectsBackground(bg []dag.Edge, node int, set []int) bool {
+	for _, e := range bg {
+		if (e.To == node && !slices.Contains(set, e.From)) || (e.From == node && slices.Contains(set, e.To)) {
+			return false
+		}
+	}
+	return true
+}
+
+// acrossEquivalents estimates a causal claim in every plausible graph.
+func (a *Analysis) acrossEquivalents(c Claim, declared est) (*AcrossEquivalents, error) {
+	graphs, err := a.plausibleGraphs()
+	method := AcrossMembers
+	if err != nil {
+		return nil, err
+	}
+	if graphs == nil {
+		node := a.Study.Index[c.To]
+		if c.Kind == KindTotal {
+			node = a.Study.Index[c.From]
+		}
+		if graphs, err = a.localGraphs(node); err != nil {
+			return nil, err
+		}
+		method = AcrossParentSets
+	}
+	return a.summarizeAcross(c, declared, graphs, method), nil
+}
+
+func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGraph, method string) *AcrossEquivalents {
+	r := &AcrossEquivalents{Method: method}
+	lo, hi, same := math.Inf(1), math.Inf(-1), 0
+	want := declared.category(a.Alpha)
+	sign := 1
+	if declared.additive < 0 {
+		sign = -1
+	}
+	var best *alternativeGraph
+	var bestEst est
+	for i := range graphs {
+		e := a.estimateClaim(c, graphs[i].pa)
+		if !e.ok() {
+			r.Failed++
+			continue
+		}
+		r.Graphs++
+		v := e.value
+		if e.method == MethodZero {
+			v = zeroOnScale(e.scale)
+		}
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+		cat := e.category(a.Alpha)
+		if cat == sign && cat != 0 {
+			same++
+		}
+		if cat != want {
+			r.Differing++
+			if best == nil || math.Abs(e.additive) < math.Abs(bestEst.additive) || e.method == MethodZero && bestEst.method != MethodZero {
+				best, bestEst = &graphs[i], e
+			}
+		}
+	}
+	if r.Graphs > 0 {
+		r.Min, r.Max = finite(lo), finite(hi)
+		r.ShareSignificantSameSign = finite(float64(same) / float64(r.Graphs))
+	}
+	r.Unstable = r.Differing > 0
+	if best != nil {
+		r.Contrast = a.contrast(*best, bestEst)
+	}
+	return r
+}
+
+// zeroOnScale is the value of "no effect" on a scale: 1 for odds ratios.
+func zeroOnScale(scale string) float64 {
+	if scale == "odds_ratio" {
+		return 1
+	}
+	return 0
+}
+
+func (a *Analysis) contrast(g alternativeGraph, e est) *Contrast {
+	ct := &Contrast{Estimate: a.report(e), reversed: g.reversed}
+	if e.method == MethodZero {
+		v := zeroOnScale(e.scale)
+		ct.Estimate.Estimate = &v
+	}
+	for _, r := range g.reversed {
+		ct.ReversedArrows = append(ct.ReversedArrows, [2]string{a.Study.Names[r.To], a.Study.Names[r.From]})
+	}
+	for _, v := range g.parents {
+		ct.ParentSet = append(ct.ParentSet, a.Study.Names[v])
+	}
+	if g.parents != nil && ct.ParentSet == nil {
+		ct.ParentSet = []string{}
+	}
+	return ct
+}

@@ -1,0 +1,153 @@
+package checks
+
+import (
+	"context"
+	"fmt"
+	"slices"
+
+	"github.com/pathvet/pathvet/checks/dag"
+)
+
+// weakBIC is the BIC difference below which two models fit about equally
+// well: "weak" evidence in Raftery's (1995) scale, common practice.
+const weakBIC = 2
+
+// alternatives: did the authors state alternatives; are they
+// distinguishable from the declared graph; do the claims survive them?
+// (checks.md)
+var alternativesCheck = Check{
+	ID:    "alternatives",
+	Title: "Stated alternative graphs",
+	Run:   runAlternatives,
+}
+
+func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
+	s := a.Study
+	causal := slices.ContainsFunc(s.Package.Claims, func(c Claim) bool { return Causal(c.Kind) })
+	switch {
+	case len(s.Alternatives) == 0 && causal:
+		return CheckResult{Status: StatusWarn, Metrics: map[string]any{"alternatives": 0},
+			Summary: "The paper states no alternative graph for its causal claims; ask which other causal orders the authors considered and why they rejected them.",
+			Findings: []Finding{{Severity: StatusWarn, Message: "No alternative graph is stated, so nothing shows the causal claims were weighed against another causal order."}}}, nil
+	case len(s.Alternatives) == 0:
+		return CheckResult{Status: StatusNotApplicable, Summary: "No alternatives are stated, and the paper makes no causal claim."}, nil
+	case s.Declared == nil:
+		return CheckResult{Status: StatusNotApplicable, Summary: "Alternatives are stated but no declared graph, so there is nothing to compare them with."}, nil
+	}
+	m, err := a.moments()
+	if err != nil {
+		return CheckResult{Status: StatusNotApplicable, Summary: "The alternatives could not be compared: " + err.Error() + "."}, nil
+	}
+	declFit, err := a.fitGraph(s.Declared, s.InGraph)
+	if err != nil {
+		return CheckResult{}, fmt.Errorf("fitting the declared graph: %w", err)
+	}
+	var fs []Finding
+	var rows []map[string]any
+	declCPDAG := a.equivalenceClass().cpdag.Key()
+	for j, alt := range s.Alternatives {
+		row, f, err := a.compareAlternative(j, alt, declFit, declCPDAG, m)
+		if err != nil {
+			return CheckResult{}, err
+		}
+		rows, fs = append(rows, row), append(fs, f...)
+		if err := ctx.Err(); err != nil {
+			return CheckResult{}, err
+		}
+	}
+	res := CheckResult{Findings: fs, Metrics: map[string]any{"alternatives": len(s.Alternatives), "comparisons": rows,
+		"declared_bic": num(declFit.fit.BIC), "declared_chi_square": num(declFit.fit.ChiSquare), "declared_df": declFit.fit.DF}}
+	res.Status = statusOf(fs)
+	res.Summary = map[string]string{
+		StatusPass: fmt.Sprintf("The paper states %d alternative graph(s); every claim keeps its sign and significance under those that fit about as well as the declared graph.", len(s.Alternatives)),
+		StatusWarn: "Some claims change sign or significance under a stated alternative that fits the data about as well; the paper should say why the declared graph is preferred.",
+		StatusFail: "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it.",
+	}[res.Status]
+	return res, nil
+}
+
+// compareAlternative fits alternative j beside the declared graph and
+// re-estimates every claim under it.
+func (a *Analysis) compareAlternative(j int, alt *dag.PDAG, declFit *modelFit, declCPDAG string, m *Moments) (map[string]any, []Finding, error) {
+	s := a.Study
+	name := s.Package.Alternatives[j].Name
+	in := graphNodes(alt)
+	same := slices.Equal(in, s.InGraph)
+	equivalent := same && dag.CPDAG(alt).Key() == declCPDAG
+	row := map[string]any{"name": name, "equivalent": equivalent, "same_variables": same}
+	var fs []Finding
+	delta := 0.0
+	switch {
+	case equivalent:
+		fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
+			"The alternative %q is Markov equivalent to the declared graph: it fits any data exactly as well, so the data cannot tell the two apart.", name)})
+	default:
+		af, err := a.fitGraph(alt, in)
+		if err != nil {
+			return nil, nil, fmt.Errorf("fitting alternative %q: %w", name, err)
+		}
+		delta = af.fit.BIC - declFit.fit.BIC
+		row["chi_square"], row["df"], row["p_value"], row["bic"] = num(af.fit.ChiSquare), af.fit.DF, num(af.fit.P), num(af.fit.BIC)
+		if same {
+			row["delta_bic"] = num(delta)
+			fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
+				"The alternative %q: χ² = %.2f on %d df against %.2f on %d df for the declared graph; ΔBIC = %+.1f (negative favours the alternative).",
+				name, af.fit.ChiSquare, af.fit.DF, declFit.fit.ChiSquare, declFit.fit.DF, delta)})
+		} else {
+			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
+				"The alternative %q does not cover the same variables as the declared graph, so their fits cannot be compared.", name)})
+		}
+	}
+	fitsAsWell := equivalent || (same && delta < weakBIC)
+	for i, c := range s.Package.Claims {
+		ae, f := a.claimUnderAlternative(i, c, name, alt, in, equivalent, fitsAsWell, delta)
+		a.Claims[i].UnderAlternatives = append(a.Claims[i].UnderAlternatives, ae)
+		fs = append(fs, f...)
+	}
+	return row, fs, nil
+}
+
+func graphNodes(g *dag.PDAG) []bool {
+	in := make([]bool, g.N())
+	for _, e := range g.Arcs() {
+		in[e.From], in[e.To] = true, true
+	}
+	return in
+}
+
+func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.PDAG, in []bool, equivalent, fitsAsWell bool, delta float64) (AlternativeEstimate, []Finding) {
+	s := a.Study
+	ae := AlternativeEstimate{Name: name, Equivalent: equivalent}
+	if Causal(c.Kind) && (!in[s.Index[c.From]] || !in[s.Index[c.To]]) {
+		ae.Error = "the claim's variables are not in this alternative"
+		return ae, nil
+	}
+	decl := a.declaredEstimate(i)
+	e := a.estimateClaim(c, alt.Parents)
+	r := a.report(e)
+	ae.Estimate, ae.CI, ae.PValue, ae.Method, ae.Error = r.Estimate, r.CI, r.PValue, r.Method, r.Error
+	if e.method == MethodZero {
+		v := zeroOnScale(e.scale)
+		ae.Estimate = &v
+	}
+	if !e.ok() || !decl.ok() {
+		return ae, nil
+	}
+	ae.Changed = e.category(a.Alpha) != decl.category(a.Alpha)
+	if !ae.Changed {
+		return ae, nil
+	}
+	how := "which the data cannot tell from it"
+	if !equivalent {
+		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", map[bool]string{true: "about as well", false: "worse"}[fitsAsWell], delta)
+	}
+	sev := SeverityInfo
+	if fitsAsWell {
+		sev = StatusWarn
+		if c.Headline {
+			sev = StatusFail
+		}
+	}
+	return ae, []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+		"%s is %s under the declared graph but %s under the alternative %q, %s.", c.ID, valueText(decl), valueText(e), name, how)}}
+}

@@ -1,0 +1,302 @@
+package checks
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/pathvet/pathvet/checks/linmod"
+)
+
+// Estimation methods named in reports.
+const (
+	MethodOLS     = "ols"
+	MethodLogit   = "logistic"
+	MethodPartial = "partial_correlation"
+	// MethodZero: the graph itself makes the effect zero (the arrow points
+	// the other way, or the outcome is a parent of the cause).
+	MethodZero = "zero_by_graph"
+)
+
+// est is one claim estimated one way, before it goes into a report.
+type est struct {
+	value, se, lo, hi, p float64
+	// additive is the estimate on a scale where 0 means no effect (the
+	// log-odds for an odds ratio), for signs.
+	additive float64
+	method   string
+	scale    string
+	n        int
+	adjusted []int
+	note     string
+	err      error
+}
+
+func (e est) ok() bool { return e.err == nil }
+
+// category is +1 or −1 for an estimate significant at alpha with that
+// sign, 0 otherwise.
+func (e est) category(alpha float64) int {
+	if e.method == MethodZero || !(e.p < alpha) {
+		return 0
+	}
+	if e.additive > 0 {
+		return 1
+	}
+	return -1
+}
+
+// Estimate is a claim's value estimated one way, as a report shows it.
+type Estimate struct {
+	Estimate    *float64  `json:"estimate"`
+	StdError    *float64  `json:"std_error"`
+	CI          []float64 `json:"ci"`
+	PValue      *float64  `json:"p_value"`
+	Method      string    `json:"method"`
+	Scale       string    `json:"scale"`
+	N           int       `json:"n,omitempty"`
+	AdjustedFor []string  `json:"adjusted_for"`
+	Note        string    `json:"note,omitempty"`
+	Error       string    `json:"error,omitempty"`
+}
+
+func finite(x float64) *float64 {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nil
+	}
+	return &x
+}
+
+func (a *Analysis) report(e est) *Estimate {
+	r := &Estimate{Method: e.method, Scale: e.scale, N: e.n, Note: e.note, AdjustedFor: []string{}}
+	for _, v := range e.adjusted {
+		r.AdjustedFor = append(r.AdjustedFor, a.Study.Names[v])
+	}
+	if e.err != nil {
+		r.Error = e.err.Error()
+		return r
+	}
+	r.Estimate, r.StdError, r.PValue = finite(e.value), finite(e.se), finite(e.p)
+	if lo, hi := finite(e.lo), finite(e.hi); lo != nil && hi != nil {
+		r.CI = []float64{*lo, *hi}
+	}
+	return r
+}
+
+// parentsFunc gives the parents of a node in some graph.
+type parentsFunc func(v int) []int
+
+// estimateClaim estimates claim c with parents pa (checks.md,
+// "equivalence"): a direct effect is the coefficient of from when to is
+// regressed on its parents, zero where from is not one of them; a total
+// effect is the coefficient of from when to is regressed on from and the
+// parents of from, zero where to is a parent of from; an association is
+// the coefficient of from when to is regressed on from and adjust_for, as
+// is any claim when pa is nil (no graph declared).
+func (a *Analysis) estimateClaim(c Claim, pa parentsFunc) est {
+	s := a.Study
+	from, to := s.Index[c.From], s.Index[c.To]
+	switch {
+	case pa == nil: // no graph: the authors' own adjustment set
+	case c.Kind == KindDirect:
+		parents := pa(to)
+		if !slices.Contains(parents, from) {
+			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
+		}
+		return a.regress(c, to, from, parents)
+	case c.Kind == KindTotal:
+		parents := pa(from)
+		if slices.Contains(parents, to) {
+			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
+		}
+		return a.regress(c, to, from, parents)
+	}
+	var adj []int
+	for _, v := range c.AdjustFor {
+		adj = append(adj, s.Index[v])
+	}
+	return a.regress(c, to, from, adj)
+}
+
+func claimScale(c Claim) string {
+	if c.EstimateScale == "" {
+		return "standardized"
+	}
+	return c.EstimateScale
+}
+
+func claimLevel(c Claim) float64 {
+	if c.CILevel != nil {
+		return *c.CILevel
+	}
+	return 0.95
+}
+
+// regress estimates the coefficient of focal for outcome y adjusted for
+// others, on the claim's scale, caching the result.
+func (a *Analysis) regress(c Claim, y, focal int, others []int) est {
+	var adj []int
+	for _, v := range others {
+		if v != focal && v != y && !slices.Contains(adj, v) {
+			adj = append(adj, v)
+		}
+	}
+	slices.Sort(adj)
+	scale, level := claimScale(c), claimLevel(c)
+	key := fmt.Sprint(y, focal, adj, scale, level)
+	if e, ok := a.fits[key]; ok {
+		return e
+	}
+	e := a.fitRegression(y, focal, adj, scale, level)
+	e.adjusted = adj
+	if a.fits == nil {
+		a.fits = map[string]est{}
+	}
+	a.fits[key] = e
+	return e
+}
+
+func (a *Analysis) fitRegression(y, focal int, adj []int, scale string, level float64) est {
+	m, err := a.moments()
+	if err != nil {
+		return est{err: err, scale: scale}
+	}
+	x := append([]int{focal}, adj...)
+	binary := a.Study.Package.Variables[y].Scale == ScaleBinary
+	switch {
+	case binary && m.Rows != nil:
+		return logisticEstimate(m, y, x, scale, level)
+	case scale == "correlation":
+		return partialEstimate(m, y, focal, adj, level)
+	case scale == "unstandardized" && m.SD != nil:
+		return olsEstimate(m.Cov(), m.Means, m.N, y, x, "unstandardized", level, "")
+	}
+	note := ""
+	if scale != "standardized" {
+		note = fmt.Sprintf("estimated as a standardized coefficient: the %s scale needs %s", scaleName(scale), needs(scale))
+	}
+	if binary {
+		note = strings.TrimPrefix(note+"; ", "; ") + "the binary outcome is treated as continuous (summary statistics allow no logistic regression)"
+	}
+	return olsEstimate(m.Cor, nil, m.N, y, x, "standardized", level, note)
+}
+
+func scaleName(s string) string { return strings.ReplaceAll(s, "_", " ") }
+
+func needs(scale string) string {
+	if scale == "unstandardized" {
+		return "the SDs"
+	}
+	return "raw rows and a binary outcome"
+}
+
+func olsEstimate(cov mat.Symmetric, means []float64, n, y int, x []int, scale string, level float64, note string) est {
+	fit, err := linmod.FromMoments(cov, means, n, y, x, level)
+	if err != nil {
+		return est{err: err, scale: scale, method: MethodOLS, n: n}
+	}
+	c := fit.Coefs[0]
+	return est{value: c.Estimate, additive: c.Estimate, se: c.StdError, lo: c.CI[0], hi: c.CI[1], p: c.P,
+		method: MethodOLS, scale: scale, n: n, note: note}
+}
+
+func partialEstimate(m *Moments, y, focal int, adj []int, level float64) est {
+	r, err := linmod.PartialCorrelation(m.Cor, focal, y, adj)
+	e := est{method: MethodPartial, scale: "correlation", n: m.N}
+	if err != nil {
+		e.err = err
+		return e
+	}
+	_, p, ok := linmod.FisherZ(r, m.N, len(adj))
+	if !ok {
+		e.err = errors.New("too few cases for Fisher's z")
+		return e
+	}
+	half := distuv.UnitNormal.Quantile(0.5+level/2) / math.Sqrt(float64(m.N-len(adj)-3))
+	e.value, e.additive, e.p = r, r, p
+	e.lo, e.hi = math.Tanh(math.Atanh(r)-half), math.Tanh(math.Atanh(r)+half)
+	e.se = math.NaN() // intervals for correlations come from Fisher's z, not an SE
+	return e
+}
+
+func logisticEstimate(m *Moments, y int, x []int, scale string, level float64) est {
+	n, _ := m.Rows.Dims()
+	xs := mat.NewDense(n, len(x), nil)
+	for j, v := range x {
+		xs.SetCol(j, mat.Col(nil, v, m.Rows))
+	}
+	fit, err := linmod.Logistic(xs, mat.Col(nil, y, m.Rows), level)
+	e := est{method: MethodLogit, scale: "log_odds", n: n}
+	if err != nil {
+		e.err = err
+		return e
+	}
+	c := fit.Coefs[0]
+	e.value, e.additive, e.se, e.lo, e.hi, e.p = c.Estimate, c.Estimate, c.StdError, c.CI[0], c.CI[1], c.P
+	if scale == "odds_ratio" {
+		e.scale = "odds_ratio"
+		e.value, e.lo, e.hi = math.Exp(c.Estimate), math.Exp(c.CI[0]), math.Exp(c.CI[1])
+		e.se = math.NaN()
+		e.note = "odds ratio per unit of the predictor; its interval is the exponentiated Wald interval of the log-odds"
+	} else if scale != "log_odds" {
+		e.note = "the outcome is binary, so its equation is a logistic regression: the estimate is in log-odds"
+	}
+	return e
+}
+
+// pText writes a p-value the way papers print it.
+func pText(p float64) string {
+	switch {
+	case math.IsNaN(p):
+		return "p not available"
+	case p < 0.001:
+		return "p < .001"
+	}
+	return "p = " + strings.TrimPrefix(fmt.Sprintf("%.3f", p), "0")
+}
+
+// valueText writes an estimate with its p-value, or says it is zero by
+// the graph.
+func valueText(e est) string {
+	if e.method == MethodZero {
+		return "zero"
+	}
+	return fmt.Sprintf("%.2f (%s)", e.value, pText(e.p))
+}
+
+// declaredEstimate is claim i under the declared graph (or, with none, its
+// own adjustment set), computed once.
+func (a *Analysis) declaredEstimate(i int) est {
+	if a.declared == nil {
+		a.declared = make([]*est, len(a.Study.Package.Claims))
+	}
+	if a.declared[i] == nil {
+		var pa parentsFunc
+		if a.Study.Declared != nil && a.claimInGraph(a.Study.Package.Claims[i]) {
+			pa = a.Study.Declared.Parents
+		}
+		e := a.estimateClaim(a.Study.Package.Claims[i], pa)
+		a.declared[i] = &e
+	}
+	return *a.declared[i]
+}
+
+// claimInGraph reports whether every variable of the claim is a node of
+// the declared graph.
+func (a *Analysis) claimInGraph(c Claim) bool {
+	s := a.Study
+	if s.Declared == nil {
+		return false
+	}
+	for _, v := range append([]string{c.From, c.To}, c.AdjustFor...) {
+		if !s.InGraph[s.Index[v]] {
+			return false
+		}
+	}
+	return true
+}

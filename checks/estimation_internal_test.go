@@ -1,0 +1,188 @@
+package checks
+
+import (
+	"context"
+	"encoding/json"
+	"os"
+	"slices"
+	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
+)
+
+// summaryPackage builds a package over continuous variables with a
+// lower-triangle correlation matrix, the given graph, and one total-effect
+// claim X → Y.
+func summaryPackage(vars []string, edges [][2]string, lower [][]float64, n int) []byte {
+	type obj = map[string]any
+	var vs, es []obj
+	for _, name := range vars {
+		vs = append(vs, obj{"name": name, "scale": "continuous"})
+	}
+	for _, e := range edges {
+		es = append(es, obj{"from": e[0], "to": e[1]})
+	}
+	doc, err := json.Marshal(obj{
+		"format_version": 1, "title": "t", "design": "observational", "variables": vs,
+		"graph":  obj{"edges": es},
+		"claims": []obj{{"id": "T1", "text": "X raises Y", "kind": "total_effect", "from": "X", "to": "Y"}},
+		"data":   obj{"kind": "summary", "n": n, "variables": vars, "correlations": lower},
+	})
+	if err != nil {
+		panic(err)
+	}
+	return doc
+}
+
+// IDA's possible effects by locally valid parent sets, the worked values
+// of ../shared/spec/reference-values.md [computed]: the chain Z − X − Y
+// gives {0.4, 0.4, 0}; the complete X − A − Y gives {0.5, 0.41758, 0, 0}.
+func TestLocalParentSets_IDAValues(t *testing.T) {
+	cases := []struct {
+		name  string
+		vars  []string
+		edges [][2]string
+		lower [][]float64
+		want  []float64
+	}{
+		{"chain", []string{"Z", "X", "Y"}, [][2]string{{"Z", "X"}, {"X", "Y"}},
+			[][]float64{{1}, {.5, 1}, {.2, .4, 1}}, []float64{0, 0.4, 0.4}},
+		{"complete", []string{"X", "A", "Y"}, [][2]string{{"X", "A"}, {"A", "Y"}, {"X", "Y"}},
+			[][]float64{{1}, {.3, 1}, {.5, .4, 1}}, []float64{0, 0, 0.41758, 0.5}},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			doc := summaryPackage(tc.vars, tc.edges, tc.lower, 500)
+			s, err := Load(doc, LoadOptions{})
+			if err != nil {
+				t.Fatalf("%v\n%s", err, doc)
+			}
+			a := &Analysis{Study: s, Alpha: DefaultAlpha}
+			graphs, err := a.localGraphs(s.Index["X"])
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []float64
+			for _, g := range graphs {
+				e := a.estimateClaim(s.Package.Claims[0], g.pa)
+				v := e.value
+				if e.method == MethodZero {
+					v = 0
+				}
+				got = append(got, v)
+			}
+			slices.Sort(got)
+			if len(got) != len(tc.want) {
+				t.Fatalf("effects %v, want %v", got, tc.want)
+			}
+			for i := range got {
+				if !scalar.EqualWithinAbs(got[i], tc.want[i], 5e-6) {
+					t.Fatalf("effects %v, want %v", got, tc.want)
+				}
+			}
+		})
+	}
+}
+
+func runDoc(t *testing.T, doc []byte) *Report {
+	t.Helper()
+	s, err := Load(doc, LoadOptions{})
+	if err != nil {
+		t.Fatalf("%v\n%s", err, doc)
+	}
+	r, err := Run(context.Background(), s, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func checkByID(r *Report, id string) CheckResult {
+	for _, c := range r.Checks {
+		if c.ID == id {
+			return c
+		}
+	}
+	return CheckResult{}
+}
+
+// graph-fit on the worked example of reference-values.md: X → M → Y,
+// r_XM = .5, r_XY = .3, r_MY = .4, N = 200.
+func TestGraphFit_WorkedExample(t *testing.T) {
+	doc := summaryPackage([]string{"X", "M", "Y"}, [][2]string{{"X", "M"}, {"M", "Y"}},
+		[][]float64{{1}, {.5, 1}, {.3, .4, 1}}, 200)
+	m := checkByID(runDoc(t, doc), "graph-fit").Metrics
+	for key, want := range map[string]float64{"chi_square": 3.1841, "p_value": .0744, "rmsea": .1048,
+		"cfi": .9763, "tli": .9289, "srmr": .0408, "fisher_c_p_value": .0762} {
+		got, _ := m[key].(float64)
+		if !scalar.EqualWithinAbs(got, want, 5e-5) {
+			t.Errorf("%s = %v, want %v", key, m[key], want)
+		}
+	}
+	if m["df"] != 1 || m["implications_tested"] != 1 || m["implications_rejected"] != 0 || m["fisher_c_df"] != 2 {
+		t.Errorf("df %v, tested %v, rejected %v, C df %v", m["df"], m["implications_tested"], m["implications_rejected"], m["fisher_c_df"])
+	}
+	if ci := m["rmsea_ci"].([]any); !scalar.EqualWithinAbs(ci[1].(float64), .2431, 5e-5) || ci[0].(float64) != 0 {
+		t.Errorf("RMSEA interval %v", ci)
+	}
+}
+
+// A graph the data contradict: X and Y strongly related but declared
+// independent given M.
+func TestGraphFit_RejectedImplication(t *testing.T) {
+	doc := summaryPackage([]string{"X", "M", "Y"}, [][2]string{{"X", "M"}, {"M", "Y"}},
+		[][]float64{{1}, {.2, 1}, {.6, .2, 1}}, 400)
+	c := checkByID(runDoc(t, doc), "graph-fit")
+	if c.Status != StatusFail || c.Metrics["implications_rejected"] != 1 {
+		t.Fatalf("status %s, rejected %v", c.Status, c.Metrics["implications_rejected"])
+	}
+}
+
+// A class too large to list (K7: 5,040 members) is covered by local
+// parent sets, and the report says so.
+func TestAcrossEquivalents_LargeClassUsesLocalParentSets(t *testing.T) {
+	vars := []string{"X", "Y", "A", "B", "C", "D", "E"}
+	var edges [][2]string
+	var lower [][]float64
+	for i := range vars {
+		row := make([]float64, i+1)
+		for j := range i {
+			edges = append(edges, [2]string{vars[j], vars[i]})
+			row[j] = 0.1 + 0.02*float64(i+j)
+		}
+		row[i] = 1
+		lower = append(lower, row)
+	}
+	r := runDoc(t, summaryPackage(vars, edges, lower, 300))
+	ae := r.Claims[0].AcrossEquivalents
+	if ae == nil || ae.Method != AcrossParentSets || ae.Graphs != 1<<6 {
+		t.Fatalf("across equivalents %+v; want local parent sets over the 64 subsets of X's six neighbours", ae)
+	}
+	if r.Graph.EquivalenceClassSize != int64(5040) {
+		t.Fatalf("class size %v", r.Graph.EquivalenceClassSize)
+	}
+}
+
+func TestAlternatives_EquivalentAndDistinguishable(t *testing.T) {
+	r := runDoc(t, mustRead(t, "../testdata/demo/tutoring-anxiety/package.json"))
+	rows := checkByID(r, "alternatives").Metrics["comparisons"].([]map[string]any)
+	if rows[0]["equivalent"] != true || rows[1]["equivalent"] != false || rows[1]["delta_bic"] == nil {
+		t.Fatalf("comparisons %v", rows)
+	}
+	c1 := r.Claims[0]
+	if len(c1.UnderAlternatives) != 2 || !c1.UnderAlternatives[0].Changed || *c1.UnderAlternatives[0].Estimate != 0 {
+		t.Fatalf("C1 under alternatives %+v", c1.UnderAlternatives)
+	}
+	if c1.AcrossEquivalents == nil || !c1.AcrossEquivalents.Unstable || c1.AcrossEquivalents.Graphs != 6 {
+		t.Fatalf("C1 across equivalents %+v", c1.AcrossEquivalents)
+	}
+}
+
+func mustRead(t *testing.T, path string) []byte {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}

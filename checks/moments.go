@@ -1,0 +1,114 @@
+package checks
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat"
+)
+
+// Moments are the summary statistics that the estimators work from: the
+// correlation matrix over all declared variables, and the SDs and means
+// where known. For raw rows they come from the complete cases, and Rows
+// holds those cases (one row per case, columns in variable order) for the
+// logistic regressions.
+type Moments struct {
+	N     int
+	Cor   *mat.SymDense
+	SD    []float64 // nil when unknown
+	Means []float64 // nil when unknown
+	Rows  *mat.Dense
+	// Method says where the moments come from: "summary" or
+	// "complete_cases".
+	Method string
+}
+
+// Cov returns the covariance matrix, or nil without SDs.
+func (m *Moments) Cov() *mat.SymDense {
+	if m.SD == nil {
+		return nil
+	}
+	p := m.Cor.SymmetricDim()
+	c := mat.NewSymDense(p, nil)
+	for i := range p {
+		for j := 0; j <= i; j++ {
+			c.SetSym(i, j, m.Cor.At(i, j)*m.SD[i]*m.SD[j])
+		}
+	}
+	return c
+}
+
+// moments returns the study's moments, computed once.
+func (a *Analysis) moments() (*Moments, error) {
+	if a.mom == nil && a.momErr == nil {
+		a.mom, a.momErr = studyMoments(a.Study.Data)
+	}
+	return a.mom, a.momErr
+}
+
+func studyMoments(d *Dataset) (*Moments, error) {
+	if d.Kind == DataSummary {
+		return &Moments{N: d.N, Cor: d.Cor, SD: d.SD, Means: d.Means, Method: "summary"}, nil
+	}
+	rows := completeCases(d.Columns)
+	return rowMoments(rows, "complete_cases")
+}
+
+// completeCases returns the rows with no missing value.
+func completeCases(cols [][]float64) *mat.Dense {
+	n := 0
+	if len(cols) > 0 {
+		n = len(cols[0])
+	}
+	var keep []int
+	for i := range n {
+		ok := true
+		for _, c := range cols {
+			if math.IsNaN(c[i]) {
+				ok = false
+				break
+			}
+		}
+		if ok {
+			keep = append(keep, i)
+		}
+	}
+	if len(keep) == 0 {
+		return nil
+	}
+	m := mat.NewDense(len(keep), len(cols), nil)
+	for r, i := range keep {
+		for j, c := range cols {
+			m.Set(r, j, c[i])
+		}
+	}
+	return m
+}
+
+// rowMoments computes means, SDs and correlations (divisor n − 1) of
+// complete rows.
+func rowMoments(rows *mat.Dense, method string) (*Moments, error) {
+	if rows == nil {
+		return nil, Errorf(EInvalid, "no case has every variable observed, so no complete-case analysis is possible")
+	}
+	n, p := rows.Dims()
+	if n < 3 {
+		return nil, Errorf(EInvalid, "only %d complete cases", n)
+	}
+	cov := mat.NewSymDense(p, nil)
+	stat.CovarianceMatrix(cov, rows, nil)
+	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: make([]float64, p), Rows: rows, Method: method}
+	for j := range p {
+		m.Means[j] = stat.Mean(mat.Col(nil, j, rows), nil)
+		m.SD[j] = math.Sqrt(cov.At(j, j))
+	}
+	for i := range p {
+		for j := 0; j <= i; j++ {
+			if m.SD[i] == 0 || m.SD[j] == 0 {
+				return nil, Errorf(EInvalid, "a variable is constant in the complete cases")
+			}
+			m.Cor.SetSym(i, j, cov.At(i, j)/(m.SD[i]*m.SD[j]))
+		}
+	}
+	return m, nil
+}
