@@ -27,7 +27,7 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	switch {
 	case len(s.Alternatives) == 0 && causal:
 		return CheckResult{Status: StatusWarn, Metrics: map[string]any{"alternatives": 0},
-			Summary: "The paper states no alternative graph for its causal claims; ask which other causal orders the authors considered and why they rejected them.",
+			Summary:  "The paper states no alternative graph for its causal claims; ask which other causal orders the authors considered and why they rejected them.",
 			Findings: []Finding{{Severity: StatusWarn, Message: "No alternative graph is stated, so nothing shows the causal claims were weighed against another causal order."}}}, nil
 	case len(s.Alternatives) == 0:
 		return CheckResult{Status: StatusNotApplicable, Summary: "No alternatives are stated, and the paper makes no causal claim."}, nil

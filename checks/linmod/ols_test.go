@@ -2,8 +2,8 @@ package linmod
 
 import (
 	"bufio"
-	"math"
 	"encoding/csv"
+	"math"
 	"os"
 	"strconv"
 	"strings"
