@@ -65,11 +65,14 @@ type Estimate struct {
 	Error       string    `json:"error,omitempty"`
 }
 
+// finite returns a pointer to x rounded for a report, or nil where x is
+// not a finite number.
 func finite(x float64) *float64 {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return nil
 	}
-	return &x
+	r := round(x)
+	return &r
 }
 
 func (a *Analysis) report(e est) *Estimate {

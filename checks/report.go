@@ -3,6 +3,7 @@ package checks
 import (
 	"math"
 	"math/big"
+	"strconv"
 	"time"
 )
 
@@ -164,13 +165,24 @@ type Reversibility struct {
 	PlausibleReversed any `json:"plausible_reversed"`
 }
 
-// num returns x for a JSON metric, or nil where x is not a finite number:
-// NaN and Inf never reach a report.
+// ReportDigits is the number of significant digits a report keeps of a
+// computed number: more than any check needs, few enough that reports do
+// not change with the last bits of a floating-point sum.
+const ReportDigits = 10
+
+// round keeps ReportDigits significant digits of x.
+func round(x float64) float64 {
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(x, 'g', ReportDigits, 64), 64)
+	return r
+}
+
+// num returns x for a JSON metric, rounded, or nil where x is not a
+// finite number: NaN and Inf never reach a report.
 func num(x float64) any {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return nil
 	}
-	return x
+	return round(x)
 }
 
 func bigInt(n int64) *big.Int { return big.NewInt(n) }

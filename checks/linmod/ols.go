@@ -52,12 +52,27 @@ type Fit struct {
 	N         int
 }
 
+// tInference computes t-based p-values and intervals for one fit's
+// degrees of freedom and level; the quantile is found once.
+type tInference struct {
+	dist distuv.StudentsT
+	q    float64
+}
+
+func newTInference(df int, level float64) tInference {
+	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}
+	return tInference{dist: t, q: t.Quantile(0.5 + level/2)}
+}
+
+func (ti tInference) coef(est, se float64) Coef {
+	stat := est / se
+	return Coef{Estimate: est, StdError: se, Stat: stat, P: 2 * ti.dist.Survival(math.Abs(stat)),
+		CI: [2]float64{est - ti.q*se, est + ti.q*se}}
+}
+
 // tCoef fills the t-based inference for an estimate and its SE.
 func tCoef(est, se float64, df int, level float64) Coef {
-	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}
-	q := t.Quantile(0.5 + level/2)
-	stat := est / se
-	return Coef{Estimate: est, StdError: se, Stat: stat, P: 2 * t.Survival(math.Abs(stat)), CI: [2]float64{est - q*se, est + q*se}}
+	return newTInference(df, level).coef(est, se)
 }
 
 // FromMoments fits y on the predictors x by least squares from the
@@ -116,10 +131,11 @@ func FromMoments(cov mat.Symmetric, means []float64, n, y int, x []int, level fl
 	}
 	sigma2 := resid * float64(n-1) / float64(df)
 	fit := &Fit{R2: explained / syy, Sigma2: sigma2, DF: df, N: n, Coefs: make([]Coef, k)}
+	ti := newTInference(df, level)
 	for i := range k {
 		est := b.AtVec(i) / sd[i]
 		se := math.Sqrt(sigma2*inv.At(i, i)/float64(n-1)) / sd[i]
-		fit.Coefs[i] = tCoef(est, se, df, level)
+		fit.Coefs[i] = ti.coef(est, se)
 	}
 	if means != nil {
 		fit.Intercept = intercept(fit, inv, sd, means, y, x, n, level)

@@ -80,9 +80,12 @@ func FitDAG(s mat.Symmetric, n int, parents [][]int) (*Fit, error) {
 	if err := ainv.Inverse(a); err != nil {
 		return nil, fmt.Errorf("sem: the graph is not recursive: %w", err)
 	}
-	var tmp, implied mat.Dense
-	tmp.Mul(&ainv, psi)
-	implied.Mul(&tmp, ainv.T())
+	for j := range p { // (I − B)⁻¹ Ψ^½, so that Σ̂ = L Lᵀ
+		col := ainv.ColView(j).(*mat.VecDense)
+		col.ScaleVec(math.Sqrt(psi.At(j, j)), col)
+	}
+	var implied mat.Dense
+	implied.Mul(&ainv, ainv.T())
 	f.Implied = symmetrize(&implied)
 	f.FreeParams = edges + p
 	f.DF = p*(p+1)/2 - f.FreeParams
@@ -115,9 +118,13 @@ func (f *Fit) discrepancy(s mat.Symmetric, chS *mat.Cholesky) error {
 	if err := chI.InverseTo(&inv); err != nil {
 		return err
 	}
-	var prod mat.Dense
-	prod.Mul(s, &inv)
-	fml := chI.LogDet() - chS.LogDet() + mat.Trace(&prod) - float64(p)
+	trace := 0.0 // tr(S Σ̂⁻¹) = Σ_ij s_ij (Σ̂⁻¹)_ij, both symmetric
+	for i := range p {
+		for j := range p {
+			trace += s.At(i, j) * inv.At(i, j)
+		}
+	}
+	fml := chI.LogDet() - chS.LogDet() + trace - float64(p)
 	f.ChiSquare = math.Max(float64(f.N-1)*fml, 0)
 	if f.ChiSquare < 1e-9 {
 		f.ChiSquare = 0 // rounding in a saturated or exactly fitting model
