@@ -1,5 +1,6 @@
 // Command pathvet screens path-model submissions: offline with `check`,
-// and (in later subcommands) as a service.
+// and as a service with `serve` and `work`, `migrate`, `keys`, and the
+// clients `submit` and `report`.
 package main
 
 import (
@@ -21,6 +22,15 @@ const (
 
 Usage:
   pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] PACKAGE.json
+  pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate]
+  pathvet work [--database-url URL] [--workers N]
+  pathvet migrate up|status [--database-url URL]
+  pathvet keys create --office NAME --role editor|submitter
+  pathvet submit --server URL [--wait] PACKAGE.json
+  pathvet report --server URL [--format text|json] ID
+
+The server reads PATHVET_DATABASE_URL and PATHVET_ADDR (default 127.0.0.1:8080);
+the clients read PATHVET_TOKEN.
 
 Run "pathvet COMMAND --help" for a command's flags.
 `
@@ -42,6 +52,16 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	switch args[0] {
 	case "check":
 		return runCheck(ctx, args[1:], stdout, stderr)
+	case "serve", "work":
+		return runServe(ctx, args[0], args[1:], stderr)
+	case "migrate":
+		return runMigrate(ctx, args[1:], stdout, stderr)
+	case "keys":
+		return runKeys(ctx, args[1:], stdout, stderr)
+	case "submit":
+		return runSubmit(ctx, args[1:], stdout, stderr)
+	case "report":
+		return runReport(ctx, args[1:], stdout, stderr)
 	case "help", "-h", "--help":
 		fmt.Fprint(stdout, usageOverview)
 		return exitOK

@@ -1,0 +1,102 @@
+package api
+
+import (
+	"errors"
+	"net/http"
+
+	"github.com/labstack/echo/v4"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// Problem is an RFC 9457 problem details document.
+type Problem struct {
+	Type     string           `json:"type"`
+	Title    string           `json:"title"`
+	Status   int              `json:"status"`
+	Detail   string           `json:"detail,omitempty"`
+	Instance string           `json:"instance,omitempty"`
+	Errors   []checks.Problem `json:"errors,omitempty"`
+}
+
+// ProblemContentType is the media type of problem details.
+const ProblemContentType = "application/problem+json"
+
+// problemTypes name the kinds of problem this API reports.
+var problemTypes = map[int]string{
+	http.StatusBadRequest:            "https://pathvet.example/problems/bad-request",
+	http.StatusUnauthorized:          "https://pathvet.example/problems/unauthorized",
+	http.StatusNotFound:              "https://pathvet.example/problems/not-found",
+	http.StatusMethodNotAllowed:      "https://pathvet.example/problems/method-not-allowed",
+	http.StatusConflict:              "https://pathvet.example/problems/conflict",
+	http.StatusUnsupportedMediaType:  "https://pathvet.example/problems/unsupported-media-type",
+	http.StatusRequestEntityTooLarge: "https://pathvet.example/problems/too-large",
+	http.StatusUnprocessableEntity:   "https://pathvet.example/problems/invalid-package",
+	http.StatusServiceUnavailable:    "https://pathvet.example/problems/unavailable",
+	http.StatusGatewayTimeout:        "https://pathvet.example/problems/timeout",
+}
+
+// problemError is an error with the HTTP status and detail to show.
+func problemError(status int, detail string) error {
+	return &echo.HTTPError{Code: status, Message: detail}
+}
+
+// problemFor maps an error to its problem: the one place where error
+// codes become HTTP statuses. An internal error shows only "internal
+// error".
+func problemFor(err error) (Problem, bool) {
+	var he *echo.HTTPError
+	var ip *checks.InvalidPackageError
+	switch code := checks.ErrorCode(err); {
+	case errors.As(err, &he):
+		detail, _ := he.Message.(string)
+		if he.Code == http.StatusRequestEntityTooLarge {
+			detail = "The request body is larger than this server accepts."
+		}
+		return Problem{Status: he.Code, Detail: detail}, false
+	case errors.As(err, &ip) && ip.TooLarge:
+		return Problem{Status: http.StatusRequestEntityTooLarge, Detail: ip.Problems[0].Detail, Errors: ip.Problems}, false
+	case errors.As(err, &ip):
+		return Problem{Status: http.StatusUnprocessableEntity, Detail: "The package is not valid; every problem is listed with its JSON pointer or CSV line and column.", Errors: ip.Problems}, false
+	case code == checks.EInvalid:
+		return Problem{Status: http.StatusBadRequest, Detail: err.Error()}, false
+	case code == checks.ENotFound:
+		return Problem{Status: http.StatusNotFound, Detail: err.Error()}, false
+	case code == checks.EConflict:
+		return Problem{Status: http.StatusConflict, Detail: err.Error()}, false
+	case code == checks.ETooLarge:
+		return Problem{Status: http.StatusRequestEntityTooLarge, Detail: err.Error()}, false
+	case errors.Is(err, errTimeout):
+		return Problem{Status: http.StatusGatewayTimeout, Detail: "The request took too long."}, false
+	}
+	return Problem{Status: http.StatusInternalServerError, Detail: "internal error"}, true
+}
+
+var errTimeout = errors.New("timeout")
+
+// handleError is Echo's error handler: every error becomes problem
+// details.
+func (s *Server) handleError(err error, c echo.Context) {
+	if c.Response().Committed {
+		return
+	}
+	p, internal := problemFor(err)
+	if internal {
+		s.cfg.Logger.Error("internal error", "error", err, "path", c.Path(), "request_id", c.Response().Header().Get(echo.HeaderXRequestID))
+	}
+	p.Type = problemTypes[p.Status]
+	if p.Type == "" {
+		p.Type = "about:blank"
+	}
+	p.Title = http.StatusText(p.Status)
+	p.Instance = c.Request().URL.Path
+	if p.Status == http.StatusUnauthorized {
+		c.Response().Header().Set("WWW-Authenticate", `Bearer realm="pathvet"`)
+	}
+	c.Response().Header().Set(echo.HeaderContentType, ProblemContentType)
+	c.Response().WriteHeader(p.Status)
+	if c.Request().Method == http.MethodHead {
+		return
+	}
+	_ = c.JSONBlob(0, mustJSON(p))
+}

@@ -1,0 +1,43 @@
+package api
+
+import (
+	"net/http"
+
+	"github.com/labstack/echo/v4"
+	"github.com/labstack/echo/v4/middleware"
+)
+
+// routes registers every route of the API, in one place.
+func (s *Server) routes() {
+	e := s.echo
+	e.Use(middleware.RequestID())
+	e.Use(s.logRequests())
+	e.Use(middleware.RecoverWithConfig(middleware.RecoverConfig{DisableStackAll: true}))
+	e.Use(s.cfg.Metrics.middleware())
+	e.Use(middleware.ContextTimeout(s.cfg.RequestTimeout))
+
+	e.GET("/healthz", s.healthz)
+	e.GET("/readyz", s.readyz)
+	e.GET("/metrics", echo.WrapHandler(s.cfg.Metrics.Handler()))
+	e.GET("/v1/openapi.yaml", s.openapi)
+
+	v1 := e.Group("/v1", s.authenticate)
+	v1.POST("/submissions", s.createSubmission, middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
+	v1.GET("/submissions", s.listSubmissions)
+	v1.GET("/submissions/:id", s.getSubmission)
+	v1.DELETE("/submissions/:id", s.deleteSubmission)
+	v1.POST("/submissions/:id/rerun", s.rerunSubmission)
+	v1.GET("/submissions/:id/report", s.getReport)
+}
+
+func (s *Server) healthz(c echo.Context) error {
+	return c.JSON(http.StatusOK, map[string]string{"status": "ok"})
+}
+
+func (s *Server) readyz(c echo.Context) error {
+	if err := s.cfg.Store.Ping(c.Request().Context()); err != nil {
+		s.cfg.Logger.Error("readiness: database unreachable", "error", err)
+		return problemError(http.StatusServiceUnavailable, "The database does not answer.")
+	}
+	return c.JSON(http.StatusOK, map[string]string{"status": "ready"})
+}

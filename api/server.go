@@ -1,0 +1,80 @@
+// Package api is pathvet's REST interface on Echo: submissions in, reports
+// out, API keys per editorial office, RFC 9457 problem details for every
+// error, Prometheus metrics and an OpenAPI 3.1 document.
+package api
+
+import (
+	"context"
+	"log/slog"
+	"time"
+
+	"github.com/labstack/echo/v4"
+
+	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/store"
+)
+
+// Store is what the API needs from storage; tests may give a fake.
+type Store interface {
+	Ping(ctx context.Context) error
+	KeyByToken(ctx context.Context, token string) (*store.Key, error)
+	CreateSubmission(ctx context.Context, n store.NewSubmission) (*store.Submission, bool, error)
+	Submission(ctx context.Context, id string, sc store.Scope) (*store.Submission, error)
+	Submissions(ctx context.Context, f store.Filter) ([]*store.Submission, string, error)
+	DeleteSubmission(ctx context.Context, id string, sc store.Scope) error
+	Rerun(ctx context.Context, id string, sc store.Scope) (*store.Submission, error)
+	LatestReport(ctx context.Context, id string, sc store.Scope) ([]byte, error)
+}
+
+// Config configures the API.
+type Config struct {
+	Store  Store
+	Limits checks.Limits
+	Logger *slog.Logger
+	// RequestTimeout bounds each request; long polls stop before it.
+	RequestTimeout time.Duration
+	// MaxWait caps ?wait= on GET /v1/submissions/{id}.
+	MaxWait time.Duration
+	// PollInterval is how often a long poll looks at the submission.
+	PollInterval time.Duration
+	Metrics      *Metrics
+}
+
+// Server holds the handlers.
+type Server struct {
+	cfg  Config
+	echo *echo.Echo
+}
+
+// New returns the API's HTTP handler with every route registered.
+func New(cfg Config) *Server {
+	if cfg.Limits == (checks.Limits{}) {
+		cfg.Limits = checks.DefaultLimits
+	}
+	if cfg.Logger == nil {
+		cfg.Logger = slog.Default()
+	}
+	if cfg.RequestTimeout == 0 {
+		cfg.RequestTimeout = 60 * time.Second
+	}
+	if cfg.MaxWait == 0 {
+		cfg.MaxWait = 30 * time.Second
+	}
+	if cfg.PollInterval == 0 {
+		cfg.PollInterval = 200 * time.Millisecond
+	}
+	if cfg.Metrics == nil {
+		cfg.Metrics = NewMetrics()
+	}
+	s := &Server{cfg: cfg, echo: echo.New()}
+	s.echo.HideBanner, s.echo.HidePort = true, true
+	s.echo.HTTPErrorHandler = s.handleError
+	s.routes()
+	return s
+}
+
+// Echo returns the router, an http.Handler.
+func (s *Server) Echo() *echo.Echo { return s.echo }
+
+// bodyLimit is the largest request body: a package and its CSV data.
+func (s *Server) bodyLimit() int64 { return s.cfg.Limits.PackageBytes + s.cfg.Limits.CSVBytes + 1<<20 }

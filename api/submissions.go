@@ -1,0 +1,272 @@
+package api
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"mime"
+	"net/http"
+	"strconv"
+	"time"
+
+	"github.com/labstack/echo/v4"
+
+	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/store"
+)
+
+// SubmissionView is a submission as the API shows it.
+type SubmissionView struct {
+	ID            string    `json:"id"`
+	Status        string    `json:"status"`
+	Title         string    `json:"title"`
+	ManuscriptID  string    `json:"manuscript_id,omitempty"`
+	PackageSHA256 string    `json:"package_sha256"`
+	Score         *int      `json:"score"`
+	Band          *string   `json:"band"`
+	Error         string    `json:"error,omitempty"`
+	Attempts      int       `json:"attempts"`
+	Reports       int       `json:"reports"`
+	CreatedAt     time.Time `json:"created_at"`
+	UpdatedAt     time.Time `json:"updated_at"`
+	Links         Links     `json:"links"`
+}
+
+// Links point to a submission and its report.
+type Links struct {
+	Self   string `json:"self"`
+	Report string `json:"report"`
+}
+
+func view(s *store.Submission) SubmissionView {
+	self := "/v1/submissions/" + s.ID
+	return SubmissionView{ID: s.ID, Status: s.Status, Title: s.Title, ManuscriptID: s.ManuscriptID,
+		PackageSHA256: s.PackageSHA256, Score: s.Score, Band: s.Band, Error: s.Error, Attempts: s.Attempts,
+		Reports: s.Reports, CreatedAt: s.CreatedAt, UpdatedAt: s.UpdatedAt,
+		Links: Links{Self: self, Report: self + "/report"}}
+}
+
+func mustJSON(v any) []byte {
+	b, err := json.Marshal(v)
+	if err != nil {
+		panic(err)
+	}
+	return b
+}
+
+// createSubmission takes a package as JSON (data inline or as summary
+// statistics) or as multipart parts "package" and "data", checks it, and
+// stores and queues it: 202 with the new submission.
+func (s *Server) createSubmission(c echo.Context) error {
+	doc, data, err := s.readPackage(c)
+	if err != nil {
+		return err
+	}
+	study, err := checks.Load(doc, checks.LoadOptions{Limits: s.cfg.Limits, CSV: data})
+	if err != nil {
+		return err
+	}
+	idem := c.Request().Header.Get("Idempotency-Key")
+	if len(idem) > 200 {
+		return problemError(http.StatusBadRequest, "The Idempotency-Key header is longer than 200 characters.")
+	}
+	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), store.NewSubmission{
+		Key: keyOf(c), Package: doc, Data: data, Title: study.Package.Title,
+		ManuscriptID: study.Package.ManuscriptID, PackageSHA256: study.SHA256, IdempotencyKey: idem,
+	})
+	if err != nil {
+		return err
+	}
+	v := view(sub)
+	c.Response().Header().Set(echo.HeaderLocation, v.Links.Self)
+	if replayed {
+		c.Response().Header().Set("Idempotent-Replayed", "true")
+	}
+	return c.JSON(http.StatusAccepted, v)
+}
+
+// readPackage reads the request body: the package JSON, and the CSV data
+// when they come as a multipart part.
+func (s *Server) readPackage(c echo.Context) (doc, data []byte, err error) {
+	req := c.Request()
+	mt, _, perr := mime.ParseMediaType(req.Header.Get(echo.HeaderContentType))
+	switch {
+	case perr == nil && mt == echo.MIMEMultipartForm:
+		return s.readMultipart(c)
+	case perr == nil && (mt == echo.MIMEApplicationJSON || mt == "application/vnd.pathvet.package+json"):
+		doc, err = readLimited(req.Body, s.cfg.Limits.PackageBytes, "package")
+		return doc, nil, err
+	}
+	return nil, nil, problemError(http.StatusUnsupportedMediaType, "Send the package as application/json, or as multipart/form-data with parts named package and data.")
+}
+
+func (s *Server) readMultipart(c echo.Context) (doc, data []byte, err error) {
+	mr, err := c.Request().MultipartReader()
+	if err != nil {
+		return nil, nil, problemError(http.StatusBadRequest, "The multipart body cannot be read: "+err.Error())
+	}
+	for {
+		part, err := mr.NextPart()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		if err != nil {
+			return nil, nil, bodyError(err)
+		}
+		switch part.FormName() {
+		case "package":
+			doc, err = readLimited(part, s.cfg.Limits.PackageBytes, "package")
+		case "data":
+			data, err = readLimited(part, s.cfg.Limits.CSVBytes, "data")
+		default:
+			err = problemError(http.StatusBadRequest, fmt.Sprintf("Unknown multipart part %q: the parts are package and data.", part.FormName()))
+		}
+		if err != nil {
+			return nil, nil, err
+		}
+	}
+	if doc == nil {
+		return nil, nil, problemError(http.StatusBadRequest, "The multipart body has no part named package.")
+	}
+	return doc, data, nil
+}
+
+// readLimited reads at most limit bytes; more is 413 naming the limit.
+func readLimited(r io.Reader, limit int64, what string) ([]byte, error) {
+	b, err := io.ReadAll(io.LimitReader(r, limit+1))
+	if err != nil {
+		return nil, bodyError(err)
+	}
+	if int64(len(b)) > limit {
+		return nil, problemError(http.StatusRequestEntityTooLarge, fmt.Sprintf("The %s is larger than the limit of %d bytes.", what, limit))
+	}
+	return b, nil
+}
+
+// bodyError turns a failed read of the body into 413 when the body limit
+// cut it, 400 otherwise.
+func bodyError(err error) error {
+	var he *echo.HTTPError
+	if errors.As(err, &he) {
+		return he
+	}
+	return problemError(http.StatusBadRequest, "The request body cannot be read: "+err.Error())
+}
+
+func (s *Server) getSubmission(c echo.Context) error {
+	ctx := c.Request().Context()
+	wait, err := s.waitParam(c)
+	if err != nil {
+		return err
+	}
+	deadline := time.Now().Add(wait)
+	for {
+		sub, err := s.cfg.Store.Submission(ctx, c.Param("id"), keyOf(c).Scope())
+		if err != nil {
+			return err
+		}
+		finished := sub.Status == store.StatusDone || sub.Status == store.StatusFailed
+		if finished || !time.Now().Add(s.cfg.PollInterval).Before(deadline) {
+			return c.JSON(http.StatusOK, view(sub))
+		}
+		select {
+		case <-ctx.Done():
+			return c.JSON(http.StatusOK, view(sub))
+		case <-time.After(s.cfg.PollInterval):
+		}
+	}
+}
+
+// waitParam reads ?wait= (a Go duration or seconds), capped at MaxWait.
+func (s *Server) waitParam(c echo.Context) (time.Duration, error) {
+	raw := c.QueryParam("wait")
+	if raw == "" {
+		return 0, nil
+	}
+	d, err := time.ParseDuration(raw)
+	if err != nil {
+		n, nerr := strconv.Atoi(raw)
+		if nerr != nil {
+			return 0, problemError(http.StatusBadRequest, "wait must be a duration such as 20s.")
+		}
+		d = time.Duration(n) * time.Second
+	}
+	if d < 0 {
+		return 0, problemError(http.StatusBadRequest, "wait must not be negative.")
+	}
+	return min(d, s.cfg.MaxWait), nil
+}
+
+// SubmissionList is a page of submissions.
+type SubmissionList struct {
+	Submissions []SubmissionView `json:"submissions"`
+	NextCursor  string           `json:"next_cursor,omitempty"`
+}
+
+var validStatus = map[string]bool{"": true, store.StatusQueued: true, store.StatusRunning: true, store.StatusDone: true, store.StatusFailed: true}
+var validBand = map[string]bool{"": true, checks.BandLow: true, checks.BandModerate: true, checks.BandHigh: true}
+
+func (s *Server) listSubmissions(c echo.Context) error {
+	f := store.Filter{Scope: keyOf(c).Scope(), ManuscriptID: c.QueryParam("manuscript_id"),
+		Status: c.QueryParam("status"), Band: c.QueryParam("band"), Cursor: c.QueryParam("cursor")}
+	switch {
+	case !validStatus[f.Status]:
+		return problemError(http.StatusBadRequest, "status must be queued, running, done or failed.")
+	case !validBand[f.Band]:
+		return problemError(http.StatusBadRequest, "band must be low-concern, moderate-concern or high-concern.")
+	}
+	if l := c.QueryParam("limit"); l != "" {
+		n, err := strconv.Atoi(l)
+		if err != nil || n < 1 || n > store.MaxPage {
+			return problemError(http.StatusBadRequest, fmt.Sprintf("limit must be a whole number from 1 to %d.", store.MaxPage))
+		}
+		f.Limit = n
+	}
+	subs, next, err := s.cfg.Store.Submissions(c.Request().Context(), f)
+	if err != nil {
+		return err
+	}
+	out := SubmissionList{Submissions: make([]SubmissionView, len(subs)), NextCursor: next}
+	for i, sub := range subs {
+		out.Submissions[i] = view(sub)
+	}
+	return c.JSON(http.StatusOK, out)
+}
+
+func (s *Server) deleteSubmission(c echo.Context) error {
+	if err := s.cfg.Store.DeleteSubmission(c.Request().Context(), c.Param("id"), keyOf(c).Scope()); err != nil {
+		return err
+	}
+	return c.NoContent(http.StatusNoContent)
+}
+
+func (s *Server) rerunSubmission(c echo.Context) error {
+	sub, err := s.cfg.Store.Rerun(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
+	if err != nil {
+		return err
+	}
+	return c.JSON(http.StatusAccepted, view(sub))
+}
+
+// getReport serves the newest report: JSON by default, the text view with
+// ?format=text.
+func (s *Server) getReport(c echo.Context) error {
+	b, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
+	if err != nil {
+		return err
+	}
+	switch c.QueryParam("format") {
+	case "", "json":
+		return c.JSONBlob(http.StatusOK, b)
+	case "text":
+		var rep checks.Report
+		if err := json.Unmarshal(b, &rep); err != nil {
+			return err
+		}
+		c.Response().Header().Set(echo.HeaderContentType, echo.MIMETextPlainCharsetUTF8)
+		c.Response().WriteHeader(http.StatusOK)
+		return checks.WriteText(c.Response(), &rep)
+	}
+	return problemError(http.StatusBadRequest, "format must be json or text.")
+}

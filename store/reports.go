@@ -1,0 +1,68 @@
+package store
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"time"
+
+	"github.com/jackc/pgx/v5"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// Claim marks a submission running for one more attempt and returns its
+// package and data. A submission deleted meanwhile is not found.
+func (db *DB) Claim(ctx context.Context, id string) (pkg, data []byte, err error) {
+	err = db.Pool.QueryRow(ctx, `UPDATE submissions SET status = 'running', attempts = attempts + 1, updated_at = $2
+		WHERE id = $1 RETURNING package, data`, id, db.now()).Scan(&pkg, &data)
+	return pkg, data, dbError(err, "submission")
+}
+
+// SaveReport stores a report and marks the submission done.
+func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, took time.Duration) error {
+	b, err := json.Marshal(rep)
+	if err != nil {
+		return err
+	}
+	now := db.now()
+	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
+		if _, err := tx.Exec(ctx, `INSERT INTO reports (submission_id, report, score, band, tool_version, duration_ms, created_at)
+			VALUES ($1, $2, $3, $4, $5, $6, $7)`, id, string(b), rep.Score, rep.Band, rep.ToolVersion, took.Milliseconds(), now); err != nil {
+			return err
+		}
+		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2 WHERE id = $1`, id, now)
+		return err
+	})
+	return dbError(err, "report")
+}
+
+// MarkFailed records that screening a submission failed for good, with
+// the reason the client will see.
+func (db *DB) MarkFailed(ctx context.Context, id, reason string) error {
+	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3 WHERE id = $1`, id, reason, db.now())
+	return dbError(err, "submission")
+}
+
+// NoteAttemptError records the error of an attempt that will be retried;
+// the submission goes back to queued.
+func (db *DB) NoteAttemptError(ctx context.Context, id, reason string) error {
+	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'queued', error = $2, updated_at = $3 WHERE id = $1 AND status = 'running'`, id, reason, db.now())
+	return dbError(err, "submission")
+}
+
+// LatestReport returns the newest report of a submission the scope may see.
+func (db *DB) LatestReport(ctx context.Context, id string, sc Scope) ([]byte, error) {
+	if _, err := db.Submission(ctx, id, sc); err != nil {
+		return nil, err
+	}
+	var b string
+	err := db.Pool.QueryRow(ctx, `SELECT report FROM reports WHERE submission_id = $1 ORDER BY id DESC LIMIT 1`, id).Scan(&b)
+	if errors.Is(err, pgx.ErrNoRows) {
+		return nil, checks.Errorf(checks.ENotFound, "no report yet: the submission has not been screened")
+	}
+	if err != nil {
+		return nil, dbError(err, "report")
+	}
+	return []byte(b), nil
+}

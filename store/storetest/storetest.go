@@ -1,0 +1,80 @@
+// Package storetest gives tests a real PostgreSQL database of their own.
+package storetest
+
+import (
+	"context"
+	"crypto/rand"
+	"encoding/hex"
+	"fmt"
+	"net/url"
+	"os"
+	"testing"
+	"time"
+
+	"github.com/jackc/pgx/v5"
+
+	"github.com/pathvet/pathvet/store"
+)
+
+// DefaultURL is the server the tests use when PATHVET_TEST_DATABASE_URL
+// is unset: the machine's own PostgreSQL.
+const DefaultURL = "postgres://postgres@127.0.0.1:5432/postgres?sslmode=disable"
+
+// AdminURL is the URL of a database on the test server from which test
+// databases are created.
+func AdminURL() string {
+	if u := os.Getenv("PATHVET_TEST_DATABASE_URL"); u != "" {
+		return u
+	}
+	return DefaultURL
+}
+
+// MustOpenDB creates an empty, migrated database for one test (or test
+// binary) and drops it when tb ends. It fails the test, never skips it,
+// when the server cannot be reached.
+func MustOpenDB(tb testing.TB) (*store.DB, string) {
+	tb.Helper()
+	ctx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
+	defer cancel()
+	admin, err := pgx.Connect(ctx, AdminURL())
+	if err != nil {
+		tb.Fatalf("PostgreSQL for the tests is unreachable at %s (set PATHVET_TEST_DATABASE_URL; bash .ci/run starts one): %v", AdminURL(), err)
+	}
+	defer admin.Close(ctx)
+	suffix := make([]byte, 6)
+	_, _ = rand.Read(suffix)
+	name := "pathvet_test_" + hex.EncodeToString(suffix)
+	if _, err := admin.Exec(ctx, "CREATE DATABASE "+name); err != nil {
+		tb.Fatalf("create test database: %v", err)
+	}
+	dbURL, err := replaceDatabase(AdminURL(), name)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	db, err := store.Open(ctx, dbURL)
+	if err != nil {
+		tb.Fatalf("open test database: %v", err)
+	}
+	tb.Cleanup(func() {
+		db.Close()
+		c, err := pgx.Connect(context.Background(), AdminURL())
+		if err == nil {
+			_, _ = c.Exec(context.Background(), "DROP DATABASE IF EXISTS "+name+" WITH (FORCE)")
+			_ = c.Close(context.Background())
+		}
+	})
+	if err := db.Migrate(ctx); err != nil {
+		tb.Fatalf("migrate test database: %v", err)
+	}
+	return db, dbURL
+}
+
+// replaceDatabase returns the URL with its database name replaced.
+func replaceDatabase(raw, name string) (string, error) {
+	u, err := url.Parse(raw)
+	if err != nil || (u.Scheme != "postgres" && u.Scheme != "postgresql") {
+		return "", fmt.Errorf("PATHVET_TEST_DATABASE_URL must be a postgres:// URL, not %q", raw)
+	}
+	u.Path = "/" + name
+	return u.String(), nil
+}

@@ -1,0 +1,258 @@
+package store
+
+import (
+	"context"
+	"encoding/base64"
+	"errors"
+	"fmt"
+	"regexp"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/jackc/pgx/v5"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// Submission statuses.
+const (
+	StatusQueued  = "queued"
+	StatusRunning = "running"
+	StatusDone    = "done"
+	StatusFailed  = "failed"
+)
+
+// Submission is one package sent for screening, without its bytes.
+type Submission struct {
+	ID             string
+	OfficeID       int64
+	SubmitterKeyID int64
+	ManuscriptID   string
+	Title          string
+	PackageSHA256  string
+	Status         string
+	Error          string
+	Attempts       int
+	// Score and Band are those of the newest report; Reports counts them.
+	Score     *int
+	Band      *string
+	Reports   int
+	CreatedAt time.Time
+	UpdatedAt time.Time
+}
+
+// NewSubmission is what CreateSubmission stores.
+type NewSubmission struct {
+	Key            *Key
+	Package, Data  []byte
+	Title          string
+	ManuscriptID   string
+	PackageSHA256  string
+	IdempotencyKey string
+}
+
+var uuidRE = regexp.MustCompile(`^[0-9a-fA-F]{8}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{12}$`)
+
+const submissionColumns = `s.id, s.office_id, s.submitter_key_id, s.manuscript_id, s.title, s.package_sha256,
+	s.status, s.error, s.attempts, r.score, r.band, (SELECT count(*) FROM reports WHERE submission_id = s.id),
+	s.created_at, s.updated_at`
+
+const submissionFrom = ` FROM submissions s LEFT JOIN LATERAL (
+	SELECT score, band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1) r ON true`
+
+func scanSubmission(row pgx.Row) (*Submission, error) {
+	s := &Submission{}
+	err := row.Scan(&s.ID, &s.OfficeID, &s.SubmitterKeyID, &s.ManuscriptID, &s.Title, &s.PackageSHA256,
+		&s.Status, &s.Error, &s.Attempts, &s.Score, &s.Band, &s.Reports, &s.CreatedAt, &s.UpdatedAt)
+	return s, err
+}
+
+// CreateSubmission stores a submission and queues its screening in one
+// transaction. With an idempotency key already used by the same API key it
+// returns the earlier submission and replayed = true, or a conflict when
+// the package differs.
+func (db *DB) CreateSubmission(ctx context.Context, n NewSubmission) (sub *Submission, replayed bool, err error) {
+	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
+		var idem *string
+		if n.IdempotencyKey != "" {
+			idem = &n.IdempotencyKey
+		}
+		now := db.now()
+		var id string
+		err := tx.QueryRow(ctx, `
+			INSERT INTO submissions (id, office_id, submitter_key_id, manuscript_id, title, package, data,
+				package_sha256, status, idempotency_key, created_at, updated_at)
+			VALUES (gen_random_uuid(), $1, $2, $3, $4, $5, $6, $7, 'queued', $8, $9, $9)
+			ON CONFLICT (submitter_key_id, idempotency_key) DO NOTHING
+			RETURNING id`, n.Key.OfficeID, n.Key.ID, n.ManuscriptID, n.Title, n.Package, n.Data,
+			n.PackageSHA256, idem, now).Scan(&id)
+		if errors.Is(err, pgx.ErrNoRows) {
+			replayed = true
+			sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
+				WHERE s.submitter_key_id = $1 AND s.idempotency_key = $2`, n.Key.ID, n.IdempotencyKey))
+			if err == nil && sub.PackageSHA256 != n.PackageSHA256 {
+				return checks.Errorf(checks.EConflict, "the Idempotency-Key %q was used for a different package", n.IdempotencyKey)
+			}
+			return err
+		}
+		if err != nil {
+			return err
+		}
+		if _, err := db.queue.InsertTx(ctx, tx, ScreenArgs{SubmissionID: id}, nil); err != nil {
+			return fmt.Errorf("queue: %w", err)
+		}
+		sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+` WHERE s.id = $1`, id))
+		return err
+	})
+	if err != nil {
+		var ce *checks.Error
+		if errors.As(err, &ce) {
+			return nil, false, err
+		}
+		return nil, false, dbError(err, "submission")
+	}
+	return sub, replayed, nil
+}
+
+// scopeSQL limits a query on submissions s to a scope; args $1..$3.
+const scopeSQL = ` s.office_id = $1 AND ($2 OR s.submitter_key_id = $3)`
+
+// Submission returns one submission that the scope may see.
+func (db *DB) Submission(ctx context.Context, id string, sc Scope) (*Submission, error) {
+	if !uuidRE.MatchString(id) {
+		return nil, checks.Errorf(checks.ENotFound, "submission not found")
+	}
+	s, err := scanSubmission(db.Pool.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
+		WHERE`+scopeSQL+` AND s.id = $4`, sc.OfficeID, sc.Editor, sc.KeyID, id))
+	return s, dbError(err, "submission")
+}
+
+// Filter selects submissions for a listing.
+type Filter struct {
+	Scope        Scope
+	ManuscriptID string
+	Status       string
+	Band         string
+	// Cursor continues a listing where an earlier page ended; Limit is the
+	// page size.
+	Cursor string
+	Limit  int
+}
+
+// MaxPage is the largest page of a listing.
+const MaxPage = 200
+
+// Submissions lists submissions, newest first, and the cursor of the next
+// page ("" on the last).
+func (db *DB) Submissions(ctx context.Context, f Filter) ([]*Submission, string, error) {
+	limit := f.Limit
+	if limit <= 0 || limit > MaxPage {
+		limit = 50
+	}
+	q := `SELECT ` + submissionColumns + submissionFrom + ` WHERE` + scopeSQL
+	args := []any{f.Scope.OfficeID, f.Scope.Editor, f.Scope.KeyID}
+	add := func(cond string, v any) {
+		args = append(args, v)
+		q += fmt.Sprintf(" AND "+cond, len(args))
+	}
+	if f.ManuscriptID != "" {
+		add("s.manuscript_id = $%d", f.ManuscriptID)
+	}
+	if f.Status != "" {
+		add("s.status = $%d", f.Status)
+	}
+	if f.Band != "" {
+		add("r.band = $%d", f.Band)
+	}
+	if f.Cursor != "" {
+		at, id, err := decodeCursor(f.Cursor)
+		if err != nil {
+			return nil, "", err
+		}
+		args = append(args, at, id)
+		q += fmt.Sprintf(" AND (s.created_at, s.id) < ($%d, $%d)", len(args)-1, len(args))
+	}
+	q += fmt.Sprintf(" ORDER BY s.created_at DESC, s.id DESC LIMIT %d", limit+1)
+	rows, err := db.Pool.Query(ctx, q, args...)
+	if err != nil {
+		return nil, "", dbError(err, "submissions")
+	}
+	defer rows.Close()
+	var out []*Submission
+	for rows.Next() {
+		s, err := scanSubmission(rows)
+		if err != nil {
+			return nil, "", dbError(err, "submissions")
+		}
+		out = append(out, s)
+	}
+	if err := rows.Err(); err != nil {
+		return nil, "", dbError(err, "submissions")
+	}
+	next := ""
+	if len(out) > limit {
+		out = out[:limit]
+		last := out[limit-1]
+		next = encodeCursor(last.CreatedAt, last.ID)
+	}
+	return out, next, nil
+}
+
+func encodeCursor(at time.Time, id string) string {
+	return base64.RawURLEncoding.EncodeToString([]byte(strconv.FormatInt(at.UnixMicro(), 10) + "/" + id))
+}
+
+func decodeCursor(c string) (time.Time, string, error) {
+	b, err := base64.RawURLEncoding.DecodeString(c)
+	at, id, ok := strings.Cut(string(b), "/")
+	micros, perr := strconv.ParseInt(at, 10, 64)
+	if err != nil || !ok || perr != nil || !uuidRE.MatchString(id) {
+		return time.Time{}, "", checks.Errorf(checks.EInvalid, "the cursor is not one this server gave out")
+	}
+	return time.UnixMicro(micros).UTC(), id, nil
+}
+
+// DeleteSubmission deletes a submission and its reports.
+func (db *DB) DeleteSubmission(ctx context.Context, id string, sc Scope) error {
+	if !uuidRE.MatchString(id) {
+		return checks.Errorf(checks.ENotFound, "submission not found")
+	}
+	tag, err := db.Pool.Exec(ctx, `DELETE FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`, sc.OfficeID, sc.Editor, sc.KeyID, id)
+	if err != nil {
+		return dbError(err, "submission")
+	}
+	if tag.RowsAffected() == 0 {
+		return checks.Errorf(checks.ENotFound, "submission not found")
+	}
+	return nil
+}
+
+// Rerun queues a finished submission again (after a pipeline upgrade); its
+// earlier reports are kept.
+func (db *DB) Rerun(ctx context.Context, id string, sc Scope) (*Submission, error) {
+	if _, err := db.Submission(ctx, id, sc); err != nil {
+		return nil, err
+	}
+	var sub *Submission
+	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
+		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'queued', error = '', updated_at = $2
+			WHERE id = $1 AND status IN ('done', 'failed')`, id, db.now())
+		if err != nil {
+			return err
+		}
+		if tag.RowsAffected() == 0 {
+			return checks.Errorf(checks.EConflict, "the submission is still queued or running")
+		}
+		if _, err := db.queue.InsertTx(ctx, tx, ScreenArgs{SubmissionID: id}, nil); err != nil {
+			return fmt.Errorf("queue: %w", err)
+		}
+		sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+` WHERE s.id = $1`, id))
+		return err
+	})
+	var ce *checks.Error
+	if errors.As(err, &ce) {
+		return nil, err
+	}
+	return sub, dbError(err, "submission")
+}
