@@ -1,0 +1,22 @@
+#!/usr/bin/env bash
+# Runs pathvet locally without Docker. With PATHVET_DATABASE_URL set, it
+# uses that database; without it, it starts a throwaway PostgreSQL from the
+# machine's own binaries on a free port under .pgdata/. Then it migrates,
+# creates a demo editor key (printed once) and serves on PATHVET_ADDR
+# (default 127.0.0.1:8080); flags are passed to pathvet serve. Ctrl-C
+# stops both.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+
+if [ -z "${PATHVET_DATABASE_URL:-}" ]; then
+  PATHVET_DATABASE_URL=$(bash deploy/throwaway-postgres.sh .pgdata)
+  export PATHVET_DATABASE_URL
+  trap 'bash deploy/throwaway-postgres.sh stop .pgdata' EXIT
+  echo "dev-server: throwaway PostgreSQL at $PATHVET_DATABASE_URL (data in .pgdata/)" >&2
+fi
+
+go build -o bin/pathvet ./cmd/pathvet
+bin/pathvet migrate up >/dev/null
+echo "dev-server: demo editor token (keep it; it is shown once):" >&2
+bin/pathvet keys create --office "Demo office" --role editor
+bin/pathvet serve "$@"
