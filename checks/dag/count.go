@@ -19,12 +19,12 @@ var ErrTooConstrained = errors.New("dag: background knowledge constrains too man
 
 // ClassSize returns the number of DAGs in the Markov equivalence class
 // whose CPDAG is c: the product over the chain components of c of the
-// number of acyclic moral orientations (AMOs) of each component (Andersson,
+// number of acyclic moral orientations of each component (Andersson,
 // Madigan & Perlman 1997; He, Jia & Yu 2015). Each component is counted by
 // the clique-picking recursion of Wienöbst, Bannach & Liśkiewicz (2023),
 // which takes polynomial time:
 //
-//	#AMO(G) = Σ_{cliques K of a clique tree of G} φ(K, FP(K)) · Π_{H ∈ C(G,K)} #AMO(H)
+//	#O(G) = Σ_{cliques K of a clique tree of G} φ(K, FP(K)) · Π_{H ∈ C(G,K)} #O(H)
 //
 // where C(G,K) are the undirected components left once K is put first
 // (every edge leaving K oriented away from it, then Meek's rules applied),
@@ -46,9 +46,9 @@ func ClassSize(c *PDAG) *big.Int {
 // and arrows out of exogenous variables). A required arc that c orients the
 // other way gives 0. Every required arc must join adjacent nodes of c.
 //
-// Members of a class are independent choices of an AMO per chain
+// Members of a class are independent choices of an orientation per chain
 // component, and each required arc lies in one component, so the count is
-// the product over components of the AMOs that respect the arcs inside
+// the product over components of the orientations that respect the arcs inside
 // them; these are counted by the same clique-picking recursion, keeping
 // only the orders of each clique that respect the constraints.
 func PlausibleSize(c *PDAG, required []Edge) (*big.Int, error) {
@@ -121,7 +121,7 @@ func setKey(vs []int) string {
 	return string(b)
 }
 
-// count returns the number of AMOs of the undirected component on vs (a
+// count returns the number of acyclic moral orientations of the undirected component on vs (a
 // sorted node set, connected by lines of c.g) that respect c.req.
 func (c *counter) count(vs []int) (*big.Int, error) {
 	if len(vs) == 1 {
@@ -145,7 +145,7 @@ func (c *counter) count(vs []int) (*big.Int, error) {
 	return sum, nil
 }
 
-// cliqueTerm is φ(K, FP(K)) · Π #AMO(H) for clique number i of the tree.
+// cliqueTerm is φ(K, FP(K)) · Π #O(H) for clique number i of the tree.
 func (c *counter) cliqueTerm(vs []int, l *PDAG, cliques [][]int, parent []int, i int, k []int) (*big.Int, error) {
 	var fp [][]int
 	for a := i; parent[a] >= 0; a = parent[a] {

@@ -10,7 +10,7 @@ import (
 // The order is fixed: chain components in order of their smallest node,
 // and within a component the source of the orientation in increasing node
 // order, then recursively the components that choice leaves (the
-// root-picking decomposition of He, Jia & Yu 2015: every AMO of a
+// root-picking decomposition of He, Jia & Yu 2015: every acyclic moral orientation of a
 // connected chordal graph has exactly one source). Branches that lead to
 // no member are cut by the exact count, so the work grows with the output.
 func Members(c *PDAG, required []Edge, max int) (members []*PDAG, truncated bool, err error) {
