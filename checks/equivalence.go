@@ -254,7 +254,10 @@ func equivalenceSummary(s *Study, eq *equivalenceResult, status string, unstable
 	case status == StatusWarn:
 		return fmt.Sprintf("The declared graph has %s equivalent graphs that fit equally well, which the paper does not discuss, though no claimed arrow depends on them.", eq.size)
 	}
-	return fmt.Sprintf("The declared graph has %s equivalent graphs; no claimed arrow changes direction among the %s plausible ones.", eq.size, countText(eq.plausible))
+	if eq.plausible != nil && eq.plausible.Cmp(big.NewInt(1)) == 0 {
+		return fmt.Sprintf("The declared graph has %s equivalent graphs, and the stated background knowledge rules out all but the declared one.", eq.size)
+	}
+	return fmt.Sprintf("The declared graph has %s equivalent graphs; no claim changes sign or significance among the %s plausible ones.", eq.size, countText(eq.plausible))
 }
 
 // graphReport fills the report's graph section: the CPDAG, both class

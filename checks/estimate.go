@@ -102,6 +102,16 @@ type parentsFunc func(v int) []int
 // the coefficient of from when to is regressed on from and adjust_for, as
 // is any claim when pa is nil (no graph declared).
 func (a *Analysis) estimateClaim(c Claim, pa parentsFunc) est {
+	m, err := a.moments()
+	if err != nil {
+		return est{err: err, scale: claimScale(c)}
+	}
+	return a.estimateWith(m, c, pa)
+}
+
+// estimateWith estimates claim c with parents pa from the moments m (the
+// study's own, or those of one way of handling missing data).
+func (a *Analysis) estimateWith(m *Moments, c Claim, pa parentsFunc) est {
 	s := a.Study
 	from, to := s.Index[c.From], s.Index[c.To]
 	switch {
@@ -111,19 +121,19 @@ func (a *Analysis) estimateClaim(c Claim, pa parentsFunc) est {
 		if !slices.Contains(parents, from) {
 			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
 		}
-		return a.regress(c, to, from, parents)
+		return a.regress(m, c, to, from, parents)
 	case c.Kind == KindTotal:
 		parents := pa(from)
 		if slices.Contains(parents, to) {
 			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
 		}
-		return a.regress(c, to, from, parents)
+		return a.regress(m, c, to, from, parents)
 	}
 	var adj []int
 	for _, v := range c.AdjustFor {
 		adj = append(adj, s.Index[v])
 	}
-	return a.regress(c, to, from, adj)
+	return a.regress(m, c, to, from, adj)
 }
 
 func claimScale(c Claim) string {
@@ -141,8 +151,8 @@ func claimLevel(c Claim) float64 {
 }
 
 // regress estimates the coefficient of focal for outcome y adjusted for
-// others, on the claim's scale, caching the result.
-func (a *Analysis) regress(c Claim, y, focal int, others []int) est {
+// others, on the claim's scale, from m, caching the result.
+func (a *Analysis) regress(m *Moments, c Claim, y, focal int, others []int) est {
 	var adj []int
 	for _, v := range others {
 		if v != focal && v != y && !slices.Contains(adj, v) {
@@ -151,11 +161,11 @@ func (a *Analysis) regress(c Claim, y, focal int, others []int) est {
 	}
 	slices.Sort(adj)
 	scale, level := claimScale(c), claimLevel(c)
-	key := fmt.Sprint(y, focal, adj, scale, level)
+	key := fmt.Sprint(m.Method, y, focal, adj, scale, level)
 	if e, ok := a.fits[key]; ok {
 		return e
 	}
-	e := a.fitRegression(y, focal, adj, scale, level)
+	e := a.fitRegression(m, y, focal, adj, scale, level)
 	e.adjusted = adj
 	if a.fits == nil {
 		a.fits = map[string]est{}
@@ -164,11 +174,7 @@ func (a *Analysis) regress(c Claim, y, focal int, others []int) est {
 	return e
 }
 
-func (a *Analysis) fitRegression(y, focal int, adj []int, scale string, level float64) est {
-	m, err := a.moments()
-	if err != nil {
-		return est{err: err, scale: scale}
-	}
+func (a *Analysis) fitRegression(m *Moments, y, focal int, adj []int, scale string, level float64) est {
 	x := append([]int{focal}, adj...)
 	binary := a.Study.Package.Variables[y].Scale == ScaleBinary
 	switch {
@@ -184,7 +190,7 @@ func (a *Analysis) fitRegression(y, focal int, adj []int, scale string, level fl
 		note = fmt.Sprintf("estimated as a standardized coefficient: the %s scale needs %s", scaleName(scale), needs(scale))
 	}
 	if binary {
-		note = strings.TrimPrefix(note+"; ", "; ") + "the binary outcome is treated as continuous (summary statistics allow no logistic regression)"
+		note = strings.TrimPrefix(note+"; ", "; ") + "the binary outcome is treated as continuous (moments without rows allow no logistic regression)"
 	}
 	return olsEstimate(m.Cor, nil, m.N, y, x, "standardized", level, note)
 }

@@ -24,6 +24,7 @@ func Pipeline() []Check {
 		graphFitCheck,
 		equivalenceCheck,
 		alternativesCheck,
+		missingDataCheck,
 	}
 }
 
@@ -53,6 +54,7 @@ type Analysis struct {
 	declared     []*est
 	plausible    []alternativeGraph
 	plausibleErr error
+	miss         *missingResult
 }
 
 // Run screens the study and returns its report. It stops with ctx's error

@@ -131,6 +131,9 @@ type ClaimReport struct {
 	AcrossEquivalents *AcrossEquivalents `json:"across_equivalents,omitempty"`
 	// UnderAlternatives has one entry per stated alternative.
 	UnderAlternatives []AlternativeEstimate `json:"under_alternatives,omitempty"`
+	// MissingData has the claim estimated by each way of handling missing
+	// values, keyed by method (raw rows with missing values).
+	MissingData map[string]*Estimate `json:"missing_data,omitempty"`
 }
 
 // AlternativeEstimate is a claim re-estimated under a stated alternative.

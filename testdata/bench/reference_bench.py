@@ -34,6 +34,11 @@ def write(out):
         parents, cor = simulated_model(p, rng)
         with open(f"{out}/model{p}.json", "w") as f:
             json.dump({"parents": parents, "cor": cor.tolist(), "n": 1000}, f)
+    for n_rows, p_vars in ((10_000, 10), (10_000, 30), (100_000, 10), (100_000, 30)):
+        f = rng.normal(size=(n_rows, 1))
+        data = 0.6 * f + 0.8 * rng.normal(size=(n_rows, p_vars))
+        data[rng.uniform(size=data.shape) < 0.1] = np.nan
+        np.savetxt(f"{out}/em_{n_rows}_{p_vars}.csv", data, delimiter=",", fmt="%.17g")
     n, k = 100_000, 30
     X = rng.normal(size=(n, k))
     y = X @ np.full(k, 0.1) + rng.normal(size=n)
@@ -79,6 +84,41 @@ def fit_dag(S, n, parents):
     return t, stats.chi2.sf(t, df), rmsea, ci, cfi, tli, srmr
 
 
+def em(data, tol=1e-8, max_iter=1000):
+    """The same EM as missing.EM: rows grouped by pattern, the E-step through
+    the precision matrix, convergence on the largest change relative to SDs."""
+    n, p = data.shape
+    miss = np.isnan(data)
+    keys, inverse = np.unique(miss, axis=0, return_inverse=True)
+    groups = [np.flatnonzero(inverse.ravel() == g) for g in range(len(keys))]
+    mean = np.nanmean(data, axis=0)
+    cov = np.diag(np.nanvar(data, axis=0))
+    filled = np.where(miss, 0.0, data)
+    for it in range(1, max_iter + 1):
+        prec = np.linalg.inv(cov)
+        t1 = np.zeros(p)
+        t2 = np.zeros((p, p))
+        for key, rows in zip(keys, groups):
+            x = filled[rows].copy()
+            m = np.flatnonzero(key)
+            if len(m):
+                o = np.flatnonzero(~key)
+                c = np.linalg.inv(prec[np.ix_(m, m)])
+                coef = -c @ prec[np.ix_(m, o)]
+                x[:, m] = mean[m] + (x[:, o] - mean[o]) @ coef.T
+                t2[np.ix_(m, m)] += len(rows) * c
+            t1 += x.sum(axis=0)
+            t2 += x.T @ x
+        m2 = t1 / n
+        c2 = t2 / n - np.outer(m2, m2)
+        sd = np.sqrt(np.diag(cov))
+        change = max(np.max(np.abs(m2 - mean) / sd), np.max(np.abs(c2 - cov) / np.outer(sd, sd)))
+        mean, cov = m2, c2
+        if change < tol:
+            break
+    return mean, cov, it
+
+
 def timeit(fn, min_seconds=1.0):
     reps, start = 0, time.perf_counter()
     while True:
@@ -103,6 +143,9 @@ def time_all(out):
         return r.params, r.bse, r.pvalues
 
     print(f"BenchmarkFromRows100kx30 {timeit(ols):.6g}")
+    for n_rows, p_vars in ((10_000, 10), (10_000, 30), (100_000, 10), (100_000, 30)):
+        data = np.loadtxt(f"{out}/em_{n_rows}_{p_vars}.csv", delimiter=",")
+        print(f"BenchmarkEM/n={n_rows}/p={p_vars} {timeit(lambda: em(data)):.6g}")
 
 
 if __name__ == "__main__":

@@ -1,0 +1,102 @@
+package missing
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strconv"
+	"testing"
+)
+
+// benchData reads the n × p data with 10% missing cells that
+// testdata/bench/compare.sh writes (so numpy runs EM on the same data),
+// or makes data of that shape: correlated normal columns, each cell
+// missing completely at random with probability .1.
+func benchData(tb testing.TB, n, p int) [][]float64 {
+	if dir := os.Getenv("PATHVET_BENCH_DIR"); dir != "" {
+		return readBenchCSV(tb, filepath.Join(dir, fmt.Sprintf("em_%d_%d.csv", n, p)), p)
+	}
+	r := rand.New(rand.NewPCG(uint64(n), uint64(p)))
+	cols := make([][]float64, p)
+	for j := range cols {
+		cols[j] = make([]float64, n)
+	}
+	for i := range n {
+		f := r.NormFloat64()
+		for j := range p {
+			cols[j][i] = 0.6*f + 0.8*r.NormFloat64()
+			if r.Float64() < 0.1 {
+				cols[j][i] = math.NaN()
+			}
+		}
+	}
+	return cols
+}
+
+func readBenchCSV(tb testing.TB, path string, p int) [][]float64 {
+	f, err := os.Open(path)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	defer f.Close()
+	r := csv.NewReader(f)
+	cols := make([][]float64, p)
+	for {
+		rec, err := r.Read()
+		if err == io.EOF {
+			return cols
+		}
+		if err != nil {
+			tb.Fatal(err)
+		}
+		for j, v := range rec {
+			x := math.NaN()
+			if v != "nan" {
+				x, _ = strconv.ParseFloat(v, 64)
+			}
+			cols[j] = append(cols[j], x)
+		}
+	}
+}
+
+var benchShapes = []struct{ n, p int }{{10_000, 10}, {10_000, 30}, {100_000, 10}, {100_000, 30}}
+
+func BenchmarkEM(b *testing.B) {
+	for _, s := range benchShapes {
+		cols := benchData(b, s.n, s.p)
+		b.Run(fmt.Sprintf("n=%d/p=%d", s.n, s.p), func(b *testing.B) {
+			b.ReportAllocs()
+			var iters int
+			for b.Loop() {
+				em, err := EM(cols, Options{Tolerance: 1e-8})
+				if err != nil {
+					b.Fatal(err)
+				}
+				iters = em.Iterations
+			}
+			b.ReportMetric(float64(iters), "iterations")
+		})
+	}
+}
+
+func BenchmarkMI(b *testing.B) {
+	for _, s := range benchShapes {
+		cols := benchData(b, s.n, s.p)
+		em, err := EM(cols, Options{Tolerance: 1e-8})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("n=%d/p=%d/m=20", s.n, s.p), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Impute(cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
