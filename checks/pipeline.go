@@ -16,8 +16,8 @@ type Check struct {
 }
 
 // Pipeline returns the checks in pipeline order (report-format.md, "Fixed
-// check ids"). Checks whose computations are not yet part of pathvet are
-// not listed, so that no check pretends to run.
+// check ids"). causal-language reads the E-values that
+// confounding-sensitivity computes, so it runs after it.
 func Pipeline() []Check {
 	return []Check{
 		graphDeclaredCheck,
@@ -25,6 +25,10 @@ func Pipeline() []Check {
 		equivalenceCheck,
 		alternativesCheck,
 		missingDataCheck,
+		effectReportingCheck,
+		confoundingCheck,
+		measurementCheck,
+		causalLanguageCheck,
 	}
 }
 

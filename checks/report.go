@@ -134,6 +134,15 @@ type ClaimReport struct {
 	// MissingData has the claim estimated by each way of handling missing
 	// values, keyed by method (raw rows with missing values).
 	MissingData map[string]*Estimate `json:"missing_data,omitempty"`
+	// Absence weighs a claim of no effect (asserts_absence).
+	Absence *AbsenceTest `json:"absence_test,omitempty"`
+	// OddsRatio: a binary outcome with raw rows.
+	OddsRatio *OddsRatioRange `json:"odds_ratio,omitempty"`
+	// EValue: a causal claim from a non-randomized design.
+	EValue *EValue `json:"e_value,omitempty"`
+	// Measurement: the claim re-estimated after correcting for
+	// measurement error.
+	Measurement *MeasurementResult `json:"measurement,omitempty"`
 }
 
 // AlternativeEstimate is a claim re-estimated under a stated alternative.

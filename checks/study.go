@@ -69,6 +69,9 @@ type Study struct {
 	Data       *Dataset
 	// SHA256 is the hash of the canonical package bytes, data included.
 	SHA256 string
+	// Source is the package document as sent, for the printed digits of
+	// its numbers.
+	Source []byte
 }
 
 // SmallestEffect returns the package's smallest effect of interest, or
@@ -102,7 +105,7 @@ func Load(doc []byte, opt LoadOptions) (*Study, error) {
 	if len(ps.list) > 0 {
 		return nil, ps.err()
 	}
-	s := &Study{Package: pkg, Index: indexVariables(pkg, &ps)}
+	s := &Study{Package: pkg, Index: indexVariables(pkg, &ps), Source: doc}
 	for _, v := range pkg.Variables {
 		s.Names = append(s.Names, v.Name)
 	}

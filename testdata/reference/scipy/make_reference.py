@@ -64,6 +64,12 @@ ref = {
     "t_two_sided_p": [{"t": t, "df": df, "p": 2 * stats.t.sf(abs(t), df)} for t, df in
                       [(2.1, 10), (-3.5, 25), (1.96, 1000), (0.4, 3), (6.2, 296)]],
     "t_quantile": [{"q": q, "df": df, "x": stats.t.ppf(q, df)} for q, df in [(0.975, 10), (0.975, 296), (0.95, 3)]],
+    # Power of the two-sided Fisher-z test of a correlation rho with n cases:
+    # P(|Z| > z_crit) with Z ~ N(atanh(rho) sqrt(n - 3), 1).
+    "power_fisher_z": [{"rho": r, "n": n, "alpha": a,
+                        "power": stats.norm.sf(stats.norm.ppf(1 - a / 2) - np.arctanh(r) * np.sqrt(n - 3))
+                                 + stats.norm.cdf(-stats.norm.ppf(1 - a / 2) - np.arctanh(r) * np.sqrt(n - 3))}
+                       for r, n, a in [(0.1, 300, 0.05), (0.2, 100, 0.05), (0.3, 84, 0.05), (0.1, 1000, 0.01)]],
     "z_two_sided_p": [{"z": z, "p": 2 * stats.norm.sf(abs(z))} for z in [4.125, 1.0, 2.5758293035489]],
 }
 with open("reference.json", "w") as f:

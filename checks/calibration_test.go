@@ -1,0 +1,139 @@
+package checks_test
+
+import (
+	"bytes"
+	"os"
+	"testing"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// The score's calibration, so that a later change cannot move the bands
+// silently: a clean randomized study with complete reporting scores at
+// least 85; the flawed demos and purpose-built flawed packages score below
+// 50; the coding-club demo, whose flaws do not change its conclusions, is
+// of moderate concern.
+func TestScore_Calibration(t *testing.T) {
+	for _, tc := range []struct {
+		path     string
+		min, max int
+	}{
+		{"../testdata/calibration/clean-randomized/package.json", 85, 100},
+		{"../testdata/calibration/bare-claims/package.json", 0, 49},
+		{"../testdata/demo/tutoring-anxiety/package.json", 0, 49},
+		{"../testdata/demo/sleep-attention/package.json", 0, 49},
+		{"../testdata/demo/coding-club/package.json", 50, 79},
+	} {
+		r := mustRun(t, MustLoad(t, tc.path))
+		if r.Score < tc.min || r.Score > tc.max {
+			t.Errorf("%s scores %d (%s), want %d–%d", tc.path, r.Score, r.Band, tc.min, tc.max)
+		}
+	}
+}
+
+// Every check id of the report format runs on every demo.
+func TestRun_EveryCheckOnEveryDemo(t *testing.T) {
+	ids := []string{"graph-declared", "graph-fit", "equivalence", "alternatives", "missing-data",
+		"effect-reporting", "confounding-sensitivity", "measurement", "causal-language"}
+	for _, path := range demoPackages(t) {
+		r := mustRun(t, MustLoad(t, path))
+		if len(r.Checks) != len(ids) {
+			t.Fatalf("%s: %d checks", path, len(r.Checks))
+		}
+		for i, c := range r.Checks {
+			if c.ID != ids[i] || c.RunError != "" {
+				t.Errorf("%s: check %d is %s (run error %q), want %s", path, i, c.ID, c.RunError, ids[i])
+			}
+			for _, f := range c.Findings {
+				if f.Message == "" || f.Severity == "" {
+					t.Errorf("%s %s: empty finding", path, c.ID)
+				}
+			}
+		}
+	}
+}
+
+// A package whose claims are complete and consistent gets no
+// effect-reporting finding above info; with a p-value that its estimate
+// and SE do not allow, that claim is flagged.
+func TestEffectReporting_Consistency(t *testing.T) {
+	path := "../testdata/calibration/clean-randomized/package.json"
+	c := checkOf(mustRun(t, MustLoad(t, path)), "effect-reporting")
+	for _, f := range c.Findings {
+		if f.Severity != checks.SeverityInfo {
+			t.Fatalf("clean package: %s finding %q", f.Severity, f.Message)
+		}
+	}
+	doc, _ := os.ReadFile(path)
+	doc = bytes.Replace(doc, []byte(`"std_error": 0.030,
+     "ci": [0.26, 0.38], "p_value": 0.001, "p_relation": "<"`), []byte(`"std_error": 0.030,
+     "ci": [0.26, 0.38], "p_value": 0.06`), 1)
+	s, err := checks.Load(doc, checks.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c = checkOf(mustRun(t, s), "effect-reporting")
+	flagged := false
+	for _, f := range c.Findings {
+		if f.Claim == "R2" && f.Severity == checks.StatusWarn {
+			flagged = true
+		}
+		if f.Claim == "R1" && f.Severity != checks.SeverityInfo {
+			t.Errorf("R1 flagged: %s", f.Message)
+		}
+	}
+	if !flagged {
+		t.Fatalf("inconsistent p not flagged: %+v", c.Findings)
+	}
+}
+
+// A claim of no effect: the sleep demo's headline is contradicted by the
+// data; the coding-club H3 is backed by an equivalence test.
+func TestEffectReporting_Absence(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/sleep-attention/package.json"))
+	if a := r.Claims[0].Absence; a == nil || a.Verdict != "effect_found" {
+		t.Fatalf("sleep demo S1: %+v", a)
+	}
+	r = mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
+	if a := r.Claims[2].Absence; a == nil || a.Verdict != "excludes_meaningful_effects" || a.Power == nil || *a.Power <= 0 || *a.Power >= 1 {
+		t.Fatalf("coding-club H3: %+v", a)
+	}
+}
+
+// E-values for the causal claims of a non-randomized design, none for a
+// randomized one.
+func TestConfounding_EValues(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
+	ev := r.Claims[0].EValue
+	// H1 reports β = .52, SE .045: RR = exp(0.91 × .52) = 1.6055, E = 2.590.
+	if ev == nil || *ev.Estimate < 2.589 || *ev.Estimate > 2.591 || ev.Source != "reported" {
+		t.Fatalf("H1 E-value %+v", ev)
+	}
+	if r.Claims[2].EValue != nil {
+		t.Fatal("an association got an E-value")
+	}
+	r = mustRun(t, MustLoad(t, "../testdata/calibration/clean-randomized/package.json"))
+	if c := checkOf(r, "confounding-sensitivity"); c.Status != checks.StatusNotApplicable {
+		t.Fatalf("randomized design: %s", c.Status)
+	}
+}
+
+// Spearman's correction re-estimates the claims; a corrected matrix that
+// is no longer positive definite is reported, not fitted.
+func TestMeasurement_Correction(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
+	m := r.Claims[1].Measurement
+	if m == nil || *m.Change <= 0 {
+		t.Fatalf("H2 measurement %+v", m)
+	}
+	doc, _ := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
+	doc = bytes.Replace(doc, []byte(`"reliability": 0.84`), []byte(`"reliability": 0.12`), 1)
+	s, err := checks.Load(doc, checks.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := checkOf(mustRun(t, s), "measurement")
+	if c.Status != checks.StatusWarn || !bytes.Contains([]byte(c.Findings[len(c.Findings)-1].Message), []byte("Corrected for attenuation")) {
+		t.Fatalf("%s %+v", c.Status, c.Findings)
+	}
+}

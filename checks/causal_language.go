@@ -1,0 +1,154 @@
+package checks
+
+import (
+	"context"
+	"fmt"
+	"regexp"
+	"strings"
+)
+
+// causalWords are the words that state causation in a claim's text (the
+// project's list; each matched as a whole word, in any case).
+var causalWords = []string{
+	"cause", "causes", "caused", "causing", "causal", "causally",
+	"effect of", "effects of", "affect", "affects", "affected", "affecting",
+	"impact", "impacts", "influence", "influences", "influenced",
+	"leads to", "lead to", "led to", "results in", "resulted in", "due to", "because",
+	"increase", "increases", "increased", "decrease", "decreases", "decreased",
+	"reduce", "reduces", "reduced", "raise", "raises", "raised", "lower", "lowers", "lowered",
+	"improve", "improves", "improved", "boost", "boosts", "drive", "drives", "driven",
+	"promote", "promotes", "prevent", "prevents", "produce", "produces", "why",
+}
+
+var causalRE = regexp.MustCompile(`(?i)\b(` + strings.Join(causalWords, "|") + `)\b`)
+
+// causal-language: do causal words in claims match the design, and is the
+// emulated trial described? (checks.md)
+var causalLanguageCheck = Check{
+	ID:    "causal-language",
+	Title: "Causal language and the target trial",
+	Run:   runCausalLanguage,
+}
+
+func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
+	s := a.Study
+	randomized := s.Package.Design == "randomized"
+	var fs []Finding
+	worded := 0
+	for _, c := range s.Package.Claims {
+		words := uniqueMatches(c.Text)
+		if len(words) == 0 {
+			continue
+		}
+		worded++
+		if randomized {
+			continue
+		}
+		fs = append(fs, a.wordingFinding(c, words))
+	}
+	causal := worded > 0 || hasCausalClaim(s.Package)
+	if !randomized && causal {
+		fs = append(fs, targetTrialFinding(s.Package.TargetTrial)...)
+	}
+	res := CheckResult{Findings: fs, Metrics: map[string]any{"claims_with_causal_wording": worded, "design": s.Package.Design}}
+	switch {
+	case randomized:
+		res.Status, res.Summary = StatusPass, "The design is randomized, so causal wording about the randomized comparison is supported by design."
+		if worded == 0 {
+			res.Status, res.Summary = StatusNotApplicable, "The design is randomized and no claim uses causal wording."
+		}
+	case !causal:
+		res.Status, res.Summary = StatusNotApplicable, "No claim is causal or worded causally."
+	default:
+		res.Status = statusOf(fs)
+		res.Summary = map[string]string{
+			StatusPass: "Causal wording is backed by a declared graph, a discussion of equivalent graphs, a sensitivity analysis and a described target trial.",
+			StatusWarn: "Causal wording from a non-randomized design is not fully backed by what the package supplies; see the findings.",
+			StatusFail: "A claim is worded causally without the support a non-randomized design needs; see the findings.",
+		}[res.Status]
+	}
+	return res, nil
+}
+
+func hasCausalClaim(p *Package) bool {
+	for _, c := range p.Claims {
+		if Causal(c.Kind) {
+			return true
+		}
+	}
+	return false
+}
+
+func uniqueMatches(text string) []string {
+	seen := map[string]bool{}
+	var out []string
+	for _, w := range causalRE.FindAllString(text, -1) {
+		w = strings.ToLower(w)
+		if !seen[w] {
+			seen[w] = true
+			out = append(out, w)
+		}
+	}
+	return out
+}
+
+// wordingFinding weighs a causally worded claim against what the package
+// supplies: a graph, equivalents discussed, an E-value of some strength.
+func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
+	quoted := `"` + strings.Join(words, `", "`) + `"`
+	if c.Kind == KindAssociation {
+		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+			"%s is declared an association but worded causally (%s); from a non-randomized design, say \"is associated with\" or declare it as a causal claim with its graph.",
+			c.ID, quoted)}
+	}
+	var lacks []string
+	if a.Study.Declared == nil {
+		lacks = append(lacks, "a declared graph")
+	} else if !a.Study.Package.Graph.EquivalentsDiscussed {
+		lacks = append(lacks, "a discussion of the equivalent graphs")
+	}
+	if ev := a.claimEValue(c); ev == nil {
+		lacks = append(lacks, "a sensitivity analysis")
+	}
+	if len(lacks) == 0 {
+		return Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs and E-values.", c.ID, quoted)}
+	}
+	sev := StatusWarn
+	if a.Study.Declared == nil {
+		sev = headlineSeverity(c)
+	}
+	return Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+		"%s is worded causally (%s) from a non-randomized design without %s.", c.ID, quoted, strings.Join(lacks, " or "))}
+}
+
+// claimEValue finds the E-value computed for a claim, if any.
+func (a *Analysis) claimEValue(c Claim) *EValue {
+	for i, cc := range a.Study.Package.Claims {
+		if cc.ID == c.ID {
+			return a.Claims[i].EValue
+		}
+	}
+	return nil
+}
+
+// targetTrialFinding lists the missing parts of the target trial
+// (Hernán & Robins 2016).
+func targetTrialFinding(t *TargetTrial) []Finding {
+	if t == nil {
+		return []Finding{{Severity: StatusWarn, Message: "No target trial is described: the randomized trial these causal claims emulate (population, intervention, comparator, outcome, follow-up; Hernán & Robins 2016) is left unsaid."}}
+	}
+	var missing []string
+	for _, part := range []struct{ name, v string }{
+		{"population", t.Population}, {"intervention", t.Intervention}, {"comparator", t.Comparator},
+		{"outcome", t.Outcome}, {"follow-up", t.FollowUp},
+	} {
+		if strings.TrimSpace(part.v) == "" {
+			missing = append(missing, part.name)
+		}
+	}
+	if len(missing) == 0 {
+		return []Finding{{Severity: SeverityInfo, Message: "The target trial is described in all five parts (Hernán & Robins 2016)."}}
+	}
+	return []Finding{{Severity: StatusWarn, Message: "The target trial lacks its " + strings.Join(missing, ", ") + " (Hernán & Robins 2016)."}}
+}

@@ -1,0 +1,297 @@
+package checks
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/pathvet/pathvet/checks/effects"
+)
+
+// effect-reporting: does every claim carry an effect size and interval
+// beside its p-value; are the reported numbers consistent; is "no effect"
+// backed by an interval that excludes meaningful effects? (checks.md)
+var effectReportingCheck = Check{
+	ID:    "effect-reporting",
+	Title: "Effect sizes, intervals and p-values",
+	Run:   runEffectReporting,
+}
+
+// AbsenceTest weighs a claim that there is no effect.
+type AbsenceTest struct {
+	Margin float64 `json:"margin"` // the smallest effect of interest
+	// TOSTP is the p-value of the two one-sided tests against ±Margin;
+	// Power the power the study had to detect an effect of Margin.
+	TOSTP   *float64 `json:"tost_p_value"`
+	Power   *float64 `json:"power"`
+	Verdict string   `json:"verdict"` // excludes_meaningful_effects, does_not_tell, effect_found
+	Source  string   `json:"source"`  // recomputed or reported
+}
+
+// OddsRatioRange is a binary outcome's odds ratio per unit and between the
+// 10th and 90th percentile of the predictor, which readers grasp.
+type OddsRatioRange struct {
+	PerUnit   *float64  `json:"per_unit"`
+	P10       float64   `json:"p10"`
+	P90       float64   `json:"p90"`
+	Range     *float64  `json:"p10_to_p90"`
+	RangeCI   []float64 `json:"p10_to_p90_ci"`
+	Predictor string    `json:"predictor"`
+}
+
+func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
+	prs := a.Study.printedClaims()
+	var fs []Finding
+	complete, inconsistent := 0, 0
+	for i, c := range a.Study.Package.Claims {
+		f, ok, bad := a.claimReporting(i, c, prs[i])
+		fs = append(fs, f...)
+		if ok {
+			complete++
+		}
+		if bad {
+			inconsistent++
+		}
+		if err := ctx.Err(); err != nil {
+			return CheckResult{}, err
+		}
+	}
+	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: map[string]any{
+		"claims": len(a.Study.Package.Claims), "claims_fully_reported": complete, "claims_inconsistent": inconsistent,
+		"smallest_effect_of_interest": a.Study.SmallestEffect(),
+	}}
+	res.Summary = map[string]string{
+		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the estimates, and no claim of \"no effect\" goes beyond what the data show.",
+		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data do not tell; see the findings.",
+		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" where the data do not tell; ask the authors for the estimate, its interval and the equivalence test.",
+	}[res.Status]
+	return res, nil
+}
+
+func headlineSeverity(c Claim) string {
+	if c.Headline {
+		return StatusFail
+	}
+	return StatusWarn
+}
+
+// claimReporting checks one claim: ok says it reports an effect size with
+// its uncertainty; bad that its p-value disagrees with its figures.
+func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok, bad bool) {
+	hasEst, hasUnc, hasP := c.Estimate != nil, c.StdError != nil || len(c.CI) == 2, c.PValue != nil
+	switch {
+	case !hasEst && hasP:
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect is.", c.ID, reportedP(c))})
+	case !hasEst && !hasP:
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval or p-value at all."})
+	case !hasUnc:
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s reports an estimate (%g) without an interval or standard error.", c.ID, *c.Estimate)})
+	}
+	ok = hasEst && hasUnc
+	decl := a.declaredEstimate(i)
+	if f := a.consistency(c, pr, decl); f != nil {
+		fs, bad = append(fs, *f), true
+	}
+	fs = append(fs, a.recomputedFinding(c, decl)...)
+	if c.AssertsAbsence {
+		fs = append(fs, a.absenceFinding(i, c, decl)...)
+	}
+	fs = append(fs, a.oddsRatioFinding(i, c, decl)...)
+	return fs, ok, bad
+}
+
+func reportedP(c Claim) string {
+	rel := c.PRelation
+	if rel == "" {
+		rel = "="
+	}
+	return fmt.Sprintf("p %s %g", rel, *c.PValue)
+}
+
+// consistency recomputes the p-value from the printed estimate and SE (or
+// interval) and flags a reported p that no rounding of those figures
+// allows, under the normal or the t distribution.
+func (a *Analysis) consistency(c Claim, pr printed, decl est) *Finding {
+	if c.PValue == nil || c.Estimate == nil {
+		return nil
+	}
+	lo, hi, ok := pRange(c, pr, decl)
+	if !ok {
+		return nil
+	}
+	p, hp := *c.PValue, halfUnit(pr.PValue)
+	consistent := false
+	switch c.PRelation {
+	case "<":
+		consistent = lo < p
+	case ">":
+		consistent = hi > p
+	default:
+		consistent = p+hp >= lo && p-hp <= hi
+	}
+	if consistent {
+		return nil
+	}
+	return &Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+		"%s reports %s, but its estimate and %s give p between %s and %s, allowing for the rounding of the printed figures.",
+		c.ID, reportedP(c), uncertaintyName(c), pNumber(lo), pNumber(hi)),
+		Details: map[string]any{"recomputed_p_min": num(lo), "recomputed_p_max": num(hi)}}
+}
+
+func uncertaintyName(c Claim) string {
+	if c.StdError != nil {
+		return "standard error"
+	}
+	return "interval"
+}
+
+func pNumber(p float64) string {
+	if p < 0.0001 {
+		return fmt.Sprintf("%.1e", p)
+	}
+	return fmt.Sprintf("%.4f", p)
+}
+
+// pRange is the range of two-sided p-values that the printed figures
+// allow: the estimate and SE each within half a unit of their last digit
+// (the SE recovered from the interval where none is given; odds ratios on
+// the log scale); the smallest under the normal, the largest under t with
+// the recomputed residual df where known.
+func pRange(c Claim, pr printed, decl est) (lo, hi float64, ok bool) {
+	b, hb := *c.Estimate, halfUnit(pr.Estimate)
+	var s, hs float64
+	logScale := c.EstimateScale == "odds_ratio"
+	if logScale {
+		if b <= 0 {
+			return 0, 0, false
+		}
+		b, hb = math.Log(b), hb/b
+	}
+	switch {
+	case c.StdError != nil && !logScale:
+		s, hs = *c.StdError, halfUnit(pr.StdError)
+	case len(c.CI) == 2 && len(pr.CI) == 2:
+		l, u := c.CI[0], c.CI[1]
+		hl, hu := halfUnit(pr.CI[0]), halfUnit(pr.CI[1])
+		if logScale {
+			if l <= 0 {
+				return 0, 0, false
+			}
+			l, u, hl, hu = math.Log(l), math.Log(u), hl/c.CI[0], hu/c.CI[1]
+		}
+		z := distuv.UnitNormal.Quantile(0.5 + claimLevel(c)/2)
+		s, hs = (u-l)/(2*z), (hl+hu)/(2*z)
+	default:
+		return 0, 0, false
+	}
+	if s <= 0 {
+		return 0, 0, false
+	}
+	zmin := math.Max(math.Abs(b)-hb, 0) / (s + hs)
+	zmax := (math.Abs(b) + hb) / math.Max(s-hs, s*1e-3)
+	lo, hi = effects.PFromZ(zmax, 1), effects.PFromZ(zmin, 1)
+	if df := float64(decl.n - len(decl.adjusted) - 2); decl.ok() && decl.n > 0 && df > 0 {
+		hi = math.Max(hi, effects.PFromT(zmin, 1, df))
+	}
+	return lo, hi, true
+}
+
+// recomputedFinding sets the reported estimate beside the recomputed one
+// and flags a reported estimate outside the recomputed interval.
+func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
+	if c.Estimate == nil || !decl.ok() || decl.method == MethodZero || decl.scale != claimScale(c) || math.IsNaN(decl.lo) {
+		return nil
+	}
+	if *c.Estimate >= decl.lo && *c.Estimate <= decl.hi {
+		return nil
+	}
+	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+		"%s reports %g, but the data give %.2f (%s, 95%% interval %.2f to %.2f) with the declared graph's adjustment set; ask how the reported figure was obtained.",
+		c.ID, *c.Estimate, decl.value, pText(decl.p), decl.lo, decl.hi)}}
+}
+
+// absenceFinding weighs a claim of no effect: the recomputed (or
+// reported) estimate against the smallest effect of interest by two
+// one-sided tests, and the power the study had.
+func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
+	delta := a.Study.SmallestEffect()
+	b, se, source := math.NaN(), math.NaN(), "recomputed"
+	switch {
+	case decl.ok() && decl.method != MethodZero && (decl.scale == "standardized" || decl.scale == "correlation") && !math.IsNaN(decl.lo):
+		b, se = decl.value, effects.SEFromCI(decl.lo, decl.hi, claimLevel(c))
+		if decl.scale == "correlation" {
+			b, se, delta = math.Atanh(b), 1/math.Sqrt(float64(decl.n-len(decl.adjusted)-3)), math.Atanh(delta)
+		}
+	case c.Estimate != nil && c.StdError != nil && claimScale(c) == "standardized":
+		b, se, source = *c.Estimate, *c.StdError, "reported"
+	default:
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s says there is no effect, but neither the data nor the reported figures give a standardized estimate with its uncertainty to test that against the smallest effect of interest (%g).", c.ID, delta)}}
+	}
+	t := &AbsenceTest{Margin: a.Study.SmallestEffect(), Source: source}
+	tp, pw := effects.TOST(b, se, delta), effects.Power(delta, se, a.Alpha)
+	t.TOSTP, t.Power = finite(tp), finite(pw)
+	a.Claims[i].Absence = t
+	sig := effects.PFromZ(b, se) < a.Alpha
+	switch {
+	case sig:
+		t.Verdict = "effect_found"
+		shown := b
+		if source == "recomputed" && decl.scale == "correlation" {
+			shown = math.Tanh(b)
+		}
+		return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+			"%s says there is no effect, but the %s estimate is %.2f (%s): the data show an effect.", c.ID, source, shown, pText(effects.PFromZ(b, se)))}}
+	case tp < a.Alpha:
+		t.Verdict = "excludes_meaningful_effects"
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			"%s says there is no effect, and the data exclude effects larger than %g (equivalence test %s).", c.ID, t.Margin, pText(tp))}}
+	}
+	t.Verdict = "does_not_tell"
+	return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+		"%s says there is no effect, but its interval includes effects of %g and more (equivalence test %s; the study had %.0f%% power to detect an effect of that size): the data do not tell.",
+		c.ID, t.Margin, pText(tp), 100*pw)}}
+}
+
+// oddsRatioFinding gives a binary outcome's odds ratio between the 10th
+// and 90th percentile of the predictor (raw rows, logistic estimate).
+func (a *Analysis) oddsRatioFinding(i int, c Claim, decl est) []Finding {
+	m, err := a.moments()
+	if err != nil || m.Rows == nil || decl.method != MethodLogit || !decl.ok() {
+		return nil
+	}
+	from := a.Study.Index[c.From]
+	col := mat.Col(nil, from, m.Rows)
+	sort.Float64s(col)
+	p10, p90 := stat.Quantile(0.1, stat.Empirical, col, nil), stat.Quantile(0.9, stat.Empirical, col, nil)
+	beta, lo, hi := decl.additive, decl.value, decl.value
+	if decl.scale == "odds_ratio" {
+		lo, hi = math.Log(decl.lo), math.Log(decl.hi)
+	} else {
+		lo, hi = decl.lo, decl.hi
+	}
+	span := p90 - p10
+	r := &OddsRatioRange{PerUnit: finite(math.Exp(beta)), P10: round(p10), P90: round(p90), Predictor: c.From,
+		Range: finite(math.Exp(beta * span))}
+	if l, h := finite(math.Exp(lo*span)), finite(math.Exp(hi*span)); l != nil && h != nil && span > 0 {
+		r.RangeCI = []float64{*l, *h}
+	}
+	a.Claims[i].OddsRatio = r
+	if span == 0 || r.Range == nil {
+		return nil
+	}
+	ci := ""
+	if r.RangeCI != nil {
+		ci = fmt.Sprintf(" (95%% interval %.2f to %.2f)", r.RangeCI[0], r.RangeCI[1])
+	}
+	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+		"For %s: from the 10th to the 90th percentile of %s (%g to %g), the odds of %s change by a factor of %.2f%s.",
+		c.ID, c.From, r.P10, r.P90, c.To, *r.Range, ci)}}
+}

@@ -1,0 +1,155 @@
+package checks
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
+
+	"github.com/pathvet/pathvet/checks/effects"
+)
+
+// lowReliability: reliabilities below it are noted. A rule of thumb in the
+// field (common practice, no single source).
+const lowReliability = 0.70
+
+// measurement: are reliabilities reported, and how much would measurement
+// error move the claims? (checks.md)
+var measurementCheck = Check{
+	ID:    "measurement",
+	Title: "Measurement error",
+	Run:   runMeasurement,
+}
+
+// MeasurementResult is a claim re-estimated on the correlation matrix
+// corrected for attenuation.
+type MeasurementResult struct {
+	Corrected *Estimate `json:"corrected"`
+	Change    *float64  `json:"change"` // corrected − declared estimate
+	Changed   bool      `json:"changed"`
+}
+
+func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
+	s := a.Study
+	used := claimVariables(s)
+	var missingRel, low []string
+	rel := make([]float64, len(s.Names))
+	for i, v := range s.Package.Variables {
+		rel[i] = 1
+		switch {
+		case v.Scale == ScaleBinary:
+		case v.Reliability == nil && used[i]:
+			missingRel = append(missingRel, v.Name)
+		case v.Reliability != nil:
+			rel[i] = *v.Reliability
+			if *v.Reliability < lowReliability && used[i] {
+				low = append(low, fmt.Sprintf("%s (%.2f)", v.Name, *v.Reliability))
+			}
+		}
+	}
+	var fs []Finding
+	if len(missingRel) > 0 {
+		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
+			"No reliability is reported for %s; how much measurement error weakens the claims that use %s cannot be judged, and %s left uncorrected below.",
+			strings.Join(missingRel, ", "), them(len(missingRel)), map[bool]string{true: "it is", false: "they are"}[len(missingRel) == 1])})
+	}
+	if len(low) > 0 {
+		fs = append(fs, Finding{Severity: SeverityInfo, Message: "Reliability below .70 (a rule of thumb in the field, no single source): " + strings.Join(low, ", ") + "."})
+	}
+	m, err := a.moments()
+	if err != nil {
+		return CheckResult{Status: StatusNotApplicable, Summary: "The correction for measurement error needs the data's correlations: " + err.Error() + "."}, nil
+	}
+	corrected, problem := correctedMoments(m, rel)
+	metrics := map[string]any{"variables_without_reliability": len(missingRel), "variables_low_reliability": len(low)}
+	if problem != "" {
+		fs = append(fs, Finding{Severity: StatusWarn, Message: "Corrected for attenuation (Spearman 1904), the correlation matrix " + problem + ", so the claims are not re-estimated on it; the reliabilities and the correlations cannot all be right."})
+	} else {
+		fs = append(fs, a.correctedClaims(corrected)...)
+	}
+	if err := ctx.Err(); err != nil {
+		return CheckResult{}, err
+	}
+	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: metrics}
+	res.Summary = map[string]string{
+		StatusPass: "Reliabilities are reported for the claims' variables, and correcting for measurement error changes no claim's sign or significance.",
+		StatusWarn: "Measurement error needs attention: reliabilities are missing, or correcting for them changes some claims; see the findings.",
+		StatusFail: "Correcting for measurement error changes the sign or significance of a headline claim.",
+	}[res.Status]
+	return res, nil
+}
+
+// claimVariables marks the variables that some claim names.
+func claimVariables(s *Study) []bool {
+	used := make([]bool, len(s.Names))
+	for _, c := range s.Package.Claims {
+		for _, v := range append([]string{c.From, c.To}, c.AdjustFor...) {
+			used[s.Index[v]] = true
+		}
+	}
+	return used
+}
+
+// correctedMoments applies Spearman's correction to the correlations;
+// problem says why the result is not usable.
+func correctedMoments(m *Moments, rel []float64) (*Moments, string) {
+	cor, err := effects.CorrectAttenuation(m.Cor, rel)
+	if err != nil {
+		return nil, err.Error()
+	}
+	p := cor.SymmetricDim()
+	for i := range p {
+		for j := range i {
+			if math.Abs(cor.At(i, j)) >= 1 {
+				return nil, fmt.Sprintf("has an entry of %.3f, beyond ±1", cor.At(i, j))
+			}
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(cor, false) {
+		return nil, "has eigenvalues that cannot be computed"
+	}
+	if low := eig.Values(nil)[0]; low <= minEigen {
+		return nil, fmt.Sprintf("is not positive definite (smallest eigenvalue %.4g)", low)
+	}
+	return &Moments{N: m.N, Cor: cor, SD: m.SD, Method: "corrected_for_attenuation"}, ""
+}
+
+// correctedClaims re-estimates every claim on the corrected matrix, on
+// the standardized scale, and reports the change.
+func (a *Analysis) correctedClaims(cm *Moments) []Finding {
+	var fs []Finding
+	for i, c := range a.Study.Package.Claims {
+		if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary {
+			continue // no attenuation correction for a binary outcome's logistic model
+		}
+		std := c
+		if std.EstimateScale != "correlation" {
+			std.EstimateScale = "standardized"
+		}
+		decl := a.estimateWith(a.mustMoments(), std, a.declaredParentsFor(c))
+		corr := a.estimateWith(cm, std, a.declaredParentsFor(c))
+		if !decl.ok() || !corr.ok() || corr.method == MethodZero {
+			continue
+		}
+		r := &MeasurementResult{Corrected: a.report(corr), Change: finite(corr.value - decl.value)}
+		r.Changed = corr.category(a.Alpha) != decl.category(a.Alpha)
+		a.Claims[i].Measurement = r
+		if r.Changed {
+			fs = append(fs, Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+				"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: measurement error alone could carry the conclusion.",
+				c.ID, valueText(decl), valueText(corr))})
+		} else if math.Abs(corr.value-decl.value) >= 0.05 {
+			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+				"%s moves from %.2f to %.2f (standardized) when corrected for measurement error; its sign and significance stay.", c.ID, decl.value, corr.value)})
+		}
+	}
+	return fs
+}
+
+func (a *Analysis) mustMoments() *Moments {
+	m, _ := a.moments()
+	return m
+}
