@@ -187,7 +187,7 @@ func TestServer_EndToEnd(t *testing.T) {
 		if json.Unmarshal(b, &v); code != http.StatusAccepted {
 			t.Fatalf("multipart: %d %s", code, b)
 		}
-		if _, done := editor.submission(v.Links.Self + "?wait=20s"); done.Status != store.StatusDone || *done.Band != checks.BandLow {
+		if _, done := editor.submission(v.Links.Self + "?wait=20s"); done.Status != store.StatusDone || *done.Band != checks.BandModerate {
 			t.Fatalf("multipart screening: %+v", done)
 		}
 	})
