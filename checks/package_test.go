@@ -189,17 +189,19 @@ func TestLoad_AllProblemsAtOnce(t *testing.T) {
 	}
 }
 
-func compileSchema(tb testing.TB) *jsonschema.Schema {
+func compileSchema(tb testing.TB) *jsonschema.Schema { return compile(tb, schema.Package, "package-v1.schema.json") }
+
+func compile(tb testing.TB, src []byte, name string) *jsonschema.Schema {
 	tb.Helper()
-	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(schema.Package))
+	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(src))
 	if err != nil {
 		tb.Fatal(err)
 	}
 	c := jsonschema.NewCompiler()
-	if err := c.AddResource("package-v1.schema.json", doc); err != nil {
+	if err := c.AddResource(name, doc); err != nil {
 		tb.Fatal(err)
 	}
-	sch, err := c.Compile("package-v1.schema.json")
+	sch, err := c.Compile(name)
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -236,5 +238,27 @@ func TestPackageSchema(t *testing.T) {
 		if got := !schemaAccepts(t, sch, "../testdata/bad/"+tc.File); got != *tc.SchemaRejects {
 			t.Errorf("%s: schema rejects = %v, want %v", tc.File, got, *tc.SchemaRejects)
 		}
+	}
+}
+
+// The shipped report schema accepts every golden report and every report
+// of the calibration packages.
+func TestReportSchema(t *testing.T) {
+	sch := compile(t, schema.Report, "report-v1.schema.json")
+	paths, _ := filepath.Glob("../testdata/calibration/*/package.json")
+	for _, path := range append(demoPackages(t), paths...) {
+		b := encode(t, mustRun(t, MustLoad(t, path)))
+		v, err := jsonschema.UnmarshalJSON(bytes.NewReader(b))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := sch.Validate(v); err != nil {
+			t.Errorf("%s: %v", path, err)
+		}
+	}
+	bad := bytes.Replace(encode(t, mustRun(t, MustLoad(t, demoPackages(t)[0]))), []byte(`"band": "`), []byte(`"band": "no-`), 1)
+	v, _ := jsonschema.UnmarshalJSON(bytes.NewReader(bad))
+	if sch.Validate(v) == nil {
+		t.Error("the report schema accepts an unknown band")
 	}
 }
