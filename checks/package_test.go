@@ -189,7 +189,9 @@ func TestLoad_AllProblemsAtOnce(t *testing.T) {
 	}
 }
 
-func compileSchema(tb testing.TB) *jsonschema.Schema { return compile(tb, schema.Package, "package-v1.schema.json") }
+func compileSchema(tb testing.TB) *jsonschema.Schema {
+	return compile(tb, schema.Package, "package-v1.schema.json")
+}
 
 func compile(tb testing.TB, src []byte, name string) *jsonschema.Schema {
 	tb.Helper()
