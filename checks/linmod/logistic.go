@@ -49,13 +49,7 @@ func Logistic(x *mat.Dense, y []float64, level float64) (*LogitFit, error) {
 	if n <= k+1 {
 		return nil, ErrTooFewCases
 	}
-	d := mat.NewDense(n, k+1, nil)
-	for i := range n {
-		d.Set(i, 0, 1)
-		for j := range k {
-			d.Set(i, j+1, x.At(i, j))
-		}
-	}
+	d := withIntercept(x)
 	beta, info, iter, err := irls(d, y)
 	if err != nil {
 		return nil, err

@@ -165,13 +165,7 @@ func FromRows(x *mat.Dense, y []float64, level float64) (*Fit, error) {
 	if df < 1 {
 		return nil, ErrTooFewCases
 	}
-	d := mat.NewDense(n, k+1, nil)
-	for i := range n {
-		d.Set(i, 0, 1)
-		for j := range k {
-			d.Set(i, j+1, x.At(i, j))
-		}
-	}
+	d := withIntercept(x)
 	var qr mat.QR
 	qr.Factorize(d)
 	if c := qr.Cond(); c > MaxCondition*1e2 || math.IsNaN(c) {
@@ -215,4 +209,15 @@ func FromRows(x *mat.Dense, y []float64, level float64) (*Fit, error) {
 		fit.Coefs[j] = tCoef(beta.AtVec(j+1), math.Sqrt(sigma2*covb.At(j+1, j+1)), df, level)
 	}
 	return fit, nil
+}
+
+// withIntercept returns the design [1 x]: a column of ones, then x.
+func withIntercept(x *mat.Dense) *mat.Dense {
+	n, k := x.Dims()
+	d := mat.NewDense(n, k+1, nil)
+	for i := range n {
+		d.Set(i, 0, 1)
+	}
+	d.Slice(0, n, 1, k+1).(*mat.Dense).Copy(x)
+	return d
 }

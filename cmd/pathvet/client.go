@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
+	"flag"
 	"fmt"
 	"io"
 	"mime/multipart"
@@ -140,21 +141,13 @@ func packageBody(path string) (contentType string, body []byte, err error) {
 // runSubmit is `pathvet submit --server URL PACKAGE.json [--wait]`.
 func runSubmit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := newFlagSet("submit", stderr, "Usage: pathvet submit --server URL [--wait] [--idempotency-key K] PACKAGE.json\n\nThe token comes from PATHVET_TOKEN.")
-	server := fs.String("server", "http://127.0.0.1:8080", "the pathvet server")
+	server := serverFlag(fs)
 	wait := fs.Bool("wait", false, "wait for the report and print it")
 	idem := fs.String("idempotency-key", "", "send this Idempotency-Key, so that a retry cannot submit twice")
 	format := fs.String("format", "text", "with --wait: the report as text or json")
-	pos, err := parseInterspersed(fs, args)
-	if err != nil || len(pos) != 1 {
-		if err == nil {
-			fs.Usage()
-		}
-		return exitInvalid
-	}
-	c, err := newClient(*server, getenv("PATHVET_TOKEN"))
-	if err != nil {
-		fmt.Fprintln(stderr, "pathvet submit:", err)
-		return exitInvalid
+	c, pos, code := clientArgs(fs, args, server, stderr)
+	if c == nil {
+		return code
 	}
 	ct, body, err := packageBody(pos[0])
 	if err != nil {
@@ -218,19 +211,34 @@ func printReport(ctx context.Context, c *client, id, format string, stdout, stde
 // runReport is `pathvet report --server URL ID [--format json|text]`.
 func runReport(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := newFlagSet("report", stderr, "Usage: pathvet report --server URL [--format text|json] ID\n\nThe token comes from PATHVET_TOKEN.")
-	server := fs.String("server", "http://127.0.0.1:8080", "the pathvet server")
+	server := serverFlag(fs)
 	format := fs.String("format", "text", "text or json")
+	c, pos, code := clientArgs(fs, args, server, stderr)
+	if c == nil {
+		return code
+	}
+	return printReport(ctx, c, pos[0], *format, stdout, stderr)
+}
+
+func serverFlag(fs *flag.FlagSet) *string {
+	return fs.String("server", "http://127.0.0.1:8080", "the pathvet server")
+}
+
+// clientArgs parses a client command's flags and its one positional
+// argument and makes the client; on failure c is nil and code the exit
+// status.
+func clientArgs(fs *flag.FlagSet, args []string, server *string, stderr io.Writer) (c *client, pos []string, code int) {
 	pos, err := parseInterspersed(fs, args)
 	if err != nil || len(pos) != 1 {
 		if err == nil {
 			fs.Usage()
 		}
-		return exitInvalid
+		return nil, nil, exitInvalid
 	}
-	c, err := newClient(*server, getenv("PATHVET_TOKEN"))
+	c, err = newClient(*server, getenv("PATHVET_TOKEN"))
 	if err != nil {
-		fmt.Fprintln(stderr, "pathvet report:", err)
-		return exitInvalid
+		fmt.Fprintf(stderr, "pathvet %s: %v\n", fs.Name(), err)
+		return nil, nil, exitInvalid
 	}
-	return printReport(ctx, c, pos[0], *format, stdout, stderr)
+	return c, pos, 0
 }
