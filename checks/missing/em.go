@@ -122,8 +122,11 @@ type condition struct {
 func conditional(prec *mat.SymDense, pat Pattern) (*condition, error) {
 	obs, mis := pat.ObservedIndex()
 	c := &condition{obs: obs, mis: mis}
-	if len(mis) == 0 {
+	switch len(mis) {
+	case 0:
 		return c, nil
+	case 1: // the common case: a scalar P_MM
+		return c.scalar(prec)
 	}
 	pmm := mat.NewSymDense(len(mis), nil)
 	for a, i := range mis {
@@ -151,6 +154,25 @@ func conditional(prec *mat.SymDense, pat Pattern) (*condition, error) {
 	c.coef = mat.NewDense(len(mis), len(obs), nil)
 	c.coef.Mul(c.cov, pmo)
 	c.coef.Scale(-1, c.coef)
+	return c, nil
+}
+
+// scalar fills the condition of a pattern with one missing variable m:
+// variance 1/P_mm and coefficients −P_mO/P_mm.
+func (c *condition) scalar(prec *mat.SymDense) (*condition, error) {
+	m := c.mis[0]
+	pmm := prec.At(m, m)
+	if !(pmm > 0) {
+		return nil, errors.New("the covariance estimate is not positive definite")
+	}
+	c.cov = mat.NewSymDense(1, []float64{1 / pmm})
+	if len(c.obs) == 0 {
+		return c, nil
+	}
+	c.coef = mat.NewDense(1, len(c.obs), nil)
+	for b, j := range c.obs {
+		c.coef.Set(0, b, -prec.At(m, j)/pmm)
+	}
 	return c, nil
 }
 

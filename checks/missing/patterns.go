@@ -10,19 +10,11 @@ import (
 type Pattern struct {
 	Observed []bool
 	Rows     []int
+	obs, mis []int
 }
 
 // ObservedIndex returns the observed and the missing variables of p.
-func (p Pattern) ObservedIndex() (obs, mis []int) {
-	for j, o := range p.Observed {
-		if o {
-			obs = append(obs, j)
-		} else {
-			mis = append(mis, j)
-		}
-	}
-	return obs, mis
-}
+func (p Pattern) ObservedIndex() (obs, mis []int) { return p.obs, p.mis }
 
 // Patterns groups the rows of cols by missingness pattern, the complete
 // pattern first, then by first row.
@@ -40,13 +32,18 @@ func Patterns(cols [][]float64) []Pattern {
 		}
 		k, ok := index[string(key)]
 		if !ok {
-			obs := make([]bool, len(cols))
+			pat := Pattern{Observed: make([]bool, len(cols))}
 			for j := range cols {
-				obs[j] = key[j] == '1'
+				pat.Observed[j] = key[j] == '1'
+				if pat.Observed[j] {
+					pat.obs = append(pat.obs, j)
+				} else {
+					pat.mis = append(pat.mis, j)
+				}
 			}
 			k = len(out)
 			index[string(key)] = k
-			out = append(out, Pattern{Observed: obs})
+			out = append(out, pat)
 		}
 		out[k].Rows = append(out[k].Rows, i)
 	}
