@@ -250,23 +250,28 @@ func (s *Server) rerunSubmission(c echo.Context) error {
 }
 
 // getReport serves the newest report: JSON by default, the text view with
-// ?format=text.
+// ?format=text, the HTML view with ?format=html.
 func (s *Server) getReport(c echo.Context) error {
 	b, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
 	if err != nil {
 		return err
 	}
-	switch c.QueryParam("format") {
-	case "", "json":
+	format := c.QueryParam("format")
+	if format == "" || format == "json" {
 		return c.JSONBlob(http.StatusOK, b)
-	case "text":
-		var rep checks.Report
-		if err := json.Unmarshal(b, &rep); err != nil {
-			return err
-		}
-		c.Response().Header().Set(echo.HeaderContentType, echo.MIMETextPlainCharsetUTF8)
-		c.Response().WriteHeader(http.StatusOK)
-		return checks.WriteText(c.Response(), &rep)
 	}
-	return problemError(http.StatusBadRequest, "format must be json or text.")
+	write, ok := map[string]struct {
+		ctype string
+		fn    func(io.Writer, *checks.Report) error
+	}{"text": {echo.MIMETextPlainCharsetUTF8, checks.WriteText}, "html": {echo.MIMETextHTMLCharsetUTF8, writeHTML}}[format]
+	if !ok {
+		return problemError(http.StatusBadRequest, "format must be json, text or html.")
+	}
+	var rep checks.Report
+	if err := json.Unmarshal(b, &rep); err != nil {
+		return err
+	}
+	c.Response().Header().Set(echo.HeaderContentType, write.ctype)
+	c.Response().WriteHeader(http.StatusOK)
+	return write.fn(c.Response(), &rep)
 }

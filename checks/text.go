@@ -21,7 +21,7 @@ func WriteText(w io.Writer, r *Report) error {
 	}
 	fmt.Fprintf(&b, "Design: %s. Significance level %g. pathvet %s.\n", r.Design, r.SignificanceLevel, r.ToolVersion)
 	wrap(&b, "", r.Caution)
-	for _, c := range byConcern(r.Checks) {
+	for _, c := range ByConcern(r.Checks) {
 		b.WriteString("\n")
 		head := fmt.Sprintf("%-4s  %s (%s)", statusLabel(c.Status), c.Title, c.ID)
 		if c.Deduction > 0 {
@@ -32,7 +32,7 @@ func WriteText(w io.Writer, r *Report) error {
 		if c.RunError != "" {
 			wrap(&b, "      ", "Reason: "+c.RunError)
 		}
-		for _, f := range byConcernFindings(c.Findings) {
+		for _, f := range c.Findings {
 			wrapHanging(&b, "      ", fmt.Sprintf("- %s: ", statusLabel(f.Severity)), f.Message)
 		}
 	}
@@ -49,9 +49,15 @@ func statusLabel(s string) string {
 	return strings.ToUpper(s)
 }
 
-func byConcern(cs []CheckResult) []CheckResult {
+// ByConcern returns the checks worst first (fail, warn, pass, not
+// applicable), keeping pipeline order among equals, each with its
+// findings worst first.
+func ByConcern(cs []CheckResult) []CheckResult {
 	out := append([]CheckResult(nil), cs...)
 	sort.SliceStable(out, func(i, j int) bool { return rank(out[i].Status) > rank(out[j].Status) })
+	for i := range out {
+		out[i].Findings = byConcernFindings(out[i].Findings)
+	}
 	return out
 }
 
