@@ -243,7 +243,7 @@ func (a *Analysis) missingMetrics(r *missingResult) map[string]any {
 	m := map[string]any{
 		"rows": s.Rows, "rows_complete": s.CompleteRows, "patterns": s.Patterns,
 		"missing_cells": s.MissingCells, "share_missing_cells": num(float64(s.MissingCells) / float64(max(cells, 1))),
-		"missing_by_variable": a.byName(s.MissingByVariable), "mcar_chi_square": nil, "mcar_df": nil, "mcar_p_value": nil,
+		"missing_by_variable": a.byName(s.MissingByVariable), "rows_by_missing_count": s.RowsByMissing, "mcar_chi_square": nil, "mcar_df": nil, "mcar_p_value": nil,
 		"imputations": 0,
 	}
 	if r.mcar != nil {

@@ -3,6 +3,9 @@ package checks_test
 import (
 	"bytes"
 	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
 	"os"
 	"slices"
 	"strings"
@@ -68,5 +71,66 @@ func TestMissingData_CompletedRowsUploaded(t *testing.T) {
 	}
 	if c := checkOf(r, "missing-data"); c.Status != checks.StatusWarn || !strings.Contains(c.Findings[0].Message, "completed data") {
 		t.Fatalf("%s %+v", c.Status, c.Findings)
+	}
+}
+
+// rowsPackage is a package over x (continuous), y and z, with the given
+// CSV rows inline and the given claims and missing-data method.
+func rowsPackage(t *testing.T, csv, yScale, claims, method string) *checks.Report {
+	t.Helper()
+	doc := `{"format_version": 1, "title": "t", "design": "observational",
+		"variables": [{"name": "x", "scale": "continuous"}, {"name": "y", "scale": "` + yScale + `"}, {"name": "z", "scale": "continuous"}],
+		"claims": [` + claims + `], "missing_data": {"method": "` + method + `"},
+		"data": {"kind": "rows", "csv": "` + strings.ReplaceAll(csv, "\n", `\n`) + `"}}`
+	s, err := checks.Load([]byte(doc), checks.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return mustRun(t, s)
+}
+
+// Pairwise deletion whose correlation matrix is not positive definite:
+// x and y agree where both are seen, y and z agree, x and z disagree.
+func TestMissingData_PairwiseNotPositiveDefinite(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("x,y,z\n")
+	for i := range 10 {
+		v := float64(i)
+		fmt.Fprintf(&b, "%g,%g,\n%g,,%g\n,%g,%g\n", v, v+0.1*float64(i%3), v, -v+0.1*float64(i%2), v, v+0.1*float64(i%4))
+	}
+	r := rowsPackage(t, b.String(), "continuous", `{"id": "A1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "adjust_for": ["z"]}`, "available_cases")
+	c := checkOf(r, "missing-data")
+	if c.Metrics["available_cases_error"] == nil || !strings.Contains(fmt.Sprint(c.Findings), "not positive definite") {
+		t.Fatalf("%+v", c.Findings)
+	}
+}
+
+// A binary outcome with raw rows: a logistic regression, and the odds
+// ratio between the 10th and 90th percentile of the predictor equals
+// exp(β (x90 − x10)).
+func TestEffectReporting_OddsRatioRange(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 3))
+	var b strings.Builder
+	b.WriteString("x,y,z\n")
+	for range 400 {
+		x := r.NormFloat64()
+		y := 0
+		if r.Float64() < 1/(1+math.Exp(-(0.8*x-0.2))) {
+			y = 1
+		}
+		fmt.Fprintf(&b, "%.4f,%d,%.4f\n", x, y, r.NormFloat64())
+	}
+	rep := rowsPackage(t, b.String(), "binary", `{"id": "L1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "estimate_scale": "odds_ratio", "estimate": 2.2, "ci": [1.7, 2.8], "p_value": 0.001, "p_relation": "<"}`, "none")
+	cl := rep.Claims[0]
+	if cl.Declared.Method != "logistic" || cl.OddsRatio == nil {
+		t.Fatalf("declared %+v, odds ratio %+v", cl.Declared, cl.OddsRatio)
+	}
+	beta := math.Log(*cl.OddsRatio.PerUnit)
+	want := math.Exp(beta * (cl.OddsRatio.P90 - cl.OddsRatio.P10))
+	if math.Abs(*cl.OddsRatio.Range-want) > 1e-6*want || *cl.OddsRatio.Range < 3 {
+		t.Fatalf("range odds ratio %v, want %v", *cl.OddsRatio.Range, want)
+	}
+	if math.Abs(*cl.Declared.Estimate-*cl.OddsRatio.PerUnit) > 1e-9 {
+		t.Fatalf("per-unit odds ratio %v vs declared %v", *cl.OddsRatio.PerUnit, *cl.Declared.Estimate)
 	}
 }

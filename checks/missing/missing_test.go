@@ -157,7 +157,8 @@ func TestLittleMCAR_Airquality(t *testing.T) {
 	if !scalar.EqualWithinAbs(lt.ChiSquare, 35.106, 5e-4) || lt.DF != 14 || !scalar.EqualWithinAbs(lt.P, .00142, 5e-6) {
 		t.Fatalf("d² = %.4f on %d df, p = %.5f", lt.ChiSquare, lt.DF, lt.P)
 	}
-	if s := Summarize(aq); s.Patterns != 4 || s.Rows != 153 || s.CompleteRows != 111 || s.MissingCells != 44 {
+	if s := Summarize(aq); s.Patterns != 4 || s.Rows != 153 || s.CompleteRows != 111 || s.MissingCells != 44 ||
+		s.RowsByMissing[0] != 111 || s.RowsByMissing[1] != 40 || s.RowsByMissing[2] != 2 {
 		t.Fatalf("summary %+v", s)
 	}
 }

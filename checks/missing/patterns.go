@@ -72,18 +72,21 @@ type Summary struct {
 	Rows, CompleteRows int
 	MissingCells       int
 	MissingByVariable  []int
-	Patterns           int
+	// RowsByMissing[k] counts the rows with k missing values.
+	RowsByMissing []int
+	Patterns      int
 }
 
 // Summarize counts missing cells per variable, complete rows and patterns.
 func Summarize(cols [][]float64) Summary {
-	s := Summary{Rows: rows(cols), MissingByVariable: make([]int, len(cols))}
+	s := Summary{Rows: rows(cols), MissingByVariable: make([]int, len(cols)), RowsByMissing: make([]int, len(cols)+1)}
 	ps := Patterns(cols)
 	s.Patterns = len(ps)
 	for _, p := range ps {
 		if complete(p) {
 			s.CompleteRows += len(p.Rows)
 		}
+		s.RowsByMissing[len(p.mis)] += len(p.Rows)
 	}
 	for j, c := range cols {
 		for _, x := range c {
