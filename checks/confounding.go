@@ -45,8 +45,8 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	var fs []Finding
 	computed := 0
 	for i, c := range s.Package.Claims {
-		if !Causal(c.Kind) {
-			continue
+		if !Causal(c.Kind) || c.AssertsAbsence {
+			continue // an association, or a claim of no effect, has nothing to explain away
 		}
 		ev, note := a.eValue(i, c)
 		if ev == nil {
