@@ -40,7 +40,7 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	declFit, err := a.fitGraph(s.Declared, s.InGraph)
 	if err != nil {
-		return CheckResult{}, fmt.Errorf("fitting the declared graph: %w", err)
+		return CheckResult{Status: StatusNotApplicable, Summary: "The alternatives could not be compared: the declared graph could not be fitted to the data (" + err.Error() + ")."}, nil
 	}
 	var fs []Finding
 	var rows []map[string]any
@@ -84,7 +84,8 @@ func (a *Analysis) compareAlternative(j int, alt *dag.PDAG, declFit *modelFit, d
 	default:
 		af, err := a.fitGraph(alt, in)
 		if err != nil {
-			return nil, nil, fmt.Errorf("fitting alternative %q: %w", name, err)
+			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf("The alternative %q could not be fitted to the data: %v.", name, err)})
+			break
 		}
 		delta = af.fit.BIC - declFit.fit.BIC
 		row["chi_square"], row["df"], row["p_value"], row["bic"] = num(af.fit.ChiSquare), af.fit.DF, num(af.fit.P), num(af.fit.BIC)

@@ -1,6 +1,7 @@
 package checks_test
 
 import (
+	"context"
 	"encoding/json"
 	"errors"
 	"os"
@@ -11,11 +12,13 @@ import (
 )
 
 // FuzzLoad feeds arbitrary documents to the package decoder: it must
-// return a study or an invalid-package error, never panic or hang.
-// Seeds: every demo and every bad package.
+// return a study or an invalid-package error, never panic or hang; a
+// study must then screen without any check failing to run. Seeds: every
+// demo, calibration and bad package.
 func FuzzLoad(f *testing.F) {
 	paths, _ := filepath.Glob("../testdata/bad/*.json")
-	paths = append(paths, demoPackages(f)...)
+	calibration, _ := filepath.Glob("../testdata/calibration/*/package.json")
+	paths = append(append(paths, demoPackages(f)...), calibration...)
 	for _, p := range paths {
 		b, err := os.ReadFile(p)
 		if err != nil {
@@ -24,23 +27,48 @@ func FuzzLoad(f *testing.F) {
 		f.Add(b)
 	}
 	f.Fuzz(func(t *testing.T, doc []byte) {
-		_, err := checks.Load(doc, checks.LoadOptions{})
+		s, err := checks.Load(doc, checks.LoadOptions{})
 		var invalid *checks.InvalidPackageError
 		if err != nil && !errors.As(err, &invalid) {
 			t.Fatalf("error of the wrong kind: %v", err)
 		}
+		if err == nil {
+			screenCleanly(t, s)
+		}
 	})
 }
 
-// FuzzCSV feeds arbitrary CSV data beside a fixed package.
+// screenCleanly runs the pipeline and fails on any check that could not
+// run or a report that does not encode.
+func screenCleanly(t *testing.T, s *checks.Study) {
+	r, err := checks.Run(context.Background(), s, checks.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range r.Checks {
+		if c.RunError != "" {
+			t.Fatalf("%s failed to run: %s", c.ID, c.RunError)
+		}
+	}
+	if _, err := json.Marshal(r); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// FuzzCSV feeds arbitrary CSV data beside a fixed package; data that
+// load must then screen without any check failing to run.
 func FuzzCSV(f *testing.F) {
 	doc := []byte(`{"format_version": 1, "title": "fuzz", "design": "observational",
-		"variables": [{"name": "a", "scale": "binary"}, {"name": "b", "scale": "continuous"}],
-		"claims": [{"id": "C1", "text": "t", "kind": "association", "from": "a", "to": "b"}],
+		"variables": [{"name": "a", "scale": "binary"}, {"name": "b", "scale": "continuous"}, {"name": "c", "scale": "continuous"}],
+		"graph": {"edges": [{"from": "a", "to": "b"}, {"from": "b", "to": "c"}]},
+		"claims": [{"id": "C1", "text": "b raises c", "kind": "direct_effect", "from": "b", "to": "c", "estimate": 0.2, "std_error": 0.1, "p_value": 0.04},
+		           {"id": "C2", "text": "c goes with a", "kind": "association", "from": "c", "to": "a", "asserts_absence": true}],
+		"missing_data": {"method": "mean_substitution"},
 		"data": {"kind": "rows", "missing_codes": ["-9"], "ignore_columns": ["id"]}}`)
 	for _, seed := range []string{
-		"a,b\n1,2.5\n0,\n", "id,a,b\nx,1,NA\ny,0,-9\n", "a,b\n2,1\n", "a,b,c\n1,2,3\n",
-		"\xef\xbb\xbfa,b\n1,1e308\n", "a,b\n\"1\",\"2\n", "b,a\n1,1\n1\n",
+		"a,b,c\n1,2.5,1\n0,,2\n1,3,\n0,1,1\n1,2,2\n0,3,1\n", "id,a,b,c\nx,1,NA,1\ny,0,-9,2\n", "a,b,c\n2,1,1\n",
+		"\xef\xbb\xbfa,b,c\n1,1e308,1\n0,-1e308,2\n1,1,1\n", "a,b,c\n\"1\",\"2\n", "b,a,c\n1,1,1\n1\n",
+		"a,b,c\n1,1,1\n1,1,1\n1,1,1\n1,1,1\n", "a,b,c\n0,1,2\n1,2,4\n0,3,6\n1,4,8\n0,5,10\n",
 	} {
 		f.Add([]byte(seed))
 	}
@@ -56,9 +84,7 @@ func FuzzCSV(f *testing.F) {
 					t.Fatalf("column of %d values for %d rows", len(col), s.Data.N)
 				}
 			}
-			if _, err := json.Marshal(s.Package); err != nil {
-				t.Fatal(err)
-			}
+			screenCleanly(t, s)
 		}
 	})
 }

@@ -2,6 +2,7 @@ package checks
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -61,6 +62,10 @@ func (a *Analysis) fitGraph(g *dag.PDAG, in []bool) (*modelFit, error) {
 		}
 	}
 	f, err := sem.FitDAG(sub, m.N, parents)
+	var ee *sem.EquationError
+	if errors.As(err, &ee) {
+		return nil, fmt.Errorf("the equation of %s: %w", a.Study.Names[nodes[ee.Variable]], ee.Err)
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -78,7 +83,7 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	mf, err := a.fitGraph(s.Declared, s.InGraph)
 	if err != nil {
-		return CheckResult{}, fmt.Errorf("fitting the declared graph: %w", err)
+		return CheckResult{Status: StatusNotApplicable, Summary: "The declared graph could not be fitted to the data: " + err.Error() + "."}, nil
 	}
 	tests := a.implicationTests(m)
 	if err := ctx.Err(); err != nil {

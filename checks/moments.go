@@ -2,6 +2,7 @@ package checks
 
 import (
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
@@ -105,10 +106,21 @@ func rowMoments(rows *mat.Dense, method string) (*Moments, error) {
 	for i := range p {
 		for j := 0; j <= i; j++ {
 			if m.SD[i] == 0 || m.SD[j] == 0 {
-				return nil, Errorf(EInvalid, "a variable is constant in the complete cases")
+				return nil, Errorf(EInvalid, "a variable is constant in the %s", casesName(method))
 			}
 			m.Cor.SetSym(i, j, cov.At(i, j)/(m.SD[i]*m.SD[j]))
 		}
 	}
+	var eig mat.EigenSym
+	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
+		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear", casesName(method))
+	}
 	return m, nil
+}
+
+func casesName(method string) string {
+	if method == "complete_cases" {
+		return "complete cases"
+	}
+	return strings.ReplaceAll(method, "_", " ") + " data"
 }

@@ -36,6 +36,18 @@ type Fit struct {
 	Implied      *mat.SymDense
 }
 
+// EquationError says which variable's equation could not be fitted.
+type EquationError struct {
+	Variable int // index into the fitted matrix
+	Err      error
+}
+
+func (e *EquationError) Error() string {
+	return fmt.Sprintf("sem: the equation of variable %d: %v", e.Variable, e.Err)
+}
+
+func (e *EquationError) Unwrap() error { return e.Err }
+
 // ErrNotPositiveDefinite is returned when the sample matrix is not.
 var ErrNotPositiveDefinite = errors.New("sem: the covariance matrix is not positive definite")
 
@@ -64,7 +76,7 @@ func FitDAG(s mat.Symmetric, n int, parents [][]int) (*Fit, error) {
 		if len(pa) > 0 {
 			reg, err := linmod.FromMoments(s, nil, n, i, pa, 0.95)
 			if err != nil {
-				return nil, fmt.Errorf("sem: equation of variable %d: %w", i, err)
+				return nil, &EquationError{Variable: i, Err: err}
 			}
 			f.Coefficients[i] = make([]float64, len(pa))
 			for k, c := range reg.Coefs {
