@@ -511,3 +511,33 @@ func TestBasisSet(t *testing.T) {
 		t.Fatalf("basis set %+v", got)
 	}
 }
+
+// Parent sets grow with the cliques among the neighbours, not with
+// 2^(neighbours): a star of 30 lines has 31 (the empty set and each
+// neighbour alone); a complete neighbourhood of 13 has 2^13 > the cap.
+func TestLocalParentSets_Size(t *testing.T) {
+	var lines [][2]int
+	for v := 1; v <= 30; v++ {
+		lines = append(lines, [2]int{0, v})
+	}
+	sets, err := LocalParentSets(undirected(31, lines), 0)
+	if err != nil || len(sets) != 31 {
+		t.Fatalf("star: %d sets, %v", len(sets), err)
+	}
+	if _, err := LocalParentSets(complete(14), 0); err != ErrTooManyParentSets {
+		t.Fatalf("K14: %v", err)
+	}
+	// Against the definition on K5 minus an edge: every subset of the
+	// other four nodes that is a clique.
+	g := complete(5, [2]int{1, 2})
+	sets, _ = LocalParentSets(g, 0)
+	want := 0
+	for mask := range 1 << 4 {
+		if mask&0b11 != 0b11 { // nodes 1 and 2 (bits 0 and 1) are not adjacent
+			want++
+		}
+	}
+	if len(sets) != want {
+		t.Fatalf("K5 − e: %d sets, want %d", len(sets), want)
+	}
+}

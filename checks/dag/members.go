@@ -1,9 +1,6 @@
 package dag
 
-import (
-	"errors"
-	"math/bits"
-)
+import "errors"
 
 // Members lists the DAGs of the class of the CPDAG c that contain every
 // required arc, at most max of them, and reports whether there were more.
@@ -76,49 +73,51 @@ func (e *enumerator) allCountable(comps [][]int) (bool, error) {
 	return true, nil
 }
 
-// MaxSiblings bounds the undirected neighbours of one node for which
-// LocalParentSets lists subsets.
-const MaxSiblings = 24
+// MaxParentSets bounds the locally valid parent sets that
+// LocalParentSets lists for one node.
+const MaxParentSets = 4096
 
-// ErrTooManySiblings is returned when a node has more than MaxSiblings
-// undirected neighbours.
-var ErrTooManySiblings = errors.New("dag: too many undirected neighbours to list parent sets")
+// ErrTooManyParentSets is returned when a node has more than
+// MaxParentSets locally valid parent sets.
+var ErrTooManyParentSets = errors.New("dag: too many locally valid parent sets to list")
 
 // LocalParentSets returns the parent sets that x can have across the
 // class of the CPDAG c, by the local criterion of IDA (Maathuis, Kalisch &
 // Bühlmann 2009): the arcs into x plus any subset S of x's undirected
 // neighbours that is a clique, since only then does orienting S → x create
-// no new v-structure at x. Each set is sorted; the sets come in order of
-// the subsets' bit masks over the sorted neighbours.
+// no new v-structure at x. The cliques are grown one neighbour at a time,
+// so the work follows the number of sets, not 2^(neighbours). Each set is
+// sorted; the sets come in lexicographic order of the neighbours chosen.
 func LocalParentSets(c *PDAG, x int) ([][]int, error) {
 	pa, sib := c.Parents(x), c.Siblings(x)
-	if len(sib) > MaxSiblings {
-		return nil, ErrTooManySiblings
-	}
 	var out [][]int
-	for mask := uint32(0); mask < 1<<len(sib); mask++ {
-		if !cliqueMask(c, sib, mask) {
-			continue
+	var grow func(start int, chosen []int) error
+	grow = func(start int, chosen []int) error {
+		if len(out) == MaxParentSets {
+			return ErrTooManyParentSets
 		}
-		set := make([]int, 0, len(pa)+bits.OnesCount32(mask))
-		set = append(set, pa...)
-		for i, s := range sib {
-			if mask&(1<<i) != 0 {
-				set = append(set, s)
-			}
-		}
+		set := append(append([]int(nil), pa...), chosen...)
 		sortInts(set)
 		out = append(out, set)
+		for i := start; i < len(sib); i++ {
+			if adjacentToAll(c, sib[i], chosen) {
+				if err := grow(i+1, append(chosen, sib[i])); err != nil {
+					return err
+				}
+			}
+		}
+		return nil
+	}
+	if err := grow(0, nil); err != nil {
+		return nil, err
 	}
 	return out, nil
 }
 
-func cliqueMask(c *PDAG, nodes []int, mask uint32) bool {
-	for i := range nodes {
-		for j := i + 1; j < len(nodes); j++ {
-			if mask&(1<<i) != 0 && mask&(1<<j) != 0 && !c.Adjacent(nodes[i], nodes[j]) {
-				return false
-			}
+func adjacentToAll(c *PDAG, v int, set []int) bool {
+	for _, u := range set {
+		if !c.Adjacent(u, v) {
+			return false
 		}
 	}
 	return true
