@@ -1,0 +1,155 @@
+package checks
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// parseCSV reads the rows: a header naming variables, then one row per
+// participant. Empty cells, NA in any case and the package's missing codes
+// are missing.
+func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
+	d := s.Package.Data
+	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))))
+	r.ReuseRecord = true
+	header, err := r.Read()
+	if err != nil {
+		csvReadError(err, ps)
+		return nil
+	}
+	header = append([]string(nil), header...)
+	cols := s.headerColumns(header, r, ps)
+	if cols == nil {
+		return nil
+	}
+	ds := &Dataset{Kind: DataRows, Columns: make([][]float64, len(s.Names))}
+	for i, name := range header {
+		if cols[i] < 0 {
+			ds.Ignored = append(ds.Ignored, strings.TrimSpace(name))
+		}
+	}
+	missing := map[string]bool{}
+	for _, c := range d.MissingCodes {
+		missing[strings.TrimSpace(c)] = true
+	}
+	reported := len(ps.list)
+	for {
+		rec, err := r.Read()
+		if err == io.EOF {
+			break
+		}
+		if len(ps.list)-reported >= maxCSVProblems {
+			ps.csv(0, 0, "further data errors are not listed")
+			return nil
+		}
+		var pe *csv.ParseError
+		if errors.As(err, &pe) && errors.Is(err, csv.ErrFieldCount) {
+			ps.csv(pe.Line, 0, "the row has %d fields; the header has %d", len(rec), len(header))
+			continue
+		}
+		if err != nil {
+			csvReadError(err, ps)
+			return nil
+		}
+		if ds.N++; ds.N > lim.Rows {
+			ps.at("/data", "has more than %d rows; the limit is %d", lim.Rows, lim.Rows)
+			return nil
+		}
+		s.parseRow(rec, r, cols, missing, ds, ps)
+	}
+	if ds.N == 0 {
+		ps.csv(1, 0, "the data have a header but no rows")
+	}
+	s.checkColumns(ds, ps)
+	return ds
+}
+
+// headerColumns maps each CSV column to a variable index, -1 for an
+// ignored column.
+func (s *Study) headerColumns(header []string, r *csv.Reader, ps *problems) []int {
+	ignore := map[string]bool{}
+	for _, c := range s.Package.Data.IgnoreColumns {
+		ignore[c] = true
+	}
+	cols := make([]int, len(header))
+	seen := map[string]bool{}
+	before := len(ps.list)
+	for i, h := range header {
+		name := strings.TrimSpace(h)
+		line, _ := r.FieldPos(i)
+		j, ok := s.Index[name]
+		switch {
+		case seen[name]:
+			ps.csv(line, i+1, "column %q appears twice in the header", name)
+		case ok:
+			cols[i] = j
+		case ignore[name]:
+			cols[i] = -1
+		default:
+			ps.csv(line, i+1, "column %q is not a declared variable; list it in /data/ignore_columns to skip it", name)
+		}
+		seen[name] = true
+	}
+	for j, name := range s.Names {
+		if !seen[name] {
+			ps.at(pointer("variables", j, "name"), "%q has no column in the data", name)
+		}
+	}
+	if len(ps.list) > before {
+		return nil
+	}
+	return append([]int(nil), cols...)
+}
+
+func (s *Study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool, ds *Dataset, ps *problems) {
+	for i, raw := range rec {
+		j := cols[i]
+		if j < 0 {
+			continue
+		}
+		cell := strings.TrimSpace(raw)
+		if cell == "" || strings.EqualFold(cell, "NA") || missing[cell] {
+			ds.Columns[j] = append(ds.Columns[j], math.NaN())
+			continue
+		}
+		x, err := strconv.ParseFloat(cell, 64)
+		line, _ := r.FieldPos(i)
+		switch {
+		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
+			ps.csv(line, i+1, "%q in column %q is not a number", cell, s.Names[j])
+		case s.Package.Variables[j].Scale == ScaleBinary && x != 0 && x != 1:
+			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1", cell, s.Names[j])
+		}
+		ds.Columns[j] = append(ds.Columns[j], x)
+	}
+}
+
+// checkColumns reports variables with no observed value.
+func (s *Study) checkColumns(ds *Dataset, ps *problems) {
+	for j, col := range ds.Columns {
+		observed := 0
+		for _, x := range col {
+			if !math.IsNaN(x) {
+				observed++
+			}
+		}
+		if observed == 0 && ds.N > 0 {
+			ps.at(pointer("variables", j, "name"), "every value of %q in the data is missing", s.Names[j])
+		}
+	}
+}
+
+func csvReadError(err error, ps *problems) {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		ps.csv(pe.Line, pe.Column, "%v", pe.Err)
+		return
+	}
+	ps.csv(1, 0, "%v", fmt.Errorf("the data cannot be read: %w", err))
+}
