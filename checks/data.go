@@ -223,4 +223,3 @@ func correlationMatrix(rows [][]float64, k int, ps *problems) *mat.SymDense {
 	}
 	return m
 }
-

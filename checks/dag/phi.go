@@ -102,4 +102,3 @@ func (c *counter) linearExtensions(t []int) (*big.Int, error) {
 	}
 	return n.Mul(n, new(big.Int).SetUint64(ways[len(ways)-1])), nil
 }
-
