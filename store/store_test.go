@@ -177,7 +177,12 @@ func TestSubmissionStore(t *testing.T) {
 
 func waitStatus(t *testing.T, db *store.DB, id string, sc store.Scope, want string) *store.Submission {
 	t.Helper()
-	deadline := time.Now().Add(30 * time.Second)
+	return waitStatusWithin(t, db, id, sc, want, 30*time.Second)
+}
+
+func waitStatusWithin(t *testing.T, db *store.DB, id string, sc store.Scope, want string, within time.Duration) *store.Submission {
+	t.Helper()
+	deadline := time.Now().Add(within)
 	for time.Now().Before(deadline) {
 		s, err := db.Submission(ctx, id, sc)
 		if err != nil {
@@ -199,13 +204,7 @@ func TestWorkers(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	screen := func(ctx context.Context, pkg, _ []byte) (*checks.Report, error) {
-		s, err := checks.Load(pkg, checks.LoadOptions{})
-		if err != nil {
-			return nil, errors.Join(store.ErrPermanent, err)
-		}
-		return checks.Run(ctx, s, checks.Options{})
-	}
+	screen := screenDemo
 	t.Run("ScreensAndStores", func(t *testing.T) {
 		w, err := db.StartWorkers(ctx, store.WorkerConfig{Workers: 2, Timeout: time.Minute, Screen: screen})
 		if err != nil {
@@ -256,4 +255,13 @@ func TestWorkers(t *testing.T) {
 			t.Fatalf("attempts %d, calls %d; want the job retried once by the second worker", done.Attempts, calls.Load())
 		}
 	})
+}
+
+// screenDemo is the workers' job in these tests: load and screen.
+func screenDemo(ctx context.Context, pkg, _ []byte) (*checks.Report, error) {
+	s, err := checks.Load(pkg, checks.LoadOptions{})
+	if err != nil {
+		return nil, errors.Join(store.ErrPermanent, err)
+	}
+	return checks.Run(ctx, s, checks.Options{})
 }
