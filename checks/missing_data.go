@@ -44,7 +44,7 @@ type missingResult struct {
 	err         error
 }
 
-func (a *Analysis) missingData() *missingResult {
+func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	if a.miss != nil {
 		return a.miss
 	}
@@ -57,7 +57,7 @@ func (a *Analysis) missingData() *missingResult {
 	if r.summary.MissingCells == 0 {
 		return r
 	}
-	em, err := missing.EM(d.Columns, missing.Options{})
+	em, err := missing.EM(ctx, d.Columns, missing.Options{})
 	if err != nil {
 		r.err = err
 		return r
@@ -72,7 +72,7 @@ func (a *Analysis) missingData() *missingResult {
 	for i, v := range a.Study.Package.Variables {
 		binary[i] = v.Scale == ScaleBinary
 	}
-	imps, err := missing.Impute(d.Columns, em, missing.ImputeOptions{M: Imputations, Seed: seedOf(a.Study.SHA256), Binary: binary})
+	imps, err := missing.Impute(ctx, d.Columns, em, missing.ImputeOptions{M: Imputations, Seed: seedOf(a.Study.SHA256), Binary: binary})
 	if err != nil {
 		r.err = err
 		return r
@@ -170,7 +170,7 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if s.Data.Kind == DataSummary {
 		return summaryMissing(method), nil
 	}
-	r := a.missingData()
+	r := a.missingData(ctx)
 	if err := ctx.Err(); err != nil {
 		return CheckResult{}, err
 	}

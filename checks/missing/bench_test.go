@@ -1,6 +1,7 @@
 package missing
 
 import (
+	"context"
 	"encoding/csv"
 	"fmt"
 	"io"
@@ -72,7 +73,7 @@ func BenchmarkEM(b *testing.B) {
 			b.ReportAllocs()
 			var iters int
 			for b.Loop() {
-				em, err := EM(cols, Options{Tolerance: 1e-8})
+				em, err := EM(context.Background(), cols, Options{Tolerance: 1e-8})
 				if err != nil {
 					b.Fatal(err)
 				}
@@ -86,14 +87,14 @@ func BenchmarkEM(b *testing.B) {
 func BenchmarkMI(b *testing.B) {
 	for _, s := range benchShapes {
 		cols := benchData(b, s.n, s.p)
-		em, err := EM(cols, Options{Tolerance: 1e-8})
+		em, err := EM(context.Background(), cols, Options{Tolerance: 1e-8})
 		if err != nil {
 			b.Fatal(err)
 		}
 		b.Run(fmt.Sprintf("n=%d/p=%d/m=20", s.n, s.p), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if _, err := Impute(cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}); err != nil {
+				if _, err := Impute(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}); err != nil {
 					b.Fatal(err)
 				}
 			}

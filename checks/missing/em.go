@@ -1,6 +1,7 @@
 package missing
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -49,7 +50,9 @@ type Options struct {
 // so only |M| × |M| systems are solved; the M-step takes the means and
 // the ML (divisor n) covariance of the completed sufficient statistics.
 // With complete data the first iteration gives the ML estimates.
-func EM(cols [][]float64, opt Options) (*EMResult, error) {
+//
+// EM stops with ctx's error when ctx is done.
+func EM(ctx context.Context, cols [][]float64, opt Options) (*EMResult, error) {
 	if opt.Tolerance == 0 {
 		opt.Tolerance = DefaultTolerance
 	}
@@ -67,6 +70,9 @@ func EM(cols [][]float64, opt Options) (*EMResult, error) {
 	ps := Patterns(cols)
 	res := &EMResult{Tolerance: opt.Tolerance}
 	for res.Iterations < opt.MaxIter {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		res.Iterations++
 		m2, c2, err := emStep(cols, ps, mean, cov)
 		if err != nil {

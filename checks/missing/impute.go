@@ -1,6 +1,7 @@
 package missing
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -29,7 +30,7 @@ type ImputeOptions struct {
 // drawn from its conditional normal given the observed values of its row
 // under those parameters, residual noise included. start, the EM estimate
 // on the full data, starts each bootstrap run.
-func Impute(cols [][]float64, start *EMResult, opt ImputeOptions) ([][][]float64, error) {
+func Impute(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOptions) ([][][]float64, error) {
 	if opt.M == 0 {
 		opt.M = DefaultImputations
 	}
@@ -37,7 +38,7 @@ func Impute(cols [][]float64, start *EMResult, opt ImputeOptions) ([][][]float64
 	ps := Patterns(cols)
 	out := make([][][]float64, opt.M)
 	for k := range opt.M {
-		theta, err := bootstrapEM(cols, start, opt.EM, rng)
+		theta, err := bootstrapEM(ctx, cols, start, opt.EM, rng)
 		if err != nil {
 			return nil, fmt.Errorf("missing: imputation %d: %w", k+1, err)
 		}
@@ -51,7 +52,7 @@ func Impute(cols [][]float64, start *EMResult, opt ImputeOptions) ([][][]float64
 
 // bootstrapEM runs EM on a resample of the rows, drawn with replacement;
 // a resample in which some variable is never observed is drawn again.
-func bootstrapEM(cols [][]float64, start *EMResult, opt Options, rng *rand.Rand) (*EMResult, error) {
+func bootstrapEM(ctx context.Context, cols [][]float64, start *EMResult, opt Options, rng *rand.Rand) (*EMResult, error) {
 	n := rows(cols)
 	opt.Start = start
 	for range 20 {
@@ -65,7 +66,7 @@ func bootstrapEM(cols [][]float64, start *EMResult, opt Options, rng *rand.Rand)
 				bs[j][i] = c[r]
 			}
 		}
-		res, err := EM(bs, opt)
+		res, err := EM(ctx, bs, opt)
 		if errors.Is(err, ErrNoData) {
 			continue
 		}

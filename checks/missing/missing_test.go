@@ -1,7 +1,9 @@
 package missing
 
 import (
+	"context"
 	"encoding/csv"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -57,7 +59,7 @@ func TestEM_CompleteData(t *testing.T) {
 			data.Set(i, j, v)
 		}
 	}
-	em, err := EM(cols, Options{})
+	em, err := EM(context.Background(), cols, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -86,7 +88,7 @@ func TestEM_CompleteData(t *testing.T) {
 func TestEM_MonotoneClosedForm(t *testing.T) {
 	aq := airquality(t)
 	temp, ozone := aq[3], aq[0]
-	em, err := EM([][]float64{temp, ozone}, Options{Tolerance: 1e-13})
+	em, err := EM(context.Background(), [][]float64{temp, ozone}, Options{Tolerance: 1e-13})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -141,7 +143,7 @@ func TestEM_MonotoneClosedForm(t *testing.T) {
 // 35.106 on 14 df, p = .00142.
 func TestLittleMCAR_Airquality(t *testing.T) {
 	aq := airquality(t)
-	em, err := EM(aq, Options{})
+	em, err := EM(context.Background(), aq, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -206,7 +208,7 @@ func TestLittleMCAR_RejectionRates(t *testing.T) {
 	mcar, mar := 0, 0
 	for range 500 {
 		cols := simulate(r, 200, func(float64) bool { return r.Float64() < 0.2 })
-		em, err := EM(cols, Options{})
+		em, err := EM(context.Background(), cols, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -220,7 +222,7 @@ func TestLittleMCAR_RejectionRates(t *testing.T) {
 	}
 	for range 100 {
 		cols := simulate(r, 200, func(x float64) bool { return x > 0.3 && r.Float64() < 0.7 })
-		em, _ := EM(cols, Options{})
+		em, _ := EM(context.Background(), cols, Options{})
 		if lt, _ := LittleMCAR(cols, em); lt.P < 0.05 {
 			mar++
 		}
@@ -241,13 +243,13 @@ func TestImpute_RecoversSlope(t *testing.T) {
 	const reps = 200
 	for rep := range reps {
 		cols := simulate(r, 200, func(x float64) bool { return r.Float64() < 0.15+0.5*boolF(x > 0) })
-		em, err := EM(cols, Options{})
+		em, err := EM(context.Background(), cols, Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
 		ml += em.Cov.At(0, 1) / em.Cov.At(0, 0)
 		meanSub += slopeMeanSubstituted(cols)
-		imps, err := Impute(cols, em, ImputeOptions{M: 20, Seed: uint64(rep)})
+		imps, err := Impute(context.Background(), cols, em, ImputeOptions{M: 20, Seed: uint64(rep)})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -303,12 +305,12 @@ func slopeMeanSubstituted(cols [][]float64) float64 {
 
 func TestImpute_Deterministic(t *testing.T) {
 	aq := airquality(t)
-	em, _ := EM(aq, Options{})
-	a, err := Impute(aq, em, ImputeOptions{M: 3, Seed: 42})
+	em, _ := EM(context.Background(), aq, Options{})
+	a, err := Impute(context.Background(), aq, em, ImputeOptions{M: 3, Seed: 42})
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, _ := Impute(aq, em, ImputeOptions{M: 3, Seed: 42})
+	b, _ := Impute(context.Background(), aq, em, ImputeOptions{M: 3, Seed: 42})
 	for k := range a {
 		for j := range a[k] {
 			for i := range a[k][j] {
@@ -320,5 +322,18 @@ func TestImpute_Deterministic(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+func TestEM_Cancelled(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	aq := airquality(t)
+	if _, err := EM(ctx, aq, Options{}); err != context.Canceled {
+		t.Fatalf("EM: %v", err)
+	}
+	em, _ := EM(context.Background(), aq, Options{})
+	if _, err := Impute(ctx, aq, em, ImputeOptions{M: 2}); !errors.Is(err, context.Canceled) {
+		t.Fatalf("Impute: %v", err)
 	}
 }
