@@ -44,7 +44,6 @@ type Contrast struct {
 	// (local parent sets).
 	ReversedArrows [][2]string `json:"reversed_arrows,omitempty"`
 	ParentSet      []string    `json:"parent_set,omitempty"`
-	reversed       []dag.Edge
 }
 
 // alternativeGraph is one graph in which a claim was estimated.
@@ -189,7 +188,7 @@ func zeroOnScale(scale string) float64 {
 }
 
 func (a *Analysis) contrast(g alternativeGraph, e est) *Contrast {
-	ct := &Contrast{Estimate: a.report(e), reversed: g.reversed}
+	ct := &Contrast{Estimate: a.report(e)}
 	if e.method == MethodZero {
 		v := zeroOnScale(e.scale)
 		ct.Estimate.Estimate = &v
