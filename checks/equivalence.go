@@ -269,10 +269,17 @@ func graphReport(s *Study, eq *equivalenceResult) (*GraphReport, error) {
 			g.Nodes = append(g.Nodes, s.Names[i])
 		}
 	}
-	g.CPDAG.Directed = namedArcs(s, eq.cpdag.Arcs())
-	g.CPDAG.Undirected = [][2]string{}
-	for _, l := range eq.cpdag.Lines() {
-		g.CPDAG.Undirected = append(g.CPDAG.Undirected, [2]string{s.Names[l[0]], s.Names[l[1]]})
+	g.CPDAG = edgeSets(s, eq.cpdag)
+	if eq.plausible != nil && eq.plausible.Sign() > 0 {
+		m := eq.cpdag.Clone()
+		for _, e := range s.Background {
+			if m.HasLine(e.From, e.To) {
+				m.Orient(e.From, e.To)
+			}
+		}
+		m.CloseUnderMeek()
+		mp := edgeSets(s, m)
+		g.PlausibleCPDAG = &mp
 	}
 	g.EquivalenceClassSize, g.EquivalenceClassSizeLog10 = exactCount(eq.size)
 	if eq.plausible != nil {
@@ -287,6 +294,14 @@ func graphReport(s *Study, eq *equivalenceResult) (*GraphReport, error) {
 		g.PlausibleDAGs, g.PlausibleDAGsTruncated, err = listMembers(s, eq.cpdag, s.Background)
 	}
 	return g, err
+}
+
+func edgeSets(s *Study, g *dag.PDAG) EdgeSets {
+	es := EdgeSets{Directed: namedArcs(s, g.Arcs()), Undirected: [][2]string{}}
+	for _, l := range g.Lines() {
+		es.Undirected = append(es.Undirected, [2]string{s.Names[l[0]], s.Names[l[1]]})
+	}
+	return es
 }
 
 func listMembers(s *Study, c *dag.PDAG, required []dag.Edge) ([][][2]string, bool, error) {

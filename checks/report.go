@@ -96,10 +96,12 @@ type GraphReport struct {
 	Acyclic bool `json:"acyclic"`
 	// Nodes are the variables that some edge of the declared graph names.
 	Nodes []string `json:"nodes"`
-	CPDAG struct {
-		Directed   [][2]string `json:"directed"`
-		Undirected [][2]string `json:"undirected"`
-	} `json:"cpdag"`
+	CPDAG EdgeSets `json:"cpdag"`
+	// PlausibleCPDAG is the CPDAG with the background knowledge's arcs
+	// oriented and closed under Meek's rules R1–R4: its arcs are exactly
+	// the edges every plausible member orients alike (Meek 1995). Absent
+	// when no member is plausible.
+	PlausibleCPDAG *EdgeSets `json:"plausible_cpdag,omitempty"`
 	EquivalenceClassSize      any      `json:"equivalence_class_size"`
 	EquivalenceClassSizeLog10 *float64 `json:"equivalence_class_size_log10"`
 	PlausibleClassSize        any      `json:"plausible_class_size"`
@@ -110,6 +112,12 @@ type GraphReport struct {
 	EquivalentDAGsTruncated bool          `json:"equivalent_dags_truncated"`
 	PlausibleDAGs           [][][2]string `json:"plausible_dags"`
 	PlausibleDAGsTruncated  bool          `json:"plausible_dags_truncated"`
+}
+
+// EdgeSets are a partially directed graph's arcs and lines, by name.
+type EdgeSets struct {
+	Directed   [][2]string `json:"directed"`
+	Undirected [][2]string `json:"undirected"`
 }
 
 // ClaimReport gathers what the checks found about one claim.
