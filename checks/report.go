@@ -101,11 +101,11 @@ type GraphReport struct {
 	// oriented and closed under Meek's rules R1–R4: its arcs are exactly
 	// the edges every plausible member orients alike (Meek 1995). Absent
 	// when no member is plausible.
-	PlausibleCPDAG *EdgeSets `json:"plausible_cpdag,omitempty"`
-	EquivalenceClassSize      any      `json:"equivalence_class_size"`
-	EquivalenceClassSizeLog10 *float64 `json:"equivalence_class_size_log10"`
-	PlausibleClassSize        any      `json:"plausible_class_size"`
-	PlausibleClassSizeLog10   *float64 `json:"plausible_class_size_log10"`
+	PlausibleCPDAG            *EdgeSets `json:"plausible_cpdag,omitempty"`
+	EquivalenceClassSize      any       `json:"equivalence_class_size"`
+	EquivalenceClassSizeLog10 *float64  `json:"equivalence_class_size_log10"`
+	PlausibleClassSize        any       `json:"plausible_class_size"`
+	PlausibleClassSizeLog10   *float64  `json:"plausible_class_size_log10"`
 	// EquivalentDAGs lists members of the whole class, each as its arcs;
 	// PlausibleDAGs the members that respect the background knowledge.
 	EquivalentDAGs          [][][2]string `json:"equivalent_dags"`
