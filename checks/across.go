@@ -87,9 +87,12 @@ func reversedArcs(declared, m *dag.PDAG) []dag.Edge {
 
 // localGraphs covers a large class by the locally valid parent sets of
 // the node whose parents the claim's estimate uses (IDA, Maathuis, Kalisch
-// & Bühlmann 2009), keeping the sets that agree with the background
-// knowledge at that node. That filter is necessary, not sufficient, so
-// the sets may include a few that no plausible member has.
+// & Bühlmann 2009). With background knowledge, a set is kept only when
+// some plausible member gives the node exactly those parents: the
+// background arcs plus the set's arcs into the node and the node's arcs to
+// its other undirected neighbours must leave a positive count. Sets that
+// cannot be counted exactly are kept if they agree with the background
+// knowledge at the node.
 func (a *Analysis) localGraphs(node int) ([]alternativeGraph, error) {
 	eq := a.equivalenceClass()
 	sets, err := dag.LocalParentSets(eq.cpdag, node)
@@ -98,12 +101,30 @@ func (a *Analysis) localGraphs(node int) ([]alternativeGraph, error) {
 	}
 	var out []alternativeGraph
 	for _, set := range sets {
-		if !respectsBackground(a.Study.Background, node, set) {
+		if len(a.Study.Background) > 0 && !a.plausibleParents(eq.cpdag, node, set) {
 			continue
 		}
 		out = append(out, alternativeGraph{parents: set, pa: func(int) []int { return set }})
 	}
 	return out, nil
+}
+
+// plausibleParents reports whether some plausible member gives node
+// exactly the parents set.
+func (a *Analysis) plausibleParents(c *dag.PDAG, node int, set []int) bool {
+	if !respectsBackground(a.Study.Background, node, set) {
+		return false
+	}
+	req := append([]dag.Edge(nil), a.Study.Background...)
+	for _, v := range c.Siblings(node) {
+		if slices.Contains(set, v) {
+			req = append(req, dag.Edge{From: v, To: node})
+		} else {
+			req = append(req, dag.Edge{From: node, To: v})
+		}
+	}
+	n, err := dag.PlausibleSize(c, req)
+	return err != nil || n.Sign() > 0
 }
 
 func respectsBackground(bg []dag.Edge, node int, set []int) bool {

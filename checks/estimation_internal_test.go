@@ -3,11 +3,15 @@ package checks
 import (
 	"context"
 	"encoding/json"
+	"fmt"
+	"math/rand/v2"
 	"os"
 	"slices"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
+
+	"github.com/pathvet/pathvet/checks/dag"
 )
 
 // summaryPackage builds a package over continuous variables with a
@@ -185,4 +189,89 @@ func mustRead(t *testing.T, path string) []byte {
 		t.Fatal(err)
 	}
 	return b
+}
+
+// With background knowledge, the local parent sets are exactly the parent
+// sets the plausible members give the node: on random DAGs, against the
+// members listed one by one.
+func TestLocalGraphs_BackgroundKnowledgeExact(t *testing.T) {
+	r := rand.New(rand.NewPCG(31, 32))
+	checked := 0
+	for range 300 {
+		n := 3 + r.IntN(4)
+		names := make([]string, n)
+		for i := range names {
+			names[i] = string(rune('A' + i))
+		}
+		perm := r.Perm(n)
+		var edges [][2]string
+		for i := range n {
+			for j := i + 1; j < n; j++ {
+				if r.Float64() < 0.6 {
+					edges = append(edges, [2]string{names[perm[i]], names[perm[j]]})
+				}
+			}
+		}
+		if len(edges) == 0 {
+			continue
+		}
+		lower := make([][]float64, n)
+		for i := range n {
+			lower[i] = make([]float64, i+1)
+			lower[i][i] = 1
+		}
+		vars := append([]string(nil), names...)
+		doc := summaryPackageBK(vars, edges, lower, edges[r.IntN(len(edges))])
+		s, err := Load(doc, LoadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a := &Analysis{Study: s, Alpha: DefaultAlpha}
+		eq := a.equivalenceClass()
+		members, _, err := dag.Members(eq.cpdag, s.Background, 10000)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for node := range n {
+			want := map[string]bool{}
+			for _, m := range members {
+				want[fmt.Sprint(m.Parents(node))] = true
+			}
+			graphs, err := a.localGraphs(node)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := map[string]bool{}
+			for _, g := range graphs {
+				got[fmt.Sprint(g.parents)] = true
+			}
+			if fmt.Sprint(keysOf(got)) != fmt.Sprint(keysOf(want)) {
+				t.Fatalf("node %d of %v with %v: local sets %v, members give %v", node, edges, s.Background, keysOf(got), keysOf(want))
+			}
+			checked++
+		}
+	}
+	if checked < 500 {
+		t.Fatalf("only %d nodes checked", checked)
+	}
+}
+
+func keysOf(m map[string]bool) []string {
+	var out []string
+	for k := range m {
+		out = append(out, k)
+	}
+	slices.Sort(out)
+	return out
+}
+
+// summaryPackageBK is summaryPackage with one edge fixed by background
+// knowledge.
+func summaryPackageBK(vars []string, edges [][2]string, lower [][]float64, fixed [2]string) []byte {
+	var m map[string]any
+	_ = json.Unmarshal(summaryPackage(vars, edges, lower, 500), &m)
+	m["graph"].(map[string]any)["fixed_edges"] = []map[string]string{{"from": fixed[0], "to": fixed[1]}}
+	m["claims"] = []map[string]any{{"id": "A1", "text": "t", "kind": "association", "from": vars[0], "to": vars[1]}}
+	doc, _ := json.Marshal(m)
+	return doc
 }
