@@ -76,7 +76,7 @@ func (a *Analysis) compareAlternative(j int, alt *dag.PDAG, declFit *modelFit, d
 	equivalent := same && dag.CPDAG(alt).Key() == declCPDAG
 	row := map[string]any{"name": name, "equivalent": equivalent, "same_variables": same}
 	var fs []Finding
-	delta := 0.0
+	delta, fitted := 0.0, false
 	switch {
 	case equivalent:
 		fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
@@ -87,7 +87,7 @@ func (a *Analysis) compareAlternative(j int, alt *dag.PDAG, declFit *modelFit, d
 			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf("The alternative %q could not be fitted to the data: %v.", name, err)})
 			break
 		}
-		delta = af.fit.BIC - declFit.fit.BIC
+		delta, fitted = af.fit.BIC-declFit.fit.BIC, true
 		row["chi_square"], row["df"], row["p_value"], row["bic"] = num(af.fit.ChiSquare), af.fit.DF, num(af.fit.P), num(af.fit.BIC)
 		if same {
 			row["delta_bic"] = num(delta)
@@ -99,7 +99,7 @@ func (a *Analysis) compareAlternative(j int, alt *dag.PDAG, declFit *modelFit, d
 				"The alternative %q does not cover the same variables as the declared graph, so their fits cannot be compared.", name)})
 		}
 	}
-	fitsAsWell := equivalent || (same && delta < weakBIC)
+	fitsAsWell := equivalent || (same && fitted && delta < weakBIC)
 	for i, c := range s.Package.Claims {
 		ae, f := a.claimUnderAlternative(i, c, name, alt, in, equivalent, fitsAsWell, delta)
 		a.Claims[i].UnderAlternatives = append(a.Claims[i].UnderAlternatives, ae)

@@ -225,7 +225,10 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	b, se, source := math.NaN(), math.NaN(), "recomputed"
 	switch {
 	case decl.ok() && decl.method != MethodZero && (decl.scale == "standardized" || decl.scale == "correlation") && !math.IsNaN(decl.lo):
-		b, se = decl.value, effects.SEFromCI(decl.lo, decl.hi, claimLevel(c))
+		b, se = decl.value, decl.se
+		if math.IsNaN(se) {
+			se = effects.SEFromCI(decl.lo, decl.hi, claimLevel(c))
+		}
 		if decl.scale == "correlation" {
 			b, se, delta = math.Atanh(b), 1/math.Sqrt(float64(decl.n-len(decl.adjusted)-3)), math.Atanh(delta)
 		}

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math/rand/v2"
 	"os"
+	"strings"
 	"slices"
 	"testing"
 
@@ -274,4 +275,26 @@ func summaryPackageBK(vars []string, edges [][2]string, lower [][]float64, fixed
 	m["claims"] = []map[string]any{{"id": "A1", "text": "t", "kind": "association", "from": vars[0], "to": vars[1]}}
 	doc, _ := json.Marshal(m)
 	return doc
+}
+
+// An alternative that cannot be fitted (here: too few cases for its
+// equations) is reported as such, and the check still runs to the end.
+func TestAlternatives_UnfittableAlternative(t *testing.T) {
+	var m map[string]any
+	_ = json.Unmarshal(summaryPackage([]string{"X", "A", "B", "Y"},
+		[][2]string{{"B", "A"}, {"A", "X"}, {"X", "Y"}}, [][]float64{{1}, {.1, 1}, {.1, .1, 1}, {.6, .1, .1, 1}}, 3), &m)
+	m["alternatives"] = []map[string]any{{"name": "crowded", "edges": []map[string]string{
+		{"from": "A", "to": "Y"}, {"from": "B", "to": "Y"}, {"from": "Y", "to": "X"}}}}
+	m["claims"] = []map[string]any{{"id": "D1", "text": "X raises Y", "kind": "direct_effect", "from": "X", "to": "Y", "headline": true}}
+	doc, _ := json.Marshal(m)
+	c := checkByID(runDoc(t, doc), "alternatives")
+	found := false
+	for _, f := range c.Findings {
+		if f.Severity == StatusWarn && strings.Contains(f.Message, `"crowded" could not be fitted`) {
+			found = true
+		}
+	}
+	if !found || c.RunError != "" || c.Metrics["comparisons"].([]map[string]any)[0]["delta_bic"] != nil {
+		t.Fatalf("status %s, run error %q, findings %+v", c.Status, c.RunError, c.Findings)
+	}
 }

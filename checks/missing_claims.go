@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pathvet/pathvet/checks/effects"
 	"github.com/pathvet/pathvet/checks/missing"
 )
 
@@ -135,7 +136,7 @@ func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
 		if k == 0 {
 			first = e
 		}
-		qk, uk := pooledScale(e, m.N)
+		qk, uk := pooledScale(e, m.N, claimLevel(c))
 		q, u = append(q, qk), append(u, uk)
 	}
 	dfCom := float64(first.n - len(first.adjusted) - 2)
@@ -159,12 +160,12 @@ func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
 
 // pooledScale gives an estimate and its variance on the scale Rubin's
 // rules pool it on.
-func pooledScale(e est, n int) (q, u float64) {
+func pooledScale(e est, n int, level float64) (q, u float64) {
 	switch {
 	case e.method == MethodPartial:
 		return math.Atanh(e.value), 1 / float64(n-len(e.adjusted)-3)
 	case e.scale == "odds_ratio":
-		se := (math.Log(e.hi) - math.Log(e.lo)) / (2 * 1.959963984540054)
+		se := effects.SEFromCI(math.Log(e.lo), math.Log(e.hi), level)
 		return math.Log(e.value), se * se
 	}
 	return e.value, e.se * e.se

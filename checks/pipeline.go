@@ -4,7 +4,6 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
-	"runtime/debug"
 	"time"
 )
 
@@ -104,7 +103,6 @@ func runCheck(ctx context.Context, c Check, a *Analysis) (res CheckResult) {
 	defer func() {
 		if p := recover(); p != nil {
 			res = failedToRun(c, fmt.Sprintf("internal error: %v", p))
-			res.Metrics["stack"] = string(debug.Stack())
 		}
 	}()
 	res, err := c.Run(ctx, a)

@@ -199,10 +199,10 @@ func round(x float64) float64 {
 // num returns x for a JSON metric, rounded, or nil where x is not a
 // finite number: NaN and Inf never reach a report.
 func num(x float64) any {
-	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return nil
+	if p := finite(x); p != nil {
+		return *p
 	}
-	return round(x)
+	return nil
 }
 
 func bigInt(n int64) *big.Int { return big.NewInt(n) }

@@ -110,12 +110,15 @@ func (db *DB) MigrationStatus(ctx context.Context) ([]MigrationStep, error) {
 }
 
 // dbError maps pgx's errors to the core's codes: no rows is not found, a
-// unique violation is a conflict.
+// unique violation is a conflict; a coded error passes through.
 func dbError(err error, what string) error {
 	var pe *pgconn.PgError
+	var ce *checks.Error
 	switch {
 	case err == nil:
 		return nil
+	case errors.As(err, &ce):
+		return err // already a coded error of the core
 	case errors.Is(err, pgx.ErrNoRows):
 		return checks.Errorf(checks.ENotFound, "%s not found", what)
 	case errors.As(err, &pe) && pe.Code == "23505":

@@ -106,10 +106,6 @@ func (db *DB) CreateSubmission(ctx context.Context, n NewSubmission) (sub *Submi
 		return err
 	})
 	if err != nil {
-		var ce *checks.Error
-		if errors.As(err, &ce) {
-			return nil, false, err
-		}
 		return nil, false, dbError(err, "submission")
 	}
 	return sub, replayed, nil
@@ -250,9 +246,5 @@ func (db *DB) Rerun(ctx context.Context, id string, sc Scope) (*Submission, erro
 		sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+` WHERE s.id = $1`, id))
 		return err
 	})
-	var ce *checks.Error
-	if errors.As(err, &ce) {
-		return nil, err
-	}
 	return sub, dbError(err, "submission")
 }

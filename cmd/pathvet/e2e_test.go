@@ -8,6 +8,7 @@ import (
 	"net/http"
 	"os"
 	"regexp"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -26,23 +27,26 @@ import (
 // OpenAPI document to what the server really answers.
 type recorder struct {
 	mu   sync.Mutex
-	seen map[[3]string]bool
+	seen map[seenCall]bool
 	next http.RoundTripper
+}
+
+type seenCall struct {
+	method, path string
+	status       int
 }
 
 func (r *recorder) RoundTrip(req *http.Request) (*http.Response, error) {
 	resp, err := r.next.RoundTrip(req)
 	if err == nil {
 		r.mu.Lock()
-		r.seen[[3]string{req.Method, req.URL.Path, http.StatusText(resp.StatusCode) + "|" + itoa(resp.StatusCode)}] = true
+		r.seen[seenCall{req.Method, req.URL.Path, resp.StatusCode}] = true
 		r.mu.Unlock()
 	}
 	return resp, err
 }
 
-func itoa(n int) string { b, _ := json.Marshal(n); return string(b) }
-
-var rec = &recorder{seen: map[[3]string]bool{}, next: http.DefaultTransport}
+var rec = &recorder{seen: map[seenCall]bool{}, next: http.DefaultTransport}
 
 // startMain starts a server with in-process workers on port 0 against the
 // database at url.
@@ -318,10 +322,10 @@ func checkOpenAPI(t *testing.T, m *Main) {
 		templates[r[0]+" "+path] = regexp.MustCompile("^" + param.ReplaceAllString(r[1], `[^/]+`) + "$")
 	}
 	for seen := range rec.seen {
-		status := strings.SplitN(seen[2], "|", 2)[1]
+		status := strconv.Itoa(seen.status)
 		for key, re := range templates {
 			method, path, _ := strings.Cut(key, " ")
-			if method != seen[0] || !re.MatchString(seen[1]) {
+			if method != seen.method || !re.MatchString(seen.path) {
 				continue
 			}
 			op, _ := doc.Paths[path][strings.ToLower(method)].(map[string]any)
