@@ -6,8 +6,8 @@ import (
 	"fmt"
 	"math/rand/v2"
 	"os"
-	"strings"
 	"slices"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
