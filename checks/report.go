@@ -102,7 +102,7 @@ type GraphReport struct {
 	Declared   [][2]string `json:"declared,omitempty"`
 	Background [][2]string `json:"background_arcs,omitempty"`
 	Exogenous  []string    `json:"exogenous,omitempty"`
-	CPDAG EdgeSets `json:"cpdag"`
+	CPDAG      EdgeSets    `json:"cpdag"`
 	// PlausibleCPDAG is the CPDAG with the background knowledge's arcs
 	// oriented and closed under Meek's rules R1–R4: its arcs are exactly
 	// the edges every plausible member orients alike (Meek 1995). Absent
