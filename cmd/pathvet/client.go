@@ -210,12 +210,16 @@ func printReport(ctx context.Context, c *client, id, format string, stdout, stde
 
 // runReport is `pathvet report --server URL ID [--format json|text]`.
 func runReport(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := newFlagSet("report", stderr, "Usage: pathvet report --server URL [--format text|json] ID\n\nThe token comes from PATHVET_TOKEN.")
+	fs := newFlagSet("report", stderr, "Usage: pathvet report --server URL [--format text|json] [--letter] ID\n\nThe token comes from PATHVET_TOKEN.")
 	server := serverFlag(fs)
 	format := fs.String("format", "text", "text or json")
+	letter := fs.Bool("letter", false, "print the questions for the authors as Markdown instead")
 	c, pos, code := clientArgs(fs, args, server, stderr)
 	if c == nil {
 		return code
+	}
+	if *letter {
+		return printLetter(ctx, c, pos[0], stdout, stderr)
 	}
 	return printReport(ctx, c, pos[0], *format, stdout, stderr)
 }

@@ -1,0 +1,50 @@
+package render
+
+import (
+	"regexp"
+	"strings"
+	"testing"
+)
+
+var (
+	tagRe      = regexp.MustCompile(`(?s)<style>.*?</style>|<[^>]*>`)
+	asciiMinus = regexp.MustCompile(`(^|[\s(\[=])-[0-9]`)
+	headingRe  = regexp.MustCompile(`<h([1-6])[ >]`)
+)
+
+// TestPageForPeople: the page has a viewport, headings that never skip a
+// level, no raw tokens in its text, one minus sign, the caution, and no
+// script.
+func TestPageForPeople(t *testing.T) {
+	for _, demo := range []string{"tutoring-anxiety", "coding-club", "sleep-attention"} {
+		r := loadGolden(t, demo)
+		var b strings.Builder
+		if err := WritePage(&b, r, PageOptions{}); err != nil {
+			t.Fatal(err)
+		}
+		page := b.String()
+		if !strings.Contains(page, `<meta name="viewport"`) || strings.Contains(page, "<script") {
+			t.Errorf("%s: viewport missing or a script present", demo)
+		}
+		text := tagRe.ReplaceAllString(page, " ")
+		for _, raw := range []string{"not_applicable", "high-concern", "moderate-concern", "direct_effect", "complete_cases"} {
+			if strings.Contains(text, raw) {
+				t.Errorf("%s: the text shows the raw token %s", demo, raw)
+			}
+		}
+		if m := asciiMinus.FindString(text); m != "" {
+			t.Errorf("%s: an ASCII minus in the text: %q", demo, m)
+		}
+		if !strings.Contains(text, "not a verdict") || !strings.Contains(text, r.PackageSHA256) {
+			t.Errorf("%s: caution or hash missing", demo)
+		}
+		last := 0
+		for _, m := range headingRe.FindAllStringSubmatch(page, -1) {
+			level := int(m[1][0] - '0')
+			if level > last+1 {
+				t.Errorf("%s: h%d after h%d", demo, level, last)
+			}
+			last = level
+		}
+	}
+}
