@@ -10,7 +10,7 @@ import (
 
 	"github.com/labstack/echo/v4"
 
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store"
 )
 
@@ -29,7 +29,7 @@ type Store interface {
 // Config configures the API.
 type Config struct {
 	Store  Store
-	Limits checks.Limits
+	Limits load.Limits
 	Logger *slog.Logger
 	// RequestTimeout bounds each request; long polls stop before it.
 	RequestTimeout time.Duration
@@ -48,8 +48,8 @@ type Server struct {
 
 // New returns the API's HTTP handler with every route registered.
 func New(cfg Config) *Server {
-	if cfg.Limits == (checks.Limits{}) {
-		cfg.Limits = checks.DefaultLimits
+	if cfg.Limits == (load.Limits{}) {
+		cfg.Limits = load.DefaultLimits
 	}
 	if cfg.Logger == nil {
 		cfg.Logger = slog.Default()

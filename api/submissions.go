@@ -13,6 +13,7 @@ import (
 	"github.com/labstack/echo/v4"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/checks/render"
 	"github.com/pathvet/pathvet/store"
 )
@@ -64,7 +65,7 @@ func (s *Server) createSubmission(c echo.Context) error {
 	if err != nil {
 		return err
 	}
-	study, err := checks.Load(doc, checks.LoadOptions{Limits: s.cfg.Limits, CSV: data})
+	study, err := load.Load(doc, load.Options{Limits: s.cfg.Limits, CSV: data})
 	if err != nil {
 		return err
 	}
