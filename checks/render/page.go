@@ -1,7 +1,7 @@
 package render
 
 import (
-	_ "embed"
+	"embed"
 	"fmt"
 	"html/template"
 	"io"
@@ -9,13 +9,16 @@ import (
 	"github.com/pathvet/pathvet/checks"
 )
 
-//go:embed page.html
-var pageHTML string
+//go:embed page.html workspace.html
+var pageFiles embed.FS
 
 //go:embed style.css
 var styleCSS string
 
-var pageTmpl = template.Must(template.New("page").Funcs(template.FuncMap{"css": CSS, "sub0": func(i int) int { return -i }}).Parse(pageHTML))
+var pageTmpl = template.Must(template.New("page").Funcs(template.FuncMap{
+	"css": CSS, "sub0": func(i int) int { return -i }, "words": Words, "head": head,
+	"list": func(s ...string) []string { return s },
+}).ParseFS(pageFiles, "*.html"))
 
 // PageOptions are the parts of the workspace around a report; all are
 // empty for the offline page.
@@ -108,3 +111,11 @@ func WriteShell(w io.Writer, title string, nav, body template.HTML) error {
 
 // CSS is the stylesheet every page carries inline.
 func CSS() template.CSS { return template.CSS(styleCSS) }
+
+// headData is what the document head shows.
+type headData struct {
+	Title   string
+	Refresh bool
+}
+
+func head(title string, refresh bool) headData { return headData{title, refresh} }

@@ -25,6 +25,8 @@ type Config struct {
 	Alpha       float64
 	Limits      load.Limits
 	Shutdown    time.Duration
+	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
+	TLSProxy bool
 }
 
 // defaultConfig reads PATHVET_* variables over the defaults.
@@ -39,6 +41,7 @@ func defaultConfig(getenv func(string) string) Config {
 		Limits:      load.DefaultLimits,
 		Shutdown:    20 * time.Second,
 	}
+	c.TLSProxy = getenv("PATHVET_BEHIND_TLS") == "true"
 	if v := getenv("PATHVET_ADDR"); v != "" {
 		c.Addr = v
 	}
@@ -63,6 +66,7 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet) {
 	fs.Int64Var(&c.Limits.PackageBytes, "max-package-bytes", c.Limits.PackageBytes, "largest package JSON")
 	fs.Int64Var(&c.Limits.CSVBytes, "max-csv-bytes", c.Limits.CSVBytes, "largest CSV data")
 	fs.IntVar(&c.Limits.Rows, "max-rows", c.Limits.Rows, "most data rows")
+	fs.BoolVar(&c.TLSProxy, "behind-tls", c.TLSProxy, "served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)")
 }
 
 func (c Config) validate() error {

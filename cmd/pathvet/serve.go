@@ -70,7 +70,8 @@ func (m *Main) Run(ctx context.Context) error {
 	if !m.serve {
 		return nil
 	}
-	srv := api.New(api.Config{Store: db, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics})
+	srv := api.New(api.Config{Store: db, Web: db, TLSProxy: m.Config.TLSProxy, Limits: m.Config.Limits, Logger: m.Logger,
+		Metrics: metrics})
 	m.ln, err = net.Listen("tcp", m.Config.Addr)
 	if err != nil {
 		return fmt.Errorf("listen on %s: %w", m.Config.Addr, err)

@@ -1,0 +1,88 @@
+package main
+
+import (
+	"context"
+	"io"
+	"net/http"
+	"net/http/cookiejar"
+	"net/url"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/store/storetest"
+)
+
+var csrfRE = regexp.MustCompile(`name="_csrf" value="([^"]+)"`)
+
+type webClient struct {
+	t    *testing.T
+	base string
+	http *http.Client
+}
+
+func newWebClient(t *testing.T, base string) *webClient {
+	jar, _ := cookiejar.New(nil)
+	return &webClient{t, base, &http.Client{Jar: jar, Transport: rec,
+		CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse }}}
+}
+
+func (w *webClient) get(path string) (int, string) {
+	resp, err := w.http.Get(w.base + path)
+	if err != nil {
+		w.t.Fatal(err)
+	}
+	defer resp.Body.Close()
+	b, _ := io.ReadAll(resp.Body)
+	return resp.StatusCode, string(b)
+}
+
+func (w *webClient) post(path string, form url.Values) (int, http.Header, string) {
+	resp, err := w.http.PostForm(w.base+path, form)
+	if err != nil {
+		w.t.Fatal(err)
+	}
+	defer resp.Body.Close()
+	b, _ := io.ReadAll(resp.Body)
+	return resp.StatusCode, resp.Header, string(b)
+}
+
+// TestWeb_SignIn over plain HTTP: a wrong key shows the form again, the
+// fourth failure from one address makes the next attempt wait (even with
+// the right key), and a form without its token is refused.
+func TestWeb_SignIn(t *testing.T) {
+	db, dburl := storetest.MustOpenDB(t)
+	m := startMain(t, dburl)
+	defer m.Close()
+	token := mustKeyToken(t, db, "Office T", store.RoleEditor)
+	w := newWebClient(t, m.URL())
+	code, page := w.get("/")
+	csrf := csrfRE.FindStringSubmatch(page)
+	if code != http.StatusOK || csrf == nil || !strings.Contains(page, `name="key"`) {
+		t.Fatalf("sign-in page: %d %.300s", code, page)
+	}
+	if code, _, _ := w.post("/session", url.Values{"key": {token}}); code != http.StatusBadRequest {
+		t.Fatalf("sign-in without the CSRF token: %d", code)
+	}
+	for i := 1; i <= 4; i++ {
+		code, _, page := w.post("/session", url.Values{"key": {"pv_wrong"}, "_csrf": {csrf[1]}})
+		if code != http.StatusUnprocessableEntity || !strings.Contains(page, "not accepted") || !strings.Contains(page, `name="key"`) {
+			t.Fatalf("wrong key %d: %d %.300s", i, code, page)
+		}
+	}
+	code, hdr, page := w.post("/session", url.Values{"key": {token}, "_csrf": {csrf[1]}})
+	if code != http.StatusTooManyRequests || hdr.Get("Retry-After") == "" || !strings.Contains(page, "Too many failed sign-ins") {
+		t.Fatalf("after four failures: %d %q %.300s", code, hdr.Get("Retry-After"), page)
+	}
+	if _, err := db.Pool.Exec(context.Background(), `DELETE FROM web_sign_in_failures`); err != nil {
+		t.Fatal(err)
+	}
+	code, hdr, _ = w.post("/session", url.Values{"key": {token}, "_csrf": {csrf[1]}})
+	if code != http.StatusSeeOther || hdr.Get("Location") != "/" || !strings.Contains(hdr.Get("Set-Cookie"), "HttpOnly") {
+		t.Fatalf("sign-in: %d %v", code, hdr)
+	}
+	if code, page := w.get("/"); code != http.StatusOK || !strings.Contains(page, "Submissions of Office T") {
+		t.Fatalf("dashboard: %d %.300s", code, page)
+	}
+}
