@@ -11,9 +11,9 @@ import (
 
 	"github.com/labstack/echo/v4"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/render"
-	"github.com/pathvet/pathvet/store"
 )
 
 // The web workspace: the dashboard, submission pages and the letter, for
@@ -38,7 +38,7 @@ const timeFormat = "2 Jan 2006, 15:04 UTC"
 
 // home is GET /: the dashboard with a session, the sign-in form without.
 func (s *Server) home(c echo.Context) error {
-	if _, ok := c.Get(keyContext).(*store.Key); !ok {
+	if _, ok := c.Get(keyContext).(*service.Key); !ok {
 		return s.signInPage(c, http.StatusOK, "")
 	}
 	d, err := s.dashboard(c)
@@ -58,7 +58,7 @@ func (s *Server) dashboard(c echo.Context) (*render.Dashboard, error) {
 	if !validStatus[d.Filter.Status] || !validBand[d.Filter.Band] {
 		return nil, problemError(http.StatusBadRequest, "Choose a band and a status from the lists.")
 	}
-	subs, next, err := s.cfg.Store.Submissions(ctx, store.Filter{Scope: sc, ManuscriptID: d.Filter.Manuscript,
+	subs, next, err := s.cfg.Store.Submissions(ctx, service.Filter{Scope: sc, ManuscriptID: d.Filter.Manuscript,
 		Status: d.Filter.Status, Band: d.Filter.Band, Cursor: c.QueryParam("cursor"), Limit: dashboardPage})
 	if err != nil {
 		return nil, err
@@ -88,7 +88,7 @@ func nextURL(c echo.Context, cursor string) string {
 
 // fillRows lists the submissions, the versions of one manuscript grouped
 // where the newest of them stands.
-func (s *Server) fillRows(c echo.Context, d *render.Dashboard, subs []*store.Submission) error {
+func (s *Server) fillRows(c echo.Context, d *render.Dashboard, subs []*service.Submission) error {
 	ids := make([]string, len(subs))
 	for i, sub := range subs {
 		ids[i] = sub.ID
@@ -100,7 +100,7 @@ func (s *Server) fillRows(c echo.Context, d *render.Dashboard, subs []*store.Sub
 	at := map[string]int{}
 	for _, sub := range subs {
 		row := dashboardRow(sub, vs[sub.ID])
-		d.Refresh = d.Refresh || sub.Status == store.StatusQueued || sub.Status == store.StatusRunning
+		d.Refresh = d.Refresh || sub.Status == service.StatusQueued || sub.Status == service.StatusRunning
 		if i, ok := at[sub.ManuscriptID]; ok && sub.ManuscriptID != "" {
 			d.Groups[i].Rows = append(d.Groups[i].Rows, row)
 			continue
@@ -111,7 +111,7 @@ func (s *Server) fillRows(c echo.Context, d *render.Dashboard, subs []*store.Sub
 	return nil
 }
 
-func dashboardRow(sub *store.Submission, v store.Version) render.Row {
+func dashboardRow(sub *service.Submission, v service.Version) render.Row {
 	r := render.Row{ID: sub.ID, Title: sub.Title, ManuscriptID: sub.ManuscriptID, Status: sub.Status,
 		Received: sub.CreatedAt.UTC().Format(timeFormat), KeyLabel: keyLabel(sub), Score: sub.Score}
 	if sub.Band != nil {
@@ -121,18 +121,18 @@ func dashboardRow(sub *store.Submission, v store.Version) render.Row {
 		r.Version = fmt.Sprintf("version %d of %d", v.N, v.Of)
 	}
 	switch {
-	case sub.Status == store.StatusRunning:
+	case sub.Status == service.StatusRunning:
 		r.Progress = fmt.Sprintf("attempt %d, since %s", sub.Attempts, sub.UpdatedAt.UTC().Format("15:04 UTC"))
-	case sub.Status == store.StatusQueued && sub.Attempts > 0:
+	case sub.Status == service.StatusQueued && sub.Attempts > 0:
 		r.Progress = fmt.Sprintf("waiting to retry after attempt %d", sub.Attempts)
-	case sub.Status == store.StatusFailed:
+	case sub.Status == service.StatusFailed:
 		r.Progress = sub.Error
 	}
 	return r
 }
 
 // keyLabel names the key a submission was sent with.
-func keyLabel(sub *store.Submission) string {
+func keyLabel(sub *service.Submission) string {
 	return "key " + strconv.FormatInt(sub.SubmitterKeyID, 10)
 }
 
@@ -148,7 +148,7 @@ func (s *Server) fillCounts(c echo.Context, d *render.Dashboard) error {
 	return nil
 }
 
-func (s *Server) fillRecurring(c echo.Context, d *render.Dashboard, sc store.Scope) error {
+func (s *Server) fillRecurring(c echo.Context, d *render.Dashboard, sc service.Scope) error {
 	since := time.Now().Add(-periods[d.Filter.Period])
 	raw, more, err := s.cfg.Web.RecentReports(c.Request().Context(), sc, since, recurringLimit)
 	if err != nil {

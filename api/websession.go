@@ -10,24 +10,23 @@ import (
 	"github.com/labstack/echo/v4"
 	"github.com/labstack/echo/v4/middleware"
 
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks/render"
-	"github.com/pathvet/pathvet/store"
 )
 
 // WebStore is what the web workspace needs from storage beyond Store.
 type WebStore interface {
-	OpenSession(ctx context.Context, k *store.Key, ttl time.Duration) (string, error)
-	SessionKey(ctx context.Context, id string) (*store.Key, error)
+	OpenSession(ctx context.Context, k *service.Key, ttl time.Duration) (string, error)
+	SessionKey(ctx context.Context, id string) (*service.Key, error)
 	EndSession(ctx context.Context, id string) error
 	SignInWait(ctx context.Context, address string) (time.Duration, error)
 	NoteSignInFailure(ctx context.Context, address string) error
 	ClearSignInFailures(ctx context.Context, address string) error
-	ReportHistory(ctx context.Context, id string, sc store.Scope) ([]store.ReportEntry, error)
-	PreviousVersion(ctx context.Context, sub *store.Submission, sc store.Scope) (*store.Submission, []byte, error)
-	Versions(ctx context.Context, ids []string, sc store.Scope) (map[string]store.Version, error)
-	BandCounts(ctx context.Context, sc store.Scope) (map[string]int, error)
-	RecentReports(ctx context.Context, sc store.Scope, since time.Time, limit int) ([][]byte, bool, error)
+	ReportHistory(ctx context.Context, id string, sc service.Scope) ([]service.ReportEntry, error)
+	PreviousVersion(ctx context.Context, sub *service.Submission, sc service.Scope) (*service.Submission, []byte, error)
+	Versions(ctx context.Context, ids []string, sc service.Scope) (map[string]service.Version, error)
+	BandCounts(ctx context.Context, sc service.Scope) (map[string]int, error)
+	RecentReports(ctx context.Context, sc service.Scope, since time.Time, limit int) ([][]byte, bool, error)
 }
 
 // Names of the workspace's cookies and the form field of the CSRF token.
@@ -83,7 +82,7 @@ func (s *Server) webPage(next echo.HandlerFunc) echo.HandlerFunc {
 
 func (s *Server) notice(c echo.Context, status int, title, msg string) error {
 	var nav *render.Nav
-	if _, ok := c.Get(keyContext).(*store.Key); ok {
+	if _, ok := c.Get(keyContext).(*service.Key); ok {
 		n := s.nav(c)
 		nav = &n
 	}
@@ -120,7 +119,7 @@ func (s *Server) withSession(next echo.HandlerFunc) echo.HandlerFunc {
 		}
 		k, err := s.cfg.Web.SessionKey(c.Request().Context(), ck.Value)
 		switch {
-		case checks.ErrorCode(err) == checks.ENotFound:
+		case service.ErrorCode(err) == service.ENotFound:
 			return next(c)
 		case err != nil:
 			return err
@@ -135,7 +134,7 @@ func (s *Server) withSession(next echo.HandlerFunc) echo.HandlerFunc {
 // page; it never shows a report.
 func requireSession(next echo.HandlerFunc) echo.HandlerFunc {
 	return func(c echo.Context) error {
-		if _, ok := c.Get(keyContext).(*store.Key); !ok {
+		if _, ok := c.Get(keyContext).(*service.Key); !ok {
 			return c.Redirect(http.StatusSeeOther, "/")
 		}
 		return next(c)
@@ -171,7 +170,7 @@ func (s *Server) signIn(c echo.Context) error {
 			fmt.Sprintf("Too many failed sign-ins from this address. Wait %d seconds and try again.", max(secs, 1)))
 	}
 	k, err := s.cfg.Store.KeyByToken(ctx, strings.TrimSpace(c.FormValue("key")))
-	if checks.ErrorCode(err) == checks.ENotFound {
+	if service.ErrorCode(err) == service.ENotFound {
 		if err := s.cfg.Web.NoteSignInFailure(ctx, addr); err != nil {
 			return err
 		}
@@ -183,7 +182,7 @@ func (s *Server) signIn(c echo.Context) error {
 	return s.openSession(c, k, addr)
 }
 
-func (s *Server) openSession(c echo.Context, k *store.Key, addr string) error {
+func (s *Server) openSession(c echo.Context, k *service.Key, addr string) error {
 	ctx := c.Request().Context()
 	if err := s.cfg.Web.ClearSignInFailures(ctx, addr); err != nil {
 		return err

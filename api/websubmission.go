@@ -9,9 +9,9 @@ import (
 
 	"github.com/labstack/echo/v4"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/render"
-	"github.com/pathvet/pathvet/store"
 )
 
 // webSubmission is GET /submissions/{id}: the report (the newest, or the
@@ -48,7 +48,7 @@ func (s *Server) webSubmission(c echo.Context) error {
 }
 
 // pickReport finds the report named by ?report= (its id), else the newest.
-func pickReport(hist []store.ReportEntry, param string) (int, error) {
+func pickReport(hist []service.ReportEntry, param string) (int, error) {
 	if param == "" {
 		return 0, nil
 	}
@@ -57,7 +57,7 @@ func pickReport(hist []store.ReportEntry, param string) (int, error) {
 			return i, nil
 		}
 	}
-	return 0, checks.Errorf(checks.ENotFound, "no such report")
+	return 0, service.Errorf(service.ENotFound, "no such report")
 }
 
 func decodeReport(b []byte) (*checks.Report, error) {
@@ -69,7 +69,7 @@ func decodeReport(b []byte) (*checks.Report, error) {
 }
 
 // historyEntries numbers the reports oldest first, as they were made.
-func historyEntries(id string, hist []store.ReportEntry, shown int) []render.HistoryEntry {
+func historyEntries(id string, hist []service.ReportEntry, shown int) []render.HistoryEntry {
 	out := make([]render.HistoryEntry, len(hist))
 	for i, h := range hist {
 		out[i] = render.HistoryEntry{N: len(hist) - i, When: h.CreatedAt.UTC().Format(timeFormat), Tool: h.ToolVersion,
@@ -79,9 +79,9 @@ func historyEntries(id string, hist []store.ReportEntry, shown int) []render.His
 	return out
 }
 
-func (s *Server) previous(c echo.Context, sub *store.Submission, rep *checks.Report) (*render.Previous, error) {
+func (s *Server) previous(c echo.Context, sub *service.Submission, rep *checks.Report) (*render.Previous, error) {
 	prev, b, err := s.cfg.Web.PreviousVersion(c.Request().Context(), sub, keyOf(c).Scope())
-	if checks.ErrorCode(err) == checks.ENotFound {
+	if service.ErrorCode(err) == service.ENotFound {
 		return nil, nil
 	}
 	if err != nil {
@@ -123,7 +123,7 @@ func (s *Server) webLetter(c echo.Context) error {
 // webRerun is POST /submissions/{id}/rerun from the page's form.
 func (s *Server) webRerun(c echo.Context) error {
 	sub, err := s.cfg.Store.Rerun(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
-	if checks.ErrorCode(err) == checks.EConflict {
+	if service.ErrorCode(err) == service.EConflict {
 		return s.notice(c, http.StatusConflict, "Already being screened",
 			"This submission is queued or running; it can be screened again once it is done.")
 	}

@@ -7,12 +7,12 @@ import (
 	"math"
 	"time"
 
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/api/service"
 )
 
 // OpenSession opens a web session for key that lasts ttl and returns its
 // id, which is stored only as its hash.
-func (db *DB) OpenSession(ctx context.Context, k *Key, ttl time.Duration) (string, error) {
+func (db *DB) OpenSession(ctx context.Context, k *service.Key, ttl time.Duration) (string, error) {
 	raw := make([]byte, 32)
 	if _, err := rand.Read(raw); err != nil {
 		return "", err
@@ -26,8 +26,8 @@ func (db *DB) OpenSession(ctx context.Context, k *Key, ttl time.Duration) (strin
 
 // SessionKey returns the key of a live session: not ended, not expired,
 // its key not revoked; else a not-found error.
-func (db *DB) SessionKey(ctx context.Context, id string) (*Key, error) {
-	k := &Key{}
+func (db *DB) SessionKey(ctx context.Context, id string) (*service.Key, error) {
+	k := &service.Key{}
 	err := db.Pool.QueryRow(ctx, `
 		SELECT k.id, k.office_id, o.name, k.role, k.created_at
 		FROM web_sessions w JOIN api_keys k ON k.id = w.key_id JOIN offices o ON o.id = k.office_id
@@ -59,7 +59,7 @@ func (db *DB) SignInWait(ctx context.Context, address string) (time.Duration, er
 	var last time.Time
 	err := db.Pool.QueryRow(ctx, `SELECT failures, last_at FROM web_sign_in_failures WHERE address = $1`, address).
 		Scan(&failures, &last)
-	if checks.ErrorCode(dbError(err, "failures")) == checks.ENotFound {
+	if service.ErrorCode(dbError(err, "failures")) == service.ENotFound {
 		return 0, nil
 	}
 	if err != nil {

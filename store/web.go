@@ -4,26 +4,16 @@ import (
 	"context"
 	"time"
 
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/api/service"
 )
 
 // Queries of the web workspace: report history, versions of a manuscript,
 // counts by band and the recent reports behind the office's recurring
 // findings. Each is limited to what a scope may see.
 
-// ReportEntry is one stored report of a submission.
-type ReportEntry struct {
-	ID          int64
-	CreatedAt   time.Time
-	Score       int
-	Band        string
-	ToolVersion string
-	Report      []byte
-}
-
 // ReportHistory returns every report of a submission the scope may see,
 // newest first.
-func (db *DB) ReportHistory(ctx context.Context, id string, sc Scope) ([]ReportEntry, error) {
+func (db *DB) ReportHistory(ctx context.Context, id string, sc service.Scope) ([]service.ReportEntry, error) {
 	if _, err := db.Submission(ctx, id, sc); err != nil {
 		return nil, err
 	}
@@ -33,9 +23,9 @@ func (db *DB) ReportHistory(ctx context.Context, id string, sc Scope) ([]ReportE
 		return nil, dbError(err, "reports")
 	}
 	defer rows.Close()
-	var out []ReportEntry
+	var out []service.ReportEntry
 	for rows.Next() {
-		var e ReportEntry
+		var e service.ReportEntry
 		var b string
 		if err := rows.Scan(&e.ID, &e.CreatedAt, &e.Score, &e.Band, &e.ToolVersion, &b); err != nil {
 			return nil, dbError(err, "reports")
@@ -50,9 +40,9 @@ func (db *DB) ReportHistory(ctx context.Context, id string, sc Scope) ([]ReportE
 // just before sub, among those the scope may see, with its newest report
 // (nil when it has none); not found when sub is the first version or has
 // no manuscript ID.
-func (db *DB) PreviousVersion(ctx context.Context, sub *Submission, sc Scope) (*Submission, []byte, error) {
+func (db *DB) PreviousVersion(ctx context.Context, sub *service.Submission, sc service.Scope) (*service.Submission, []byte, error) {
 	if sub.ManuscriptID == "" {
-		return nil, nil, checks.Errorf(checks.ENotFound, "no manuscript ID, so no earlier version")
+		return nil, nil, service.Errorf(service.ENotFound, "no manuscript ID, so no earlier version")
 	}
 	prev, err := scanSubmission(db.Pool.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+` WHERE`+scopeSQL+`
 		AND s.manuscript_id = $4 AND (s.created_at, s.id) < ($5, $6)
@@ -62,19 +52,16 @@ func (db *DB) PreviousVersion(ctx context.Context, sub *Submission, sc Scope) (*
 		return nil, nil, dbError(err, "earlier version")
 	}
 	b, err := db.LatestReport(ctx, prev.ID, sc)
-	if checks.ErrorCode(err) == checks.ENotFound {
+	if service.ErrorCode(err) == service.ENotFound {
 		return prev, nil, nil
 	}
 	return prev, b, err
 }
 
-// Version is a submission's place among the versions of its manuscript.
-type Version struct{ N, Of int }
-
 // Versions numbers each listed submission among the submissions of its
 // manuscript the scope may see, oldest first; submissions without a
 // manuscript ID are left out.
-func (db *DB) Versions(ctx context.Context, ids []string, sc Scope) (map[string]Version, error) {
+func (db *DB) Versions(ctx context.Context, ids []string, sc service.Scope) (map[string]service.Version, error) {
 	rows, err := db.Pool.Query(ctx, `
 		SELECT s.id::text,
 			(SELECT count(*) FROM submissions t WHERE t.office_id = s.office_id AND t.manuscript_id = s.manuscript_id
@@ -87,10 +74,10 @@ func (db *DB) Versions(ctx context.Context, ids []string, sc Scope) (map[string]
 		return nil, dbError(err, "versions")
 	}
 	defer rows.Close()
-	out := map[string]Version{}
+	out := map[string]service.Version{}
 	for rows.Next() {
 		var id string
-		var v Version
+		var v service.Version
 		if err := rows.Scan(&id, &v.N, &v.Of); err != nil {
 			return nil, dbError(err, "versions")
 		}
@@ -101,7 +88,7 @@ func (db *DB) Versions(ctx context.Context, ids []string, sc Scope) (map[string]
 
 // BandCounts counts the scope's submissions by the band of their newest
 // report; those not yet screened count under "".
-func (db *DB) BandCounts(ctx context.Context, sc Scope) (map[string]int, error) {
+func (db *DB) BandCounts(ctx context.Context, sc service.Scope) (map[string]int, error) {
 	rows, err := db.Pool.Query(ctx, `SELECT coalesce(r.band, ''), count(*)`+submissionFrom+` WHERE`+scopeSQL+`
 		GROUP BY 1`, sc.OfficeID, sc.Editor, sc.KeyID)
 	if err != nil {
@@ -123,7 +110,7 @@ func (db *DB) BandCounts(ctx context.Context, sc Scope) (map[string]int, error) 
 // RecentReports returns the newest report of each of the scope's
 // submissions received since the given time, at most limit of them
 // (newest submissions first), and whether more were left out.
-func (db *DB) RecentReports(ctx context.Context, sc Scope, since time.Time, limit int) ([][]byte, bool, error) {
+func (db *DB) RecentReports(ctx context.Context, sc service.Scope, since time.Time, limit int) ([][]byte, bool, error) {
 	rows, err := db.Pool.Query(ctx, `
 		SELECT r.report::text FROM submissions s JOIN LATERAL (
 			SELECT report FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1) r ON true

@@ -5,6 +5,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
@@ -12,7 +13,7 @@ import (
 
 func TestSessions(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
-	k, _ := mustKey(t, db, "Office S", store.RoleEditor)
+	k, _ := mustKey(t, db, "Office S", service.RoleEditor)
 	id, err := db.OpenSession(ctx, k, time.Hour)
 	if err != nil {
 		t.Fatal(err)
@@ -22,22 +23,22 @@ func TestSessions(t *testing.T) {
 		t.Fatalf("the session id is stored as is, or not at all: %v", err)
 	}
 	got, err := db.SessionKey(ctx, id)
-	if err != nil || got.ID != k.ID || got.OfficeID != k.OfficeID || got.Role != store.RoleEditor {
+	if err != nil || got.ID != k.ID || got.OfficeID != k.OfficeID || got.Role != service.RoleEditor {
 		t.Fatalf("session key: %+v, %v", got, err)
 	}
-	if _, err := db.SessionKey(ctx, id+"x"); checks.ErrorCode(err) != checks.ENotFound {
+	if _, err := db.SessionKey(ctx, id+"x"); service.ErrorCode(err) != service.ENotFound {
 		t.Fatalf("unknown session: %v", err)
 	}
 	now := db.Now
 	db.Now = func() time.Time { return now().Add(2 * time.Hour) }
-	if _, err := db.SessionKey(ctx, id); checks.ErrorCode(err) != checks.ENotFound {
+	if _, err := db.SessionKey(ctx, id); service.ErrorCode(err) != service.ENotFound {
 		t.Fatalf("expired session: %v", err)
 	}
 	db.Now = now
 	if err := db.EndSession(ctx, id); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := db.SessionKey(ctx, id); checks.ErrorCode(err) != checks.ENotFound {
+	if _, err := db.SessionKey(ctx, id); service.ErrorCode(err) != service.ENotFound {
 		t.Fatalf("ended session: %v", err)
 	}
 }
@@ -84,9 +85,9 @@ func saveReport(t *testing.T, db *store.DB, id string, score int) {
 
 func TestWorkspaceQueries(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
-	editor, _ := mustKey(t, db, "Office W", store.RoleEditor)
-	author, _ := mustKey(t, db, "Office W", store.RoleSubmitter)
-	other, _ := mustKey(t, db, "Office V", store.RoleEditor)
+	editor, _ := mustKey(t, db, "Office W", service.RoleEditor)
+	author, _ := mustKey(t, db, "Office W", service.RoleSubmitter)
+	other, _ := mustKey(t, db, "Office V", service.RoleEditor)
 	v1, _, _ := db.CreateSubmission(ctx, newSub(author, "h1", ""))
 	v2, _, _ := db.CreateSubmission(ctx, newSub(editor, "h2", ""))
 	saveReport(t, db, v1.ID, 40)
@@ -97,7 +98,7 @@ func TestWorkspaceQueries(t *testing.T) {
 	if err != nil || len(hist) != 2 || hist[0].Score != 90 || hist[1].Score != 70 || !json.Valid(hist[0].Report) {
 		t.Fatalf("history: %+v, %v", hist, err)
 	}
-	if _, err := db.ReportHistory(ctx, v2.ID, other.Scope()); checks.ErrorCode(err) != checks.ENotFound {
+	if _, err := db.ReportHistory(ctx, v2.ID, other.Scope()); service.ErrorCode(err) != service.ENotFound {
 		t.Fatalf("another office's history: %v", err)
 	}
 	v2s, _ := db.Submission(ctx, v2.ID, editor.Scope())
@@ -106,14 +107,14 @@ func TestWorkspaceQueries(t *testing.T) {
 		t.Fatalf("previous version: %+v, %v", prev, err)
 	}
 	v1s, _ := db.Submission(ctx, v1.ID, author.Scope())
-	if _, _, err := db.PreviousVersion(ctx, v1s, author.Scope()); checks.ErrorCode(err) != checks.ENotFound {
+	if _, _, err := db.PreviousVersion(ctx, v1s, author.Scope()); service.ErrorCode(err) != service.ENotFound {
 		t.Fatalf("the first version has an earlier one: %v", err)
 	}
-	if _, _, err := db.PreviousVersion(ctx, v2s, other.Scope()); checks.ErrorCode(err) != checks.ENotFound {
+	if _, _, err := db.PreviousVersion(ctx, v2s, other.Scope()); service.ErrorCode(err) != service.ENotFound {
 		t.Fatalf("another office sees the earlier version: %v", err)
 	}
 	vs, err := db.Versions(ctx, []string{v1.ID, v2.ID}, editor.Scope())
-	if err != nil || vs[v1.ID] != (store.Version{N: 1, Of: 2}) || vs[v2.ID] != (store.Version{N: 2, Of: 2}) {
+	if err != nil || vs[v1.ID] != (service.Version{N: 1, Of: 2}) || vs[v2.ID] != (service.Version{N: 2, Of: 2}) {
 		t.Fatalf("versions: %v, %v", vs, err)
 	}
 	counts, err := db.BandCounts(ctx, editor.Scope())

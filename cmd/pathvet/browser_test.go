@@ -16,8 +16,8 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/pathvet/pathvet/api"
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
-	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
 )
 
@@ -63,7 +63,7 @@ func mustSubmit(t *testing.T, c apiClient, ctype string, body []byte) api.Submis
 	if code != http.StatusAccepted || json.Unmarshal(b, &v) != nil {
 		t.Fatalf("submit: %d %.300s", code, b)
 	}
-	if code, done := c.submission(v.Links.Self + "?wait=30s"); code != http.StatusOK || done.Status != store.StatusDone {
+	if code, done := c.submission(v.Links.Self + "?wait=30s"); code != http.StatusOK || done.Status != service.StatusDone {
 		t.Fatalf("screening: %d %+v", code, done)
 	}
 	return v
@@ -94,9 +94,9 @@ func newBrowserFixture(t *testing.T) *browserFixture {
 	f := &browserFixture{m: startMain(t, url)}
 	t.Cleanup(func() { _ = f.m.Close() })
 	base := f.m.URL()
-	f.editorToken = mustKeyToken(t, db, "Office of Invented Studies", store.RoleEditor)
+	f.editorToken = mustKeyToken(t, db, "Office of Invented Studies", service.RoleEditor)
 	editor := apiClient{t, &base, f.editorToken}
-	other := apiClient{t, &base, mustKeyToken(t, db, "Another office", store.RoleEditor)}
+	other := apiClient{t, &base, mustKeyToken(t, db, "Another office", service.RoleEditor)}
 	tutoring := readFile(t, "../../testdata/demo/tutoring-anxiety/package.json")
 	f.tutoring = mustSubmit(t, editor, "application/json", tutoring)
 	f.club = submitMultipart(t, editor, "../../testdata/demo/coding-club")

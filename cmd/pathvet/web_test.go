@@ -10,7 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/store/storetest"
 )
 
@@ -55,7 +55,7 @@ func TestWeb_SignIn(t *testing.T) {
 	db, dburl := storetest.MustOpenDB(t)
 	m := startMain(t, dburl)
 	defer m.Close()
-	token := mustKeyToken(t, db, "Office T", store.RoleEditor)
+	token := mustKeyToken(t, db, "Office T", service.RoleEditor)
 	w := newWebClient(t, m.URL())
 	code, page := w.get("/")
 	csrf := csrfRE.FindStringSubmatch(page)
