@@ -74,7 +74,8 @@ func (s *Server) webPage(next echo.HandlerFunc) echo.HandlerFunc {
 		case p.Status == http.StatusNotFound:
 			title, msg = "Not found", "There is no such submission among those this key may see."
 		case p.Status == http.StatusForbidden, strings.Contains(msg, "csrf"):
-			title, msg = "Form refused", "The form was refused because it lacked its security token. Go back, reload the page and try again."
+			title, msg = "Form refused", "The form was refused because it lacked its security token. "+
+				"Go back, reload the page and try again."
 		}
 		return s.notice(c, p.Status, title, msg)
 	}

@@ -19,8 +19,8 @@ func (db *DB) OpenSession(ctx context.Context, k *service.Key, ttl time.Duration
 	}
 	id := base64.RawURLEncoding.EncodeToString(raw)
 	now := db.now()
-	_, err := db.Pool.Exec(ctx, `INSERT INTO web_sessions (id_sha256, key_id, created_at, expires_at) VALUES ($1, $2, $3, $4)`,
-		hashToken(id), k.ID, now, now.Add(ttl))
+	_, err := db.Pool.Exec(ctx, `INSERT INTO web_sessions (id_sha256, key_id, created_at, expires_at)
+		VALUES ($1, $2, $3, $4)`, hashToken(id), k.ID, now, now.Add(ttl))
 	return id, dbError(err, "session")
 }
 

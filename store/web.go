@@ -40,7 +40,8 @@ func (db *DB) ReportHistory(ctx context.Context, id string, sc service.Scope) ([
 // just before sub, among those the scope may see, with its newest report
 // (nil when it has none); not found when sub is the first version or has
 // no manuscript ID.
-func (db *DB) PreviousVersion(ctx context.Context, sub *service.Submission, sc service.Scope) (*service.Submission, []byte, error) {
+func (db *DB) PreviousVersion(ctx context.Context, sub *service.Submission, sc service.Scope) (
+	*service.Submission, []byte, error) {
 	if sub.ManuscriptID == "" {
 		return nil, nil, service.Errorf(service.ENotFound, "no manuscript ID, so no earlier version")
 	}

@@ -97,8 +97,10 @@ func StabilityChart(c checks.ClaimReport, alpha float64) template.HTML {
 	h := float64(len(rows))*rowH + axisH
 	var b strings.Builder
 	id := "chart-" + c.ID
-	fmt.Fprintf(&b, `<svg class="chart" viewBox="0 0 %.0f %.0f" role="img" aria-labelledby="%[3]s-t %[3]s-d">`, chartW, h, esc(id))
-	fmt.Fprintf(&b, `<title id="%[1]s-t">Claim %[2]s across graphs and missing-data methods</title><desc id="%[1]s-d">%[3]s</desc>`,
+	fmt.Fprintf(&b, `<svg class="chart" viewBox="0 0 %.0f %.0f" role="img" aria-labelledby="%[3]s-t %[3]s-d">`,
+		chartW, h, esc(id))
+	fmt.Fprintf(&b, `<title id="%[1]s-t">Claim %[2]s across graphs and missing-data methods</title>`+
+		`<desc id="%[1]s-d">%[3]s</desc>`,
 		esc(id), esc(c.ID), esc(chartWords(rows)))
 	x0 := sc.At(null)
 	fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="4" x2="%.1f" y2="%.1f"/>`, x0, x0, h-axisH+4)

@@ -28,11 +28,14 @@ type drawnArc struct {
 
 // svgMarkers are the arrowheads, with ids made unique by prefix.
 const svgMarkers = `<defs>` +
-	`<marker id="%[1]s-head" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="10" markerHeight="10" markerUnits="userSpaceOnUse" orient="auto">` +
+	`<marker id="%[1]s-head" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="10" markerHeight="10" ` +
+	`markerUnits="userSpaceOnUse" orient="auto">` +
 	`<path d="M0,0 L10,5 L0,10 z" class="head"/></marker>` +
-	`<marker id="%[1]s-open" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="11" markerHeight="11" markerUnits="userSpaceOnUse" orient="auto">` +
+	`<marker id="%[1]s-open" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="11" markerHeight="11" ` +
+	`markerUnits="userSpaceOnUse" orient="auto">` +
 	`<path d="M1,1 L9,5 L1,9" class="openhead"/></marker>` +
-	`<marker id="%[1]s-bar" viewBox="0 0 10 10" refX="0" refY="5" markerWidth="11" markerHeight="11" markerUnits="userSpaceOnUse" orient="auto">` +
+	`<marker id="%[1]s-bar" viewBox="0 0 10 10" refX="0" refY="5" markerWidth="11" markerHeight="11" ` +
+	`markerUnits="userSpaceOnUse" orient="auto">` +
 	`<path d="M2,0 L2,10 M6,0 L6,10" class="bar"/></marker></defs>`
 
 // declaredArcs classifies the declared graph's arcs against its CPDAG.

@@ -25,7 +25,8 @@ func ledger(r *checks.Report) Ledger {
 	run := 100
 	for _, c := range r.Checks {
 		run -= c.Deduction
-		l.Lines = append(l.Lines, LedgerLine{Title: c.Title, Status: statusWords(c.Status), Deduction: c.Deduction, Running: run})
+		l.Lines = append(l.Lines, LedgerLine{Title: c.Title, Status: statusWords(c.Status),
+			Deduction: c.Deduction, Running: run})
 	}
 	l.Floored = run < 0
 	return l

@@ -22,9 +22,11 @@ type Question struct {
 
 // asks are the questions each check's findings raise.
 var asks = map[string]string{
-	"graph-declared":          "Could you state the complete causal graph that these claims rest on?",
-	"graph-fit":               "How do you reconcile the declared graph with this, and would a revised graph change the claims?",
-	"equivalence":             "What evidence beyond these data supports the direction of the arrows this claim depends on?",
+	"graph-declared": "Could you state the complete causal graph that these claims rest on?",
+	"graph-fit": "How do you reconcile the declared graph with this, " +
+		"and would a revised graph change the claims?",
+	"equivalence": "What evidence beyond these data supports the direction " +
+		"of the arrows this claim depends on?",
 	"alternatives":            "Why should readers prefer the declared graph to this alternative?",
 	"missing-data":            "Would you report the claims under maximum likelihood or multiple imputation as well?",
 	"effect-reporting":        "Could you report the effect size with its interval, and make it agree with the stated p-value?",

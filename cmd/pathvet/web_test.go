@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"encoding/json"
 	"io"
 	"net/http"
 	"net/http/cookiejar"
@@ -10,7 +11,9 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/pathvet/pathvet/api"
 	"github.com/pathvet/pathvet/api/service"
+	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
 )
 
@@ -84,5 +87,32 @@ func TestWeb_SignIn(t *testing.T) {
 	}
 	if code, page := w.get("/"); code != http.StatusOK || !strings.Contains(page, "Submissions of Office T") {
 		t.Fatalf("dashboard: %d %.300s", code, page)
+	}
+	checkSubmitterScope(t, m, db, token)
+}
+
+// checkSubmitterScope: a submitter's session sees its own submissions
+// only, as its key does over the API.
+func checkSubmitterScope(t *testing.T, m *Main, db *store.DB, editorToken string) {
+	base := m.URL()
+	editor := apiClient{t, &base, editorToken}
+	code, _, b := editor.call(http.MethodPost, "/v1/submissions", "application/json",
+		readFile(t, "../../testdata/demo/tutoring-anxiety/package.json"))
+	var sub api.SubmissionView
+	if code != http.StatusAccepted || json.Unmarshal(b, &sub) != nil {
+		t.Fatalf("submit: %d %.200s", code, b)
+	}
+	w := newWebClient(t, base)
+	_, page := w.get("/")
+	csrf := csrfRE.FindStringSubmatch(page)
+	submitter := mustKeyToken(t, db, "Office T", service.RoleSubmitter)
+	if code, _, _ := w.post("/session", url.Values{"key": {submitter}, "_csrf": {csrf[1]}}); code != http.StatusSeeOther {
+		t.Fatalf("submitter sign-in: %d", code)
+	}
+	if code, page := w.get("/submissions/" + sub.ID); code != http.StatusNotFound || !strings.Contains(page, "Not found") {
+		t.Errorf("a submitter opens an editor's submission: %d", code)
+	}
+	if _, page := w.get("/"); strings.Contains(page, sub.ID) {
+		t.Error("a submitter's dashboard lists an editor's submission")
 	}
 }
