@@ -13,7 +13,7 @@ import (
 // Sizes of the stability chart, in SVG user units: narrow enough that its
 // labels stay readable on a 390-pixel screen.
 const (
-	chartW    = 440.0
+	chartW    = 380.0
 	chartPad  = 14.0
 	rowH      = 38.0
 	axisH     = 34.0

@@ -88,12 +88,41 @@ func TestWeb_SignIn(t *testing.T) {
 	if code, page := w.get("/"); code != http.StatusOK || !strings.Contains(page, "Submissions of Office T") {
 		t.Fatalf("dashboard: %d %.300s", code, page)
 	}
-	checkSubmitterScope(t, m, db, token)
+	sub := checkSubmitterScope(t, m, db, token)
+	checkRerunDelete(t, w, m, token, sub, csrf[1])
+}
+
+// checkRerunDelete uses the submission page's forms: screen again (the
+// history then lists the earlier report), then delete.
+func checkRerunDelete(t *testing.T, w *webClient, m *Main, token string, sub api.SubmissionView, csrf string) {
+	base := m.URL()
+	editor := apiClient{t, &base, token}
+	if code, v := editor.submission(sub.Links.Self + "?wait=30s"); code != http.StatusOK || v.Status != service.StatusDone {
+		t.Fatalf("screening: %d %+v", code, v)
+	}
+	code, hdr, _ := w.post("/submissions/"+sub.ID+"/rerun", url.Values{"_csrf": {csrf}})
+	if code != http.StatusSeeOther || hdr.Get("Location") != "/submissions/"+sub.ID {
+		t.Fatalf("rerun: %d %v", code, hdr)
+	}
+	if code, v := editor.submission(sub.Links.Self + "?wait=30s"); code != http.StatusOK || v.Reports != 2 {
+		t.Fatalf("after the rerun: %d %+v", code, v)
+	}
+	if code, page := w.get("/submissions/" + sub.ID); code != http.StatusOK || !strings.Contains(page, "?report=") ||
+		!strings.Contains(page, "2, shown") {
+		t.Fatalf("history after a rerun: %d", code)
+	}
+	code, hdr, _ = w.post("/submissions/"+sub.ID+"/delete", url.Values{"_csrf": {csrf}})
+	if code != http.StatusSeeOther || hdr.Get("Location") != "/" {
+		t.Fatalf("delete: %d %v", code, hdr)
+	}
+	if code, _ := w.get("/submissions/" + sub.ID); code != http.StatusNotFound {
+		t.Fatalf("a deleted submission: %d", code)
+	}
 }
 
 // checkSubmitterScope: a submitter's session sees its own submissions
 // only, as its key does over the API.
-func checkSubmitterScope(t *testing.T, m *Main, db *store.DB, editorToken string) {
+func checkSubmitterScope(t *testing.T, m *Main, db *store.DB, editorToken string) api.SubmissionView {
 	base := m.URL()
 	editor := apiClient{t, &base, editorToken}
 	code, _, b := editor.call(http.MethodPost, "/v1/submissions", "application/json",
@@ -115,4 +144,5 @@ func checkSubmitterScope(t *testing.T, m *Main, db *store.DB, editorToken string
 	if _, page := w.get("/"); strings.Contains(page, sub.ID) {
 		t.Error("a submitter's dashboard lists an editor's submission")
 	}
+	return sub
 }
