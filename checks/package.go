@@ -130,7 +130,7 @@ type Data struct {
 	CSV           string      `json:"csv,omitempty"`
 	MissingCodes  []string    `json:"missing_codes,omitempty" validate:"max=100,dive,max=100"`
 	IgnoreColumns []string    `json:"ignore_columns,omitempty" validate:"max=10000"`
-	N             int         `json:"n,omitempty" validate:"gte=0"`
+	N             int         `json:"n,omitempty" validate:"gte=0,lte=100000000"`
 	Variables     []string    `json:"variables,omitempty"`
 	Correlations  [][]float64 `json:"correlations,omitempty"`
 	SDs           []float64   `json:"sds,omitempty"`

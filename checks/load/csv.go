@@ -69,7 +69,26 @@ func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset 
 		ps.csv(1, 0, "the data have a header but no rows")
 	}
 	s.checkColumns(ds, ps)
+	s.findSuspects(ds)
 	return ds
+}
+
+// findSuspects lists the likely undeclared codes of every column that is
+// not binary (a binary column refuses any value but 0 and 1).
+func (s *study) findSuspects(ds *checks.Dataset) {
+	for j, col := range ds.Columns {
+		if s.Package.Variables[j].Scale != checks.ScaleBinary {
+			ds.Suspects = append(ds.Suspects, Suspects(s.Names[j], col)...)
+		}
+	}
+}
+
+// codeHint suggests declaring a cell as a missing-value code.
+func codeHint(cell string, likely bool) string {
+	if !likely {
+		return ""
+	}
+	return fmt.Sprintf("; if it marks a missing value, list %q in /data/missing_codes", cell)
 }
 
 // headerColumns maps each CSV column to a variable index, -1 for an
@@ -94,7 +113,8 @@ func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 		case ignore[name]:
 			cols[i] = -1
 		default:
-			ps.csv(line, i+1, "column %q is not a declared variable; list it in /data/ignore_columns to skip it", name)
+			ps.csv(line, i+1, "column %q is not a declared variable%s; list it in /data/ignore_columns to skip it",
+				name, didYouMean(name, s.Names))
 		}
 		seen[name] = true
 	}
@@ -124,9 +144,9 @@ func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[st
 		line, _ := r.FieldPos(i)
 		switch {
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
-			ps.csv(line, i+1, "%q in column %q is not a number", cell, s.Names[j])
+			ps.csv(line, i+1, "%q in column %q is not a number%s", cell, s.Names[j], codeHint(cell, missingMark(cell)))
 		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1", cell, s.Names[j])
+			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s", cell, s.Names[j], codeHint(cell, codeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}

@@ -65,13 +65,13 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 			Detail: fmt.Sprintf("the package is %d bytes; the limit is %d", len(doc), lim.PackageBytes)}}}
 	}
 	pkg := new(checks.Package)
-	if err := decodeStrict(doc, pkg); err != nil {
-		return nil, err
-	}
 	var ps problems
+	if !decode(doc, pkg, &ps) {
+		return nil, ps.err()
+	}
 	checkFields(pkg, &ps)
-	checkLimits(pkg, lim, &ps)
-	if len(ps.list) > 0 {
+	ps.shadow()
+	if checkLimits(pkg, lim, &ps) {
 		return nil, ps.err()
 	}
 	s := &study{&checks.Study{Package: pkg, Index: indexVariables(pkg, &ps), Printed: printedClaims(doc, len(pkg.Claims))}}
@@ -80,7 +80,10 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 	}
 	s.resolveGraphs(&ps)
 	checkClaims(pkg, s.Index, &ps)
-	csvText := s.resolveData(opt, lim, &ps)
+	var csvText []byte
+	if !ps.coveredBelow("/data", "/data/kind") {
+		csvText = s.resolveData(opt, lim, &ps)
+	}
 	if err := ps.err(); err != nil {
 		return nil, err
 	}
