@@ -1,6 +1,6 @@
 package checks
 
-// The submission package, format version 1 (../shared/spec/package-format.md;
+// The submission package, format version 1 (schema/package-format.md;
 // the JSON Schema is schema/package-v1.schema.json). Field names are the
 // JSON names; rules that the validator checks stand in the validate tags,
 // the rest in validate.go.
