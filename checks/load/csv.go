@@ -146,7 +146,7 @@ func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[st
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
 			ps.csv(line, i+1, "%q in column %q is not a number%s", cell, s.Names[j], codeHint(cell, missingMark(cell)))
 		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s", cell, s.Names[j], codeHint(cell, codeLike(x)))
+			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s", cell, s.Names[j], codeHint(cell, CodeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}

@@ -45,6 +45,11 @@ func decode(doc []byte, pkg *checks.Package, ps *problems) bool {
 	return true
 }
 
+// Placeholder begins a string that marks a value still to be filled in,
+// as pathvet init writes them: in any field, of any type, it is refused
+// with the text that follows it.
+const Placeholder = "TODO:"
+
 // jsonErrorText adds the line and column to a syntax error.
 func jsonErrorText(doc []byte, err error) string {
 	var se *json.SyntaxError
@@ -75,6 +80,10 @@ func walkJSON(v any, t reflect.Type, ptr string, ps *problems) {
 	}
 	if v == nil {
 		ps.at(ptr, "must not be null")
+		return
+	}
+	if str, ok := v.(string); ok && strings.HasPrefix(str, Placeholder) {
+		ps.at(ptr, "is still to be filled in (%s)", strings.TrimSpace(strings.TrimPrefix(str, Placeholder)))
 		return
 	}
 	switch t.Kind() {

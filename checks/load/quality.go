@@ -79,7 +79,7 @@ func suspectAt(obs []float64, lo, hi int, low bool) (checks.Suspect, int, bool) 
 	if iqr <= 0 || !far {
 		return checks.Suspect{}, 0, false
 	}
-	return checks.Suspect{Value: v, Count: k, Q1: q1, Q3: q3, Code: codeLike(v)}, k, true
+	return checks.Suspect{Value: v, Count: k, Q1: q1, Q3: q3, Code: CodeLike(v)}, k, true
 }
 
 // quantile7 is the p-quantile of sorted x by definition 7 of Hyndman &
@@ -101,10 +101,10 @@ func named(name string, s checks.Suspect) checks.Suspect {
 	return s
 }
 
-// codeLike reports whether v is an integer of two or more digits written
+// CodeLike reports whether v is an integer of two or more digits written
 // with nines or eights only, with either sign: the usual shapes of a
 // missing-value code (99, −999, 8888).
-func codeLike(v float64) bool {
+func CodeLike(v float64) bool {
 	if v != math.Trunc(v) || math.Abs(v) < 9 || math.Abs(v) > 1e15 {
 		return false
 	}

@@ -73,6 +73,9 @@ func ruleText(fe validator.FieldError) string {
 	case "len":
 		return "must have exactly " + p + " entries"
 	case "min", "max":
+		if fe.Namespace() == "Package.claims" && fe.Tag() == "min" {
+			return "has no claims yet: add each claim the paper makes, with its id, text, kind, from and to"
+		}
 		bound := map[string]string{"min": "at least", "max": "at most"}[fe.Tag()]
 		switch {
 		case counted:
