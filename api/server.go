@@ -10,20 +10,20 @@ import (
 
 	"github.com/labstack/echo/v4"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks/load"
-	"github.com/pathvet/pathvet/store"
 )
 
 // Store is what the API needs from storage; tests may give a fake.
 type Store interface {
 	Ping(ctx context.Context) error
-	KeyByToken(ctx context.Context, token string) (*store.Key, error)
-	CreateSubmission(ctx context.Context, n store.NewSubmission) (*store.Submission, bool, error)
-	Submission(ctx context.Context, id string, sc store.Scope) (*store.Submission, error)
-	Submissions(ctx context.Context, f store.Filter) ([]*store.Submission, string, error)
-	DeleteSubmission(ctx context.Context, id string, sc store.Scope) error
-	Rerun(ctx context.Context, id string, sc store.Scope) (*store.Submission, error)
-	LatestReport(ctx context.Context, id string, sc store.Scope) ([]byte, error)
+	KeyByToken(ctx context.Context, token string) (*service.Key, error)
+	CreateSubmission(ctx context.Context, n service.NewSubmission) (*service.Submission, bool, error)
+	Submission(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
+	Submissions(ctx context.Context, f service.Filter) ([]*service.Submission, string, error)
+	DeleteSubmission(ctx context.Context, id string, sc service.Scope) error
+	Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
+	LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error)
 }
 
 // Config configures the API.

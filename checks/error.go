@@ -6,12 +6,11 @@ import (
 	"strings"
 )
 
-// Error codes shared by the core and its adapters; the API maps them to
-// HTTP statuses in one place.
+// Error codes of the statistics package: a package it cannot analyse, or
+// one past a size limit. The service's own codes (not found, conflict,
+// unavailable) live in api/service.
 const (
 	EInvalid  = "invalid"
-	ENotFound = "not_found"
-	EConflict = "conflict"
 	ETooLarge = "too_large"
 	EInternal = "internal"
 )
