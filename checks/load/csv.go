@@ -31,6 +31,10 @@ func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset 
 		return nil
 	}
 	ds := &checks.Dataset{Kind: checks.DataRows, Columns: make([][]float64, len(s.Names))}
+	rows := min(bytes.Count(text, []byte{'\n'}), lim.Rows+1)
+	for j := range ds.Columns {
+		ds.Columns[j] = make([]float64, 0, rows)
+	}
 	for i, name := range header {
 		if cols[i] < 0 {
 			ds.Ignored = append(ds.Ignored, strings.TrimSpace(name))
@@ -50,12 +54,10 @@ func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset 
 			ps.csv(0, 0, "further data errors are not listed")
 			return nil
 		}
-		var pe *csv.ParseError
-		if errors.As(err, &pe) && errors.Is(err, csv.ErrFieldCount) {
-			ps.csv(pe.Line, 0, "the row has %d fields; the header has %d", len(rec), len(header))
-			continue
-		}
 		if err != nil {
+			if fieldCount(err, len(rec), len(header), ps) {
+				continue
+			}
 			csvReadError(err, ps)
 			return nil
 		}
@@ -165,6 +167,17 @@ func (s *study) checkColumns(ds *checks.Dataset, ps *problems) {
 			ps.at(pointer("variables", j, "name"), "every value of %q in the data is missing", s.Names[j])
 		}
 	}
+}
+
+// fieldCount reports a row with the wrong number of fields, which the
+// reader can read on from.
+func fieldCount(err error, got, want int, ps *problems) bool {
+	var pe *csv.ParseError
+	if !errors.As(err, &pe) || !errors.Is(err, csv.ErrFieldCount) {
+		return false
+	}
+	ps.csv(pe.Line, 0, "the row has %d fields; the header has %d", got, want)
+	return true
 }
 
 func csvReadError(err error, ps *problems) {

@@ -6,9 +6,6 @@
 package load
 
 import (
-	"crypto/sha256"
-	"encoding/hex"
-	"encoding/json"
 	"fmt"
 
 	"github.com/pathvet/pathvet/checks"
@@ -139,18 +136,4 @@ func (s *study) background(fixed []dag.Edge, ps *problems) {
 			s.Background = append(s.Background, dag.ExogenousArcs(s.Declared, i)...)
 		}
 	}
-}
-
-// canonicalHash hashes the package as re-encoded by this program with its
-// CSV inline, so the same study hashes alike from the CLI and the API.
-func canonicalHash(pkg *checks.Package, csvText []byte) string {
-	c := *pkg
-	c.Data.File = ""
-	c.Data.CSV = string(csvText)
-	b, err := json.Marshal(&c)
-	if err != nil {
-		panic(err) // a decoded package always encodes
-	}
-	sum := sha256.Sum256(b)
-	return hex.EncodeToString(sum[:])
 }

@@ -26,6 +26,9 @@ const (
 // spread (an interquartile range of 0) gives none: there is no scale to
 // call a value far by.
 func Suspects(name string, col []float64) []checks.Suspect {
+	if !endsRepeat(col) {
+		return nil
+	}
 	obs := make([]float64, 0, len(col))
 	for _, x := range col {
 		if !math.IsNaN(x) {
@@ -50,6 +53,31 @@ func Suspects(name string, col []float64) []checks.Suspect {
 		out, hi = append(out, named(name, s)), hi-k
 	}
 	return out
+}
+
+// endsRepeat reports whether the smallest or the largest observed value
+// appears more than once: without that no value is suspect, and the
+// column need not be sorted.
+func endsRepeat(col []float64) bool {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	nlo, nhi := 0, 0
+	for _, x := range col {
+		switch {
+		case math.IsNaN(x):
+			continue
+		case x < lo:
+			lo, nlo = x, 1
+		case x == lo:
+			nlo++
+		}
+		switch {
+		case x > hi:
+			hi, nhi = x, 1
+		case x == hi:
+			nhi++
+		}
+	}
+	return nlo >= minRepeats || nhi >= minRepeats
 }
 
 // suspectAt tests the lowest (or highest) value of the sorted window
