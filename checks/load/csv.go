@@ -131,7 +131,8 @@ func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 	return append([]int(nil), cols...)
 }
 
-func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool, ds *checks.Dataset, ps *problems) {
+func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool,
+	ds *checks.Dataset, ps *problems) {
 	for i, raw := range rec {
 		j := cols[i]
 		if j < 0 {
@@ -148,7 +149,8 @@ func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[st
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
 			ps.csv(line, i+1, "%q in column %q is not a number%s", cell, s.Names[j], codeHint(cell, missingMark(cell)))
 		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s", cell, s.Names[j], codeHint(cell, CodeLike(x)))
+			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s",
+				cell, s.Names[j], codeHint(cell, CodeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}

@@ -57,7 +57,8 @@ func readColumns(text []byte) ([]*column, int, error) {
 // and guesses its scale.
 func (c *column) inspect() {
 	if !varName.MatchString(c.name) {
-		c.skip = "its name is not a variable name (letters, digits and _, starting with a letter); rename it in the CSV to use it"
+		c.skip = "its name is not a variable name (letters, digits and _, starting with a letter); " +
+			"rename it in the CSV to use it"
 		return
 	}
 	for i, cell := range c.cells {
@@ -131,7 +132,8 @@ func (c *column) binaryCodes() ([]checks.Suspect, bool) {
 	}
 	var out []checks.Suspect
 	for _, v := range slices.Sorted(maps.Keys(counts)) {
-		out = append(out, checks.Suspect{Variable: c.name, Value: v, Count: counts[v], Code: true, Q1: math.NaN(), Q3: math.NaN()})
+		out = append(out, checks.Suspect{Variable: c.name, Value: v, Count: counts[v], Code: true,
+			Q1: math.NaN(), Q3: math.NaN()})
 	}
 	return out, len(out) > 0
 }
@@ -214,11 +216,13 @@ func codeNotes(cols []*column) string {
 			fmt.Fprintf(&b, "  %q in %s, %d rows: a missing mark, listed in missing_codes\n", m, c.name, c.marks[m])
 		}
 		for _, s := range c.codes {
-			fmt.Fprintf(&b, "  %s in %s, %d rows: looks like a missing code, listed in missing_codes; remove it if these are real values\n",
+			fmt.Fprintf(&b, "  %s in %s, %d rows: looks like a missing code, listed in missing_codes; "+
+				"remove it if these are real values\n",
 				strings.Join(c.codeText(s.Value), " and "), c.name, s.Count)
 		}
 		for _, s := range c.extreme {
-			fmt.Fprintf(&b, "  %s in %s, %d rows: far outside the other values (quartiles %.4g and %.4g); check that these are real\n",
+			fmt.Fprintf(&b, "  %s in %s, %d rows: far outside the other values (quartiles %.4g and %.4g); "+
+				"check that these are real\n",
 				strconv.FormatFloat(s.Value, 'g', -1, 64), c.name, s.Count, s.Q1, s.Q3)
 		}
 	}
