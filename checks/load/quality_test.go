@@ -1,12 +1,18 @@
 package load_test
 
 import (
+	"bytes"
+	"context"
+	"encoding/json"
 	"math"
 	"strings"
 	"testing"
 
+	"github.com/santhosh-tekuri/jsonschema/v6"
+
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/schema"
 )
 
 // column returns n values spread evenly over [lo, hi], then extra.
@@ -79,6 +85,7 @@ func TestLoad_UndeclaredMissingCode(t *testing.T) {
 		t.Fatalf("suspects %+v", s.Data.Suspects)
 	}
 	c := checkOf(t, s, "missing-data")
+	reportValid(t, s)
 	if c.Status != checks.StatusWarn || !strings.Contains(c.Findings[0].Message, `Column "y" has the value -999 in 4 rows`) ||
 		!strings.Contains(c.Findings[0].Message, "/data/missing_codes") {
 		t.Errorf("missing-data: %s %+v", c.Status, c.Findings)
@@ -92,5 +99,23 @@ func TestLoad_UndeclaredMissingCode(t *testing.T) {
 	}
 	if c := checkOf(t, s, "missing-data"); len(c.Findings) > 0 && strings.Contains(c.Findings[0].Message, "-999") {
 		t.Errorf("declared code still reported: %+v", c.Findings)
+	}
+}
+
+// reportValid screens s and validates the report against the shipped
+// report schema.
+func reportValid(t *testing.T, s *checks.Study) {
+	t.Helper()
+	r, err := checks.Run(context.Background(), s, checks.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := json.Marshal(r)
+	v, err := jsonschema.UnmarshalJSON(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := compile(t, schema.Report, "report-v1.schema.json").Validate(v); err != nil {
+		t.Error(err)
 	}
 }
