@@ -7,9 +7,11 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks/load"
@@ -203,7 +205,7 @@ func (st *start) fromSummary(text []byte) error {
 // row i has at least i + 1 numbers, and cells past the diagonal may be
 // empty. It returns the lower triangle.
 func readTable(text []byte) ([]string, [][]float64, error) {
-	cols, n, err := readColumns(text)
+	cols, n, err := readColumns(text, true)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -220,20 +222,39 @@ func readTable(text []byte) ([]string, [][]float64, error) {
 	rows := make([][]float64, n)
 	for i := range n {
 		for j := 0; j <= i; j++ {
-			var x float64
-			if _, err := fmt.Sscan(cols[j].cells[i], &x); err != nil {
-				return nil, nil, fmt.Errorf("data line %d, column %d: %q is not a number", i+2, j+1, cols[j].cells[i])
+			x, err := strconv.ParseFloat(cols[j].cells[i], 64)
+			if err != nil {
+				return nil, nil, fmt.Errorf("line %d, column %d: %q is not a number", i+2, j+1, cols[j].cells[i])
 			}
 			rows[i] = append(rows[i], x)
 		}
 	}
-	return names, rows, nil
+	return names, rows, symmetric(cols, rows)
+}
+
+// symmetric checks the cells above the diagonal, where the table gives
+// them, against the lower triangle (to 1e-6, as the loader does).
+func symmetric(cols []*column, rows [][]float64) error {
+	for i := range rows {
+		for j := i + 1; j < len(rows); j++ {
+			cell := cols[j].cells[i]
+			if cell == "" {
+				continue
+			}
+			x, err := strconv.ParseFloat(cell, 64)
+			if err != nil || math.Abs(x-rows[j][i]) > 1e-6 {
+				return fmt.Errorf("line %d, column %d: %q, but line %d, column %d is %g: the table is not symmetric",
+					i+2, j+1, cell, j+2, i+1, rows[j][i])
+			}
+		}
+	}
+	return nil
 }
 
 // fromRows fills the package from raw rows: variables, skipped columns,
 // missing codes, and the missing-data method to state.
 func (st *start) fromRows(text []byte, file string) error {
-	cols, n, err := readColumns(text)
+	cols, n, err := readColumns(text, false)
 	if err != nil {
 		return err
 	}

@@ -33,9 +33,14 @@ type column struct {
 	missing int
 }
 
-// readColumns reads a CSV with a header into columns.
-func readColumns(text []byte) ([]*column, int, error) {
+// readColumns reads a CSV with a header into columns. Ragged rows are
+// allowed when ragged is set (a printed lower triangle), their missing
+// cells empty.
+func readColumns(text []byte, ragged bool) ([]*column, int, error) {
 	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))))
+	if ragged {
+		r.FieldsPerRecord = -1
+	}
 	recs, err := r.ReadAll()
 	if err != nil {
 		return nil, 0, err
@@ -47,7 +52,11 @@ func readColumns(text []byte) ([]*column, int, error) {
 	for j, h := range recs[0] {
 		cols[j] = &column{name: strings.TrimSpace(h), marks: map[string]int{}}
 		for _, rec := range recs[1:] {
-			cols[j].cells = append(cols[j].cells, strings.TrimSpace(rec[j]))
+			cell := ""
+			if j < len(rec) {
+				cell = strings.TrimSpace(rec[j])
+			}
+			cols[j].cells = append(cols[j].cells, cell)
 		}
 	}
 	return cols, len(recs) - 1, nil

@@ -110,6 +110,19 @@ func TestInit_Summary(t *testing.T) {
 	if code, _, errs := runCLI("init", "--summary", table, "--out", pkg); code != exitInvalid || !strings.Contains(errs, "--force") {
 		t.Errorf("second init overwrote: %d %s", code, errs)
 	}
+	for text, want := range map[string]string{
+		"a,b,c\n1\n0.2,1\n0.1,0.3,1\n":              "",
+		"a,b,c\n1,0.2,0.1\n0.2,1,0.3\n0.1,0.3,1\n":  "",
+		"a,b,c\n1,0.2,0.1\n0.25,1,0.3\n0.1,0.3,1\n": "line 2, column 2: \"0.2\", but line 3, column 1 is 0.25",
+		"a,b,c\n1\n0.2,x\n0.1,0.3,1\n":              `line 3, column 2: "x" is not a number`,
+		"a,b\n1\n":                                  "the table has 1 rows for 2 variables",
+	} {
+		os.WriteFile(table, []byte(text), 0o644)
+		code, _, errs := runCLI("init", "--summary", table, "--out", pkg, "--force")
+		if want == "" && code != exitOK || want != "" && (code != exitInvalid || !strings.Contains(errs, want)) {
+			t.Errorf("%q: %d %s", text, code, errs)
+		}
+	}
 }
 
 func TestInit_Usage(t *testing.T) {
