@@ -9,6 +9,7 @@ import (
 	"reflect"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks"
@@ -96,7 +97,7 @@ func walkJSON(v any, t reflect.Type, ptr string, ps *problems) {
 			return
 		}
 		for i, e := range arr {
-			walkJSON(e, t.Elem(), ptr+"/"+fmt.Sprint(i), ps)
+			walkJSON(e, t.Elem(), ptr+"/"+strconv.Itoa(i), ps)
 		}
 	default:
 		walkScalar(v, t, ptr, ps)

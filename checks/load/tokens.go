@@ -3,6 +3,7 @@ package load
 import (
 	"bytes"
 	"encoding/json"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 )
@@ -46,12 +47,14 @@ func scanTokens(doc []byte, ps *problems) {
 			scanKey(top, tok.(string), raw, ps)
 			continue
 		}
-		ptr := valuePointer(top)
+		at := next(top)
 		switch t := tok.(type) {
 		case json.Delim:
-			stack = append(stack, &frame{ptr: ptr, array: t == '[', wantKey: true, keys: map[string]bool{}})
+			stack = append(stack, &frame{ptr: at.pointer(), array: t == '[', wantKey: true, keys: map[string]bool{}})
 		case string:
-			checkText(ptr, t, raw, ps)
+			if problem := textProblem(t, raw); problem != "" {
+				ps.at(at.pointer(), "%s", problem)
+			}
 		}
 	}
 }
@@ -66,26 +69,52 @@ func scanKey(f *frame, key string, raw []byte, ps *problems) {
 	f.keys[key], f.key, f.wantKey = true, key, false
 }
 
-// valuePointer is the pointer of the next value in f, and moves f on.
-func valuePointer(f *frame) string {
-	switch {
-	case f == nil:
-		return ""
-	case f.array:
-		f.index++
-		return f.ptr + pointer(f.index-1)
-	}
-	f.wantKey = true
-	return f.ptr + pointer(f.key)
+// place is where a value stands: in frame f, under key or at index.
+// Its pointer is only built when it is needed.
+type place struct {
+	f     *frame
+	key   string
+	index int
 }
 
-// checkText refuses a NUL character and invalid UTF-8 in a string; raw
-// is the string as written in the document.
+func (p place) pointer() string {
+	switch {
+	case p.f == nil:
+		return ""
+	case p.f.array:
+		return p.f.ptr + "/" + strconv.Itoa(p.index)
+	}
+	return p.f.ptr + pointer(p.key)
+}
+
+// next is the place of the next value in f, and moves f on.
+func next(f *frame) place {
+	switch {
+	case f == nil:
+		return place{}
+	case f.array:
+		f.index++
+		return place{f: f, index: f.index - 1}
+	}
+	f.wantKey = true
+	return place{f: f, key: f.key}
+}
+
+// checkText refuses a NUL character and invalid UTF-8 in a key.
 func checkText(ptr, s string, raw []byte, ps *problems) {
-	if !utf8.Valid(raw) {
-		ps.at(ptr, "is not valid UTF-8 text")
+	if problem := textProblem(s, raw); problem != "" {
+		ps.at(ptr, "%s", problem)
 	}
-	if strings.ContainsRune(s, 0) {
-		ps.at(ptr, "contains a NUL character (\\u0000), which no field of a package may hold")
+}
+
+// textProblem says what is wrong with a string, "" when nothing is; raw
+// is the string as written in the document.
+func textProblem(s string, raw []byte) string {
+	switch {
+	case !utf8.Valid(raw):
+		return "is not valid UTF-8 text"
+	case strings.ContainsRune(s, 0):
+		return "contains a NUL character (\\u0000), which no field of a package may hold"
 	}
+	return ""
 }
