@@ -119,6 +119,9 @@ case("enum-and-misspelt-edge", "/design", True, both(setp(["design"], "cohort"),
 case("claim-kind-and-short-row", "/claims/0/kind", True,
      both(setp(["claims", 0, "kind"], "direct"), setp(["data", "correlations", 2], [0.1, 0.4])),
      also=["/data/correlations/2: has 2 entries; want 3"])
+case("data-kind-and-short-row", "/data/kind", True,
+     both(setp(["data", "kind"], "sumary"), setp(["data", "correlations", 2], [0.1, 0.4])),
+     also=["/data/correlations/2: has 2 entries; want 3"])
 case("type-and-cross-reference", "/variables/1/reliability", True,
      both(setp(["variables", 1, "reliability"], "high"), setp(["claims", 0, "from"], "e"), setp(["titel"], "x")),
      also=["/claims/0/from", "/titel"])
