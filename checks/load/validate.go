@@ -85,7 +85,7 @@ func ruleText(fe validator.FieldError) string {
 		}
 		return fmt.Sprintf("must be %s %s", bound, p)
 	case "oneof":
-		return "must be one of: " + strings.ReplaceAll(p, " ", ", ")
+		return "must be one of: " + strings.ReplaceAll(p, " ", ", ") + didYouMean(fmt.Sprint(fe.Value()), strings.Fields(p))
 	case "gt":
 		return "must be greater than " + p
 	case "gte":

@@ -119,7 +119,7 @@ case("enum-and-misspelt-edge", "/design", True, both(setp(["design"], "cohort"),
 case("claim-kind-and-short-row", "/claims/0/kind", True,
      both(setp(["claims", 0, "kind"], "direct"), setp(["data", "correlations", 2], [0.1, 0.4])),
      also=["/data/correlations/2: has 2 entries; want 3"])
-case("data-kind-and-short-row", "/data/kind", True,
+case("data-kind-and-short-row", '/data/kind: must be one of: rows, summary; did you mean "summary"?', True,
      both(setp(["data", "kind"], "sumary"), setp(["data", "correlations", 2], [0.1, 0.4])),
      also=["/data/correlations/2: has 2 entries; want 3"])
 case("type-and-cross-reference", "/variables/1/reliability", True,
