@@ -124,7 +124,7 @@ func checkLimits(pkg *checks.Package, lim Limits, ps *problems) bool {
 	found := false
 	over := func(ptr, what string, n, max int) {
 		if n > max {
-			ps.at(ptr, "has %d %s; the limit is %d", n, what, max)
+			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf("has %d %s; the limit is %d", n, what, max)})
 			found = true
 		}
 	}
