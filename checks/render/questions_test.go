@@ -57,3 +57,13 @@ func TestLetterWithoutQuestions(t *testing.T) {
 		t.Error(b.String())
 	}
 }
+
+// TestEveryCheckHasAQuestion: a check added to the pipeline gets its own
+// question, not the fallback.
+func TestEveryCheckHasAQuestion(t *testing.T) {
+	for _, c := range checks.Pipeline() {
+		if asks[c.ID] == "" {
+			t.Errorf("check %s has no question for the authors", c.ID)
+		}
+	}
+}
