@@ -41,6 +41,9 @@ func (s *Server) webSubmission(c echo.Context) error {
 	}
 	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Error: sub.Error,
 		History: historyEntries(sub.ID, hist, shown)}
+	if shown > 0 {
+		ws.Earlier = fmt.Sprintf("This is an earlier report, number %d of %d.", len(hist)-shown, len(hist))
+	}
 	if ws.Previous, err = s.previous(c, sub, rep); err != nil {
 		return err
 	}

@@ -81,6 +81,8 @@ type Workspace struct {
 	Error    string
 	History  []HistoryEntry
 	Previous *Previous
+	// Earlier says which earlier report the page shows ("" for the newest).
+	Earlier string
 }
 
 // Previous is the earlier version of the manuscript and what changed.

@@ -107,9 +107,16 @@ func checkRerunDelete(t *testing.T, w *webClient, m *Main, token string, sub api
 	if code, v := editor.submission(sub.Links.Self + "?wait=30s"); code != http.StatusOK || v.Reports != 2 {
 		t.Fatalf("after the rerun: %d %+v", code, v)
 	}
-	if code, page := w.get("/submissions/" + sub.ID); code != http.StatusOK || !strings.Contains(page, "?report=") ||
-		!strings.Contains(page, "2, shown") {
+	code, page := w.get("/submissions/" + sub.ID)
+	if code != http.StatusOK || !strings.Contains(page, "2, shown") {
 		t.Fatalf("history after a rerun: %d", code)
+	}
+	earlier := regexp.MustCompile(`href="(/submissions/[^"?]+\?report=[0-9]+)"`).FindStringSubmatch(page)
+	if earlier == nil {
+		t.Fatal("no link to the earlier report")
+	}
+	if code, page := w.get(earlier[1]); code != http.StatusOK || !strings.Contains(page, "earlier report, number 1 of 2") {
+		t.Fatalf("the earlier report: %d", code)
 	}
 	code, hdr, _ = w.post("/submissions/"+sub.ID+"/delete", url.Values{"_csrf": {csrf}})
 	if code != http.StatusSeeOther || hdr.Get("Location") != "/" {
