@@ -31,23 +31,31 @@ func (s *Server) webSubmission(c echo.Context) error {
 		return s.notice(c, http.StatusOK, sub.Title, fmt.Sprintf("This submission is %s and has no report yet; "+
 			"reload the page in a little while.", sub.Status))
 	}
-	shown, err := pickReport(hist, c.QueryParam("report"))
+	rep, ws, err := s.workspace(c, sub, hist)
 	if err != nil {
-		return err
-	}
-	rep, err := decodeReport(hist[shown].Report)
-	if err != nil {
-		return err
-	}
-	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Error: sub.Error,
-		History: historyEntries(sub.ID, hist, shown)}
-	if shown > 0 {
-		ws.Earlier = fmt.Sprintf("This is an earlier report, number %d of %d.", len(hist)-shown, len(hist))
-	}
-	if ws.Previous, err = s.previous(c, sub, rep); err != nil {
 		return err
 	}
 	return s.page(c, http.StatusOK, func(b *strings.Builder) error { return render.WriteSubmission(b, rep, ws) })
+}
+
+// workspace picks the report to show and gathers what the page adds to it.
+func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []service.ReportEntry) (
+	*checks.Report, render.Workspace, error) {
+	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Error: sub.Error}
+	shown, err := pickReport(hist, c.QueryParam("report"))
+	if err != nil {
+		return nil, ws, err
+	}
+	rep, err := decodeReport(hist[shown].Report)
+	if err != nil {
+		return nil, ws, err
+	}
+	ws.History = historyEntries(sub.ID, hist, shown)
+	if shown > 0 {
+		ws.Earlier = fmt.Sprintf("This is an earlier report, number %d of %d.", len(hist)-shown, len(hist))
+	}
+	ws.Previous, err = s.previous(c, sub, rep)
+	return rep, ws, err
 }
 
 // pickReport finds the report named by ?report= (its id), else the newest.

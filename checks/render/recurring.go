@@ -33,20 +33,10 @@ type Recurring struct {
 // Tally counts the failing and warning checks and the unstable claims of
 // the reports.
 func Tally(reports []*checks.Report) Recurring {
-	out := Recurring{Reports: len(reports)}
 	byCheck := map[string]*CheckTally{}
 	byKind := map[string]*KindTally{}
 	for _, r := range reports {
-		for _, c := range r.Checks {
-			t := byCheck[c.ID]
-			if t == nil {
-				t = &CheckTally{ID: c.ID, Title: c.Title}
-				byCheck[c.ID] = t
-			}
-			t.Of++
-			t.Fail += b2i(c.Status == checks.StatusFail)
-			t.Warn += b2i(c.Status == checks.StatusWarn)
-		}
+		tallyChecks(byCheck, r.Checks)
 		for _, c := range r.Claims {
 			k := byKind[c.Kind]
 			if k == nil {
@@ -56,6 +46,26 @@ func Tally(reports []*checks.Report) Recurring {
 			tallyClaim(k, c, r.SignificanceLevel)
 		}
 	}
+	return sortTallies(len(reports), byCheck, byKind)
+}
+
+func tallyChecks(byCheck map[string]*CheckTally, cs []checks.CheckResult) {
+	for _, c := range cs {
+		t := byCheck[c.ID]
+		if t == nil {
+			t = &CheckTally{ID: c.ID, Title: c.Title}
+			byCheck[c.ID] = t
+		}
+		t.Of++
+		t.Fail += b2i(c.Status == checks.StatusFail)
+		t.Warn += b2i(c.Status == checks.StatusWarn)
+	}
+}
+
+// sortTallies orders the checks by how often they failed or warned, the
+// kinds by name.
+func sortTallies(n int, byCheck map[string]*CheckTally, byKind map[string]*KindTally) Recurring {
+	out := Recurring{Reports: n}
 	for _, t := range byCheck {
 		out.Checks = append(out.Checks, *t)
 	}
