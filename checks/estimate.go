@@ -32,6 +32,7 @@ type est struct {
 	method   string
 	scale    string
 	n        int
+	df       float64 // residual df of an OLS fit, for its t tests; 0 otherwise
 	adjusted []int
 	note     string
 	err      error
@@ -211,7 +212,7 @@ func olsEstimate(cov mat.Symmetric, means []float64, n, y int, x []int, scale st
 	}
 	c := fit.Coefs[0]
 	return est{value: c.Estimate, additive: c.Estimate, se: c.StdError, lo: c.CI[0], hi: c.CI[1], p: c.P,
-		method: MethodOLS, scale: scale, n: n, note: note}
+		method: MethodOLS, scale: scale, n: n, df: float64(fit.DF), note: note}
 }
 
 func partialEstimate(m *Moments, y, focal int, adj []int, level float64) est {

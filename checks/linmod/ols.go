@@ -6,7 +6,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/pathvet/pathvet/checks/effects"
 )
 
 // MaxCondition is the largest condition number of a design (or of its
@@ -55,18 +56,16 @@ type Fit struct {
 // tInference computes t-based p-values and intervals for one fit's
 // degrees of freedom and level; the quantile is found once.
 type tInference struct {
-	dist distuv.StudentsT
-	q    float64
+	df, q float64
 }
 
 func newTInference(df int, level float64) tInference {
-	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}
-	return tInference{dist: t, q: t.Quantile(0.5 + level/2)}
+	return tInference{df: float64(df), q: effects.TQuantile(0.5+level/2, float64(df))}
 }
 
 func (ti tInference) coef(est, se float64) Coef {
 	stat := est / se
-	return Coef{Estimate: est, StdError: se, Stat: stat, P: 2 * ti.dist.Survival(math.Abs(stat)),
+	return Coef{Estimate: est, StdError: se, Stat: stat, P: effects.PFromT(est, se, ti.df),
 		CI: [2]float64{est - ti.q*se, est + ti.q*se}}
 }
 
