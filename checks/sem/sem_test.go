@@ -12,6 +12,8 @@ import (
 	"gonum.org/v1/gonum/floats/scalar"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
+
+	"github.com/pathvet/pathvet/checks/linmod"
 )
 
 // The worked example of ../shared/spec/reference-values.md ("Path-model
@@ -232,5 +234,38 @@ func TestFitDAG_HugeNAndCancel(t *testing.T) {
 	cancel()
 	if _, err := FitDAG(ctx, r, 1e15, [][]int{nil, {0}, {1}}); !errors.Is(err, context.Canceled) {
 		t.Fatalf("cancelled: %v", err)
+	}
+}
+
+// Shipley's C from Fisher-z tests far in the tail (z = 8.5, 10, 12): the
+// p-values stay numbers (1 − Φ would round them to 0 and C to about
+// 4,470), so C and its p agree with scipy (testdata/reference/scipy,
+// shipley_tiny).
+func TestShipleyC_TinyP(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/reference/scipy/reference.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		S struct {
+			Z    []float64
+			C, P float64
+		} `json:"shipley_tiny"`
+	}
+	if err := json.Unmarshal(b, &ref); err != nil || len(ref.S.Z) == 0 {
+		t.Fatalf("reference: %v", err)
+	}
+	const n = 403 // sqrt(n − 3) = 20
+	var ps []float64
+	for _, z := range ref.S.Z {
+		_, p, ok := linmod.FisherZ(math.Tanh(z/20), n, 0)
+		if !ok || p == 0 {
+			t.Fatalf("z = %v: p %v", z, p)
+		}
+		ps = append(ps, p)
+	}
+	c, df, p := ShipleyC(ps)
+	if !scalar.EqualWithinRel(c, ref.S.C, 1e-9) || df != 6 || !scalar.EqualWithinRel(p, ref.S.P, 1e-6) {
+		t.Fatalf("C = %v on %d, p %v; scipy C %v, p %v", c, df, p, ref.S.C, ref.S.P)
 	}
 }

@@ -96,6 +96,11 @@ ref = {
     "tost_t": [{"b": b, "se": se, "delta": d, "df": df,
                 "p": max(stats.t.sf((b + d) / se, df), stats.t.cdf((b - d) / se, df))}
                for b, se, d, df in [(0.02, 0.03, 0.1, 30), (0.02, 0.08, 0.1, 12), (-0.05, 0.02, 0.1, 197)]],
+    # Shipley's C over three Fisher-z tests far in the tail (z = 8.5, 10, 12):
+    # C = -2 sum ln p with p = 2 norm.sf(z), and P(chi2 on 6 df > C).
+    "shipley_tiny": {"z": [8.5, 10.0, 12.0],
+                     "c": float(-2 * sum(np.log(2 * stats.norm.sf(z)) for z in [8.5, 10.0, 12.0])),
+                     "p": float(stats.chi2.sf(-2 * sum(np.log(2 * stats.norm.sf(z)) for z in [8.5, 10.0, 12.0]), 6))},
     "z_two_sided_p": [{"z": z, "p": 2 * stats.norm.sf(abs(z))} for z in [4.125, 1.0, 2.5758293035489]],
 }
 with open("reference.json", "w") as f:
