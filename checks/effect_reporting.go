@@ -56,7 +56,7 @@ func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
 	res.Summary = map[string]string{
 		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the estimates, and no claim of \"no effect\" goes beyond what the data show.",
 		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data do not tell; see the findings.",
-		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" where the data do not tell; ask the authors for the estimate, its interval and the equivalence test.",
+		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not support; ask the authors for the estimate, its interval and the equivalence test.",
 	}[res.Status]
 	return res, nil
 }
@@ -158,6 +158,16 @@ func distName(df float64) string {
 	return fmt.Sprintf("t(%g)", df)
 }
 
+// figure writes a recomputed number for a sentence: two decimals where
+// they carry it, three significant digits where two decimals would not
+// (0.0004, 123456).
+func figure(x float64) string {
+	if ax := math.Abs(x); ax == 0 || (ax >= 0.01 && ax < 1e5) {
+		return fmt.Sprintf("%.2f", x)
+	}
+	return fmt.Sprintf("%.3g", x)
+}
+
 func uncertaintyName(c Claim) string {
 	if c.StdError != nil {
 		return "standard error"
@@ -226,9 +236,13 @@ func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
 	if *c.Estimate >= decl.lo && *c.Estimate <= decl.hi {
 		return nil
 	}
+	adjustment := "the declared graph's adjustment set"
+	if a.Study.Declared == nil || !a.claimInGraph(c) || c.Kind == KindAssociation {
+		adjustment = "the claim's own adjustment set"
+	}
 	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %g, but the data give %.2f (%s, 95%% interval %.2f to %.2f) with the declared graph's adjustment set; ask how the reported figure was obtained.",
-		c.ID, *c.Estimate, decl.value, pText(decl.p), decl.lo, decl.hi)}}
+		"%s reports %g, but the data give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was obtained.",
+		c.ID, *c.Estimate, figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi), adjustment)}}
 }
 
 // oddsRatioFinding gives a binary outcome's odds ratio between the 10th

@@ -175,3 +175,30 @@ func TestRun_HugeN(t *testing.T) {
 		}
 	}
 }
+
+// A claim of no effect on the unstandardized scale is tested once the SDs
+// are known (the unstandardized re-estimate rescaled by SD(X)/SD(Y)),
+// under t on the fit's df, and gives what the standardized re-estimate
+// (without SDs) gives: r = .02, n = 1000, SE = sqrt((1 − r²)/998) =
+// .03165, TOST p = P(T < (r − .1)/SE) = .005816 on t(998) (scipy's t).
+func TestEffectReporting_AbsenceUnstandardized(t *testing.T) {
+	doc := func(sds []float64) []byte {
+		data := obj{"kind": "summary", "n": 1000, "variables": []string{"X", "Y"}, "correlations": [][]float64{{1}, {0.02, 1}}}
+		if sds != nil {
+			data["sds"] = sds
+		}
+		b, _ := json.Marshal(obj{"format_version": 1, "title": "t", "design": "observational",
+			"variables": []obj{{"name": "X", "scale": "continuous"}, {"name": "Y", "scale": "continuous"}},
+			"claims": []obj{{"id": "A1", "text": "X is unrelated to Y", "kind": "association", "from": "X", "to": "Y",
+				"estimate": 0.04, "estimate_scale": "unstandardized", "std_error": 0.063, "asserts_absence": true}},
+			"data": data})
+		return b
+	}
+	for _, sds := range [][]float64{{2, 4}, nil} {
+		ab := runDoc(t, doc(sds)).Claims[0].Absence
+		if ab == nil || ab.Distribution != "t(998)" || ab.Verdict != "excludes_meaningful_effects" || ab.Source != "recomputed" ||
+			!scalar.EqualWithinAbs(*ab.TOSTP, 0.005816, 1e-6) {
+			t.Fatalf("SDs %v: %+v", sds, ab)
+		}
+	}
+}
