@@ -40,7 +40,8 @@ type EValue struct {
 func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	s := a.Study
 	if s.Package.Design == "randomized" {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The design is randomized, so confounding of the randomized comparison is ruled out by design."}, nil
+		return CheckResult{Status: StatusNotApplicable, Summary: "The design is randomized, so confounding of the " +
+			"randomized comparison is ruled out by design."}, nil
 	}
 	var fs []Finding
 	computed, missing, weak := 0, 0, 0
@@ -65,7 +66,8 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 		}
 	}
 	if len(fs) == 0 {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The paper makes no causal claim, so there is nothing to explain away."}, nil
+		return CheckResult{Status: StatusNotApplicable, Summary: "The paper makes no causal claim, so there is " +
+			"nothing to explain away."}, nil
 	}
 	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: map[string]any{"claims_with_e_value": computed, "weak_e_value_below": weakEValue}}
 	res.Summary = confoundingSummary(computed, missing, weak)
@@ -78,7 +80,8 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 func confoundingSummary(computed, missing, weak int) string {
 	var parts []string
 	if weak > 0 {
-		parts = append(parts, fmt.Sprintf("For %s, an unmeasured confounder associated with both cause and outcome by a "+
+		parts = append(parts, fmt.Sprintf("For %s, an unmeasured confounder associated with both cause and outcome "+
+			"by a "+
 			"risk ratio under %.1f could move the interval to include no effect, and the design does not rule one out",
 			countNoun(weak, "causal claim", "causal claims"), weakEValue))
 	}
@@ -166,7 +169,8 @@ func (a *Analysis) convertOddsRatio(c Claim, scale string, b float64, se *float6
 	}
 	prev, known := a.prevalence(c)
 	rare := known && prev < rareOutcome
-	ev := &EValue{Conversion: fmt.Sprintf("odds ratio taken as a risk ratio (outcome prevalence %.2f, rarer than 15%%)", prev)}
+	ev := &EValue{Conversion: fmt.Sprintf("odds ratio taken as a risk ratio (outcome prevalence %.2f, rarer than "+
+		"15%%)", prev)}
 	switch {
 	case !known:
 		ev.Conversion = "risk ratio ≈ sqrt(odds ratio) (outcome prevalence unknown, taken as common)"
@@ -230,10 +234,12 @@ func eValueFinding(c Claim, ev *EValue) Finding {
 	if *ev.CILimit < weakEValue {
 		sev = StatusWarn
 	}
-	how := fmt.Sprintf("an unmeasured confounder associated with both %s and %s by a risk ratio of %.2f each could explain the estimate away, and one of %.2f could move its interval to include no effect",
+	how := fmt.Sprintf("an unmeasured confounder associated with both %s and %s by a risk ratio of %.2f each "+
+		"could explain the estimate away, and one of %.2f could move its interval to include no effect",
 		c.From, c.To, *ev.Estimate, *ev.CILimit)
 	if *ev.CILimit == 1 {
-		how = fmt.Sprintf("an unmeasured confounder of strength %.2f could explain the estimate away, and the interval already includes no effect", *ev.Estimate)
+		how = fmt.Sprintf("an unmeasured confounder of strength %.2f could explain the estimate away, and the "+
+			"interval already includes no effect", *ev.Estimate)
 	}
 	return Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("E-value for %s (%s figures; %s): %s.", c.ID, ev.Source, ev.Conversion, how)}
 }

@@ -40,7 +40,8 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	case p < a.Alpha:
 		t.Verdict = "effect_found"
 		return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, but the %s estimate is %.2f (%s, %s), significant at α = %g: the data do not support \"no effect\".",
+			"%s says there is no effect, but the %s estimate is %.2f (%s, %s), significant at α = %g: the data do not "+
+				"support \"no effect\".",
 			c.ID, in.source, in.shown, pText(p), t.Distribution, a.Alpha)}}
 	case tp < a.Alpha:
 		t.Verdict = "excludes_meaningful_effects"
@@ -50,7 +51,8 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	}
 	t.Verdict = "does_not_tell"
 	return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-		"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, %s; the study had %.0f%% power to detect an effect of that size): the data do not tell.",
+		"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
+			"%s; the study had %.0f%% power to detect an effect of that size): the data do not tell.",
 		c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw)}}
 }
 
@@ -120,13 +122,21 @@ func (a *Analysis) noAbsenceTest(c Claim, decl est) string {
 	_, scaled := a.sdRatio(c)
 	switch scale := claimScale(c); {
 	case scale == "odds_ratio" || scale == "log_odds":
-		return fmt.Sprintf("%s says there is no effect, but an odds ratio cannot be set against the smallest effect of interest (%g, a standardized coefficient); report the interval, so that readers can see which odds ratios it excludes.", c.ID, delta)
+		return fmt.Sprintf("%s says there is no effect, but an odds ratio cannot be set against the smallest effect "+
+			"of interest (%g, a standardized coefficient); report the interval, so that readers can see which odds "+
+			"ratios it excludes.", c.ID, delta)
 	case decl.ok() && decl.method == MethodZero:
-		return fmt.Sprintf("%s says there is no effect, and the declared graph makes it zero, so there is no re-estimate to test against the smallest effect of interest (%g); the graph-fit check tests the graph's implications.", c.ID, delta)
+		return fmt.Sprintf("%s says there is no effect, and the declared graph makes it zero, so there is no "+
+			"re-estimate to test against the smallest effect of interest (%g); the graph-fit check tests the graph's "+
+			"implications.", c.ID, delta)
 	case scale == "unstandardized" && !scaled && c.StdError != nil:
-		return fmt.Sprintf("%s says there is no effect, but without the SDs of %s and %s its unstandardized estimate cannot be set against the smallest effect of interest (%g, standardized); report the SDs or a standardized estimate with its SE.", c.ID, c.From, c.To, delta)
+		return fmt.Sprintf("%s says there is no effect, but without the SDs of %s and %s its unstandardized "+
+			"estimate cannot be set against the smallest effect of interest (%g, standardized); report the SDs or a "+
+			"standardized estimate with its SE.", c.ID, c.From, c.To, delta)
 	case !decl.ok():
-		return fmt.Sprintf("%s says there is no effect, but the data give no estimate (%v) and the claim reports no standardized estimate with its SE, so nothing can be tested against the smallest effect of interest (%g).", c.ID, decl.err, delta)
+		return fmt.Sprintf("%s says there is no effect, but the data give no estimate (%v) and the claim reports no "+
+			"standardized estimate with its SE, so nothing can be tested against the smallest effect of interest (%g).", c.ID, decl.err, delta)
 	}
-	return fmt.Sprintf("%s says there is no effect, but neither the data nor the reported figures give a standardized estimate with its SE to test against the smallest effect of interest (%g).", c.ID, delta)
+	return fmt.Sprintf("%s says there is no effect, but neither the data nor the reported figures give a "+
+		"standardized estimate with its SE to test against the smallest effect of interest (%g).", c.ID, delta)
 }

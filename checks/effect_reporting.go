@@ -54,9 +54,12 @@ func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
 		"smallest_effect_of_interest": a.Study.SmallestEffect(),
 	}}
 	res.Summary = map[string]string{
-		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the estimates, and no claim of \"no effect\" goes beyond what the data show.",
-		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data do not tell; see the findings.",
-		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not support; ask the authors for the estimate, its interval and the equivalence test.",
+		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the " +
+			"estimates, and no claim of \"no effect\" goes beyond what the data show.",
+		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data " +
+			"do not tell; see the findings.",
+		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not " +
+			"support; ask the authors for the estimate, its interval and the equivalence test.",
 	}[res.Status]
 	return res, nil
 }
@@ -77,7 +80,8 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect is.", c.ID, reportedP(c))})
 	case !hasEst && !hasP:
-		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval or p-value at all."})
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval " +
+			"or p-value at all."})
 	case !hasUnc:
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s reports an estimate (%g) without an interval or standard error.", c.ID, *c.Estimate)})
@@ -129,7 +133,8 @@ func (a *Analysis) consistency(c Claim, pr printed, decl est) *Finding {
 		return nil
 	}
 	return &Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %s, but its estimate and %s give p between %s and %s under %s, allowing for the rounding of the printed figures.",
+		"%s reports %s, but its estimate and %s give p between %s and %s under %s, allowing for the rounding of the "+
+			"printed figures.",
 		c.ID, reportedP(c), uncertaintyName(c), pNumber(lo), pNumber(hi), distName(df)),
 		Details: map[string]any{"recomputed_p_min": num(lo), "recomputed_p_max": num(hi), "distribution": distName(df)}}
 }
@@ -241,7 +246,8 @@ func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
 		adjustment = "the claim's own adjustment set"
 	}
 	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %g, but the data give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was obtained.",
+		"%s reports %g, but the data give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
+			"obtained.",
 		c.ID, *c.Estimate, figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi), adjustment)}}
 }
 
