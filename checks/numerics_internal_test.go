@@ -120,7 +120,7 @@ func screenWithout(t *testing.T, path string, doc obj, i int, field string) {
 	delete(claim, field)
 	defer func() { claim[field] = v }()
 	b, _ := json.Marshal(doc)
-	s, err := Load(b, LoadOptions{})
+	s, err := LoadForTest(b)
 	var invalid *InvalidPackageError
 	if errors.As(err, &invalid) {
 		return // a field another one needs: not a valid package without it
@@ -147,7 +147,7 @@ func TestRun_HugeN(t *testing.T) {
 	lower := [][]float64{{1}, {.5, 1}, {.3, .4, 1}}
 	edges := [][2]string{{"X", "M"}, {"M", "Y"}}
 	for _, n := range []int{1e12, 1e15, math.MaxInt64} {
-		s, err := Load(summaryPackage([]string{"X", "M", "Y"}, edges, lower, n), LoadOptions{})
+		s, err := LoadForTest(summaryPackage([]string{"X", "M", "Y"}, edges, lower, n))
 		var invalid *InvalidPackageError
 		if errors.As(err, &invalid) {
 			t.Logf("n = %d refused by the format: %v", n, err)
