@@ -113,7 +113,7 @@ func countNoun(n int, one, many string) string {
 // recomputed estimate.
 func (a *Analysis) eValue(i int, c Claim) (*EValue, string) {
 	if c.Estimate != nil && (c.StdError != nil || len(c.CI) == 2) {
-		if ev := a.convert(c, *c.Estimate, c.StdError, c.CI, "reported"); ev != nil {
+		if ev := a.convert(c, claimScale(c), *c.Estimate, c.StdError, c.CI, "reported"); ev != nil {
 			return ev, ""
 		}
 	}
@@ -125,18 +125,26 @@ func (a *Analysis) eValue(i int, c Claim) (*EValue, string) {
 	if !math.IsNaN(d.se) {
 		se = &d.se
 	}
-	if ev := a.convert(c, d.value, se, []float64{d.lo, d.hi}, "recomputed"); ev != nil {
+	if ev := a.convert(c, d.scale, d.value, se, []float64{d.lo, d.hi}, "recomputed"); ev != nil {
 		return ev, ""
+	}
+	if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary {
+		return nil, "the outcome is binary, and without raw rows its re-estimate is a linear coefficient, " +
+			"which has no conversion to risk ratios; report the odds ratio with its interval"
 	}
 	return nil, "its scale has no conversion to risk ratios"
 }
 
-func (a *Analysis) convert(c Claim, b float64, se *float64, ci []float64, source string) *EValue {
+// convert takes an estimate b on the given scale (the claim's for the
+// reported figures, the re-estimate's for the recomputed ones) to E-values.
+// A linear coefficient of a binary outcome has no conversion.
+func (a *Analysis) convert(c Claim, scale string, b float64, se *float64, ci []float64, source string) *EValue {
 	var ev *EValue
-	switch scale := claimScale(c); scale {
-	case "odds_ratio", "log_odds":
+	binary := a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary
+	switch {
+	case scale == "odds_ratio" || scale == "log_odds":
 		ev = a.convertOddsRatio(c, scale, b, se, ci)
-	case "unstandardized":
+	case scale == "unstandardized" || binary:
 		return nil
 	default: // standardized or correlation: as a standardized difference
 		ev = a.convertStandardized(c, b, se, ci)

@@ -61,7 +61,8 @@ func TestConfounding_PrevalenceFromMeans(t *testing.T) {
 
 // An odds-ratio claim with a standard error but no interval (the SE's
 // scale is not stated) gets its E-value from the recomputed figures or a
-// reason, never a crash; log-odds with an SE get the Wald interval.
+// reason, never a crash (nor a linear coefficient read as an odds ratio);
+// log-odds with an SE get the Wald interval.
 func TestConfounding_OddsRatioWithSEOnly(t *testing.T) {
 	for _, claim := range []obj{
 		{"id": "K1", "text": "X raises Y", "kind": "total_effect", "from": "X", "to": "Y",
@@ -72,6 +73,13 @@ func TestConfounding_OddsRatioWithSEOnly(t *testing.T) {
 		r := runDoc(t, binaryOutcomePackage(claim, []float64{0, 0.08}))
 		if c := checkByID(r, "confounding-sensitivity"); c.RunError != "" {
 			t.Fatalf("%v: %s", claim["estimate_scale"], c.RunError)
+		}
+		if claim["estimate_scale"] == "odds_ratio" {
+			// The summary data re-estimate a binary outcome linearly: no conversion, and a reason.
+			c := checkByID(r, "confounding-sensitivity")
+			if r.Claims[0].EValue != nil || len(c.Findings) != 1 || !strings.Contains(c.Findings[0].Message, "outcome is binary") {
+				t.Fatalf("odds ratio with SE only: %+v, %+v", r.Claims[0].EValue, c.Findings)
+			}
 		}
 		if claim["estimate_scale"] == "log_odds" {
 			ev := r.Claims[0].EValue
