@@ -155,6 +155,18 @@ func testDF(c Claim, decl est) float64 {
 	return effects.Normal
 }
 
+// distribution names what an estimate's p-value and interval are taken
+// under; "" where the estimate says it in its note (pooled imputations).
+func (e est) distribution() string {
+	switch {
+	case e.method == MethodOLS && e.df > 0:
+		return distName(e.df)
+	case e.method == MethodLogit || e.method == MethodPartial:
+		return "normal"
+	}
+	return ""
+}
+
 // distName names a test distribution for a report: "normal" or "t(df)".
 func distName(df float64) string {
 	if math.IsInf(df, 1) {

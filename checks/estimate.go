@@ -64,6 +64,9 @@ type Estimate struct {
 	AdjustedFor []string  `json:"adjusted_for"`
 	Note        string    `json:"note,omitempty"`
 	Error       string    `json:"error,omitempty"`
+	// Distribution is what the p-value and interval are taken under:
+	// "t(df)" for OLS, "normal" for a logistic Wald test or Fisher's z.
+	Distribution string `json:"distribution,omitempty"`
 }
 
 // finite returns a pointer to x rounded for a report, or nil where x is
@@ -86,6 +89,7 @@ func (a *Analysis) report(e est) *Estimate {
 		return r
 	}
 	r.Estimate, r.StdError, r.PValue = finite(e.value), finite(e.se), finite(e.p)
+	r.Distribution = e.distribution()
 	if lo, hi := finite(e.lo), finite(e.hi); lo != nil && hi != nil {
 		r.CI = []float64{*lo, *hi}
 	}
