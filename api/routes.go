@@ -38,7 +38,7 @@ func (s *Server) routes() {
 // session (sign-in at /), every form behind a CSRF token.
 func (s *Server) webRoutes() {
 	e := s.echo
-	page := []echo.MiddlewareFunc{s.webPage, tokenOnly, s.csrf(), s.withSession}
+	page := []echo.MiddlewareFunc{s.webPage, middleware.BodyLimit("64K"), tokenOnly, s.csrf(), s.withSession}
 	signedIn := append(page[:len(page):len(page)], requireSession)
 	e.GET("/", s.home, page...)
 	e.POST("/session", s.signIn, page...)

@@ -11,7 +11,8 @@ import (
 )
 
 // OpenSession opens a web session for key that lasts ttl and returns its
-// id, which is stored only as its hash.
+// id, which is stored only as its hash; sessions expired for a day are
+// deleted on the way.
 func (db *DB) OpenSession(ctx context.Context, k *service.Key, ttl time.Duration) (string, error) {
 	raw := make([]byte, 32)
 	if _, err := rand.Read(raw); err != nil {
@@ -19,6 +20,9 @@ func (db *DB) OpenSession(ctx context.Context, k *service.Key, ttl time.Duration
 	}
 	id := base64.RawURLEncoding.EncodeToString(raw)
 	now := db.now()
+	if _, err := db.Pool.Exec(ctx, `DELETE FROM web_sessions WHERE expires_at < $1`, now.Add(-24*time.Hour)); err != nil {
+		return "", dbError(err, "session")
+	}
 	_, err := db.Pool.Exec(ctx, `INSERT INTO web_sessions (id_sha256, key_id, created_at, expires_at)
 		VALUES ($1, $2, $3, $4)`, hashToken(id), k.ID, now, now.Add(ttl))
 	return id, dbError(err, "session")

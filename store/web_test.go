@@ -34,7 +34,16 @@ func TestSessions(t *testing.T) {
 	if _, err := db.SessionKey(ctx, id); service.ErrorCode(err) != service.ENotFound {
 		t.Fatalf("expired session: %v", err)
 	}
+	db.Now = func() time.Time { return now().Add(26 * time.Hour) }
+	if _, err := db.OpenSession(ctx, k, time.Hour); err != nil {
+		t.Fatal(err)
+	}
+	var left int
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM web_sessions`).Scan(&left); err != nil || left != 1 {
+		t.Fatalf("%d sessions after a day past expiry, want the new one only (%v)", left, err)
+	}
 	db.Now = now
+	id, _ = db.OpenSession(ctx, k, time.Hour)
 	if err := db.EndSession(ctx, id); err != nil {
 		t.Fatal(err)
 	}

@@ -68,6 +68,10 @@ func TestWeb_SignIn(t *testing.T) {
 	if code, _, _ := w.post("/session", url.Values{"key": {token}}); code != http.StatusBadRequest {
 		t.Fatalf("sign-in without the CSRF token: %d", code)
 	}
+	huge := url.Values{"key": {strings.Repeat("k", 100<<10)}, "_csrf": {csrf[1]}}
+	if code, _, page := w.post("/session", huge); code != http.StatusRequestEntityTooLarge || !strings.Contains(page, "<h1>") {
+		t.Fatalf("a 100 KiB sign-in form: %d", code)
+	}
 	for i := 1; i <= 4; i++ {
 		code, _, page := w.post("/session", url.Values{"key": {"pv_wrong"}, "_csrf": {csrf[1]}})
 		if code != http.StatusUnprocessableEntity || !strings.Contains(page, "not accepted") || !strings.Contains(page, `name="key"`) {
