@@ -3,6 +3,7 @@ package render
 import (
 	"fmt"
 	"io"
+	"regexp"
 	"sort"
 	"strings"
 
@@ -88,8 +89,19 @@ func WriteLetter(w io.Writer, r *checks.Report) error {
 	return err
 }
 
-// mdEscape keeps text from turning into Markdown markup.
+// mdEscape keeps text from turning into Markdown markup while leaving it
+// readable as plain text: it escapes the characters that start emphasis,
+// code, links or an HTML tag, but not an underscore inside a name such as
+// tutor_sessions (CommonMark never reads that as emphasis) nor a "<"
+// before a space, as in "p < .001".
 func mdEscape(s string) string {
-	return strings.NewReplacer(`\`, `\\`, "*", `\*`, "_", `\_`, "`", "\\`", "[", `\[`, "]", `\]`, "<", `\<`, "#", `\#`).
+	s = strings.NewReplacer(`\`, `\\`, "*", `\*`, "`", "\\`", "[", `\[`, "]", `\]`).
 		Replace(strings.Join(strings.Fields(s), " "))
+	s = tagStart.ReplaceAllString(s, `\<$1`)
+	return edgeUnderscore.ReplaceAllString(s, `$1\_$2`)
 }
+
+var (
+	tagStart       = regexp.MustCompile(`<([A-Za-z/!?])`)
+	edgeUnderscore = regexp.MustCompile(`(^|[^A-Za-z0-9])_|_([^A-Za-z0-9]|$)`)
+)
