@@ -23,17 +23,23 @@ type Question struct {
 
 // asks are the questions each check's findings raise.
 var asks = map[string]string{
-	"graph-declared": "Could you state the complete causal graph that these claims rest on?",
-	"graph-fit": "How do you reconcile the declared graph with this, " +
+	"graph-declared": "Could you state the complete causal graph that the claims rest on?",
+	"graph-fit": "How do you reconcile the declared graph with the data here, " +
 		"and would a revised graph change the claims?",
 	"equivalence": "What evidence beyond these data supports the direction " +
-		"of the arrows this claim depends on?",
-	"alternatives":            "Why should readers prefer the declared graph to this alternative?",
-	"missing-data":            "Would you report the claims under maximum likelihood or multiple imputation as well?",
-	"effect-reporting":        "Could you report the effect size with its interval, and make it agree with the stated p-value?",
-	"confounding-sensitivity": "Which unmeasured confounders could be this strong, and how do you rule them out?",
-	"measurement":             "How reliable are these measures, and does correcting for measurement error change the claim?",
-	"causal-language":         "Could you word this so it claims no more than the design supports?",
+		"of the arrows the claims depend on?",
+	"alternatives": "Which other causal orders did you consider, and why do the data " +
+		"or the design favour the declared graph?",
+	"missing-data": "How were missing values coded and handled, and do the claims hold " +
+		"under maximum likelihood or multiple imputation?",
+	"effect-reporting": "Could you report each effect with its size and interval, " +
+		"and state conclusions that agree with them?",
+	"confounding-sensitivity": "Which unmeasured confounders could explain the estimates away, " +
+		"and how does the design rule them out?",
+	"measurement": "How reliable are the measures, and does correcting for measurement error " +
+		"change the claims?",
+	"causal-language": "Could you word the claims so that they say no more than the design " +
+		"and the stated target trial support?",
 }
 
 const defaultAsk = "How do you respond to this point?"
