@@ -11,6 +11,8 @@ import (
 	"path/filepath"
 	"strconv"
 	"testing"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // benchData reads the n × p data with 10% missing cells that
@@ -94,7 +96,7 @@ func BenchmarkMI(b *testing.B) {
 		b.Run(fmt.Sprintf("n=%d/p=%d/m=20", s.n, s.p), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if _, err := Impute(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}); err != nil {
+				if err := ImputeEach(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}, func(int, *mat.Dense) error { return nil }); err != nil {
 					b.Fatal(err)
 				}
 			}

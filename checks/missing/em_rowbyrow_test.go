@@ -34,6 +34,7 @@ func emRowByRow(ctx context.Context, cols [][]float64, opt Options) (*EMResult, 
 	res.Mean, res.Cov = mean, cov
 	return res, nil
 }
+
 // refCondition is the conditional normal of a pattern's missing variables.
 type refCondition struct {
 	obs, mis []int
