@@ -95,7 +95,7 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, binary []
 	done := 0
 	opt := missing.ImputeOptions{M: Imputations, Seed: seedOf(a.Study.SHA256), Binary: binary}
 	err := missing.ImputeEach(ctx, a.Study.Data.Columns, r.em, opt, func(k int, data *mat.Dense) error {
-		m, err := rowMoments(data, fmt.Sprintf("imputation_%d", k+1))
+		m, err := imputedMoments(data, fmt.Sprintf("imputation_%d", k+1))
 		if err != nil {
 			return err
 		}
@@ -113,6 +113,29 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, binary []
 		r.imputed, r.imputedEst = imputed, ests
 	}
 	return err
+}
+
+// imputedMoments are the moments of an imputed dataset, as rowMoments
+// gives them, from missing.RowMoments, which does not copy the rows.
+func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
+	mean, cov := missing.RowMoments(data)
+	n, p := data.Dims()
+	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: mean, Rows: data, Method: method}
+	for j := range p {
+		if m.SD[j] = math.Sqrt(cov.At(j, j)); m.SD[j] == 0 {
+			return nil, Errorf(EInvalid, "a variable is constant in the %s", casesName(method))
+		}
+	}
+	for i := range p {
+		for j := 0; j <= i; j++ {
+			m.Cor.SetSym(i, j, cov.At(i, j)/(m.SD[i]*m.SD[j]))
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
+		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear", casesName(method))
+	}
+	return m, nil
 }
 
 // seedOf takes the randomness of a report from its package's hash, so the

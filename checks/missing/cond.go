@@ -84,18 +84,15 @@ func invertSym(s []float64, k int) error {
 	return nil
 }
 
-// predict writes the conditional means of the missing values of row i
-// into x[mis], and the observed values into x[obs].
-func (c *condition) predict(cols [][]float64, i int, x []float64) {
+// predict writes the conditional means of the missing values of the row
+// x into x[mis], from its observed values x[obs].
+func (c *condition) predict(x []float64) {
 	no := len(c.obs)
-	for _, j := range c.obs {
-		x[j] = cols[j][i]
-	}
 	for a, j := range c.mis {
 		v := c.a[a]
 		row := c.b[a*no : (a+1)*no]
 		for b, k := range c.obs {
-			v += row[b] * cols[k][i]
+			v += row[b] * x[k]
 		}
 		x[j] = v
 	}

@@ -58,11 +58,15 @@ type Options struct {
 //
 // EM stops with ctx's error when ctx is done.
 func EM(ctx context.Context, cols [][]float64, opt Options) (*EMResult, error) {
-	return emWeighted(ctx, cols, Patterns(cols), nil, opt)
+	if len(cols) == 0 || rows(cols) < 2 {
+		return nil, ErrNoData
+	}
+	return emWeighted(ctx, cols, rowMajor(cols), Patterns(cols), nil, opt)
 }
 
-// emWeighted runs EM on the rows of cols weighted by w (nil: once each).
-func emWeighted(ctx context.Context, cols [][]float64, ps []Pattern, w []float64, opt Options) (*EMResult, error) {
+// emWeighted runs EM on the rows of x (cols laid out as rows) weighted by
+// w (nil: once each).
+func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Pattern, w []float64, opt Options) (*EMResult, error) {
 	if opt.Tolerance == 0 {
 		opt.Tolerance = DefaultTolerance
 	}
@@ -77,7 +81,11 @@ func emWeighted(ctx context.Context, cols [][]float64, ps []Pattern, w []float64
 	if err != nil {
 		return nil, err
 	}
-	return squarem(ctx, newEMData(cols, ps, w), theta{mean, cov}, opt)
+	d := newEMData(x, ps, w)
+	if w != nil && !d.observedTwice() {
+		return nil, ErrNoData
+	}
+	return squarem(ctx, d, theta{mean, cov}, opt)
 }
 
 func startValues(cols [][]float64, start *EMResult) ([]float64, *mat.SymDense, error) {

@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat"
 )
 
 // randomData makes n rows of p correlated normal variables; each cell of
@@ -87,7 +88,7 @@ func TestEM_WeightsRepeatRows(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got, err := emWeighted(context.Background(), cols, Patterns(cols), w, opt)
+	got, err := emWeighted(context.Background(), cols, rowMajor(cols), Patterns(cols), w, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -121,5 +122,22 @@ func TestImputeEach_WorkersDoNotMatter(t *testing.T) {
 	}
 	if one[0] == one[1] {
 		t.Error("two imputations are the same")
+	}
+}
+
+// RowMoments gives stat.CovarianceMatrix's covariance and stat.Mean's
+// means, without copying the rows.
+func TestRowMoments(t *testing.T) {
+	x := rowMajor(randomData(2, 700, 5, 0, 0))
+	mean, cov := RowMoments(x)
+	want := mat.NewSymDense(5, nil)
+	stat.CovarianceMatrix(want, x, nil)
+	if !mat.EqualApprox(cov, want, 1e-12) {
+		t.Errorf("covariance\n%v\nwant\n%v", mat.Formatted(cov), mat.Formatted(want))
+	}
+	for j := range mean {
+		if m := stat.Mean(mat.Col(nil, j, x), nil); math.Abs(mean[j]-m) > 1e-12 {
+			t.Errorf("mean %d = %v, want %v", j, mean[j], m)
+		}
 	}
 }

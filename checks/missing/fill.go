@@ -53,7 +53,10 @@ func RegressionImpute(cols [][]float64, em *EMResult) ([][]float64, error) {
 			return nil, err
 		}
 		for _, i := range pat.Rows {
-			c.predict(cols, i, x)
+			for j, col := range cols {
+				x[j] = col[i]
+			}
+			c.predict(x)
 			for _, j := range c.mis {
 				out[j][i] = x[j]
 			}

@@ -49,8 +49,8 @@ func Impute(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOp
 }
 
 // ImputeEach draws M completed datasets and hands each, as an n × p matrix
-// of rows, to use, which must not keep the matrix: it is drawn over by the
-// next imputation, so memory does not grow with M. Each dataset is proper
+// of rows, to use, which must neither change nor keep the matrix: it is
+// drawn over by the next imputation, so memory does not grow with M. Each dataset is proper
 // (Rubin 1987): the parameters are drawn by running EM on a bootstrap
 // resample of the rows (Honaker & King 2010; Efron 1994), a vector of
 // multinomial counts over the rows that weights their sufficient
@@ -122,9 +122,10 @@ type imputer struct {
 	cond condition
 }
 
+// newImputer lays the observed values out as rows once: the imputations
+// only overwrite the missing cells.
 func newImputer(cols [][]float64, ps []Pattern) *imputer {
-	n := rows(cols)
-	return &imputer{cols: cols, ps: ps, w: make([]float64, n), data: mat.NewDense(n, len(cols), nil)}
+	return &imputer{cols: cols, ps: ps, w: make([]float64, rows(cols)), data: rowMajor(cols)}
 }
 
 // impute draws imputation k and hands it to use.
@@ -152,27 +153,13 @@ func (w *imputer) bootstrapEM(ctx context.Context, start *EMResult, opt Options,
 		for range n {
 			w.w[rng.IntN(n)]++
 		}
-		if !w.observedTwice() {
+		res, err := emWeighted(ctx, w.cols, w.data, w.ps, w.w, opt)
+		if errors.Is(err, ErrNoData) {
 			continue
 		}
-		return emWeighted(ctx, w.cols, w.ps, w.w, opt)
+		return res, err
 	}
 	return nil, errors.New("no bootstrap resample observed every variable")
-}
-
-func (w *imputer) observedTwice() bool {
-	for _, c := range w.cols {
-		k := 0
-		for i, x := range c {
-			if w.w[i] > 0 && !math.IsNaN(x) {
-				k++
-			}
-		}
-		if k < 2 {
-			return false
-		}
-	}
-	return true
 }
 
 // draw completes the data with draws from the conditional normals under
@@ -193,7 +180,7 @@ func (w *imputer) draw(theta *EMResult, rng *rand.Rand) error {
 		}
 		for _, i := range pat.Rows {
 			x := w.data.RawRowView(i)
-			w.cond.predict(w.cols, i, x)
+			w.cond.predict(x)
 			addNoise(x, pat.mis, l, rng)
 		}
 	}

@@ -18,7 +18,7 @@ const blockRows = 256
 // at each iteration.
 type emData struct {
 	p      int
-	cols   [][]float64
+	x      *mat.Dense // the rows; only the observed cells are read
 	w      []float64 // row weights (bootstrap counts); nil: every row once
 	groups []*group
 	buf    []float64 // blockRows × (p+1) scratch
@@ -35,10 +35,10 @@ type group struct {
 	s []float64
 }
 
-// newEMData groups the rows of cols by pattern ps under the weights w.
-func newEMData(cols [][]float64, ps []Pattern, w []float64) *emData {
-	p := len(cols)
-	d := &emData{p: p, cols: cols, w: w, buf: make([]float64, blockRows*(p+1))}
+// newEMData groups the rows of x by pattern ps under the weights w.
+func newEMData(x *mat.Dense, ps []Pattern, w []float64) *emData {
+	_, p := x.Dims()
+	d := &emData{p: p, x: x, w: w, buf: make([]float64, blockRows*(p+1))}
 	for _, pat := range ps {
 		g := &group{obs: pat.obs, mis: pat.mis}
 		for _, i := range pat.Rows {
@@ -71,11 +71,11 @@ func (d *emData) crossProducts(g *group) []float64 {
 	s := blas64.Symmetric{N: k, Stride: k, Data: make([]float64, k*k), Uplo: blas.Upper}
 	r := 0
 	for _, i := range g.rows {
-		row := d.buf[r*k : (r+1)*k]
+		row, x := d.buf[r*k:(r+1)*k], d.x.RawRowView(i)
 		sw := math.Sqrt(d.weight(i))
 		row[0] = sw
 		for b, j := range g.obs {
-			row[b+1] = sw * d.cols[j][i]
+			row[b+1] = sw * x[j]
 		}
 		if r++; r == blockRows {
 			blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: k, Stride: k, Data: d.buf}, 1, s)
@@ -166,7 +166,8 @@ func (d *emData) addRows(sums blas64.Symmetric, g *group, r int) int {
 	p := d.p
 	for _, i := range g.rows {
 		row := d.buf[r*(p+1) : (r+1)*(p+1)]
-		d.cond.predict(d.cols, i, row[1:])
+		copy(row[1:], d.x.RawRowView(i))
+		d.cond.predict(row[1:])
 		sw := math.Sqrt(d.weight(i))
 		row[0] = sw
 		for j := 1; j <= p; j++ {
@@ -194,4 +195,30 @@ func moments(t []float64, p int) ([]float64, *mat.SymDense, error) {
 		}
 	}
 	return mean, mat.NewSymDense(p, cov), nil
+}
+
+// observedTwice says whether every variable is observed in at least two
+// rows of positive weight.
+func (d *emData) observedTwice() bool {
+	count := make([]int, d.p)
+	for _, g := range d.groups {
+		for _, j := range g.obs {
+			count[j] += len(g.rows)
+		}
+	}
+	for _, k := range count {
+		if k < 2 {
+			return false
+		}
+	}
+	return true
+}
+
+// rowMajor lays cols out as rows.
+func rowMajor(cols [][]float64) *mat.Dense {
+	x := mat.NewDense(rows(cols), len(cols), nil)
+	for j, c := range cols {
+		x.SetCol(j, c)
+	}
+	return x
 }
