@@ -19,7 +19,7 @@ const blockRows = 256
 type emData struct {
 	p      int
 	x      *mat.Dense // the rows; only the observed cells are read
-	w      []float64 // row weights (bootstrap counts); nil: every row once
+	w      []float64  // row weights (bootstrap counts); nil: every row once
 	groups []*group
 	buf    []float64 // blockRows × (p+1) scratch
 	cond   condition
