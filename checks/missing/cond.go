@@ -28,7 +28,8 @@ type condition struct {
 }
 
 // set computes the condition of the pattern (obs, mis) under mean and the
-// precision prec.
+// precision prec. B = −C P_MO is a product of small matrices, formed by
+// loops: BLAS call overhead outweighs them.
 func (c *condition) set(prec *mat.SymDense, mean []float64, obs, mis []int) error {
 	c.obs, c.mis = obs, mis
 	nm, no := len(mis), len(obs)
@@ -36,29 +37,31 @@ func (c *condition) set(prec *mat.SymDense, mean []float64, obs, mis []int) erro
 	if nm == 0 {
 		return nil
 	}
+	raw := prec.RawSymmetric()
+	at := func(i, j int) float64 { return raw.Data[min(i, j)*raw.Stride+max(i, j)] }
 	for x, i := range mis {
 		for y, j := range mis {
-			c.c[x*nm+y] = prec.At(i, j)
+			c.c[x*nm+y] = at(i, j)
 		}
 		for y, j := range obs {
-			c.pmo[x*no+y] = prec.At(i, j)
+			c.pmo[x*no+y] = at(i, j)
 		}
 	}
 	if err := invertSym(c.c, nm); err != nil {
 		return err
 	}
 	for x := range nm {
+		row := c.b[x*no : (x+1)*no]
+		clear(row)
+		for z := range nm {
+			f := -c.c[x*nm+z]
+			for y, v := range c.pmo[z*no : (z+1)*no] {
+				row[y] += f * v
+			}
+		}
 		c.a[x] = mean[mis[x]]
-	}
-	if no == 0 {
-		return nil
-	}
-	cm := blas64.General{Rows: nm, Cols: nm, Stride: nm, Data: c.c}
-	bm := blas64.General{Rows: nm, Cols: no, Stride: no, Data: c.b}
-	blas64.Gemm(blas.NoTrans, blas.NoTrans, -1, cm, blas64.General{Rows: nm, Cols: no, Stride: no, Data: c.pmo}, 0, bm)
-	for x := range nm {
 		for y, j := range obs {
-			c.a[x] -= c.b[x*no+y] * mean[j]
+			c.a[x] -= row[y] * mean[j]
 		}
 	}
 	return nil
@@ -68,6 +71,13 @@ func (c *condition) set(prec *mat.SymDense, mean []float64, obs, mis []int) erro
 // both triangles) by its inverse, through the Cholesky factor (LAPACK
 // dpotrf, dpotri).
 func invertSym(s []float64, k int) error {
+	if k == 1 {
+		if !(s[0] > 0) {
+			return errNotPD
+		}
+		s[0] = 1 / s[0]
+		return nil
+	}
 	sym := blas64.Symmetric{N: k, Stride: k, Data: s, Uplo: blas.Upper}
 	t, ok := lapack64.Potrf(sym)
 	if !ok {

@@ -15,6 +15,13 @@ import (
 // DefaultImputations is m, the number of imputed datasets, by default.
 const DefaultImputations = 20
 
+// BootstrapTolerance is the EM tolerance of the bootstrap runs unless
+// ImputeOptions.EM says otherwise. Their estimates are draws that spread
+// by about n^(−1/2) SDs; a change of 1e−6 SDs is far below that, so
+// stopping there changes the imputations by much less than their Monte
+// Carlo error.
+const BootstrapTolerance = 1e-6
+
 // ImputeOptions tune multiple imputation.
 type ImputeOptions struct {
 	M    int    // imputations; default DefaultImputations
@@ -148,6 +155,9 @@ func (w *imputer) impute(ctx context.Context, k int, start *EMResult, opt Impute
 func (w *imputer) bootstrapEM(ctx context.Context, start *EMResult, opt Options, rng *rand.Rand) (*EMResult, error) {
 	n := len(w.w)
 	opt.Start = start
+	if opt.Tolerance == 0 {
+		opt.Tolerance = BootstrapTolerance
+	}
 	for range 20 {
 		clear(w.w)
 		for range n {

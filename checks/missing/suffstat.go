@@ -214,11 +214,18 @@ func (d *emData) observedTwice() bool {
 	return true
 }
 
-// rowMajor lays cols out as rows.
+// rowMajor lays cols out as rows, a block of rows at a time.
 func rowMajor(cols [][]float64) *mat.Dense {
-	x := mat.NewDense(rows(cols), len(cols), nil)
-	for j, c := range cols {
-		x.SetCol(j, c)
+	n, p := rows(cols), len(cols)
+	x := mat.NewDense(n, p, nil)
+	data := x.RawMatrix().Data
+	for start := 0; start < n; start += blockRows {
+		end := min(start+blockRows, n)
+		for j, c := range cols {
+			for i, v := range c[start:end] {
+				data[(start+i)*p+j] = v
+			}
+		}
 	}
 	return x
 }
