@@ -67,10 +67,12 @@ def write(out, case, n):
     x = simulate(n, parents, rng)
     hide(x, case, rng)
     names = [f"x{j + 1:02d}" for j in range(P)]
-    buf = io.StringIO()
-    np.savetxt(buf, x, delimiter=",", fmt="%.6g", header=",".join(names), comments="")
     with open(f"{out}/rows.csv", "w") as f:
-        f.write(re.sub(r"\bnan\b", "", buf.getvalue()))  # a missing value is an empty cell
+        f.write(",".join(names) + "\n")
+        for start in range(0, n, 100_000):  # in chunks, to keep memory down at 2,000,000 rows
+            buf = io.StringIO()
+            np.savetxt(buf, x[start:start + 100_000], delimiter=",", fmt="%.6g")
+            f.write(re.sub(r"\bnan\b", "", buf.getvalue()))  # a missing value is an empty cell
     claims = []
     for k, y in enumerate((29, 23, 17)):
         focal = parents[y][0]
