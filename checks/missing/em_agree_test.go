@@ -2,9 +2,11 @@ package missing
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -139,5 +141,28 @@ func TestRowMoments(t *testing.T) {
 		if m := stat.Mean(mat.Col(nil, j, x), nil); math.Abs(mean[j]-m) > 1e-12 {
 			t.Errorf("mean %d = %v, want %v", j, mean[j], m)
 		}
+	}
+}
+
+// A panic in use comes back as an error, and use's error stops the rest.
+func TestImputeEach_PanicAndError(t *testing.T) {
+	cols := randomData(6, 100, 3, 2, 0.2)
+	em, err := EM(context.Background(), cols, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 2}, func(k int, _ *mat.Dense) error {
+		if k == 2 {
+			panic("boom")
+		}
+		return nil
+	})
+	if err == nil || !strings.Contains(err.Error(), "imputation 3: internal error: boom") {
+		t.Fatalf("got %v", err)
+	}
+	stop := errors.New("stop")
+	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 1}, func(int, *mat.Dense) error { return stop })
+	if !errors.Is(err, stop) {
+		t.Fatalf("got %v", err)
 	}
 }

@@ -90,7 +90,7 @@ func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt Impu
 			defer wg.Done()
 			w := newImputer(cols, ps)
 			for k := range jobs {
-				if errs[k] = w.impute(ctx, k, start, opt, use); errs[k] != nil {
+				if errs[k] = w.safeImpute(ctx, k, start, opt, use); errs[k] != nil {
 					cancel()
 				}
 			}
@@ -133,6 +133,18 @@ type imputer struct {
 // only overwrite the missing cells.
 func newImputer(cols [][]float64, ps []Pattern) *imputer {
 	return &imputer{cols: cols, ps: ps, w: make([]float64, rows(cols)), data: rowMajor(cols)}
+}
+
+// safeImpute is impute with a panic turned into an error: a panic on a
+// worker goroutine would otherwise end the program, past the recovery of
+// whoever called ImputeEach.
+func (w *imputer) safeImpute(ctx context.Context, k int, start *EMResult, opt ImputeOptions, use func(int, *mat.Dense) error) (err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			err = fmt.Errorf("missing: imputation %d: internal error: %v", k+1, p)
+		}
+	}()
+	return w.impute(ctx, k, start, opt, use)
 }
 
 // impute draws imputation k and hands it to use.
