@@ -50,7 +50,7 @@ func TestEM_AgreesWithRowByRow(t *testing.T) {
 	for _, c := range []struct {
 		n, p, k int
 		share   float64
-	}{{2000, 6, 3, 0.2}, {300, 8, 8, 0.1}, {1000, 10, 10, 0.05}, {150, 4, 2, 0.4}} {
+	}{{2000, 6, 3, 0.2}, {300, 8, 8, 0.1}, {1000, 10, 10, 0.05}, {150, 4, 2, 0.4}, {400, 3, 3, 0.6}, {200, 5, 5, 0.5}} {
 		t.Run(fmt.Sprint(c), func(t *testing.T) {
 			cols := randomData(uint64(c.n), c.n, c.p, c.k, c.share)
 			opt := Options{Tolerance: 1e-12, MaxIter: 100000}

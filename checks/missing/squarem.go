@@ -39,46 +39,64 @@ func thetaOf(v []float64, p int) theta {
 	return t
 }
 
-// squarem iterates the EM map of d from t0 with the SQUAREM S3 step
+// squarem iterates the EM map of d from cur with the SQUAREM S3 step
 // (Varadhan & Roland 2008, Scand. J. Statist. 35: 335–353): from
 // θ1 = F(θ0) and θ2 = F(θ1), with r = θ1 − θ0, v = θ2 − 2θ1 + θ0 and
 // α = −‖r‖/‖v‖ (at most −1), the next point is θ0 − 2αr + α²v; α is
 // halved towards −1 (which gives θ2) while that point's covariance is not
-// positive definite. It stops when one EM step changes no mean or
-// covariance by opt.Tolerance relative to the SDs, and returns that step.
+// positive definite, and where the EM step from it changes the estimates
+// ten times as much as the last one did, EM goes on from θ2 instead. It
+// stops when one EM step changes no mean or covariance by opt.Tolerance
+// relative to the SDs, and returns that step.
 func squarem(ctx context.Context, d *emData, cur theta, opt Options) (*EMResult, error) {
 	res := &EMResult{Tolerance: opt.Tolerance}
-	var pair [2]theta
+	var fallback *theta
+	last := math.Inf(1)
 	for {
-		for k := range pair {
-			if err := ctx.Err(); err != nil {
-				return nil, err
-			}
-			from := cur
-			if k == 1 {
-				from = pair[0]
-			}
-			next, err := emStep(d, from, res)
-			if err != nil {
-				return nil, err
-			}
-			pair[k] = next
-			if res.Converged = maxChange(from.mean, from.cov, next.mean, next.cov) < opt.Tolerance; res.Converged || res.Iterations >= opt.MaxIter {
-				res.Mean, res.Cov = next.mean, next.cov
-				return res, nil
-			}
+		t1, c1, err := emStep(ctx, d, cur, res)
+		if err != nil {
+			return nil, err
 		}
-		cur = extrapolate(cur, pair[0], pair[1], d.p)
+		if fallback != nil && c1 > 10*last && res.Iterations < opt.MaxIter {
+			cur, fallback = *fallback, nil
+			continue
+		}
+		if res.finish(t1, c1, opt) {
+			return res, nil
+		}
+		t2, c2, err := emStep(ctx, d, t1, res)
+		if err != nil {
+			return nil, err
+		}
+		if res.finish(t2, c2, opt) {
+			return res, nil
+		}
+		cur, fallback, last = extrapolate(cur, t1, t2, d.p), &t2, c2
 	}
 }
 
-func emStep(d *emData, t theta, res *EMResult) (theta, error) {
+// finish says whether EM stops at t, which changed the estimates by
+// change, and fills res if so.
+func (res *EMResult) finish(t theta, change float64, opt Options) bool {
+	res.Converged = change < opt.Tolerance
+	if !res.Converged && res.Iterations < opt.MaxIter {
+		return false
+	}
+	res.Mean, res.Cov = t.mean, t.cov
+	return true
+}
+
+// emStep is one EM step from t, and the largest change it makes.
+func emStep(ctx context.Context, d *emData, t theta, res *EMResult) (theta, float64, error) {
+	if err := ctx.Err(); err != nil {
+		return theta{}, 0, err
+	}
 	res.Iterations++
 	m, c, err := d.step(t.mean, t.cov)
 	if err != nil {
-		return theta{}, fmt.Errorf("missing: EM iteration %d: %w", res.Iterations, err)
+		return theta{}, 0, fmt.Errorf("missing: EM iteration %d: %w", res.Iterations, err)
 	}
-	return theta{m, c}, nil
+	return theta{m, c}, maxChange(t.mean, t.cov, m, c), nil
 }
 
 // extrapolate is the SQUAREM step from t0 through t1 = F(t0), t2 = F(t1).
