@@ -133,7 +133,8 @@ func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
 	}
 	var eig mat.EigenSym
 	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
-		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear", casesName(method))
+		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear",
+			casesName(method))
 	}
 	return m, nil
 }

@@ -66,7 +66,8 @@ func EM(ctx context.Context, cols [][]float64, opt Options) (*EMResult, error) {
 
 // emWeighted runs EM on the rows of x (cols laid out as rows) weighted by
 // w (nil: once each).
-func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Pattern, w []float64, opt Options) (*EMResult, error) {
+func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Pattern, w []float64,
+	opt Options) (*EMResult, error) {
 	if opt.Tolerance == 0 {
 		opt.Tolerance = DefaultTolerance
 	}

@@ -70,7 +70,8 @@ func Impute(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOp
 // use is called from them, for each k in 0..M−1 once, in no fixed order.
 // Imputation k draws from its own stream, seeded by opt.Seed and k, so the
 // datasets do not depend on the number of workers.
-func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOptions, use func(k int, data *mat.Dense) error) error {
+func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOptions,
+	use func(k int, data *mat.Dense) error) error {
 	if opt.M == 0 {
 		opt.M = DefaultImputations
 	}
@@ -138,7 +139,8 @@ func newImputer(cols [][]float64, ps []Pattern) *imputer {
 // safeImpute is impute with a panic turned into an error: a panic on a
 // worker goroutine would otherwise end the program, past the recovery of
 // whoever called ImputeEach.
-func (w *imputer) safeImpute(ctx context.Context, k int, start *EMResult, opt ImputeOptions, use func(int, *mat.Dense) error) (err error) {
+func (w *imputer) safeImpute(ctx context.Context, k int, start *EMResult, opt ImputeOptions,
+	use func(int, *mat.Dense) error) (err error) {
 	defer func() {
 		if p := recover(); p != nil {
 			err = fmt.Errorf("missing: imputation %d: internal error: %v", k+1, p)
@@ -148,7 +150,8 @@ func (w *imputer) safeImpute(ctx context.Context, k int, start *EMResult, opt Im
 }
 
 // impute draws imputation k and hands it to use.
-func (w *imputer) impute(ctx context.Context, k int, start *EMResult, opt ImputeOptions, use func(int, *mat.Dense) error) error {
+func (w *imputer) impute(ctx context.Context, k int, start *EMResult, opt ImputeOptions,
+	use func(int, *mat.Dense) error) error {
 	rng := rand.New(rand.NewPCG(opt.Seed, 0x9e3779b97f4a7c15+uint64(k)))
 	theta, err := w.bootstrapEM(ctx, start, opt.EM, rng)
 	if err == nil {

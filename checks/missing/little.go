@@ -56,7 +56,8 @@ func LittleMCAR(cols [][]float64, em *EMResult) (MCARTest, error) {
 // quadratic is dᵀ Σ_OO⁻¹ d for d the pattern's observed means minus μ_O,
 // through the condition c of the pattern (C = P_MM⁻¹); d and u are
 // scratch of length p.
-func (c *condition) quadratic(cols [][]float64, pat Pattern, mean []float64, prec *mat.SymDense, d, u []float64) float64 {
+func (c *condition) quadratic(cols [][]float64, pat Pattern, mean []float64, prec *mat.SymDense,
+	d, u []float64) float64 {
 	clear(d)
 	for _, j := range pat.obs {
 		s := 0.0
@@ -65,7 +66,8 @@ func (c *condition) quadratic(cols [][]float64, pat Pattern, mean []float64, pre
 		}
 		d[j] = s/float64(len(pat.Rows)) - mean[j]
 	}
-	blas64.Symv(1, prec.RawSymmetric(), blas64.Vector{N: len(d), Inc: 1, Data: d}, 0, blas64.Vector{N: len(u), Inc: 1, Data: u})
+	vec := func(x []float64) blas64.Vector { return blas64.Vector{N: len(x), Inc: 1, Data: x} }
+	blas64.Symv(1, prec.RawSymmetric(), vec(d), 0, vec(u))
 	q := 0.0
 	for _, j := range pat.obs {
 		q += d[j] * u[j]
