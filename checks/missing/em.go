@@ -61,11 +61,11 @@ func EM(ctx context.Context, cols [][]float64, opt Options) (*EMResult, error) {
 	if len(cols) == 0 || rows(cols) < 2 {
 		return nil, ErrNoData
 	}
-	return emWeighted(ctx, cols, rowMajor(cols), Patterns(cols), nil, opt)
+	return emWeighted(ctx, cols, nil, Patterns(cols), nil, opt)
 }
 
-// emWeighted runs EM on the rows of x (cols laid out as rows) weighted by
-// w (nil: once each).
+// emWeighted runs EM on the rows of cols weighted by w (nil: once each);
+// x, when not nil, holds cols as rows.
 func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Pattern, w []float64,
 	opt Options) (*EMResult, error) {
 	if opt.Tolerance == 0 {
@@ -82,7 +82,7 @@ func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Patter
 	if err != nil {
 		return nil, err
 	}
-	d := newEMData(x, ps, w)
+	d := newEMData(cols, x, ps, w)
 	if w != nil && !d.observedTwice() {
 		return nil, ErrNoData
 	}

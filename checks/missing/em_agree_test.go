@@ -90,11 +90,13 @@ func TestEM_WeightsRepeatRows(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got, err := emWeighted(context.Background(), cols, rowMajor(cols), Patterns(cols), w, opt)
-	if err != nil {
-		t.Fatal(err)
+	for _, x := range []*mat.Dense{nil, rowMajor(cols)} { // read from the columns, and from rows
+		got, err := emWeighted(context.Background(), cols, x, Patterns(cols), w, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		assertSameEstimates(t, got, want, 1e-8)
 	}
-	assertSameEstimates(t, got, want, 1e-8)
 }
 
 // The imputed datasets do not depend on how many workers draw them.

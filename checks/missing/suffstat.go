@@ -18,7 +18,8 @@ const blockRows = 256
 // at each iteration.
 type emData struct {
 	p      int
-	x      *mat.Dense // the rows; only the observed cells are read
+	cols   [][]float64
+	x      *mat.Dense // cols as rows, or nil; only the observed cells are read
 	w      []float64  // row weights (bootstrap counts); nil: every row once
 	groups []*group
 	buf    []float64 // blockRows × (p+1) scratch
@@ -35,10 +36,11 @@ type group struct {
 	s []float64
 }
 
-// newEMData groups the rows of x by pattern ps under the weights w.
-func newEMData(x *mat.Dense, ps []Pattern, w []float64) *emData {
-	_, p := x.Dims()
-	d := &emData{p: p, x: x, w: w, buf: make([]float64, blockRows*(p+1))}
+// newEMData groups the rows of cols by pattern ps under the weights w. x,
+// when not nil, holds the same values as rows, which are faster to read.
+func newEMData(cols [][]float64, x *mat.Dense, ps []Pattern, w []float64) *emData {
+	p := len(cols)
+	d := &emData{p: p, cols: cols, x: x, w: w, buf: make([]float64, blockRows*(p+1))}
 	for _, pat := range ps {
 		g := &group{obs: pat.obs, mis: pat.mis}
 		for _, i := range pat.Rows {
@@ -71,11 +73,12 @@ func (d *emData) crossProducts(g *group) []float64 {
 	s := blas64.Symmetric{N: k, Stride: k, Data: make([]float64, k*k), Uplo: blas.Upper}
 	r := 0
 	for _, i := range g.rows {
-		row, x := d.buf[r*k:(r+1)*k], d.x.RawRowView(i)
+		row := d.buf[r*k : (r+1)*k]
 		sw := math.Sqrt(d.weight(i))
 		row[0] = sw
-		for b, j := range g.obs {
-			row[b+1] = sw * x[j]
+		d.observed(i, g.obs, row[1:])
+		for b := range g.obs {
+			row[b+1] *= sw
 		}
 		if r++; r == blockRows {
 			blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: k, Stride: k, Data: d.buf}, 1, s)
@@ -87,6 +90,28 @@ func (d *emData) crossProducts(g *group) []float64 {
 	}
 	symmetrize(s.Data, k)
 	return s.Data
+}
+
+// observed writes the values of row i at obs into dst[:len(obs)].
+func (d *emData) observed(i int, obs []int, dst []float64) {
+	if d.x != nil {
+		x := d.x.RawRowView(i)
+		for b, j := range obs {
+			dst[b] = x[j]
+		}
+		return
+	}
+	for b, j := range obs {
+		dst[b] = d.cols[j][i]
+	}
+}
+
+// spread moves x[:len(obs)] to x[obs], from the last, which never
+// overwrites a value still to move since obs is increasing.
+func spread(x []float64, obs []int) {
+	for b := len(obs) - 1; b >= 0; b-- {
+		x[obs[b]] = x[b]
+	}
 }
 
 func symmetrize(s []float64, k int) {
@@ -166,7 +191,8 @@ func (d *emData) addRows(sums blas64.Symmetric, g *group, r int) int {
 	p := d.p
 	for _, i := range g.rows {
 		row := d.buf[r*(p+1) : (r+1)*(p+1)]
-		copy(row[1:], d.x.RawRowView(i))
+		d.observed(i, g.obs, row[1:])
+		spread(row[1:], g.obs)
 		d.cond.predict(row[1:])
 		sw := math.Sqrt(d.weight(i))
 		row[0] = sw
