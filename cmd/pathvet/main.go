@@ -21,7 +21,7 @@ const (
 	usageOverview = `pathvet screens the statistics of path-model submissions.
 
 Usage:
-  pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] PACKAGE.json
+  pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] [--quiet] PACKAGE.json
   pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate]
   pathvet work [--database-url URL] [--workers N]
   pathvet migrate up|status [--database-url URL]

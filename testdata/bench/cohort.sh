@@ -14,7 +14,8 @@
 # the "cells" data (its own BenchmarkEM/MI shapes at 100,000 × 30) beside
 # this tree's, to show the change.
 # Needs Debian's python3-numpy (/usr/bin/python3).
-# Usage: bash testdata/bench/cohort.sh [ROWS]   (from the repository root)
+# Usage: [CASES="patterns cells"] [BASE=REV] bash testdata/bench/cohort.sh [ROWS]
+#        (from the repository root)
 set -euo pipefail
 cd "$(dirname "$0")/../.."
 rows=${1:-100000}
@@ -25,20 +26,22 @@ go build -o "$dir/pathvet" ./cmd/pathvet
 go test -c -o "$dir/missing.test" ./checks/missing
 
 # measure NAME COMMAND...: prints NAME, the computation's own seconds (from
-# the command's output, when it prints them), wall seconds and peak MB.
+# the command's output, when it prints them), the process's wall and CPU
+# (user + system) seconds and its peak MB.
 measure() {
   local name=$1
   shift
   /usr/bin/time -v -o "$dir/time.txt" "$@" > "$dir/out.txt" 2>&1 || { cat "$dir/out.txt"; exit 1; }
-  local own wall peak
+  local own wall cpu peak
   own=$(awk '/^numpy_em/ {print $2} /^Benchmark/ {print $3 / 1e9}' "$dir/out.txt" | head -1)
   wall=$(awk -F': ' '/Elapsed \(wall clock\)/ {n = split($2, t, ":"); s = 0; for (i = 1; i <= n; i++) s = s * 60 + t[i]; print s}' "$dir/time.txt")
+  cpu=$(awk -F': ' '/User time|System time/ {s += $2} END {print s}' "$dir/time.txt")
   peak=$(awk -F': ' '/Maximum resident set size/ {printf "%.0f", $2 / 1024}' "$dir/time.txt")
-  printf "%-9s %-34s %10s %10s %8s\n" "$case" "$name" "${own:--}" "$wall" "$peak"
+  printf "%-9s %-34s %10s %10s %10s %8s\n" "$case" "$name" "${own:--}" "$wall" "$cpu" "$peak"
 }
 
-echo "case      measurement                        own (s)   wall (s)  peak MB"
-for case in patterns cells; do
+echo "case      measurement                        own (s)   wall (s)    cpu (s)  peak MB"
+for case in ${CASES:-patterns cells}; do
   mkdir -p "$dir/$case"
   $py testdata/bench/cohort.py write "$dir/$case" "$case" "$rows"
   export PATHVET_COHORT_CSV=$dir/$case/rows.csv
