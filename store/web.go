@@ -90,8 +90,9 @@ func (db *DB) Versions(ctx context.Context, ids []string, sc service.Scope) (map
 // BandCounts counts the scope's submissions by the band of their newest
 // report; those not yet screened count under "".
 func (db *DB) BandCounts(ctx context.Context, sc service.Scope) (map[string]int, error) {
-	rows, err := db.Pool.Query(ctx, `SELECT coalesce(r.band, ''), count(*)`+submissionFrom+` WHERE`+scopeSQL+`
-		GROUP BY 1`, sc.OfficeID, sc.Editor, sc.KeyID)
+	rows, err := db.Pool.Query(ctx, `
+		SELECT coalesce((SELECT band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1), ''), count(*)
+		FROM submissions s WHERE`+scopeSQL+` GROUP BY 1`, sc.OfficeID, sc.Editor, sc.KeyID)
 	if err != nil {
 		return nil, dbError(err, "counts")
 	}
