@@ -48,3 +48,24 @@ func TestPageForPeople(t *testing.T) {
 		}
 	}
 }
+
+// TestDashboardWords: an empty period says so, a single report is not
+// "submissions", and a submitter's dashboard is about its own.
+func TestDashboardWords(t *testing.T) {
+	for _, tc := range []struct {
+		d    Dashboard
+		want string
+	}{
+		{Dashboard{Nav: Nav{Office: "O", Role: "editor"}}, "No submission received in this period has a report yet."},
+		{Dashboard{Nav: Nav{Office: "O", Role: "editor"}, Recurring: Recurring{Reports: 1}}, "of 1 screened submission."},
+		{Dashboard{Nav: Nav{Office: "O", Role: "submitter"}}, "Your submissions to O"},
+	} {
+		var b strings.Builder
+		if err := WriteDashboard(&b, tc.d); err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(b.String(), tc.want) {
+			t.Errorf("dashboard lacks %q", tc.want)
+		}
+	}
+}
