@@ -18,11 +18,8 @@ func newKnowledge(n int, k Knowledge) *knowledge {
 }
 
 // eachEdit calls fn for every edit of g that leaves an acyclic graph
-// respecting the knowledge: an arrow added between non-adjacent nodes of
-// the graph (not into an exogenous node, not closing a cycle), an arrow
-// that is not fixed removed, or reversed (not into an exogenous node, not
-// when another directed path joins its ends). Edits come in a fixed order:
-// by the first node, then the second, the ops in the order add, remove,
+// respecting the knowledge (see allowed). Edits come in a fixed order: by
+// the first node, then the second, the ops in the order add, remove,
 // reverse.
 func eachEdit(ctx context.Context, m Model, g *graph, kn *knowledge, fn func(Edit)) error {
 	for u := range g.n {
@@ -36,19 +33,44 @@ func eachEdit(ctx context.Context, m Model, g *graph, kn *knowledge, fn func(Edi
 			if v == u || !m.in(v) {
 				continue
 			}
-			switch {
-			case g.isPa[v].has(u):
-				if kn.fixed[[2]int{u, v}] {
-					continue
+			for _, op := range ops(g, u, v) {
+				if e := (Edit{Op: op, From: u, To: v}); kn.allowed(g, e) {
+					fn(e)
 				}
-				fn(Edit{Op: Remove, From: u, To: v})
-				if !kn.exo[u] && !g.otherPath(u, v) {
-					fn(Edit{Op: Reverse, From: u, To: v})
-				}
-			case !g.isPa[u].has(v) && !kn.exo[v] && !g.reach[v].has(u):
-				fn(Edit{Op: Add, From: u, To: v})
 			}
 		}
 	}
 	return nil
+}
+
+var (
+	arrowOps = []Op{Remove, Reverse}
+	addOps   = []Op{Add}
+)
+
+// ops are the edits that make sense for the ordered pair u, v of g.
+func ops(g *graph, u, v int) []Op {
+	switch {
+	case g.isPa[v].has(u):
+		return arrowOps
+	case g.isPa[u].has(v):
+		return nil
+	}
+	return addOps
+}
+
+// allowed reports whether the edit keeps g acyclic and respects the
+// knowledge: an arrow added between non-adjacent nodes (not into an
+// exogenous node, not closing a cycle), an arrow that is not fixed removed,
+// or reversed (not into an exogenous node, not when another directed path
+// joins its ends).
+func (kn *knowledge) allowed(g *graph, e Edit) bool {
+	u, v := e.From, e.To
+	switch e.Op {
+	case Add:
+		return !g.adjacent(u, v) && !kn.exo[v] && !g.reach[v].has(u)
+	case Remove:
+		return g.isPa[v].has(u) && !kn.fixed[[2]int{u, v}]
+	}
+	return g.isPa[v].has(u) && !kn.fixed[[2]int{u, v}] && !kn.exo[u] && !g.otherPath(u, v)
 }

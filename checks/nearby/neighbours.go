@@ -58,7 +58,9 @@ func Neighbours(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Ne
 		}
 	}
 	nb := &Neighbourhood{DAGs: len(cands) - 1}
-	slices.SortStableFunc(cands, func(a, b candidate) int { return cmp.Compare(a.delta, b.delta) })
+	slices.SortFunc(cands, func(a, b candidate) int {
+		return cmp.Or(cmp.Compare(a.delta, b.delta), cmp.Compare(a.order, b.order))
+	})
 	for i := 0; i < len(cands); {
 		j := i + 1
 		for j < len(cands) && tied(cands[j-1].delta, cands[j].delta) {
@@ -101,20 +103,28 @@ func dim(m Model) int {
 func tied(a, b float64) bool { return math.Abs(a-b) <= 1e-7+1e-9*math.Abs(b) }
 
 // group splits candidates of equal ΔBIC into classes by their exact key.
+// An addition or removal is alone in its class unless another candidate
+// edits the same pair, so only those and reversals need a key.
 func (nb *Neighbourhood) group(g *graph, cs []candidate) {
 	if len(cs) == 1 && !cs[0].self {
 		nb.Classes = append(nb.Classes, Class{Edits: []Edit{cs[0].e}, DeltaBIC: cs[0].delta})
 		return
 	}
+	pairs := map[[2]int]int{}
+	for _, c := range cs {
+		pairs[pairOf(c.e)]++
+	}
 	var keys []string
 	byKey := map[string]*Class{}
-	self := ""
-	for _, c := range cs {
-		key := reversalKey(nil, nil)
-		if !c.self {
+	self := reversalKey(nil, nil)
+	for i, c := range cs {
+		key := self
+		switch {
+		case c.self:
+		case c.e.Op != Reverse && pairs[pairOf(c.e)] == 1:
+			key = fmt.Sprint("#", i) // alone in its class
+		default:
 			key = classKey(g, c.e)
-		} else {
-			self = key
 		}
 		if byKey[key] == nil {
 			keys = append(keys, key)
@@ -125,14 +135,15 @@ func (nb *Neighbourhood) group(g *graph, cs []candidate) {
 		}
 	}
 	for _, key := range keys {
-		switch {
-		case self != "" && key == self:
+		if key == self {
 			nb.Equivalent += len(byKey[key].Edits)
-		default:
-			nb.Classes = append(nb.Classes, *byKey[key])
+			continue
 		}
+		nb.Classes = append(nb.Classes, *byKey[key])
 	}
 }
+
+func pairOf(e Edit) [2]int { return [2]int{min(e.From, e.To), max(e.From, e.To)} }
 
 // classKey names the class of the neighbour g+e among g's neighbours: the
 // pair whose adjacency it changes, and the v-structures it destroys and
