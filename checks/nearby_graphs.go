@@ -1,0 +1,185 @@
+package checks
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/pathvet/pathvet/checks/nearby"
+)
+
+// MaxNearbyListed bounds the classes graph.nearby_graphs lists; the
+// classes within ΔBIC 2 among them are the ones whose claims are
+// re-estimated. At least minNearbyListed are listed, however far.
+const (
+	MaxNearbyListed = 20
+	minNearbyListed = 3
+)
+
+// clearlyBetterBIC is the ΔBIC below which the search's graph fits
+// clearly better: "strong" evidence or more (Raftery 1995).
+const clearlyBetterBIC = -6
+
+// nearby-graphs: which graphs one edit from the declared one fit the data
+// about as well, and what do they do to the claims?
+var nearbyGraphsCheck = Check{
+	ID:    "nearby-graphs",
+	Title: "Graphs one edit away",
+	Run:   runNearbyGraphs,
+}
+
+// nearbyRun is what the check found, for its findings and metrics.
+type nearbyRun struct {
+	nb           *nearby.Neighbourhood
+	sr           *nearby.SearchResult
+	listed       []*nearClass
+	best         *nearClass
+	near, better int // classes within 2, and better by 2 or more
+	examined     int
+}
+
+func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
+	s := a.Study
+	if s.Declared == nil {
+		return CheckResult{Status: StatusNotApplicable, Summary: "No causal graph is declared, so there are no graphs near it to weigh."}, nil
+	}
+	m, err := a.moments()
+	if err != nil {
+		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: " + err.Error() + "."}, nil
+	}
+	declFit, err := a.fitGraph(s.Declared, s.InGraph)
+	if err != nil {
+		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: the declared graph could not be fitted to the data (" + err.Error() + ")."}, nil
+	}
+	run, err := a.nearbyRun(ctx, m)
+	if err != nil {
+		return CheckResult{}, err
+	}
+	a.fillNearbyReport(run)
+	fs := a.nearbyFindings(run)
+	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: nearbyMetrics(run, declFit.fit.BIC)}
+	res.Summary = nearbySummary(res.Status, run)
+	return res, nil
+}
+
+// nearbyRun scores the neighbourhood and runs the search, then resolves
+// and examines the classes the report shows.
+func (a *Analysis) nearbyRun(ctx context.Context, m *Moments) (*nearbyRun, error) {
+	model, parents, k := a.nearbyInput(m)
+	nb, err := nearby.Neighbours(ctx, model, parents, k)
+	if err != nil {
+		return nil, err
+	}
+	sr, err := nearby.Search(ctx, model, parents, k)
+	if err != nil {
+		return nil, err
+	}
+	run := &nearbyRun{nb: nb, sr: sr}
+	alts := a.alternativeClasses()
+	for _, c := range nb.Classes {
+		near := math.Abs(c.DeltaBIC) < weakBIC
+		if near {
+			run.near++
+		} else if c.DeltaBIC <= -weakBIC {
+			run.better++
+		}
+		if len(run.listed) >= MaxNearbyListed || (c.DeltaBIC >= weakBIC && len(run.listed) >= minNearbyListed) {
+			continue
+		}
+		nc := a.resolveClass(nearby.Apply(parents, c.Edits[0]), c.Edits[:1], c.DeltaBIC, alts)
+		if near {
+			if err := a.examine(ctx, nc); err != nil {
+				return nil, err
+			}
+			run.examined++
+		}
+		run.listed = append(run.listed, nc)
+	}
+	if sr.Steps > 0 {
+		run.best = a.resolveClass(sr.Parents, sr.Edits, sr.DeltaBIC, alts)
+		if err := a.examine(ctx, run.best); err != nil {
+			return nil, err
+		}
+	}
+	return run, ctx.Err()
+}
+
+func (a *Analysis) fillNearbyReport(run *nearbyRun) {
+	if a.Graph == nil {
+		return
+	}
+	for _, c := range run.listed {
+		a.Graph.NearbyGraphs = append(a.Graph.NearbyGraphs, a.nearbyReport(c))
+	}
+	if run.best != nil {
+		r := a.nearbyReport(run.best)
+		a.Graph.SearchBest = &r
+	}
+}
+
+func nearbyMetrics(run *nearbyRun, declaredBIC float64) map[string]any {
+	m := map[string]any{
+		"neighbours": run.nb.DAGs, "neighbours_equivalent_to_declared": run.nb.Equivalent,
+		"classes": len(run.nb.Classes), "classes_within_2": run.near, "classes_better_by_2": run.better,
+		"classes_listed": len(run.listed), "classes_examined": run.examined,
+		"declared_bic": num(declaredBIC), "search_steps": run.sr.Steps, "search_delta_bic": num(run.sr.DeltaBIC),
+		"search_edits": len(run.sr.Edits), "search_stopped_at_step_limit": run.sr.Stopped,
+		"score": "graph-fit's BIC = χ² + free parameters · ln N, by refitting only the equations whose parents change",
+	}
+	if len(run.nb.Classes) > 0 {
+		m["best_delta_bic"] = num(run.nb.Classes[0].DeltaBIC)
+	}
+	return m
+}
+
+func nearbySummary(status string, run *nearbyRun) string {
+	switch status {
+	case StatusFail:
+		return "A headline claim changes sign or significance in a graph one edit from the declared one that fits the data about as well (|ΔBIC| < 2) and that the paper does not state as an alternative; the data do not decide between the two graphs, so they do not decide the claim."
+	case StatusWarn:
+		return "The graphs near the declared one need a look: a claim changes in one that fits about as well, a greedy search finds graphs that fit clearly better, or not every close class could be examined; see the findings."
+	}
+	if run.nb.DAGs == 0 {
+		return "The background knowledge leaves no graph one edit from the declared one."
+	}
+	if run.near == 0 {
+		return fmt.Sprintf("None of the %d class(es) of graphs one edit from the declared graph fits within ΔBIC 2 of it, so no graph that close challenges the claims.",
+			len(run.nb.Classes))
+	}
+	return fmt.Sprintf("%d class(es) of graphs lie one edit from the declared graph; %d fit within ΔBIC 2 of it, and no claim changes sign or significance in them.",
+		len(run.nb.Classes), run.near)
+}
+
+// editsText names edits of the declared graph: "without the arrow a → b",
+// "with an added arrow a → b", "with the arrow a → b reversed".
+func (a *Analysis) editsText(edits []nearby.Edit) string {
+	const shown = 4
+	var parts []string
+	for _, e := range edits[:min(shown, len(edits))] {
+		from, to := a.Study.Names[e.From], a.Study.Names[e.To]
+		parts = append(parts, map[nearby.Op]string{
+			nearby.Add:     "with an added arrow " + from + " → " + to,
+			nearby.Remove:  "without the arrow " + from + " → " + to,
+			nearby.Reverse: "with the arrow " + from + " → " + to + " reversed",
+		}[e.Op])
+	}
+	if len(edits) > shown {
+		parts = append(parts, fmt.Sprintf("%d more edits", len(edits)-shown))
+	}
+	return strings.Join(parts, " and ")
+}
+
+// deltaText gives ΔBIC with Raftery's band and the graph it favours.
+func deltaText(d float64) string {
+	band := strings.ReplaceAll(nearby.Evidence(d), "_", " ")
+	switch favours(d) {
+	case "neither":
+		return fmt.Sprintf("ΔBIC = %+.2f: the data do not tell the two apart", d)
+	case "nearby":
+		return fmt.Sprintf("ΔBIC = %+.2f: %s evidence for the edited graph over the declared one", d, band)
+	case "declared":
+		return fmt.Sprintf("ΔBIC = %+.2f: %s evidence for the declared graph over the edited one", d, band)
+	}
+	return "ΔBIC not available"
+}
