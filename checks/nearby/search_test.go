@@ -11,13 +11,13 @@ import (
 	"github.com/pathvet/pathvet/checks/nearby"
 )
 
-// The greedy search on 100 random graphs: its ΔBIC is the whole-model
+// The greedy search on 60 random graphs: its ΔBIC is the whole-model
 // difference (sem.FitDAG), its graph is acyclic and respects the
 // knowledge, its edits lead there from the declared graph, and no single
 // edit of it lowers BIC any further (checked by brute force).
 func TestSearch_LocalOptimum(t *testing.T) {
 	r := rand.New(rand.NewPCG(5, 6))
-	for trial := range 100 {
+	for trial := range 60 {
 		p := 3 + trial%5
 		pa := randomParents(r, p, 0.3)
 		s := randomCorrelation(r, p)
