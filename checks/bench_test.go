@@ -91,3 +91,30 @@ func TestBenchPackagesLoad(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkNearbyGraphs runs the nearby-graphs check alone (neighbourhood,
+// search, and the claims across the close classes) on the summary
+// packages above, up to the variable limit.
+func BenchmarkNearbyGraphs(b *testing.B) {
+	var nearby []checks.Check
+	for _, c := range checks.Pipeline() {
+		if c.ID == "nearby-graphs" {
+			nearby = append(nearby, c)
+		}
+	}
+	for _, p := range []int{10, 30, 100, 500} {
+		s, err := checks.Load(benchPackage(p), checks.LoadOptions{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.Run(fmt.Sprintf("p=%d", p), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				r, err := checks.Run(context.Background(), s, checks.Options{Checks: nearby})
+				if err != nil || r.Checks[0].RunError != "" || r.Checks[0].Status == checks.StatusNotApplicable {
+					b.Fatalf("%v %+v", err, r.Checks[0])
+				}
+			}
+		})
+	}
+}

@@ -58,6 +58,7 @@ func Neighbours(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Ne
 		}
 	}
 	nb := &Neighbourhood{DAGs: len(cands) - 1}
+	adds := newBitset(g.n * g.n)
 	slices.SortFunc(cands, func(a, b candidate) int {
 		return cmp.Or(cmp.Compare(a.delta, b.delta), cmp.Compare(a.order, b.order))
 	})
@@ -67,7 +68,7 @@ func Neighbours(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Ne
 			j++
 		}
 		slices.SortFunc(cands[i:j], func(a, b candidate) int { return cmp.Compare(a.order, b.order) })
-		nb.group(g, cands[i:j])
+		nb.group(g, cands[i:j], adds)
 		i = j
 		if err := ctx.Err(); err != nil {
 			return nil, err
@@ -103,47 +104,43 @@ func dim(m Model) int {
 func tied(a, b float64) bool { return math.Abs(a-b) <= 1e-7+1e-9*math.Abs(b) }
 
 // group splits candidates of equal ΔBIC into classes by their exact key.
-// An addition or removal is alone in its class unless another candidate
-// edits the same pair, so only those and reversals need a key.
-func (nb *Neighbourhood) group(g *graph, cs []candidate) {
-	if len(cs) == 1 && !cs[0].self {
-		nb.Classes = append(nb.Classes, Class{Edits: []Edit{cs[0].e}, DeltaBIC: cs[0].delta})
-		return
-	}
-	pairs := map[[2]int]int{}
+// A removal is alone in its class (only a reversal shares its pair, and
+// keeps the skeleton), and so is an addition unless the opposite addition
+// is among the candidates; only those and reversals need a key. adds is
+// scratch space of n² bits, left clear.
+func (nb *Neighbourhood) group(g *graph, cs []candidate, adds bitset) {
 	for _, c := range cs {
-		pairs[pairOf(c.e)]++
+		if c.e.Op == Add && !c.self {
+			adds.set(c.e.From*g.n + c.e.To)
+		}
 	}
-	var keys []string
-	byKey := map[string]*Class{}
 	self := reversalKey(nil, nil)
-	for i, c := range cs {
-		key := self
+	index := map[string]int{}
+	for _, c := range cs {
+		alone := c.e.Op == Remove || c.e.Op == Add && !adds.has(c.e.To*g.n+c.e.From)
 		switch {
 		case c.self:
-		case c.e.Op != Reverse && pairs[pairOf(c.e)] == 1:
-			key = fmt.Sprint("#", i) // alone in its class
-		default:
-			key = classKey(g, c.e)
-		}
-		if byKey[key] == nil {
-			keys = append(keys, key)
-			byKey[key] = &Class{DeltaBIC: c.delta}
-		}
-		if !c.self {
-			byKey[key].Edits = append(byKey[key].Edits, c.e)
-		}
-	}
-	for _, key := range keys {
-		if key == self {
-			nb.Equivalent += len(byKey[key].Edits)
+			continue
+		case alone:
+			nb.Classes = append(nb.Classes, Class{Edits: []Edit{c.e}, DeltaBIC: c.delta})
 			continue
 		}
-		nb.Classes = append(nb.Classes, *byKey[key])
+		key := classKey(g, c.e)
+		if i, ok := index[key]; ok {
+			nb.Classes[i].Edits = append(nb.Classes[i].Edits, c.e)
+		} else if key == self {
+			nb.Equivalent++
+		} else {
+			index[key] = len(nb.Classes)
+			nb.Classes = append(nb.Classes, Class{Edits: []Edit{c.e}, DeltaBIC: c.delta})
+		}
+	}
+	for _, c := range cs {
+		if c.e.Op == Add && !c.self {
+			adds.clear(c.e.From*g.n + c.e.To)
+		}
 	}
 }
-
-func pairOf(e Edit) [2]int { return [2]int{min(e.From, e.To), max(e.From, e.To)} }
 
 // classKey names the class of the neighbour g+e among g's neighbours: the
 // pair whose adjacency it changes, and the v-structures it destroys and
