@@ -45,7 +45,8 @@ func Neighbours(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Ne
 	if err != nil {
 		return nil, err
 	}
-	cands := []candidate{{self: true}}
+	cands := make([]candidate, 1, 1+g.n*g.n) // at most one edit per ordered pair, two per arrow
+	cands[0].self = true
 	err = eachEdit(ctx, m, g, kn, func(e Edit) {
 		cands = append(cands, candidate{e: e, delta: r.delta(e), order: len(cands)})
 	})
@@ -57,7 +58,7 @@ func Neighbours(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Ne
 			return nil, fmt.Errorf("nearby: the ΔBIC of %s %d→%d is not a number", c.e.Op, c.e.From, c.e.To)
 		}
 	}
-	nb := &Neighbourhood{DAGs: len(cands) - 1}
+	nb := &Neighbourhood{DAGs: len(cands) - 1, Classes: make([]Class, 0, len(cands))}
 	adds := newBitset(g.n * g.n)
 	slices.SortFunc(cands, func(a, b candidate) int {
 		return cmp.Or(cmp.Compare(a.delta, b.delta), cmp.Compare(a.order, b.order))
