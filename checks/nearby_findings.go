@@ -78,27 +78,33 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
 	}
 	edits := a.editsText(c.edits)
-	scope := fmt.Sprintf("in %d of the %d plausible graphs %s", ae.Differing, ae.Graphs, edits)
+	graphs := fmt.Sprintf("the %d plausible graphs %s", ae.Graphs, edits)
 	switch {
 	case ae.Method == AcrossParentSets:
-		scope = fmt.Sprintf("under %d of the %d locally valid parent sets of the graphs %s", ae.Differing, ae.Graphs, edits)
-	case ae.Graphs == 1 && ae.Differing == 1:
-		scope = "in the one plausible graph " + edits
-	case ae.Differing == ae.Graphs:
-		scope = fmt.Sprintf("in all %d plausible graphs %s", ae.Graphs, edits)
-	}
-	spread := fmt.Sprintf("ranges from %s to %s", numText(ae.Min), numText(ae.Max))
-	if ae.Min != nil && ae.Max != nil && *ae.Min == *ae.Max {
-		spread = "is " + numText(ae.Min) + " throughout"
+		graphs = fmt.Sprintf("the %d locally valid parent sets of the graphs %s", ae.Graphs, edits)
+	case ae.Graphs == 1:
+		graphs = "the one plausible graph " + edits
 	}
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s is %s under the declared graph but %s %s (%s); across the class it %s and is significant with the declared sign in %s of its graphs.",
-		cl.ID, valueText(decl), other, scope, deltaText(c.delta), spread, shareText(ae.ShareSignificantSameSign))
+	switch {
+	case ae.Graphs == 1:
+		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in %s (%s)", cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+	case ae.Differing == 1:
+		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)", cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+	default:
+		fmt.Fprintf(&b, "%s is %s under the declared graph, but its sign or significance differs in %d of %s (%s; nearest zero %s)",
+			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)
+	}
+	if ae.Graphs > 1 {
+		fmt.Fprintf(&b, "; across them it ranges from %s to %s and is significant with the declared sign in %s of them",
+			numText(ae.Min), numText(ae.Max), shareText(ae.ShareSignificantSameSign))
+	}
+	b.WriteString(".")
 	switch {
 	case c.alternative != "":
 		fmt.Fprintf(&b, " The authors state this graph as the alternative %q.", c.alternative)
 	case sev == StatusFail:
-		b.WriteString(" The paper neither states nor discusses this graph, so the data do not decide this claim; the choice between the two graphs does.")
+		b.WriteString(" The paper neither states nor discusses this graph, so the data do not decide this claim; the choice of graph does.")
 	}
 	return b.String()
 }
