@@ -166,7 +166,8 @@ func (r *rows) delta(e Edit) float64 {
 // Evidence names the band of Raftery (1995, Table 6) that |ΔBIC| falls
 // in: below 2 the data do not tell the two graphs apart ("weak", not worth
 // more than a bare mention), 2–6 positive, 6–10 strong, above 10 very
-// strong.
+// strong. (The bands are recalled from Raftery's table, which takes them
+// from Jeffreys' scale on the 2 ln B scale of Kass & Raftery 1995.)
 func Evidence(delta float64) string {
 	switch d := math.Abs(delta); {
 	case math.IsNaN(d):
