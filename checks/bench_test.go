@@ -104,7 +104,7 @@ func BenchmarkNearbyGraphs(b *testing.B) {
 		}
 	}
 	for _, p := range []int{10, 30, 100, 500} {
-		s, err := checks.Load(benchPackage(p), checks.LoadOptions{})
+		s, err := load.Load(benchPackage(p), load.Options{})
 		if err != nil {
 			b.Fatal(err)
 		}

@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/floats/scalar"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // The case the nearby-graphs check exists for: a clean randomized package
@@ -71,7 +72,7 @@ func TestNearbyGraphs_StatedAlternativeWarns(t *testing.T) {
 	doc = bytes.Replace(doc, []byte(`{"name": "no-hours-effect",`), []byte(`{"name": "no-direct-effect",
      "edges": [{"from": "offered", "to": "volunteer_hours"}, {"from": "volunteer_hours", "to": "wellbeing"}]},
     {"name": "no-hours-effect",`), 1)
-	s, err := checks.Load(doc, checks.LoadOptions{})
+	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -15,6 +15,7 @@ import (
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/dag"
 	"github.com/pathvet/pathvet/checks/linmod"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/checks/sem"
 )
 
@@ -242,7 +243,7 @@ func TestNearbyGraphs_AgainstOracle(t *testing.T) {
 			continue
 		}
 		trial++
-		s, err := checks.Load(o.document(t), checks.LoadOptions{})
+		s, err := load.Load(o.document(t), load.Options{})
 		if err != nil {
 			t.Fatal(err)
 		}
