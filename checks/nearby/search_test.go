@@ -48,3 +48,30 @@ func TestSearch_LocalOptimum(t *testing.T) {
 		}
 	}
 }
+
+// A cancelled context stops both the neighbourhood and the search with
+// the context's error.
+func TestNearby_Cancelled(t *testing.T) {
+	s, pa := simulated(30, 2)
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	m := nearby.Model{S: s, N: 1000}
+	if _, err := nearby.Neighbours(ctx, m, pa, nearby.Knowledge{}); err != context.Canceled {
+		t.Errorf("Neighbours: %v", err)
+	}
+	if _, err := nearby.Search(ctx, m, pa, nearby.Knowledge{}); err != context.Canceled {
+		t.Errorf("Search: %v", err)
+	}
+}
+
+// Bad input is an error, not a panic: a cycle, a parent out of range, a
+// matrix of another size.
+func TestNearby_BadInput(t *testing.T) {
+	s, _ := simulated(3, 3)
+	m := nearby.Model{S: s, N: 100}
+	for _, pa := range [][][]int{{{2}, {0}, {1}}, {{5}, nil, nil}, {nil, nil}} {
+		if _, err := nearby.Neighbours(context.Background(), m, pa, nearby.Knowledge{}); err == nil {
+			t.Errorf("parents %v: no error", pa)
+		}
+	}
+}
