@@ -57,7 +57,10 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 			continue
 		}
 		sev := StatusWarn
-		if near && cl.Headline && c.alternative == "" {
+		switch {
+		case a.Claims[i].AcrossEquivalents != nil && a.Claims[i].AcrossEquivalents.Unstable:
+			sev = SeverityInfo // the equivalence check already weighs it
+		case near && cl.Headline && c.alternative == "":
 			sev = StatusFail
 		}
 		fs = append(fs, Finding{Severity: sev, Claim: cl.ID, Message: a.changedText(c, i, ae, sev),
@@ -92,7 +95,7 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 	case ae.Differing == 1:
 		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)", cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
 	default:
-		fmt.Fprintf(&b, "%s is %s under the declared graph, but its sign or significance differs in %d of %s (%s; nearest zero %s)",
+		fmt.Fprintf(&b, "%s is %s under the declared graph, but its sign or significance differs in %d of %s (%s; in the one nearest zero it is %s)",
 			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)
 	}
 	if ae.Graphs > 1 {
@@ -101,6 +104,8 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 	}
 	b.WriteString(".")
 	switch {
+	case sev == SeverityInfo:
+		b.WriteString(" It already changes among the declared graph's own equivalent graphs (see the equivalence check), so the equivalence check's finding covers it.")
 	case c.alternative != "":
 		fmt.Fprintf(&b, " The authors state this graph as the alternative %q.", c.alternative)
 	case sev == StatusFail:

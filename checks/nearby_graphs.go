@@ -4,18 +4,44 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks/nearby"
 )
 
-// MaxNearbyListed bounds the classes graph.nearby_graphs lists; the
-// classes within ΔBIC 2 among them are the ones whose claims are
-// re-estimated. At least minNearbyListed are listed, however far.
+// MaxNearbyListed bounds the classes within ΔBIC 2 that
+// graph.nearby_graphs lists (best first), whose claims are re-estimated;
+// beside them it lists the maxBetterListed best classes that fit better by
+// 2 or more, and at least minNearbyListed classes in all, however far.
 const (
 	MaxNearbyListed = 20
+	maxBetterListed = 5
 	minNearbyListed = 3
 )
+
+// listedClasses counts the classes within 2 and better by 2 or more, and
+// returns the indices (best first) of those graph.nearby_graphs lists.
+func listedClasses(cs []nearby.Class, run *nearbyRun) []int {
+	var out []int
+	near := 0
+	for i, c := range cs {
+		switch {
+		case math.Abs(c.DeltaBIC) < weakBIC:
+			run.near++
+			if near < MaxNearbyListed {
+				out, near = append(out, i), near+1
+			}
+		case c.DeltaBIC <= -weakBIC:
+			if run.better++; run.better <= maxBetterListed {
+				out = append(out, i)
+			}
+		case len(out) < minNearbyListed:
+			out = append(out, i)
+		}
+	}
+	return out
+}
 
 // clearlyBetterBIC is the ΔBIC below which the search's graph fits
 // clearly better: "strong" evidence or more (Raftery 1995).
@@ -77,18 +103,10 @@ func (a *Analysis) nearbyRun(ctx context.Context, m *Moments) (*nearbyRun, error
 	}
 	run := &nearbyRun{nb: nb, sr: sr}
 	alts := a.alternativeClasses()
-	for _, c := range nb.Classes {
-		near := math.Abs(c.DeltaBIC) < weakBIC
-		if near {
-			run.near++
-		} else if c.DeltaBIC <= -weakBIC {
-			run.better++
-		}
-		if len(run.listed) >= MaxNearbyListed || (c.DeltaBIC >= weakBIC && len(run.listed) >= minNearbyListed) {
-			continue
-		}
+	for _, i := range listedClasses(nb.Classes, run) {
+		c := nb.Classes[i]
 		nc := a.resolveClass(nearby.Apply(parents, c.Edits[0]), c.Edits[:1], c.DeltaBIC, alts)
-		if near {
+		if math.Abs(c.DeltaBIC) < weakBIC {
 			if err := a.examine(ctx, nc); err != nil {
 				return nil, err
 			}
@@ -175,11 +193,25 @@ func deltaText(d float64) string {
 	band := strings.ReplaceAll(nearby.Evidence(d), "_", " ")
 	switch favours(d) {
 	case "neither":
-		return fmt.Sprintf("ΔBIC = %+.2f: the data do not tell the two apart", d)
+		return fmt.Sprintf("ΔBIC = %s: the data do not tell the two apart", bicText(d))
 	case "nearby":
-		return fmt.Sprintf("ΔBIC = %+.2f: %s evidence for the edited graph over the declared one", d, band)
+		return fmt.Sprintf("ΔBIC = %s: %s evidence for the edited graph over the declared one", bicText(d), band)
 	case "declared":
-		return fmt.Sprintf("ΔBIC = %+.2f: %s evidence for the declared graph over the edited one", d, band)
+		return fmt.Sprintf("ΔBIC = %s: %s evidence for the declared graph over the edited one", bicText(d), band)
 	}
 	return "ΔBIC not available"
+}
+
+// bicText writes ΔBIC with two decimals, or more where two would round it
+// across a band's edge (−1.996 is not "−2.00").
+func bicText(d float64) string {
+	for k := 2; ; k++ {
+		t := strconv.FormatFloat(d, 'f', k, 64)
+		if x, _ := strconv.ParseFloat(t, 64); nearby.Evidence(x) == nearby.Evidence(d) || k == 8 {
+			if d >= 0 {
+				t = "+" + t
+			}
+			return t
+		}
+	}
 }
