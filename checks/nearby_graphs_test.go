@@ -82,3 +82,30 @@ func TestNearbyGraphs_StatedAlternativeWarns(t *testing.T) {
 		t.Errorf("nearby-graphs %s, alternative %q; want warn, no-direct-effect", c.Status, r.Graph.NearbyGraphs[0].Alternative)
 	}
 }
+
+// A claim that already changes among the declared graph's own equivalents
+// (tutoring-anxiety's C2) is noted by nearby-graphs, not weighed again.
+func TestNearbyGraphs_EquivalenceNotCountedTwice(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/tutoring-anxiety/package.json"))
+	var c2 *checks.ClaimReport
+	for i := range r.Claims {
+		if r.Claims[i].ID == "C2" {
+			c2 = &r.Claims[i]
+		}
+	}
+	if c2 == nil || c2.AcrossEquivalents == nil || !c2.AcrossEquivalents.Unstable {
+		t.Fatal("C2 should change among the equivalent graphs")
+	}
+	seen := false
+	for _, f := range checkOf(r, "nearby-graphs").Findings {
+		if f.Claim == "C2" {
+			seen = true
+			if f.Severity != checks.SeverityInfo || !strings.Contains(f.Message, "equivalence check") {
+				t.Errorf("C2: %s %q", f.Severity, f.Message)
+			}
+		}
+	}
+	if !seen {
+		t.Error("no C2 finding")
+	}
+}
