@@ -12,10 +12,11 @@ import (
 // The score's calibration, so that a later change cannot move the bands
 // silently: a clean randomized study with complete reporting scores at
 // least 85; the flawed demos and purpose-built flawed packages score below
-// 50, among them the coding-club demo, whose headline arrow's direction
-// rests on an arrow the data barely support (nearby-graphs); a clean
-// package whose only flaw is a headline arrow the graph without it fits
-// about as well (nearby-headline) is of moderate concern.
+// 50; the coding-club demo, whose flaws do not change its conclusions, is
+// of moderate concern (its headline arrow's direction rests on an arrow the
+// data barely support, a warning: the score is approximate for its binary
+// variables), and so is a clean package whose only flaw is a headline
+// arrow the graph without it fits about as well (nearby-headline).
 func TestScore_Calibration(t *testing.T) {
 	for _, tc := range []struct {
 		path     string
@@ -25,7 +26,7 @@ func TestScore_Calibration(t *testing.T) {
 		{"../testdata/calibration/bare-claims/package.json", 0, 49},
 		{"../testdata/demo/tutoring-anxiety/package.json", 0, 49},
 		{"../testdata/demo/sleep-attention/package.json", 0, 49},
-		{"../testdata/demo/coding-club/package.json", 0, 49},
+		{"../testdata/demo/coding-club/package.json", 50, 79},
 		{"../testdata/calibration/nearby-headline/package.json", 50, 79},
 	} {
 		r := mustRun(t, MustLoad(t, tc.path))

@@ -19,6 +19,9 @@ type nearClass struct {
 	plausible   *big.Int // nil when it could not be counted
 	alternative string
 	claims      map[int]*AcrossEquivalents // by claim index; nil when not examined
+	// approximate: every way into the class changes the equation of a
+	// binary variable, which the linear score treats as continuous.
+	approximate bool
 }
 
 // nearbyInput is the declared graph as package nearby takes it.
@@ -160,4 +163,29 @@ func favours(delta float64) string {
 		return "nearby"
 	}
 	return "declared"
+}
+
+// binaryEquation reports whether every one of the edits (each leading
+// into the same class) changes the parents of a binary variable: then no
+// member of the class is scored by equations that are all linear models of
+// continuous outcomes, and its ΔBIC is only approximate.
+func (a *Analysis) binaryEquation(edits []nearby.Edit) bool {
+	binary := func(v int) bool { return a.Study.Package.Variables[v].Scale == ScaleBinary }
+	for _, e := range edits {
+		if !binary(e.To) && !(e.Op == nearby.Reverse && binary(e.From)) {
+			return false
+		}
+	}
+	return len(edits) > 0
+}
+
+// binaryChanged reports whether a binary variable's parents differ
+// between the declared graph and the DAG given by parents.
+func (a *Analysis) binaryChanged(parents [][]int) bool {
+	for v, ps := range parents {
+		if a.Study.Package.Variables[v].Scale == ScaleBinary && !slices.Equal(ps, a.Study.Declared.Parents(v)) {
+			return true
+		}
+	}
+	return false
 }

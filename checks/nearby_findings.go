@@ -60,7 +60,7 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 		switch {
 		case a.Claims[i].AcrossEquivalents != nil && a.Claims[i].AcrossEquivalents.Unstable:
 			sev = SeverityInfo // the equivalence check already weighs it
-		case near && cl.Headline && c.alternative == "":
+		case near && cl.Headline && c.alternative == "" && !c.approximate:
 			sev = StatusFail
 		}
 		fs = append(fs, Finding{Severity: sev, Claim: cl.ID, Message: a.changedText(c, i, ae, sev),
@@ -108,6 +108,8 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 		b.WriteString(" It already changes among the declared graph's own equivalent graphs (see the equivalence check), so the equivalence check's finding covers it.")
 	case c.alternative != "":
 		fmt.Fprintf(&b, " The authors state this graph as the alternative %q.", c.alternative)
+	case c.approximate && cl.Headline && math.Abs(c.delta) < weakBIC && c.alternative == "":
+		b.WriteString(" The edit changes the equation of a binary variable, which the linear score treats as continuous, so this ΔBIC is approximate and the finding a warning rather than a failure; the paper neither states nor discusses this graph.")
 	case sev == StatusFail:
 		b.WriteString(" The paper neither states nor discusses this graph, so the data do not decide this claim; the choice of graph does.")
 	}
@@ -159,6 +161,6 @@ func (a *Analysis) binaryScoreFinding() []Finding {
 		return nil
 	}
 	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
-		"%s: binary. The nearby graphs are scored by the same linear BIC as graph-fit's χ², which treats %s as continuous, so their ΔBIC is approximate there (the claims themselves are estimated as elsewhere in the report).",
+		"%s: binary. The nearby graphs are scored by the same linear BIC as graph-fit's χ², which treats %s as continuous: where an edit changes a binary variable's equation its ΔBIC is approximate, and a headline claim that changes there is warned about, not failed (the claims themselves are estimated as elsewhere in the report).",
 		strings.Join(names, ", "), them(len(names)))}}
 }

@@ -106,6 +106,7 @@ func (a *Analysis) nearbyRun(ctx context.Context, m *Moments) (*nearbyRun, error
 	for _, i := range listedClasses(nb.Classes, run) {
 		c := nb.Classes[i]
 		nc := a.resolveClass(nearby.Apply(parents, c.Edits[0]), c.Edits[:1], c.DeltaBIC, alts)
+		nc.approximate = a.binaryEquation(c.Edits)
 		if math.Abs(c.DeltaBIC) < weakBIC {
 			if err := a.examine(ctx, nc); err != nil {
 				return nil, err
@@ -116,6 +117,7 @@ func (a *Analysis) nearbyRun(ctx context.Context, m *Moments) (*nearbyRun, error
 	}
 	if sr.Steps > 0 {
 		run.best = a.resolveClass(sr.Parents, sr.Edits, sr.DeltaBIC, alts)
+		run.best.approximate = a.binaryChanged(sr.Parents)
 		if err := a.examine(ctx, run.best); err != nil {
 			return nil, err
 		}

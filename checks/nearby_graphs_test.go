@@ -109,3 +109,20 @@ func TestNearbyGraphs_EquivalenceNotCountedTwice(t *testing.T) {
 		t.Error("no C2 finding")
 	}
 }
+
+// Where the edit changes a binary variable's equation (coding-club:
+// without parent_degree → club_member, club_member binary) the linear
+// score is approximate, so the headline change is a warning.
+func TestNearbyGraphs_BinaryEquationWarns(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
+	c := checkOf(r, "nearby-graphs")
+	if c.Status != checks.StatusWarn {
+		t.Fatalf("nearby-graphs %s", c.Status)
+	}
+	for _, f := range c.Findings {
+		if f.Claim == "H1" && (f.Severity != checks.StatusWarn || !strings.Contains(f.Message, "approximate") ||
+			!strings.Contains(f.Message, "without the arrow parent_degree → club_member")) {
+			t.Errorf("H1: %s %q", f.Severity, f.Message)
+		}
+	}
+}
