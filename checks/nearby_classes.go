@@ -42,7 +42,8 @@ func (a *Analysis) nearbyInput(m *Moments) (nearby.Model, [][]int, nearby.Knowle
 // resolveClass builds the class of the declared graph with edits made (or
 // of the DAG given by parents): its DAG, CPDAG, background arcs, sizes,
 // and the stated alternative in it.
-func (a *Analysis) resolveClass(parents [][]int, edits []nearby.Edit, delta float64, alts map[string]string) *nearClass {
+func (a *Analysis) resolveClass(parents [][]int, edits []nearby.Edit, delta float64,
+	alts map[string]string) *nearClass {
 	s := a.Study
 	var arcs []dag.Edge
 	for v, ps := range parents {

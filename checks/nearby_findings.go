@@ -64,7 +64,8 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 			sev = StatusFail
 		}
 		fs = append(fs, Finding{Severity: sev, Claim: cl.ID, Message: a.changedText(c, i, ae, sev),
-			Details: map[string]any{"delta_bic": num(c.delta), "graphs": ae.Graphs, "graphs_differing": ae.Differing, "method": ae.Method}})
+			Details: map[string]any{"delta_bic": num(c.delta), "graphs": ae.Graphs,
+				"graphs_differing": ae.Differing, "method": ae.Method}})
 	}
 	return fs
 }
@@ -91,9 +92,11 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 	var b strings.Builder
 	switch {
 	case ae.Graphs == 1:
-		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in %s (%s)", cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in %s (%s)",
+			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
 	case ae.Differing == 1:
-		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)", cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)",
+			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
 	default:
 		fmt.Fprintf(&b, "%s is %s under the declared graph, but its sign or significance differs in %d of %s (%s; in the one nearest zero it is %s)",
 			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)

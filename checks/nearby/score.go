@@ -32,7 +32,8 @@ type rows struct {
 
 func newRows(m Model, g *graph) (*rows, error) {
 	p := m.S.SymmetricDim()
-	r := &rows{m: m, lnN: math.Log(float64(m.N)), n1: float64(m.N - 1), add: make([][]float64, p), rem: make([][]float64, p)}
+	r := &rows{m: m, lnN: math.Log(float64(m.N)), n1: float64(m.N - 1)}
+	r.add, r.rem = make([][]float64, p), make([][]float64, p)
 	for v := range p {
 		r.add[v], r.rem[v] = make([]float64, p), make([]float64, p)
 		if !m.in(v) {
