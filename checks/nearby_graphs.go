@@ -74,7 +74,10 @@ func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if err != nil {
 		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: " + err.Error() + "."}, nil
 	}
-	declFit, err := a.fitGraph(s.Declared, s.InGraph)
+	declFit, err := a.fitGraph(ctx, s.Declared, s.InGraph)
+	if ctxErr := ctx.Err(); ctxErr != nil {
+		return CheckResult{}, ctxErr
+	}
 	if err != nil {
 		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: the declared graph could not be fitted to the data (" + err.Error() + ")."}, nil
 	}

@@ -2,6 +2,7 @@ package checks_test
 
 import (
 	"cmp"
+	"context"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -167,7 +168,7 @@ func (o *oracleStudy) bic(t *testing.T, arcs []dag.Edge) float64 {
 	for _, e := range arcs {
 		pa[e.To] = append(pa[e.To], e.From)
 	}
-	f, err := sem.FitDAG(o.s, o.n, pa)
+	f, err := sem.FitDAG(context.Background(), o.s, o.n, pa)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -60,7 +60,7 @@ func randomCorrelation(r *rand.Rand, n int) *mat.SymDense {
 
 func wholeBIC(t *testing.T, s mat.Symmetric, n int, pa [][]int) float64 {
 	t.Helper()
-	f, err := sem.FitDAG(s, n, pa)
+	f, err := sem.FitDAG(context.Background(), s, n, pa)
 	if err != nil {
 		t.Fatal(err)
 	}
