@@ -15,14 +15,16 @@ type Check struct {
 }
 
 // Pipeline returns the checks in pipeline order (report-format.md, "Fixed
-// check ids"). causal-language reads the E-values that
-// confounding-sensitivity computes, so it runs after it.
+// check ids", with nearby-graphs after alternatives). causal-language
+// reads the E-values that confounding-sensitivity computes, so it runs
+// after it.
 func Pipeline() []Check {
 	return []Check{
 		graphDeclaredCheck,
 		graphFitCheck,
 		equivalenceCheck,
 		alternativesCheck,
+		nearbyGraphsCheck,
 		missingDataCheck,
 		effectReportingCheck,
 		confoundingCheck,
