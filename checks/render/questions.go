@@ -28,6 +28,8 @@ var asks = map[string]string{
 		"and would a revised graph change the claims?",
 	"equivalence": "What evidence beyond these data supports the direction " +
 		"of the arrows the claims depend on?",
+	"nearby-graphs": "Why is the declared graph preferred to this graph one edit away, " +
+		"and do the claims hold under it?",
 	"alternatives": "Which other causal orders did you consider, and why do the data " +
 		"or the design favour the declared graph?",
 	"missing-data": "How were missing values coded and handled, and do the claims hold " +

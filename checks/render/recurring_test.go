@@ -17,7 +17,7 @@ func TestTally(t *testing.T) {
 		reps = append(reps, loadGolden(t, d))
 	}
 	got := Tally(reps)
-	if got.Reports != 3 || len(got.Checks) != 9 {
+	if got.Reports != 3 || len(got.Checks) != len(checks.Pipeline()) {
 		t.Fatalf("%d reports, %d checks", got.Reports, len(got.Checks))
 	}
 	first := got.Checks[0]

@@ -116,12 +116,12 @@ func wrapHanging(b *strings.Builder, indent, lead, text string) {
 
 // writeNearby lists graph.nearby_graphs and graph.search_best, one line
 // each: ΔBIC, Raftery's band, the edits, the class sizes, changed claims.
-func writeNearby(b *strings.Builder, g *GraphReport) {
+func writeNearby(b *strings.Builder, g *checks.GraphReport) {
 	if g == nil || (len(g.NearbyGraphs) == 0 && g.SearchBest == nil) {
 		return
 	}
 	b.WriteString("\nGraphs one edit away, best first (ΔBIC against the declared graph; negative fits better):\n")
-	line := func(lead string, n NearbyGraph) {
+	line := func(lead string, n checks.NearbyGraph) {
 		var edits, changed []string
 		for _, e := range n.Edits {
 			edits = append(edits, e.Op+" "+e.From+" → "+e.To)
