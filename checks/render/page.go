@@ -38,6 +38,7 @@ type pageView struct {
 	Questions []Question
 	Claims    []ClaimRow
 	Graph     *GraphView
+	Nearby    []NearbyRow
 	Charts    []chartView
 	Ledger    Ledger
 	Checks    []checkView
@@ -79,7 +80,7 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 	}
 	v := &pageView{R: r, Opts: o, Generated: r.GeneratedAt.UTC().Format("2 January 2006, 15:04 UTC"),
 		Design: Words(r.Design), Band: bandWords(r.Band), Questions: Questions(r), Claims: claimRows(r),
-		Graph: g, Ledger: ledger(r)}
+		Graph: g, Nearby: nearbyRows(r.Graph), Ledger: ledger(r)}
 	for _, c := range r.Claims {
 		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
 			SVG: StabilityChart(c, r.SignificanceLevel)})

@@ -69,3 +69,21 @@ func TestDashboardWords(t *testing.T) {
 		}
 	}
 }
+
+// TestNearbyRows: the tutoring demo's classes one edit away, with the
+// claims re-estimated only where the report did so.
+func TestNearbyRows(t *testing.T) {
+	r := loadGolden(t, "tutoring-anxiety")
+	rows := nearbyRows(r.Graph)
+	if len(rows) != len(r.Graph.NearbyGraphs)+1 || !rows[len(rows)-1].Search {
+		t.Fatalf("%d rows, want %d and the search's end point last", len(rows), len(r.Graph.NearbyGraphs)+1)
+	}
+	for i, n := range r.Graph.NearbyGraphs {
+		if len(n.Claims) == 0 && rows[i].Changed != "not re-estimated" {
+			t.Errorf("row %d says %q of claims that were not re-estimated", i, rows[i].Changed)
+		}
+		if !strings.HasPrefix(rows[i].DeltaBIC, "+") && !strings.HasPrefix(rows[i].DeltaBIC, Minus) {
+			t.Errorf("row %d: ΔBIC %q without its sign", i, rows[i].DeltaBIC)
+		}
+	}
+}
