@@ -111,10 +111,14 @@ func (db *DB) BandCounts(ctx context.Context, sc service.Scope) (map[string]int,
 
 // RecentReports returns the newest report of each of the scope's
 // submissions received since the given time, at most limit of them
-// (newest submissions first), and whether more were left out.
+// (newest submissions first), and whether more were left out. Each is cut
+// to what a tally reads: significance_level, checks and claims (not the
+// graph section, which lists members and is the largest).
 func (db *DB) RecentReports(ctx context.Context, sc service.Scope, since time.Time, limit int) ([][]byte, bool, error) {
 	rows, err := db.Pool.Query(ctx, `
-		SELECT r.report::text FROM submissions s JOIN LATERAL (
+		SELECT json_build_object('significance_level', r.report->'significance_level',
+			'checks', r.report->'checks', 'claims', r.report->'claims')::text
+		FROM submissions s JOIN LATERAL (
 			SELECT report FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1) r ON true
 		WHERE`+scopeSQL+` AND s.created_at >= $4
 		ORDER BY s.created_at DESC, s.id DESC LIMIT $5`, sc.OfficeID, sc.Editor, sc.KeyID, since, limit+1)
