@@ -15,19 +15,23 @@ func (s *Server) routes() {
 	e.Use(middleware.RecoverWithConfig(middleware.RecoverConfig{DisableStackAll: true}))
 	e.Use(s.cfg.Metrics.middleware())
 	e.Use(middleware.ContextTimeout(s.cfg.RequestTimeout))
+	e.Use(s.checkRequest)
 
 	e.GET("/healthz", s.healthz)
 	e.GET("/readyz", s.readyz)
 	e.GET("/metrics", echo.WrapHandler(s.cfg.Metrics.Handler()))
 	e.GET("/v1/openapi.yaml", s.openapi)
 
-	v1 := e.Group("/v1", s.authenticate)
-	v1.POST("/submissions", s.createSubmission, middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
-	v1.GET("/submissions", s.listSubmissions)
-	v1.GET("/submissions/:id", s.getSubmission)
-	v1.DELETE("/submissions/:id", s.deleteSubmission)
-	v1.POST("/submissions/:id/rerun", s.rerunSubmission)
-	v1.GET("/submissions/:id/report", s.getReport)
+	// Authentication is per route, not on the group: a group's middleware
+	// would catch every path under /v1 and hide 405 behind 404.
+	v1, auth := e.Group("/v1"), s.authenticate
+	v1.POST("/submissions", s.createSubmission, auth,
+		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
+	v1.GET("/submissions", s.listSubmissions, auth)
+	v1.GET("/submissions/:id", s.getSubmission, auth)
+	v1.DELETE("/submissions/:id", s.deleteSubmission, auth)
+	v1.POST("/submissions/:id/rerun", s.rerunSubmission, auth)
+	v1.GET("/submissions/:id/report", s.getReport, auth)
 }
 
 func (s *Server) healthz(c echo.Context) error {

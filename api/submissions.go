@@ -67,9 +67,9 @@ func (s *Server) createSubmission(c echo.Context) error {
 	if err != nil {
 		return err
 	}
-	idem := c.Request().Header.Get("Idempotency-Key")
-	if len(idem) > 200 {
-		return problemError(http.StatusBadRequest, "The Idempotency-Key header is longer than 200 characters.")
+	idem, err := idempotencyKey(c)
+	if err != nil {
+		return err
 	}
 	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), service.NewSubmission{
 		Key: keyOf(c), Package: doc, Data: data, Title: study.Package.Title,
@@ -116,9 +116,15 @@ func (s *Server) readMultipart(c echo.Context) (doc, data []byte, err error) {
 		}
 		switch part.FormName() {
 		case "package":
-			doc, err = readLimited(part, s.cfg.Limits.PackageBytes, "package")
+			err = onlyOnce(doc, "package")
+			if err == nil {
+				doc, err = readLimited(part, s.cfg.Limits.PackageBytes, "package")
+			}
 		case "data":
-			data, err = readLimited(part, s.cfg.Limits.CSVBytes, "data")
+			err = onlyOnce(data, "data")
+			if err == nil {
+				data, err = readLimited(part, s.cfg.Limits.CSVBytes, "data")
+			}
 		default:
 			err = problemError(http.StatusBadRequest, fmt.Sprintf("Unknown multipart part %q: the parts are package and data.", part.FormName()))
 		}
@@ -130,6 +136,14 @@ func (s *Server) readMultipart(c echo.Context) (doc, data []byte, err error) {
 		return nil, nil, problemError(http.StatusBadRequest, "The multipart body has no part named package.")
 	}
 	return doc, data, nil
+}
+
+// onlyOnce refuses a second multipart part of one name.
+func onlyOnce(earlier []byte, name string) error {
+	if earlier != nil {
+		return problemError(http.StatusBadRequest, fmt.Sprintf("The multipart body has more than one part named %s.", name))
+	}
+	return nil
 }
 
 // readLimited reads at most limit bytes; more is 413 naming the limit.

@@ -5,12 +5,10 @@ package store
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"time"
 
 	"github.com/jackc/pgx/v5"
-	"github.com/jackc/pgx/v5/pgconn"
 	"github.com/jackc/pgx/v5/pgxpool"
 	"github.com/jackc/pgx/v5/stdlib"
 	"github.com/pressly/goose/v3"
@@ -18,7 +16,6 @@ import (
 	"github.com/riverqueue/river/riverdriver/riverpgxv5"
 	"github.com/riverqueue/river/rivermigrate"
 
-	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/migrations"
 )
 
@@ -107,22 +104,4 @@ func (db *DB) MigrationStatus(ctx context.Context) ([]MigrationStep, error) {
 		out[i] = MigrationStep{Source: s.Source.Path, Applied: s.State == goose.StateApplied, At: s.AppliedAt}
 	}
 	return out, nil
-}
-
-// dbError maps pgx's errors to the core's codes: no rows is not found, a
-// unique violation is a conflict; a coded error passes through.
-func dbError(err error, what string) error {
-	var pe *pgconn.PgError
-	var ce *service.Error
-	switch {
-	case err == nil:
-		return nil
-	case errors.As(err, &ce):
-		return err // already a coded error of the core
-	case errors.Is(err, pgx.ErrNoRows):
-		return service.Errorf(service.ENotFound, "%s not found", what)
-	case errors.As(err, &pe) && pe.Code == "23505":
-		return service.Errorf(service.EConflict, "%s already exists", what)
-	}
-	return fmt.Errorf("store: %s: %w", what, err)
 }

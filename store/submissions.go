@@ -147,11 +147,15 @@ func encodeCursor(at time.Time, id string) string {
 	return base64.RawURLEncoding.EncodeToString([]byte(strconv.FormatInt(at.UnixMicro(), 10) + "/" + id))
 }
 
+// maxCursorMicros is the end of the year 9999: a cursor past it was not
+// given out by this server (and PostgreSQL could not compare it).
+var maxCursorMicros = time.Date(9999, 12, 31, 23, 59, 59, 0, time.UTC).UnixMicro()
+
 func decodeCursor(c string) (time.Time, string, error) {
 	b, err := base64.RawURLEncoding.DecodeString(c)
 	at, id, ok := strings.Cut(string(b), "/")
 	micros, perr := strconv.ParseInt(at, 10, 64)
-	if err != nil || !ok || perr != nil || !uuidRE.MatchString(id) {
+	if err != nil || !ok || perr != nil || !uuidRE.MatchString(id) || micros < 0 || micros > maxCursorMicros {
 		return time.Time{}, "", service.Errorf(service.EInvalid, "the cursor is not one this server gave out")
 	}
 	return time.UnixMicro(micros).UTC(), id, nil
