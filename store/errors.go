@@ -49,6 +49,10 @@ var unavailableStates = []string{"08", "53", "57P01", "57P02", "57P03"}
 // unavailable reports whether err says the database cannot be reached or
 // dropped the connection, rather than refusing the statement.
 func unavailable(err error) bool {
+	var connect *pgconn.ConnectError
+	if errors.As(err, &connect) {
+		return true // whatever the server said, the connection was not made
+	}
 	var pe *pgconn.PgError
 	if errors.As(err, &pe) {
 		for _, st := range unavailableStates {
@@ -58,9 +62,8 @@ func unavailable(err error) bool {
 		}
 		return false
 	}
-	var connect *pgconn.ConnectError
 	var netErr net.Error
-	return errors.As(err, &connect) || errors.As(err, &netErr) || pgconn.SafeToRetry(err) ||
+	return errors.As(err, &netErr) || pgconn.SafeToRetry(err) ||
 		errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, syscall.ECONNREFUSED) ||
 		errors.Is(err, syscall.ECONNRESET) || errors.Is(err, syscall.EPIPE) ||
 		errors.Is(err, context.DeadlineExceeded) || strings.Contains(err.Error(), "conn closed") ||

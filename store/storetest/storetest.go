@@ -78,3 +78,41 @@ func replaceDatabase(raw, name string) (string, error) {
 	u.Path = "/" + name
 	return u.String(), nil
 }
+
+// Outage cuts the database at dbURL off for real: it refuses new
+// connections and every open one is terminated. The returned function
+// (also run when tb ends) lets connections in again.
+func Outage(tb testing.TB, dbURL string) (restore func()) {
+	tb.Helper()
+	ctx := context.Background()
+	u, err := url.Parse(dbURL)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	name := pgx.Identifier{u.Path[1:]}.Sanitize()
+	admin, err := pgx.Connect(ctx, AdminURL())
+	if err != nil {
+		tb.Fatalf("outage: %v", err)
+	}
+	defer admin.Close(ctx)
+	if _, err := admin.Exec(ctx, "ALTER DATABASE "+name+" ALLOW_CONNECTIONS false"); err != nil {
+		tb.Fatalf("outage: %v", err)
+	}
+	if _, err := admin.Exec(ctx, `SELECT pg_terminate_backend(pid) FROM pg_stat_activity
+		WHERE datname = $1 AND pid <> pg_backend_pid()`, u.Path[1:]); err != nil {
+		tb.Fatalf("outage: %v", err)
+	}
+	restore = func() {
+		c, err := pgx.Connect(ctx, AdminURL())
+		if err != nil {
+			tb.Errorf("end of outage: %v", err)
+			return
+		}
+		defer c.Close(ctx)
+		if _, err := c.Exec(ctx, "ALTER DATABASE "+name+" ALLOW_CONNECTIONS true"); err != nil {
+			tb.Errorf("end of outage: %v", err)
+		}
+	}
+	tb.Cleanup(restore)
+	return restore
+}
