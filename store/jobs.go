@@ -1,6 +1,7 @@
 package store
 
 import (
+	"cmp"
 	"context"
 	"encoding/json"
 	"errors"
@@ -45,6 +46,10 @@ type WorkerConfig struct {
 	RescueAfter time.Duration
 	Logger      *slog.Logger
 	Screen      ScreenFunc
+	// ReconcileEvery is how often a submission whose job the queue gave up
+	// on (discarded after its last attempt, or cancelled) is marked failed;
+	// default one minute.
+	ReconcileEvery time.Duration
 	// OnDone, when set, is called after each job ends (for metrics).
 	OnDone func(status string, took time.Duration)
 }
@@ -88,8 +93,17 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 		w.done(service.StatusFailed, start)
 		return river.JobCancel(err)
 	}
-	_ = w.db.NoteAttemptError(bg, id, reason)
+	if nerr := w.db.NoteAttemptError(bg, id, reason); nerr != nil {
+		w.logger().Error("recording a failed attempt", "submission_id", id, "attempt", job.Attempt, "error", nerr)
+	}
 	return err
+}
+
+func (w *screenWorker) logger() *slog.Logger {
+	if w.cfg.Logger != nil {
+		return w.cfg.Logger
+	}
+	return slog.Default()
 }
 
 func (w *screenWorker) done(status string, start time.Time) {
@@ -100,7 +114,10 @@ func (w *screenWorker) done(status string, start time.Time) {
 
 // panicHandler turns a worker panic on its last attempt into a failed
 // submission, as an error would.
-type panicHandler struct{ db *DB }
+type panicHandler struct {
+	db     *DB
+	logger *slog.Logger
+}
 
 func (h panicHandler) HandleError(context.Context, *rivertype.JobRow, error) *river.ErrorHandlerResult {
 	return nil
@@ -109,7 +126,9 @@ func (h panicHandler) HandleError(context.Context, *rivertype.JobRow, error) *ri
 func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v any, trace string) *river.ErrorHandlerResult {
 	var args ScreenArgs
 	if err := unmarshalArgs(job, &args); err == nil && job.Attempt >= job.MaxAttempts {
-		_ = h.db.MarkFailed(context.WithoutCancel(ctx), args.SubmissionID, fmt.Sprintf("internal error: %v", v))
+		if err := h.db.MarkFailed(context.WithoutCancel(ctx), args.SubmissionID, fmt.Sprintf("internal error: %v", v)); err != nil {
+			h.logger.Error("marking a submission failed after a panic", "submission_id", args.SubmissionID, "error", err)
+		}
 	}
 	return nil
 }
@@ -125,6 +144,12 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 	if err := river.AddWorkerSafely(ws, &screenWorker{db: db, cfg: cfg}); err != nil {
 		return nil, err
 	}
+	if err := river.AddWorkerSafely(ws, &reconcileWorker{db: db}); err != nil {
+		return nil, err
+	}
+	every := cmp.Or(cfg.ReconcileEvery, reconcileEvery)
+	periodic := river.NewPeriodicJob(river.PeriodicInterval(every),
+		func() (river.JobArgs, *river.InsertOpts) { return ReconcileArgs{}, nil }, &river.PeriodicJobOpts{RunOnStart: true})
 	rescue := cfg.RescueAfter
 	if rescue < cfg.Timeout {
 		rescue = cfg.Timeout + time.Minute
@@ -134,7 +159,8 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 		Workers:              ws,
 		JobTimeout:           cfg.Timeout,
 		RescueStuckJobsAfter: rescue,
-		ErrorHandler:         panicHandler{db: db},
+		ErrorHandler:         panicHandler{db: db, logger: cmp.Or(cfg.Logger, slog.Default())},
+		PeriodicJobs:         []*river.PeriodicJob{periodic},
 		Logger:               cfg.Logger,
 		FetchCooldown:        50 * time.Millisecond,
 		FetchPollInterval:    500 * time.Millisecond,

@@ -182,6 +182,9 @@ func (db *DB) Rerun(ctx context.Context, id string, sc service.Scope) (*service.
 	if _, err := db.Submission(ctx, id, sc); err != nil {
 		return nil, err
 	}
+	if _, err := db.Reconcile(ctx, id); err != nil { // a job the queue gave up on ends failed first
+		return nil, err
+	}
 	var sub *service.Submission
 	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
 		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'queued', error = '', updated_at = $2
