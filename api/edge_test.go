@@ -37,3 +37,18 @@ func TestEdge_MethodNotAllowedHasAllow(t *testing.T) {
 		t.Fatalf("%d %v %+v", rr.Code, rr.Header(), p)
 	}
 }
+
+// The scheme of Authorization is case-insensitive (RFC 7235, section 2.1).
+func TestAuth_SchemeAnyCase(t *testing.T) {
+	srv := api.New(api.Config{Store: &fakeStore{}})
+	for header, want := range map[string]int{"Bearer good": 200, "bearer good": 200, "BEARER  good": 200,
+		"Basic good": 401, "Bearer": 401, "bearergood": 401} {
+		req := httptest.NewRequest(http.MethodGet, "/v1/submissions", nil)
+		req.Header.Set("Authorization", header)
+		rr := httptest.NewRecorder()
+		srv.Echo().ServeHTTP(rr, req)
+		if rr.Code != want {
+			t.Errorf("%q: %d, want %d", header, rr.Code, want)
+		}
+	}
+}

@@ -22,6 +22,7 @@ type SubmissionView struct {
 	Status        string    `json:"status"`
 	Title         string    `json:"title"`
 	ManuscriptID  string    `json:"manuscript_id,omitempty"`
+	SubmittedBy   string    `json:"submitted_by"`
 	PackageSHA256 string    `json:"package_sha256"`
 	Score         *int      `json:"score"`
 	Band          *string   `json:"band"`
@@ -41,7 +42,7 @@ type Links struct {
 
 func view(s *service.Submission) SubmissionView {
 	self := "/v1/submissions/" + s.ID
-	return SubmissionView{ID: s.ID, Status: s.Status, Title: s.Title, ManuscriptID: s.ManuscriptID,
+	return SubmissionView{ID: s.ID, Status: s.Status, Title: s.Title, ManuscriptID: s.ManuscriptID, SubmittedBy: s.SubmittedBy,
 		PackageSHA256: s.PackageSHA256, Score: s.Score, Band: s.Band, Error: s.Error, Attempts: s.Attempts,
 		Reports: s.Reports, CreatedAt: s.CreatedAt, UpdatedAt: s.UpdatedAt,
 		Links: Links{Self: self, Report: self + "/report"}}

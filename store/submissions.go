@@ -17,16 +17,16 @@ import (
 
 var uuidRE = regexp.MustCompile(`^[0-9a-fA-F]{8}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{12}$`)
 
-const submissionColumns = `s.id, s.office_id, s.submitter_key_id, s.manuscript_id, s.title, s.package_sha256,
+const submissionColumns = `s.id, s.office_id, s.submitter_key_id, sk.label, s.manuscript_id, s.title, s.package_sha256,
 	s.status, s.error, s.attempts, r.score, r.band, (SELECT count(*) FROM reports WHERE submission_id = s.id),
 	s.created_at, s.updated_at`
 
-const submissionFrom = ` FROM submissions s LEFT JOIN LATERAL (
+const submissionFrom = ` FROM submissions s JOIN api_keys sk ON sk.id = s.submitter_key_id LEFT JOIN LATERAL (
 	SELECT score, band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1) r ON true`
 
 func scanSubmission(row pgx.Row) (*service.Submission, error) {
 	s := &service.Submission{}
-	err := row.Scan(&s.ID, &s.OfficeID, &s.SubmitterKeyID, &s.ManuscriptID, &s.Title, &s.PackageSHA256,
+	err := row.Scan(&s.ID, &s.OfficeID, &s.SubmitterKeyID, &s.SubmittedBy, &s.ManuscriptID, &s.Title, &s.PackageSHA256,
 		&s.Status, &s.Error, &s.Attempts, &s.Score, &s.Band, &s.Reports, &s.CreatedAt, &s.UpdatedAt)
 	return s, err
 }

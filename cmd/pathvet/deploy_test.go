@@ -67,7 +67,7 @@ func checkCommand(t *testing.T, file string, args []string) {
 		cfg := defaultConfig(func(string) string { return "" })
 		fs := flag.NewFlagSet(args[0], flag.ContinueOnError)
 		fs.SetOutput(io.Discard)
-		cfg.bindServerFlags(fs)
+		cfg.bindServerFlags(fs, args[0] == "serve")
 		for _, a := range args[1:] {
 			if name, ok := strings.CutPrefix(a, "--"); ok && fs.Lookup(strings.SplitN(name, "=", 2)[0]) == nil {
 				t.Errorf("%s: %s has no flag %s", file, args[0], a)

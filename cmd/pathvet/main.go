@@ -22,12 +22,15 @@ const (
 
 Usage:
   pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] PACKAGE.json
-  pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate]
-  pathvet work [--database-url URL] [--workers N]
+  pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate] [flags]
+  pathvet work [--database-url URL] [--workers N] [flags]
   pathvet migrate up|status [--database-url URL]
-  pathvet keys create --office NAME --role editor|submitter
-  pathvet submit --server URL [--wait] PACKAGE.json
-  pathvet report --server URL [--format text|json] ID
+  pathvet offices create NAME | offices list
+  pathvet keys create --office NAME --role editor|submitter --label TEXT
+  pathvet keys list [--office NAME] | keys revoke ID
+  pathvet submit [--server URL] [--wait] [flags] PACKAGE.json
+  pathvet report [--server URL] [--format text|json] ID
+  pathvet version
 
 The server reads PATHVET_DATABASE_URL and PATHVET_ADDR (default 127.0.0.1:8080);
 the clients read PATHVET_TOKEN.
@@ -53,11 +56,13 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	case "check":
 		return runCheck(ctx, args[1:], stdout, stderr)
 	case "serve", "work":
-		return runServe(ctx, args[0], args[1:], stderr)
+		return runServe(ctx, args[0], args[1:], stdout, stderr)
 	case "migrate":
 		return runMigrate(ctx, args[1:], stdout, stderr)
 	case "keys":
 		return runKeys(ctx, args[1:], stdout, stderr)
+	case "offices":
+		return runOffices(ctx, args[1:], stdout, stderr)
 	case "submit":
 		return runSubmit(ctx, args[1:], stdout, stderr)
 	case "report":

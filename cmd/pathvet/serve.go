@@ -111,12 +111,16 @@ func newLogger(w io.Writer) *slog.Logger { return slog.New(slog.NewJSONHandler(w
 
 // runServe is `pathvet serve` (API and in-process workers) and
 // `pathvet work` (workers only).
-func runServe(ctx context.Context, name string, args []string, stderr io.Writer) int {
+func runServe(ctx context.Context, name string, args []string, stdout, stderr io.Writer) int {
 	cfg := defaultConfig(getenv)
-	fs := newFlagSet(name, stderr, "Usage: pathvet "+name+" [flags]")
-	cfg.bindServerFlags(fs)
-	if code, ok := parseFlags(fs, args); !ok {
+	fs := newCommand(name, serveUsage[name], stdout, stderr)
+	cfg.bindServerFlags(fs.FlagSet, name == "serve")
+	pos, code, ok := fs.parse(args)
+	switch {
+	case !ok:
 		return code
+	case len(pos) > 0:
+		return fs.misuse("takes no arguments, not %q", pos[0])
 	}
 	m := &Main{Config: cfg, Logger: newLogger(stderr), serve: name == "serve"}
 	if !m.serve && m.Config.Workers == 0 {

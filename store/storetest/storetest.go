@@ -13,6 +13,7 @@ import (
 
 	"github.com/jackc/pgx/v5"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/store"
 )
 
@@ -115,4 +116,19 @@ func Outage(tb testing.TB, dbURL string) (restore func()) {
 	}
 	tb.Cleanup(restore)
 	return restore
+}
+
+// MustKey makes a key for the office, with its role as its label,
+// creating the office first when it is new.
+func MustKey(tb testing.TB, db *store.DB, office, role string) (token string, k *service.Key) {
+	tb.Helper()
+	ctx := context.Background()
+	if _, err := db.CreateOffice(ctx, office); err != nil && service.ErrorCode(err) != service.EConflict {
+		tb.Fatalf("create office: %v", err)
+	}
+	token, k, err := db.CreateKey(ctx, service.NewKey{Office: office, Role: role, Label: role + " of " + office})
+	if err != nil {
+		tb.Fatalf("create key: %v", err)
+	}
+	return token, k
 }
