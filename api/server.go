@@ -6,6 +6,7 @@ package api
 import (
 	"context"
 	"log/slog"
+	"sync"
 	"time"
 
 	"github.com/labstack/echo/v4"
@@ -44,7 +45,14 @@ type Config struct {
 type Server struct {
 	cfg  Config
 	echo *echo.Echo
+	// draining is closed by Drain: long polls answer at once.
+	draining  chan struct{}
+	drainOnce sync.Once
 }
+
+// Drain makes every open and later long poll answer at once with the
+// submission's current status, before the HTTP server shuts down.
+func (s *Server) Drain() { s.drainOnce.Do(func() { close(s.draining) }) }
 
 // New returns the API's HTTP handler with every route registered.
 func New(cfg Config) *Server {
@@ -66,7 +74,7 @@ func New(cfg Config) *Server {
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()
 	}
-	s := &Server{cfg: cfg, echo: echo.New()}
+	s := &Server{cfg: cfg, echo: echo.New(), draining: make(chan struct{})}
 	s.echo.HideBanner, s.echo.HidePort = true, true
 	s.echo.HTTPErrorHandler = s.handleError
 	s.routes()

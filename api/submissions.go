@@ -181,12 +181,13 @@ func (s *Server) getSubmission(c echo.Context) error {
 		if err != nil {
 			return err
 		}
-		finished := sub.Status == service.StatusDone || sub.Status == service.StatusFailed
-		if finished || !time.Now().Add(s.cfg.PollInterval).Before(deadline) {
+		if service.Finished(sub.Status) || !time.Now().Add(s.cfg.PollInterval).Before(deadline) {
 			return c.JSON(http.StatusOK, view(sub))
 		}
 		select {
 		case <-ctx.Done():
+			return c.JSON(http.StatusOK, view(sub))
+		case <-s.draining:
 			return c.JSON(http.StatusOK, view(sub))
 		case <-time.After(s.cfg.PollInterval):
 		}

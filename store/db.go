@@ -70,8 +70,32 @@ func (db *DB) goose() (*goose.Provider, error) {
 	return goose.NewProvider(goose.DialectPostgres, stdlib.OpenDBFromPool(db.Pool), migrations.FS)
 }
 
-// Migrate applies pathvet's migrations and the job queue's.
+// migrateLock is the key of the advisory lock that migrations hold
+// ("pathvet migrate" in ASCII, folded to 63 bits).
+const migrateLock int64 = 0x70617468766574
+
+// Migrate applies pathvet's migrations and the job queue's, under a
+// session advisory lock, so that any number of processes may migrate at
+// once: one applies, the others wait and find nothing left to do.
 func (db *DB) Migrate(ctx context.Context) error {
+	conn, err := db.Pool.Acquire(ctx)
+	if err != nil {
+		return fmt.Errorf("store: migrate: %w", dbError(err, "migration lock"))
+	}
+	defer conn.Release()
+	if _, err := conn.Exec(ctx, `SELECT pg_advisory_lock($1)`, migrateLock); err != nil {
+		return fmt.Errorf("store: migration lock: %w", err)
+	}
+	defer func() {
+		bg := context.WithoutCancel(ctx)
+		if _, err := conn.Exec(bg, `SELECT pg_advisory_unlock($1)`, migrateLock); err != nil {
+			_ = conn.Conn().Close(bg) // ending the session ends its lock
+		}
+	}()
+	return db.migrate(ctx)
+}
+
+func (db *DB) migrate(ctx context.Context) error {
 	p, err := db.goose()
 	if err != nil {
 		return fmt.Errorf("store: migrations: %w", err)

@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"log/slog"
+	"sync"
 	"time"
 
 	"github.com/jackc/pgx/v5"
@@ -58,6 +59,35 @@ type screenWorker struct {
 	river.WorkerDefaults[ScreenArgs]
 	db  *DB
 	cfg WorkerConfig
+	// gate closes when Stop begins: a job fetched after it is handed back
+	// to the queue unstarted.
+	gate *gate
+}
+
+// gate orders job starts against a stop: once closed no job starts, and
+// the log shows every start before the line that says so.
+type gate struct {
+	mu     sync.Mutex
+	closed bool
+	logger *slog.Logger
+}
+
+func (g *gate) enter(id string, attempt int) bool {
+	g.mu.Lock()
+	defer g.mu.Unlock()
+	if !g.closed {
+		g.logger.Info("screening started", "submission_id", id, "attempt", attempt)
+	}
+	return !g.closed
+}
+
+func (g *gate) close() {
+	g.mu.Lock()
+	defer g.mu.Unlock()
+	if !g.closed {
+		g.closed = true
+		g.logger.Info("workers stopping: no job starts from now")
+	}
 }
 
 func (w *screenWorker) Timeout(*river.Job[ScreenArgs]) time.Duration { return w.cfg.Timeout }
@@ -68,6 +98,9 @@ func (w *screenWorker) Timeout(*river.Job[ScreenArgs]) time.Duration { return w.
 func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) error {
 	start := time.Now()
 	id := job.Args.SubmissionID
+	if !w.gate.enter(id, job.Attempt) {
+		return river.JobSnooze(time.Second)
+	}
 	pkg, data, err := w.db.Claim(ctx, id)
 	if service.ErrorCode(err) == service.ENotFound {
 		return nil
@@ -136,12 +169,16 @@ func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v 
 func unmarshalArgs(job *rivertype.JobRow, v any) error { return json.Unmarshal(job.EncodedArgs, v) }
 
 // Workers is a running set of queue workers.
-type Workers struct{ client *river.Client[pgx.Tx] }
+type Workers struct {
+	client *river.Client[pgx.Tx]
+	gate   *gate
+}
 
 // StartWorkers starts workers that screen queued submissions.
 func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, error) {
 	ws := river.NewWorkers()
-	if err := river.AddWorkerSafely(ws, &screenWorker{db: db, cfg: cfg}); err != nil {
+	g := &gate{logger: cmp.Or(cfg.Logger, slog.Default())}
+	if err := river.AddWorkerSafely(ws, &screenWorker{db: db, cfg: cfg, gate: g}); err != nil {
 		return nil, err
 	}
 	if err := river.AddWorkerSafely(ws, &reconcileWorker{db: db}); err != nil {
@@ -171,19 +208,30 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 	if err := client.Start(ctx); err != nil {
 		return nil, fmt.Errorf("store: start workers: %w", err)
 	}
-	return &Workers{client: client}, nil
+	return &Workers{client: client, gate: g}, nil
 }
 
-// Stop lets running jobs finish, up to ctx's deadline, then cancels them
-// (they are retried by another worker).
+// Stop stops fetching jobs at once (a job fetched meanwhile goes back to
+// the queue unstarted), lets running jobs finish up to ctx's deadline,
+// then cancels them: they are released to be retried by another worker.
 func (w *Workers) Stop(ctx context.Context) error {
+	w.gate.close()
 	err := w.client.Stop(ctx)
 	if errors.Is(err, context.DeadlineExceeded) || errors.Is(err, context.Canceled) {
-		return w.client.StopAndCancel(context.Background())
+		release, cancel := context.WithTimeout(context.Background(), releaseTime)
+		defer cancel()
+		return w.client.StopAndCancel(release)
 	}
 	return err
 }
 
+// releaseTime bounds how long cancelled jobs may take to hand their work
+// back when Stop's deadline has passed.
+const releaseTime = 5 * time.Second
+
 // Kill cancels running jobs at once, as a crash would leave them to be
 // retried; for tests and for a second interrupt.
-func (w *Workers) Kill(ctx context.Context) error { return w.client.StopAndCancel(ctx) }
+func (w *Workers) Kill(ctx context.Context) error {
+	w.gate.close()
+	return w.client.StopAndCancel(ctx)
+}

@@ -8,6 +8,9 @@ import (
 	"log/slog"
 	"net"
 	"net/http"
+	"os"
+	"os/signal"
+	"syscall"
 	"time"
 
 	"github.com/pathvet/pathvet/api"
@@ -23,6 +26,7 @@ type Main struct {
 	DB      *store.DB
 	Workers *store.Workers
 	HTTP    *http.Server
+	API     *api.Server
 	ln      net.Listener
 	serve   bool // run the HTTP API
 	done    chan error
@@ -70,6 +74,7 @@ func (m *Main) Run(ctx context.Context) error {
 		return nil
 	}
 	srv := api.New(api.Config{Store: db, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics})
+	m.API = srv
 	m.ln, err = net.Listen("tcp", m.Config.Addr)
 	if err != nil {
 		return fmt.Errorf("listen on %s: %w", m.Config.Addr, err)
@@ -85,27 +90,52 @@ func (m *Main) Run(ctx context.Context) error {
 // URL is the server's base URL.
 func (m *Main) URL() string { return "http://" + m.ln.Addr().String() }
 
-// Close shuts down gracefully: no new requests, running requests and jobs
-// finish (up to the shutdown timeout; unfinished jobs are retried by
-// another worker), then the database closes.
+// Close shuts down cleanly within the configured grace: the workers stop
+// fetching at once and running jobs get most of the grace to finish (any
+// still running are cancelled and released to another worker); then open
+// long polls answer with the current status, the HTTP server finishes
+// its requests and stops, and the database closes.
 func (m *Main) Close() error {
-	ctx, cancel := context.WithTimeout(context.Background(), m.Config.Shutdown)
+	grace := m.Config.Shutdown
+	ctx, cancel := context.WithTimeout(context.Background(), grace)
 	defer cancel()
 	var errs []error
+	if m.Workers != nil {
+		jobs, cancelJobs := context.WithTimeout(ctx, grace-httpReserve(grace))
+		errs = append(errs, m.Workers.Stop(jobs))
+		cancelJobs()
+	}
 	if m.HTTP != nil {
-		errs = append(errs, m.HTTP.Shutdown(ctx))
+		m.API.Drain()
+		if err := m.HTTP.Shutdown(ctx); err != nil {
+			errs = append(errs, err, m.HTTP.Close())
+		}
 		if err := <-m.done; !errors.Is(err, http.ErrServerClosed) {
 			errs = append(errs, err)
 		}
-	}
-	if m.Workers != nil {
-		errs = append(errs, m.Workers.Stop(ctx))
 	}
 	if m.DB != nil {
 		m.DB.Close()
 	}
 	return errors.Join(errs...)
 }
+
+// Kill stops at once: requests are cut and running jobs cancelled, to be
+// retried elsewhere (a second signal).
+func (m *Main) Kill() {
+	if m.HTTP != nil {
+		_ = m.HTTP.Close()
+	}
+	if m.Workers != nil {
+		ctx, cancel := context.WithTimeout(context.Background(), time.Second)
+		defer cancel()
+		_ = m.Workers.Kill(ctx)
+	}
+}
+
+// httpReserve is the part of the grace kept for the HTTP server after the
+// jobs: a quarter, at most 5 s.
+func httpReserve(grace time.Duration) time.Duration { return min(grace/4, 5*time.Second) }
 
 func newLogger(w io.Writer) *slog.Logger { return slog.New(slog.NewJSONHandler(w, nil)) }
 
@@ -132,10 +162,29 @@ func runServe(ctx context.Context, name string, args []string, stdout, stderr io
 		return exitInternal
 	}
 	<-ctx.Done()
-	m.Logger.Info("shutting down")
-	if err := m.Close(); err != nil {
-		fmt.Fprintf(stderr, "pathvet %s: shutdown: %v\n", name, err)
+	return shutdown(m, name, stderr)
+}
+
+// shutdown closes m after the first signal; a second signal stops at
+// once, with exit status 3.
+func shutdown(m *Main, name string, stderr io.Writer) int {
+	again := make(chan os.Signal, 1)
+	signal.Notify(again, os.Interrupt, syscall.SIGTERM)
+	defer signal.Stop(again)
+	m.Logger.Info("shutting down", "grace", m.Config.Shutdown.String())
+	closed := make(chan error, 1)
+	go func() { closed <- m.Close() }()
+	select {
+	case err := <-closed:
+		if err != nil {
+			fmt.Fprintf(stderr, "pathvet %s: shutdown: %v\n", name, err)
+			return exitInternal
+		}
+		m.Logger.Info("stopped")
+		return exitOK
+	case <-again:
+		m.Logger.Warn("second signal: stopping at once")
+		m.Kill()
 		return exitInternal
 	}
-	return exitOK
 }

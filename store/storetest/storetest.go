@@ -37,6 +37,24 @@ func MustOpenDB(tb testing.TB) (*store.DB, string) {
 	tb.Helper()
 	ctx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
 	defer cancel()
+	dbURL := MustCreateDB(tb)
+	db, err := store.Open(ctx, dbURL)
+	if err != nil {
+		tb.Fatalf("open test database: %v", err)
+	}
+	tb.Cleanup(db.Close)
+	if err := db.Migrate(ctx); err != nil {
+		tb.Fatalf("migrate test database: %v", err)
+	}
+	return db, dbURL
+}
+
+// MustCreateDB creates an empty database, not migrated, for one test and
+// drops it when tb ends; it returns its URL.
+func MustCreateDB(tb testing.TB) string {
+	tb.Helper()
+	ctx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
+	defer cancel()
 	admin, err := pgx.Connect(ctx, AdminURL())
 	if err != nil {
 		tb.Fatalf("PostgreSQL for the tests is unreachable at %s (set PATHVET_TEST_DATABASE_URL; bash .ci/run starts one): %v", AdminURL(), err)
@@ -52,22 +70,14 @@ func MustOpenDB(tb testing.TB) (*store.DB, string) {
 	if err != nil {
 		tb.Fatal(err)
 	}
-	db, err := store.Open(ctx, dbURL)
-	if err != nil {
-		tb.Fatalf("open test database: %v", err)
-	}
 	tb.Cleanup(func() {
-		db.Close()
 		c, err := pgx.Connect(context.Background(), AdminURL())
 		if err == nil {
 			_, _ = c.Exec(context.Background(), "DROP DATABASE IF EXISTS "+name+" WITH (FORCE)")
 			_ = c.Close(context.Background())
 		}
 	})
-	if err := db.Migrate(ctx); err != nil {
-		tb.Fatalf("migrate test database: %v", err)
-	}
-	return db, dbURL
+	return dbURL
 }
 
 // replaceDatabase returns the URL with its database name replaced.
