@@ -79,3 +79,15 @@ func (c *command) databaseURLFlag() func() string {
 		return getenv("PATHVET_DATABASE_URL")
 	}
 }
+
+// checkUsage is the usage of `pathvet check`, with every exit status.
+const checkUsage = `Usage: pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] PACKAGE.json
+
+Screens a submission package offline and prints its report. A data file
+named in data.file is read relative to the package file.
+
+Exit status:
+  0  a report was made
+  1  the score is below --fail-under
+  2  the package is invalid (every problem on standard error), or the command line is wrong
+  3  anything else went wrong`

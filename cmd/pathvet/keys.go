@@ -60,87 +60,119 @@ const keysUsage = `Usage:
   pathvet keys list [--database-url URL] [--office NAME]
   pathvet keys revoke [--database-url URL] ID
 
-create prints the new token alone on one line, once; only its hash is kept.
-list shows office, role, label, created and last used, never a token.
-revoke stops a key at once.`
+Run "pathvet keys ACTION --help" for an action's flags.`
+
+// keyActions are the actions of `keys`, each with its own flags.
+var keyActions = map[string]struct {
+	usage string
+	run   func(ctx context.Context, c *command, args []string) int
+}{
+	"create": {`Usage: pathvet keys create [--database-url URL] --office NAME --role editor|submitter --label TEXT
+
+Makes an API key for an existing office and prints its token alone on one
+line, once; only the token's hash is kept.`, createKey},
+	"list": {`Usage: pathvet keys list [--database-url URL] [--office NAME]
+
+Lists keys with their office, role, label, creation, last use and
+revocation; never a token.`, listKeys},
+	"revoke": {`Usage: pathvet keys revoke [--database-url URL] ID
+
+Revokes a key (its ID as keys list shows it): its token stops working at once.`, revokeKey},
+}
 
 // runKeys is `pathvet keys create|list|revoke`.
 func runKeys(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	c := newCommand("keys", keysUsage, stdout, stderr)
-	url := c.databaseURLFlag()
-	office := c.String("office", "", "create: the office the key belongs to (it must exist); list: only this office's keys")
-	role := c.String("role", service.RoleSubmitter, "create: editor (sees all of the office's submissions) or submitter (its own)")
-	label := c.String("label", "", "create: who holds the key, shown on its submissions")
-	pos, code, ok := c.parse(args)
+	if len(args) == 0 {
+		return c.misuse("give create, list or revoke")
+	}
+	action, ok := keyActions[args[0]]
 	if !ok {
-		return code
+		if _, code, ok := c.parse(args[:1]); !ok {
+			return code // --help
+		}
+		return c.misuse("unknown action %q", args[0])
 	}
-	run, msg := keysAction(pos, *office, *label)
-	if run == nil {
-		return c.misuse("%s", msg)
-	}
-	db, err := openDB(ctx, url())
+	return action.run(ctx, newCommand("keys "+args[0], action.usage, stdout, stderr), args[1:])
+}
+
+// withDB opens the database for a command and runs fn on it.
+func withDB(ctx context.Context, c *command, url string, fn func(*store.DB) int) int {
+	db, err := openDB(ctx, url)
 	if err != nil {
 		return c.fail(exitInternal, err)
 	}
 	defer db.Close()
-	return run(ctx, c, db, keyFlags{office: *office, role: *role, label: *label}, pos)
+	return fn(db)
 }
 
-type keyFlags struct{ office, role, label string }
-
-// keysFunc is one action of `keys`.
-type keysFunc func(ctx context.Context, c *command, db *store.DB, f keyFlags, pos []string) int
-
-// keysAction picks the action of `keys` from its arguments, or says what
-// is wrong with them.
-func keysAction(pos []string, office, label string) (keysFunc, string) {
+func createKey(ctx context.Context, c *command, args []string) int {
+	url := c.databaseURLFlag()
+	office := c.String("office", "", "the office the key belongs to (create it first with offices create)")
+	role := c.String("role", service.RoleSubmitter, "editor (sees all of the office's submissions) or submitter (its own)")
+	label := c.String("label", "", "who holds the key, shown on its submissions")
+	pos, code, ok := c.parse(args)
 	switch {
-	case len(pos) == 1 && pos[0] == "create" && (office == "" || label == ""):
-		return nil, "create needs --office and --label"
-	case len(pos) == 1 && pos[0] == "create":
-		return createKey, ""
-	case len(pos) == 1 && pos[0] == "list":
-		return listKeys, ""
-	case len(pos) == 2 && pos[0] == "revoke":
-		return revokeKey, ""
+	case !ok:
+		return code
+	case len(pos) != 0 || *office == "" || *label == "":
+		return c.misuse("give --office and --label, and no arguments")
 	}
-	return nil, "give create, list or revoke ID"
+	return withDB(ctx, c, url(), func(db *store.DB) int {
+		token, _, err := db.CreateKey(ctx, service.NewKey{Office: *office, Role: *role, Label: *label})
+		if err != nil {
+			return c.fail(exitFor(err), err)
+		}
+		fmt.Fprintln(c.stdout, token)
+		return exitOK
+	})
 }
 
-func createKey(ctx context.Context, c *command, db *store.DB, f keyFlags, _ []string) int {
-	token, _, err := db.CreateKey(ctx, service.NewKey{Office: f.office, Role: f.role, Label: f.label})
-	if err != nil {
-		return c.fail(exitFor(err), err)
+func listKeys(ctx context.Context, c *command, args []string) int {
+	url := c.databaseURLFlag()
+	office := c.String("office", "", "only this office's keys")
+	pos, code, ok := c.parse(args)
+	switch {
+	case !ok:
+		return code
+	case len(pos) != 0:
+		return c.misuse("takes no arguments")
 	}
-	fmt.Fprintln(c.stdout, token)
-	return exitOK
+	return withDB(ctx, c, url(), func(db *store.DB) int {
+		keys, err := db.Keys(ctx, *office)
+		if err != nil {
+			return c.fail(exitFor(err), err)
+		}
+		tw := tabwriter.NewWriter(c.stdout, 0, 4, 2, ' ', 0)
+		fmt.Fprintln(tw, "ID\tOFFICE\tROLE\tLABEL\tCREATED\tLAST USED\tREVOKED")
+		for _, k := range keys {
+			fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", k.ID, k.OfficeName, k.Role, k.Label,
+				stamp(&k.CreatedAt), stamp(k.LastUsedAt), stamp(k.RevokedAt))
+		}
+		return flushed(c, tw)
+	})
 }
 
-func listKeys(ctx context.Context, c *command, db *store.DB, f keyFlags, _ []string) int {
-	keys, err := db.Keys(ctx, f.office)
+func revokeKey(ctx context.Context, c *command, args []string) int {
+	url := c.databaseURLFlag()
+	pos, code, ok := c.parse(args)
+	if !ok {
+		return code
+	}
+	if len(pos) != 1 {
+		return c.misuse("give the key's ID")
+	}
+	id, err := strconv.ParseInt(pos[0], 10, 64)
 	if err != nil {
-		return c.fail(exitFor(err), err)
+		return c.misuse("the key ID is a number, as keys list shows it, not %q", pos[0])
 	}
-	tw := tabwriter.NewWriter(c.stdout, 0, 4, 2, ' ', 0)
-	fmt.Fprintln(tw, "ID\tOFFICE\tROLE\tLABEL\tCREATED\tLAST USED\tREVOKED")
-	for _, k := range keys {
-		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\n", k.ID, k.OfficeName, k.Role, k.Label,
-			stamp(&k.CreatedAt), stamp(k.LastUsedAt), stamp(k.RevokedAt))
-	}
-	return flushed(c, tw)
-}
-
-func revokeKey(ctx context.Context, c *command, db *store.DB, _ keyFlags, pos []string) int {
-	id, err := strconv.ParseInt(pos[1], 10, 64)
-	if err != nil {
-		return c.misuse("the key ID is a number, as keys list shows it, not %q", pos[1])
-	}
-	if err := db.RevokeKey(ctx, id); err != nil {
-		return c.fail(exitFor(err), err)
-	}
-	fmt.Fprintf(c.stdout, "revoked key %d\n", id)
-	return exitOK
+	return withDB(ctx, c, url(), func(db *store.DB) int {
+		if err := db.RevokeKey(ctx, id); err != nil {
+			return c.fail(exitFor(err), err)
+		}
+		fmt.Fprintf(c.stdout, "revoked key %d\n", id)
+		return exitOK
+	})
 }
 
 // stamp writes a time to the minute, "-" for none.

@@ -71,6 +71,10 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprint(stdout, usageOverview)
 		return exitOK
 	case "version", "--version":
+		if len(args) > 1 && (args[1] == "--help" || args[1] == "-h") {
+			fmt.Fprintln(stdout, "Usage: pathvet version\n\nPrints the version of pathvet and of its checks.")
+			return exitOK
+		}
 		fmt.Fprintln(stdout, "pathvet", toolVersion())
 		return exitOK
 	}
