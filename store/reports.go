@@ -32,7 +32,8 @@ func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, too
 			VALUES ($1, $2, $3, $4, $5, $6, $7)`, id, string(b), rep.Score, rep.Band, rep.ToolVersion, took.Milliseconds(), now); err != nil {
 			return err
 		}
-		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2 WHERE id = $1`, id, now)
+		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2,
+			latest_score = $3, latest_band = $4, report_count = report_count + 1 WHERE id = $1`, id, now, rep.Score, rep.Band)
 		return err
 	})
 	return dbError(err, "report")

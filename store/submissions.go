@@ -18,11 +18,10 @@ import (
 var uuidRE = regexp.MustCompile(`^[0-9a-fA-F]{8}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{12}$`)
 
 const submissionColumns = `s.id, s.office_id, s.submitter_key_id, sk.label, s.manuscript_id, s.title, s.package_sha256,
-	s.status, s.error, s.attempts, r.score, r.band, (SELECT count(*) FROM reports WHERE submission_id = s.id),
-	s.created_at, s.updated_at`
+	s.status, s.error, s.attempts, s.latest_score, s.latest_band, s.report_count, s.created_at, s.updated_at`
 
-const submissionFrom = ` FROM submissions s JOIN api_keys sk ON sk.id = s.submitter_key_id LEFT JOIN LATERAL (
-	SELECT score, band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1) r ON true`
+// submissionFrom joins the key that sent each submission, for its label.
+const submissionFrom = ` FROM submissions s JOIN api_keys sk ON sk.id = s.submitter_key_id`
 
 func scanSubmission(row pgx.Row) (*service.Submission, error) {
 	s := &service.Submission{}
@@ -107,7 +106,7 @@ func (db *DB) Submissions(ctx context.Context, f service.Filter) ([]*service.Sub
 		add("s.status = $%d", f.Status)
 	}
 	if f.Band != "" {
-		add("r.band = $%d", f.Band)
+		add("s.latest_band = $%d", f.Band)
 	}
 	if f.Cursor != "" {
 		at, id, err := decodeCursor(f.Cursor)
