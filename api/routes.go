@@ -32,6 +32,10 @@ func (s *Server) routes() {
 	v1.DELETE("/submissions/:id", s.deleteSubmission, auth)
 	v1.POST("/submissions/:id/rerun", s.rerunSubmission, auth)
 	v1.GET("/submissions/:id/report", s.getReport, auth)
+	v1.PUT("/webhook", s.putWebhook, auth, editorOnly)
+	v1.GET("/webhook", s.getWebhook, auth, editorOnly)
+	v1.DELETE("/webhook", s.deleteWebhook, auth, editorOnly)
+	v1.GET("/webhook/deliveries", s.listDeliveries, auth, editorOnly)
 }
 
 func (s *Server) healthz(c echo.Context) error {

@@ -25,6 +25,10 @@ type Store interface {
 	DeleteSubmission(ctx context.Context, id string, sc service.Scope) error
 	Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
 	LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error)
+	SetWebhook(ctx context.Context, officeID int64, url string) (*service.Webhook, error)
+	Webhook(ctx context.Context, officeID int64) (*service.Webhook, error)
+	DeleteWebhook(ctx context.Context, officeID int64) error
+	Deliveries(ctx context.Context, officeID int64, limit int) ([]*service.Delivery, error)
 }
 
 // Config configures the API.

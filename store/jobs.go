@@ -184,6 +184,9 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 	if err := river.AddWorkerSafely(ws, &reconcileWorker{db: db}); err != nil {
 		return nil, err
 	}
+	if err := river.AddWorkerSafely(ws, &deliverWorker{db: db, client: webhookClient()}); err != nil {
+		return nil, err
+	}
 	every := cmp.Or(cfg.ReconcileEvery, reconcileEvery)
 	periodic := river.NewPeriodicJob(river.PeriodicInterval(every),
 		func() (river.JobArgs, *river.InsertOpts) { return ReconcileArgs{}, nil }, &river.PeriodicJobOpts{RunOnStart: true})

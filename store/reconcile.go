@@ -60,9 +60,8 @@ func (db *DB) Reconcile(ctx context.Context, id string) (int, error) {
 		return 0, err
 	}
 	for _, j := range jobs {
-		if _, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3
-			WHERE id = $1 AND status IN ('queued', 'running')`, j.id, j.reason(), db.now()); err != nil {
-			return 0, dbError(err, "submission")
+		if err := db.fail(ctx, j.id, j.reason(), `status IN ('queued', 'running')`); err != nil {
+			return 0, err
 		}
 	}
 	return len(jobs), nil

@@ -34,7 +34,10 @@ func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, too
 		}
 		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2,
 			latest_score = $3, latest_band = $4, report_count = report_count + 1 WHERE id = $1`, id, now, rep.Score, rep.Band)
-		return err
+		if err != nil {
+			return err
+		}
+		return db.notify(ctx, tx, id)
 	})
 	return dbError(err, "report")
 }
@@ -42,7 +45,20 @@ func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, too
 // MarkFailed records that screening a submission failed for good, with
 // the reason the client will see.
 func (db *DB) MarkFailed(ctx context.Context, id, reason string) error {
-	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3 WHERE id = $1`, id, reason, db.now())
+	return db.fail(ctx, id, reason, `status <> 'failed'`)
+}
+
+// fail marks a submission failed where cond holds, and notifies its
+// office's webhook, in one transaction.
+func (db *DB) fail(ctx context.Context, id, reason, cond string) error {
+	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
+		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3
+			WHERE id = $1 AND `+cond, id, reason, db.now())
+		if err != nil || tag.RowsAffected() == 0 {
+			return err
+		}
+		return db.notify(ctx, tx, id)
+	})
 	return dbError(err, "submission")
 }
 
