@@ -43,6 +43,14 @@ type Config struct {
 	// PollInterval is how often a long poll looks at the submission.
 	PollInterval time.Duration
 	Metrics      *Metrics
+	// LargeIngests is how many uploads of LargeIngestBytes or more may be
+	// read at once (default 1); each can hold several times its size in
+	// memory while it is read, checked and stored.
+	LargeIngests int
+	// JobMemory is the memory one screening job may use on a worker; raw
+	// data whose estimated working memory is larger is refused (422) at
+	// ingest. 0 checks nothing.
+	JobMemory int64
 }
 
 // Server holds the handlers.
@@ -52,6 +60,7 @@ type Server struct {
 	// draining is closed by Drain: long polls answer at once.
 	draining  chan struct{}
 	drainOnce sync.Once
+	large     chan struct{} // the large-upload semaphore
 }
 
 // Drain makes every open and later long poll answer at once with the
@@ -75,10 +84,14 @@ func New(cfg Config) *Server {
 	if cfg.PollInterval == 0 {
 		cfg.PollInterval = 200 * time.Millisecond
 	}
+	if cfg.LargeIngests <= 0 {
+		cfg.LargeIngests = 1
+	}
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()
 	}
-	s := &Server{cfg: cfg, echo: echo.New(), draining: make(chan struct{})}
+	s := &Server{cfg: cfg, echo: echo.New(), draining: make(chan struct{}),
+		large: make(chan struct{}, cfg.LargeIngests)}
 	s.echo.HideBanner, s.echo.HidePort = true, true
 	s.echo.HTTPErrorHandler = s.handleError
 	s.routes()

@@ -64,6 +64,9 @@ func (s *Server) createSubmission(c echo.Context) error {
 	if err != nil {
 		return err
 	}
+	if err := s.checkMemory(doc, data); err != nil {
+		return err
+	}
 	study, err := checks.Load(doc, checks.LoadOptions{Limits: s.cfg.Limits, CSV: data})
 	if err != nil {
 		return err

@@ -14,6 +14,7 @@ import (
 	"time"
 
 	"github.com/pathvet/pathvet/api"
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/store"
 )
@@ -36,6 +37,9 @@ type Main struct {
 // the pipeline on it.
 func screenFunc(cfg Config) store.ScreenFunc {
 	return func(ctx context.Context, pkg, data []byte) (*checks.Report, error) {
+		if err := service.CheckMemory(data, cfg.JobMemoryMiB<<20); err != nil {
+			return nil, errors.Join(store.ErrPermanent, err)
+		}
 		s, err := checks.Load(pkg, checks.LoadOptions{Limits: cfg.Limits, CSV: data})
 		if err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
@@ -73,7 +77,8 @@ func (m *Main) Run(ctx context.Context) error {
 	if !m.serve {
 		return nil
 	}
-	srv := api.New(api.Config{Store: db, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics})
+	srv := api.New(api.Config{Store: db, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics,
+		LargeIngests: m.Config.LargeIngests, JobMemory: m.Config.JobMemoryMiB << 20})
 	m.API = srv
 	m.ln, err = net.Listen("tcp", m.Config.Addr)
 	if err != nil {
