@@ -10,12 +10,12 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/api"
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // A body past the server's limit is 413 naming the limit in bytes.
 func TestEdge_BodyLimitNamed(t *testing.T) {
-	l := checks.DefaultLimits
+	l := load.DefaultLimits
 	l.PackageBytes, l.CSVBytes = 1000, 1000
 	srv := api.New(api.Config{Store: &fakeStore{}, Limits: l})
 	req := httptest.NewRequest(http.MethodPost, "/v1/submissions", bytes.NewReader(make([]byte, 2<<20)))

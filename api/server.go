@@ -12,7 +12,7 @@ import (
 	"github.com/labstack/echo/v4"
 
 	"github.com/pathvet/pathvet/api/service"
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // Store is what the API needs from storage; tests may give a fake.
@@ -34,7 +34,7 @@ type Store interface {
 // Config configures the API.
 type Config struct {
 	Store  Store
-	Limits checks.Limits
+	Limits load.Limits
 	Logger *slog.Logger
 	// RequestTimeout bounds each request; long polls stop before it.
 	RequestTimeout time.Duration
@@ -69,8 +69,8 @@ func (s *Server) Drain() { s.drainOnce.Do(func() { close(s.draining) }) }
 
 // New returns the API's HTTP handler with every route registered.
 func New(cfg Config) *Server {
-	if cfg.Limits == (checks.Limits{}) {
-		cfg.Limits = checks.DefaultLimits
+	if cfg.Limits == (load.Limits{}) {
+		cfg.Limits = load.DefaultLimits
 	}
 	if cfg.Logger == nil {
 		cfg.Logger = slog.Default()

@@ -14,6 +14,7 @@ import (
 
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // SubmissionView is a submission as the API shows it.
@@ -67,7 +68,7 @@ func (s *Server) createSubmission(c echo.Context) error {
 	if err := s.checkMemory(doc, data); err != nil {
 		return err
 	}
-	study, err := checks.Load(doc, checks.LoadOptions{Limits: s.cfg.Limits, CSV: data})
+	study, err := load.Load(doc, load.Options{Limits: s.cfg.Limits, CSV: data})
 	if err != nil {
 		return err
 	}

@@ -17,7 +17,7 @@ import (
 var missingDataCheck = Check{
 	ID:    "missing-data",
 	Title: "Missing data",
-	Run:   runMissingData,
+	Run:   withDataQuality(runMissingData),
 }
 
 // Imputations is m, the number of imputed datasets.

@@ -10,6 +10,7 @@ import (
 
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
 )
@@ -281,7 +282,7 @@ func TestWorkers(t *testing.T) {
 
 // screenDemo is the workers' job in these tests: load and screen.
 func screenDemo(ctx context.Context, pkg, _ []byte) (*checks.Report, error) {
-	s, err := checks.Load(pkg, checks.LoadOptions{})
+	s, err := load.Load(pkg, load.Options{})
 	if err != nil {
 		return nil, errors.Join(store.ErrPermanent, err)
 	}

@@ -15,6 +15,7 @@ import (
 
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store/storetest"
 )
 
@@ -104,7 +105,7 @@ func storedReport(b *testing.B, m *Main, token string, pkg []byte) stored {
 	if err != nil {
 		b.Fatal(err)
 	}
-	s, err := checks.Load(pkg, checks.LoadOptions{})
+	s, err := load.Load(pkg, load.Options{})
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // Config is the configuration of the server and workers: built here from
@@ -22,7 +23,7 @@ type Config struct {
 	RescueAfter time.Duration
 	Migrate     bool // apply migrations at start
 	Alpha       float64
-	Limits      checks.Limits
+	Limits      load.Limits
 	Shutdown    time.Duration
 	// JobMemoryMiB is the memory one screening job may use (the worker's
 	// memory divided among its workers, less headroom); LargeIngests the
@@ -40,7 +41,7 @@ func defaultConfig(getenv func(string) string) Config {
 		JobTimeout:  2 * time.Minute,
 		RescueAfter: 5 * time.Minute,
 		Alpha:       checks.DefaultAlpha,
-		Limits:      checks.DefaultLimits,
+		Limits:      load.DefaultLimits,
 		Shutdown:    20 * time.Second,
 		// The worker manifest's 2 GiB, 2 workers, 10% headroom.
 		JobMemoryMiB: 900,

@@ -16,6 +16,7 @@ import (
 	"github.com/pathvet/pathvet/api"
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store"
 )
 
@@ -40,7 +41,7 @@ func screenFunc(cfg Config) store.ScreenFunc {
 		if err := service.CheckMemory(data, cfg.JobMemoryMiB<<20); err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}
-		s, err := checks.Load(pkg, checks.LoadOptions{Limits: cfg.Limits, CSV: data})
+		s, err := load.Load(pkg, load.Options{Limits: cfg.Limits, CSV: data})
 		if err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}

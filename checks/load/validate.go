@@ -1,4 +1,4 @@
-package checks
+package load
 
 import (
 	"fmt"
@@ -9,6 +9,7 @@ import (
 
 	"github.com/go-playground/validator/v10"
 
+	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/dag"
 )
 
@@ -36,7 +37,7 @@ var fieldRules = sync.OnceValue(func() *validator.Validate {
 
 // checkFields runs the validator and turns each failure into a Problem
 // with the field's JSON pointer.
-func checkFields(pkg *Package, ps *problems) {
+func checkFields(pkg *checks.Package, ps *problems) {
 	err := fieldRules().Struct(pkg)
 	if err == nil {
 		return
@@ -59,6 +60,9 @@ func namespacePointer(ns string) string {
 }
 
 func ruleText(fe validator.FieldError) string {
+	if hint := proportionHint(fe); hint != "" {
+		return hint
+	}
 	p := fe.Param()
 	counted := fe.Kind() == reflect.Slice || fe.Kind() == reflect.Map
 	switch fe.Tag() {
@@ -69,6 +73,9 @@ func ruleText(fe validator.FieldError) string {
 	case "len":
 		return "must have exactly " + p + " entries"
 	case "min", "max":
+		if fe.Namespace() == "Package.claims" && fe.Tag() == "min" {
+			return "has no claims yet: add each claim the paper makes, with its id, text, kind, from and to"
+		}
 		bound := map[string]string{"min": "at least", "max": "at most"}[fe.Tag()]
 		switch {
 		case counted:
@@ -78,7 +85,7 @@ func ruleText(fe validator.FieldError) string {
 		}
 		return fmt.Sprintf("must be %s %s", bound, p)
 	case "oneof":
-		return "must be one of: " + strings.ReplaceAll(p, " ", ", ")
+		return "must be one of: " + strings.ReplaceAll(p, " ", ", ") + didYouMean(fmt.Sprint(fe.Value()), strings.Fields(p))
 	case "gt":
 		return "must be greater than " + p
 	case "gte":
@@ -86,6 +93,9 @@ func ruleText(fe validator.FieldError) string {
 	case "lt":
 		return "must be less than " + p
 	case "lte":
+		if fe.Field() == "n" {
+			return "must be at most " + p + ", the format's limit on the sample size"
+		}
 		return "must be at most " + p
 	case "varname":
 		return "must match " + varNameRE.String()
@@ -95,11 +105,27 @@ func ruleText(fe validator.FieldError) string {
 	return "fails the rule " + fe.Tag()
 }
 
-// checkLimits reports every count above its limit, naming the limit.
-func checkLimits(pkg *Package, lim Limits, ps *problems) {
+// proportionHint explains a level written as a percentage: ci_level 95
+// is 0.95.
+func proportionHint(fe validator.FieldError) string {
+	v := reflect.Indirect(reflect.ValueOf(fe.Value()))
+	if fe.Field() != "ci_level" || !v.CanFloat() {
+		return ""
+	}
+	if x := v.Float(); x > 1 && x <= 100 {
+		return fmt.Sprintf("is %g, but the level is a proportion: write %g", x, x/100)
+	}
+	return ""
+}
+
+// checkLimits reports every count above its limit, naming the limit, and
+// whether there was one.
+func checkLimits(pkg *checks.Package, lim Limits, ps *problems) bool {
+	found := false
 	over := func(ptr, what string, n, max int) {
 		if n > max {
-			ps.at(ptr, "has %d %s; the limit is %d", n, what, max)
+			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf("has %d %s; the limit is %d", n, what, max)})
+			found = true
 		}
 	}
 	over("/variables", "variables", len(pkg.Variables), lim.Variables)
@@ -112,10 +138,11 @@ func checkLimits(pkg *Package, lim Limits, ps *problems) {
 	for i, a := range pkg.Alternatives {
 		over(pointer("alternatives", i, "edges"), "edges", len(a.Edges), lim.Edges)
 	}
+	return found
 }
 
 // indexVariables maps names to positions and reports duplicates.
-func indexVariables(pkg *Package, ps *problems) map[string]int {
+func indexVariables(pkg *checks.Package, ps *problems) map[string]int {
 	index := map[string]int{}
 	for i, v := range pkg.Variables {
 		if j, dup := index[v.Name]; dup {
@@ -129,7 +156,7 @@ func indexVariables(pkg *Package, ps *problems) map[string]int {
 
 // graphEdges resolves a list of named edges: names declared, no
 // self-loops, no duplicates. It returns nil when any edge is bad.
-func graphEdges(base string, edges []Edge, index map[string]int, ps *problems) []dag.Edge {
+func graphEdges(base string, edges []checks.Edge, index map[string]int, ps *problems) []dag.Edge {
 	out := make([]dag.Edge, 0, len(edges))
 	seen := map[[2]int]int{}
 	bad := false
@@ -137,11 +164,14 @@ func graphEdges(base string, edges []Edge, index map[string]int, ps *problems) [
 		at := pointer(i)
 		from, okF := index[e.From]
 		to, okT := index[e.To]
+		if !okF {
+			ps.at(base+at+"/from", "%s", unknownName(e.From, index))
+		}
+		if !okT {
+			ps.at(base+at+"/to", "%s", unknownName(e.To, index))
+		}
 		switch {
-		case !okF:
-			ps.at(base+at+"/from", "%q names no declared variable", e.From)
-		case !okT:
-			ps.at(base+at+"/to", "%q names no declared variable", e.To)
+		case !okF || !okT:
 		case from == to:
 			ps.at(base+at, "is a self-loop on %q", e.From)
 		default:
@@ -179,7 +209,7 @@ func acyclicGraph(base string, n int, edges []dag.Edge, names []string, ps *prob
 }
 
 // checkExogenous reports every edge that points into an exogenous variable.
-func checkExogenous(base string, pkg *Package, edges []Edge, index map[string]int, ps *problems) {
+func checkExogenous(base string, pkg *checks.Package, edges []checks.Edge, index map[string]int, ps *problems) {
 	for i, e := range edges {
 		if j, ok := index[e.To]; ok && pkg.Variables[j].Exogenous {
 			ps.at(base+pointer(i, "to"), "points into %q, which /variables/%d declares exogenous", e.To, j)
@@ -188,7 +218,7 @@ func checkExogenous(base string, pkg *Package, edges []Edge, index map[string]in
 }
 
 // checkClaims checks the claims' ids and the variables they name.
-func checkClaims(pkg *Package, index map[string]int, ps *problems) {
+func checkClaims(pkg *checks.Package, index map[string]int, ps *problems) {
 	ids := map[string]int{}
 	for i, c := range pkg.Claims {
 		at := pointer("claims", i)
@@ -198,7 +228,7 @@ func checkClaims(pkg *Package, index map[string]int, ps *problems) {
 		ids[c.ID] = i
 		for _, f := range []struct{ name, value string }{{"from", c.From}, {"to", c.To}} {
 			if _, ok := index[f.value]; !ok && f.value != "" {
-				ps.at(at+"/"+f.name, "%q names no declared variable", f.value)
+				ps.at(at+"/"+f.name, "%s", unknownName(f.value, index))
 			}
 		}
 		if c.From == c.To && c.From != "" {
@@ -209,13 +239,13 @@ func checkClaims(pkg *Package, index map[string]int, ps *problems) {
 	}
 }
 
-func checkAdjustFor(at string, c Claim, index map[string]int, ps *problems) {
+func checkAdjustFor(at string, c checks.Claim, index map[string]int, ps *problems) {
 	seen := map[string]bool{}
 	for k, a := range c.AdjustFor {
 		p := at + pointer("adjust_for", k)
 		switch _, ok := index[a]; {
 		case !ok:
-			ps.at(p, "%q names no declared variable", a)
+			ps.at(p, "%s", unknownName(a, index))
 		case a == c.From || a == c.To:
 			ps.at(p, "%q is the claim's own from or to variable", a)
 		case seen[a]:
@@ -225,7 +255,7 @@ func checkAdjustFor(at string, c Claim, index map[string]int, ps *problems) {
 	}
 }
 
-func checkReported(at string, c Claim, ps *problems) {
+func checkReported(at string, c checks.Claim, ps *problems) {
 	if len(c.CI) == 2 && c.CI[0] > c.CI[1] {
 		ps.at(at+"/ci", "lower limit %g is above upper limit %g", c.CI[0], c.CI[1])
 	}

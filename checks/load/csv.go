@@ -1,4 +1,4 @@
-package checks
+package load
 
 import (
 	"bytes"
@@ -9,12 +9,14 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/pathvet/pathvet/checks"
 )
 
 // parseCSV reads the rows: a header naming variables, then one row per
 // participant. Empty cells, NA in any case and the package's missing codes
 // are missing.
-func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
+func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset {
 	d := s.Package.Data
 	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))))
 	r.ReuseRecord = true
@@ -28,7 +30,11 @@ func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
 	if cols == nil {
 		return nil
 	}
-	ds := &Dataset{Kind: DataRows, Columns: make([][]float64, len(s.Names))}
+	ds := &checks.Dataset{Kind: checks.DataRows, Columns: make([][]float64, len(s.Names))}
+	rows := min(bytes.Count(text, []byte{'\n'}), lim.Rows+1)
+	for j := range ds.Columns {
+		ds.Columns[j] = make([]float64, 0, rows)
+	}
 	for i, name := range header {
 		if cols[i] < 0 {
 			ds.Ignored = append(ds.Ignored, strings.TrimSpace(name))
@@ -48,12 +54,10 @@ func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
 			ps.csv(0, 0, "further data errors are not listed")
 			return nil
 		}
-		var pe *csv.ParseError
-		if errors.As(err, &pe) && errors.Is(err, csv.ErrFieldCount) {
-			ps.csv(pe.Line, 0, "the row has %d fields; the header has %d", len(rec), len(header))
-			continue
-		}
 		if err != nil {
+			if fieldCount(err, len(rec), len(header), ps) {
+				continue
+			}
 			csvReadError(err, ps)
 			return nil
 		}
@@ -67,12 +71,31 @@ func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
 		ps.csv(1, 0, "the data have a header but no rows")
 	}
 	s.checkColumns(ds, ps)
+	s.findSuspects(ds)
 	return ds
+}
+
+// findSuspects lists the likely undeclared codes of every column that is
+// not binary (a binary column refuses any value but 0 and 1).
+func (s *study) findSuspects(ds *checks.Dataset) {
+	for j, col := range ds.Columns {
+		if s.Package.Variables[j].Scale != checks.ScaleBinary {
+			ds.Suspects = append(ds.Suspects, Suspects(s.Names[j], col)...)
+		}
+	}
+}
+
+// codeHint suggests declaring a cell as a missing-value code.
+func codeHint(cell string, likely bool) string {
+	if !likely {
+		return ""
+	}
+	return fmt.Sprintf("; if it marks a missing value, list %q in /data/missing_codes", cell)
 }
 
 // headerColumns maps each CSV column to a variable index, -1 for an
 // ignored column.
-func (s *Study) headerColumns(header []string, r *csv.Reader, ps *problems) []int {
+func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []int {
 	ignore := map[string]bool{}
 	for _, c := range s.Package.Data.IgnoreColumns {
 		ignore[c] = true
@@ -92,7 +115,8 @@ func (s *Study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 		case ignore[name]:
 			cols[i] = -1
 		default:
-			ps.csv(line, i+1, "column %q is not a declared variable; list it in /data/ignore_columns to skip it", name)
+			ps.csv(line, i+1, "column %q is not a declared variable%s; list it in /data/ignore_columns to skip it",
+				name, didYouMean(name, s.Names))
 		}
 		seen[name] = true
 	}
@@ -107,7 +131,8 @@ func (s *Study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 	return append([]int(nil), cols...)
 }
 
-func (s *Study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool, ds *Dataset, ps *problems) {
+func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool,
+	ds *checks.Dataset, ps *problems) {
 	for i, raw := range rec {
 		j := cols[i]
 		if j < 0 {
@@ -122,16 +147,17 @@ func (s *Study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[st
 		line, _ := r.FieldPos(i)
 		switch {
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
-			ps.csv(line, i+1, "%q in column %q is not a number", cell, s.Names[j])
-		case s.Package.Variables[j].Scale == ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1", cell, s.Names[j])
+			ps.csv(line, i+1, "%q in column %q is not a number%s", cell, s.Names[j], codeHint(cell, missingMark(cell)))
+		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
+			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s",
+				cell, s.Names[j], codeHint(cell, CodeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}
 }
 
 // checkColumns reports variables with no observed value.
-func (s *Study) checkColumns(ds *Dataset, ps *problems) {
+func (s *study) checkColumns(ds *checks.Dataset, ps *problems) {
 	for j, col := range ds.Columns {
 		observed := 0
 		for _, x := range col {
@@ -143,6 +169,17 @@ func (s *Study) checkColumns(ds *Dataset, ps *problems) {
 			ps.at(pointer("variables", j, "name"), "every value of %q in the data is missing", s.Names[j])
 		}
 	}
+}
+
+// fieldCount reports a row with the wrong number of fields, which the
+// reader can read on from.
+func fieldCount(err error, got, want int, ps *problems) bool {
+	var pe *csv.ParseError
+	if !errors.As(err, &pe) || !errors.Is(err, csv.ErrFieldCount) {
+		return false
+	}
+	ps.csv(pe.Line, 0, "the row has %d fields; the header has %d", got, want)
+	return true
 }
 
 func csvReadError(err error, ps *problems) {
