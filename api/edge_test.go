@@ -103,7 +103,8 @@ func TestIngest_WorkingMemoryRefused(t *testing.T) {
 	srv.Echo().ServeHTTP(rr, req)
 	var p api.Problem
 	_ = json.Unmarshal(rr.Body.Bytes(), &p)
-	if rr.Code != 422 || len(p.Errors) != 1 || p.Errors[0].Pointer != "/data" || !strings.Contains(p.Errors[0].Detail, "100 rows × 2 columns") {
+	if rr.Code != 422 || len(p.Errors) != 1 || p.Errors[0].Pointer != "/data" ||
+		!strings.Contains(p.Errors[0].Detail, "100 rows × 2 columns") {
 		t.Fatalf("%d %+v", rr.Code, p)
 	}
 }

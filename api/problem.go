@@ -53,7 +53,8 @@ var codeStatus = map[string]int{
 	service.EUnavailable: http.StatusServiceUnavailable,
 }
 
-const invalidPackageDetail = "The package is not valid; every problem is listed with its JSON pointer or CSV line and column."
+const invalidPackageDetail = "The package is not valid; every problem is listed with its JSON pointer " +
+	"or CSV line and column."
 
 // problemFor maps an error to its problem: the one place where error
 // codes become HTTP statuses. An internal error shows only "internal

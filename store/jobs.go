@@ -156,10 +156,12 @@ func (h panicHandler) HandleError(context.Context, *rivertype.JobRow, error) *ri
 	return nil
 }
 
-func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v any, trace string) *river.ErrorHandlerResult {
+func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v any,
+	trace string) *river.ErrorHandlerResult {
 	var args ScreenArgs
 	if err := unmarshalArgs(job, &args); err == nil && job.Attempt >= job.MaxAttempts {
-		if err := h.db.MarkFailed(context.WithoutCancel(ctx), args.SubmissionID, fmt.Sprintf("internal error: %v", v)); err != nil {
+		reason := fmt.Sprintf("internal error: %v", v)
+		if err := h.db.MarkFailed(context.WithoutCancel(ctx), args.SubmissionID, reason); err != nil {
 			h.logger.Error("marking a submission failed after a panic", "submission_id", args.SubmissionID, "error", err)
 		}
 	}

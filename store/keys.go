@@ -58,7 +58,8 @@ func (db *DB) CreateKey(ctx context.Context, n service.NewKey) (string, *service
 		return "", nil, err
 	}
 	token := tokenPrefix + base64.RawURLEncoding.EncodeToString(raw)
-	k := &service.Key{OfficeName: strings.TrimSpace(n.Office), Role: n.Role, Label: strings.TrimSpace(n.Label), CreatedAt: db.now()}
+	k := &service.Key{OfficeName: strings.TrimSpace(n.Office), Role: n.Role, Label: strings.TrimSpace(n.Label),
+		CreatedAt: db.now()}
 	err := db.Pool.QueryRow(ctx, `
 		INSERT INTO api_keys (office_id, role, label, token_sha256, created_at)
 		SELECT id, $2, $3, $4, $5 FROM offices WHERE name = $1

@@ -34,7 +34,8 @@ func scanSubmission(row pgx.Row) (*service.Submission, error) {
 // transaction. With an idempotency key already used by the same API key it
 // returns the earlier submission and replayed = true, or a conflict when
 // the package differs.
-func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (sub *service.Submission, replayed bool, err error) {
+func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (
+	sub *service.Submission, replayed bool, err error) {
 	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
 		var idem *string
 		if n.IdempotencyKey != "" {
@@ -54,7 +55,8 @@ func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (su
 			sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
 				WHERE s.submitter_key_id = $1 AND s.idempotency_key = $2`, n.Key.ID, n.IdempotencyKey))
 			if err == nil && sub.PackageSHA256 != n.PackageSHA256 {
-				return service.Errorf(service.EConflict, "the Idempotency-Key %q was used for a different package", n.IdempotencyKey)
+				return service.Errorf(service.EConflict,
+					"the Idempotency-Key %q was used for a different package", n.IdempotencyKey)
 			}
 			return err
 		}
@@ -165,7 +167,8 @@ func (db *DB) DeleteSubmission(ctx context.Context, id string, sc service.Scope)
 	if !uuidRE.MatchString(id) {
 		return service.Errorf(service.ENotFound, "submission not found")
 	}
-	tag, err := db.Pool.Exec(ctx, `DELETE FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`, sc.OfficeID, sc.Editor, sc.KeyID, id)
+	tag, err := db.Pool.Exec(ctx, `DELETE FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`,
+		sc.OfficeID, sc.Editor, sc.KeyID, id)
 	if err != nil {
 		return dbError(err, "submission")
 	}

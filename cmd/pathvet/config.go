@@ -81,7 +81,8 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 		"memory one screening job may use; larger raw data is refused with the estimate (PATHVET_JOB_MEMORY_MIB)")
 	fs.IntVar(&c.Workers, "workers", c.Workers, "screening jobs at once in this process; 0 for none (PATHVET_WORKERS)")
 	fs.DurationVar(&c.JobTimeout, "job-timeout", c.JobTimeout, "deadline of one screening job (PATHVET_JOB_TIMEOUT)")
-	fs.DurationVar(&c.RescueAfter, "rescue-after", c.RescueAfter, "retry a job still running after this long (its worker died)")
+	fs.DurationVar(&c.RescueAfter, "rescue-after", c.RescueAfter,
+		"retry a job still running after this long (its worker died)")
 	fs.DurationVar(&c.Shutdown, "shutdown-grace", c.Shutdown,
 		"on SIGTERM, how long running jobs and requests may take to finish (PATHVET_SHUTDOWN_GRACE)")
 	fs.BoolVar(&c.Migrate, "migrate", c.Migrate, "apply the database migrations before starting")

@@ -85,7 +85,8 @@ func (m *Main) Run(ctx context.Context) error {
 	if err != nil {
 		return fmt.Errorf("listen on %s: %w", m.Config.Addr, err)
 	}
-	m.HTTP = &http.Server{Handler: srv.Echo(), ReadHeaderTimeout: 10 * time.Second, MaxHeaderBytes: api.HTTPServerMaxHeaderBytes,
+	m.HTTP = &http.Server{Handler: srv.Echo(), ReadHeaderTimeout: 10 * time.Second,
+		MaxHeaderBytes: api.HTTPServerMaxHeaderBytes,
 		ReadTimeout: 5 * time.Minute, WriteTimeout: 2 * time.Minute, IdleTimeout: 2 * time.Minute}
 	m.done = make(chan error, 1)
 	go func() { m.done <- m.HTTP.Serve(m.ln) }()
