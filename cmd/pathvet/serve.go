@@ -87,7 +87,7 @@ func (m *Main) Run(ctx context.Context) error {
 	}
 	m.HTTP = &http.Server{Handler: srv.Echo(), ReadHeaderTimeout: 10 * time.Second,
 		MaxHeaderBytes: api.HTTPServerMaxHeaderBytes,
-		ReadTimeout: 5 * time.Minute, WriteTimeout: 2 * time.Minute, IdleTimeout: 2 * time.Minute}
+		ReadTimeout:    5 * time.Minute, WriteTimeout: 2 * time.Minute, IdleTimeout: 2 * time.Minute}
 	m.done = make(chan error, 1)
 	go func() { m.done <- m.HTTP.Serve(m.ln) }()
 	m.Logger.Info("serving", "addr", m.ln.Addr().String(), "workers", m.Config.Workers)
