@@ -108,3 +108,12 @@ func TestIngest_WorkingMemoryRefused(t *testing.T) {
 		t.Fatalf("%d %+v", rr.Code, p)
 	}
 }
+
+// HEAD is answered wherever GET is.
+func TestEdge_HeadLikeGet(t *testing.T) {
+	for _, p := range []string{"/healthz", "/v1/submissions"} {
+		if rr, _ := serve(t, &fakeStore{}, http.MethodHead, p, "good"); rr.Code != 200 || rr.Body.Len() != 0 {
+			t.Errorf("HEAD %s: %d, %d bytes of body", p, rr.Code, rr.Body.Len())
+		}
+	}
+}

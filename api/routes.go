@@ -10,6 +10,7 @@ import (
 // routes registers every route of the API, in one place.
 func (s *Server) routes() {
 	e := s.echo
+	e.Pre(headAsGet)
 	e.Use(middleware.RequestID())
 	e.Use(s.logRequests())
 	e.Use(middleware.RecoverWithConfig(middleware.RecoverConfig{DisableStackAll: true}))
@@ -49,3 +50,23 @@ func (s *Server) readyz(c echo.Context) error {
 	}
 	return c.JSON(http.StatusOK, map[string]string{"status": "ready"})
 }
+
+// headAsGet answers HEAD on every GET route (RFC 9110, section 9.3.2):
+// routing and the handler see a GET, and the body is dropped.
+func headAsGet(next echo.HandlerFunc) echo.HandlerFunc {
+	return func(c echo.Context) error {
+		req := c.Request()
+		if req.Method != http.MethodHead {
+			return next(c)
+		}
+		req.Method = http.MethodGet // Echo routes by this very request
+		defer func() { req.Method = http.MethodHead }()
+		c.Response().Writer = headWriter{c.Response().Writer}
+		return next(c)
+	}
+}
+
+// headWriter drops a response's body.
+type headWriter struct{ http.ResponseWriter }
+
+func (w headWriter) Write(b []byte) (int, error) { return len(b), nil }
