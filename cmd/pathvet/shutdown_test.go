@@ -4,6 +4,8 @@ import (
 	"bufio"
 	"context"
 	"encoding/json"
+	"errors"
+	"fmt"
 	"io"
 	"net/http"
 	"os/exec"
@@ -177,4 +179,43 @@ func longPoll(t *testing.T, url, token string) <-chan pollResult {
 		out <- pollResult{code: resp.StatusCode, status: v.Status, err: err}
 	}()
 	return out
+}
+
+// A second SIGTERM while a long job still runs stops the process at once,
+// with exit status 3, instead of waiting out the grace.
+func TestServe_SecondSignalForcesExit(t *testing.T) {
+	db, url := storetest.MustOpenDB(t)
+	_, k := storetest.MustKey(t, db, "Office F", service.RoleEditor)
+	pkg := readFile(t, "../../testdata/demo/coding-club/package.json")
+	if _, _, err := db.CreateSubmission(context.Background(), service.NewSubmission{Key: k, Package: pkg,
+		Data: repeatRows(t, "../../testdata/demo/coding-club/rows.csv", 100_000), Title: "long", PackageSHA256: "h"}); err != nil {
+		t.Fatal(err)
+	}
+	p := startProcess(t, buildBinary(t), "work", "--database-url", url, "--workers", "1", "--shutdown-grace", "10m")
+	p.waitFor(t, "screening started")
+	for _, msg := range []string{"workers stopping: no job starts from now", "second signal: stopping at once"} {
+		if err := p.cmd.Process.Signal(syscall.SIGTERM); err != nil {
+			t.Fatal(err)
+		}
+		p.waitFor(t, msg)
+	}
+	err := p.cmd.Wait()
+	var exit *exec.ExitError
+	if !errors.As(err, &exit) || exit.ExitCode() != exitInternal {
+		t.Fatalf("exit %v, want status %d; log %q", err, exitInternal, p.messages())
+	}
+}
+
+// repeatRows makes n data rows from a CSV's rows, with new ids.
+func repeatRows(t *testing.T, path string, n int) []byte {
+	t.Helper()
+	lines := strings.Split(strings.TrimSpace(string(readFile(t, path))), "\n")
+	var b strings.Builder
+	b.WriteString(lines[0] + "\n")
+	for i := range n {
+		row := lines[1+i%(len(lines)-1)]
+		_, rest, _ := strings.Cut(row, ",")
+		fmt.Fprintf(&b, "Q%07d,%s\n", i, rest)
+	}
+	return []byte(b.String())
 }
