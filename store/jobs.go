@@ -7,7 +7,6 @@ import (
 	"errors"
 	"fmt"
 	"log/slog"
-	"sync"
 	"time"
 
 	"github.com/jackc/pgx/v5"
@@ -64,32 +63,6 @@ type screenWorker struct {
 	gate *gate
 }
 
-// gate orders job starts against a stop: once closed no job starts, and
-// the log shows every start before the line that says so.
-type gate struct {
-	mu     sync.Mutex
-	closed bool
-	logger *slog.Logger
-}
-
-func (g *gate) enter(id string, attempt int) bool {
-	g.mu.Lock()
-	defer g.mu.Unlock()
-	if !g.closed {
-		g.logger.Info("screening started", "submission_id", id, "attempt", attempt)
-	}
-	return !g.closed
-}
-
-func (g *gate) close() {
-	g.mu.Lock()
-	defer g.mu.Unlock()
-	if !g.closed {
-		g.closed = true
-		g.logger.Info("workers stopping: no job starts from now")
-	}
-}
-
 func (w *screenWorker) Timeout(*river.Job[ScreenArgs]) time.Duration { return w.cfg.Timeout }
 
 // Work screens the submission and stores the report. A submission deleted
@@ -116,10 +89,23 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 		w.done(service.StatusDone, start)
 		return nil
 	}
-	final := errors.Is(err, ErrPermanent) || job.Attempt >= job.MaxAttempts
+	return w.failed(ctx, job, err, start)
+}
+
+// failed records a failed attempt: released unspent when the workers are
+// stopping (JobSnooze does not count an attempt), failed for good on a
+// permanent error or the last attempt, queued again otherwise.
+func (w *screenWorker) failed(ctx context.Context, job *river.Job[ScreenArgs], err error, start time.Time) error {
+	id, bg := job.Args.SubmissionID, context.WithoutCancel(ctx)
+	if ctx.Err() != nil && w.gate.isClosed() {
+		const released = "the worker stopped for a shutdown; the job went back to the queue"
+		if nerr := w.db.NoteAttemptError(bg, id, released); nerr != nil {
+			w.logger().Error("releasing a job at shutdown", "submission_id", id, "error", nerr)
+		}
+		return river.JobSnooze(0)
+	}
 	reason := fmt.Sprintf("attempt %d of %d: %v", job.Attempt, job.MaxAttempts, err)
-	bg := context.WithoutCancel(ctx)
-	if final {
+	if errors.Is(err, ErrPermanent) || job.Attempt >= job.MaxAttempts {
 		if ferr := w.db.MarkFailed(bg, id, reason); ferr != nil {
 			return ferr
 		}

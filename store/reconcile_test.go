@@ -1,11 +1,13 @@
 package store_test
 
 import (
+	"context"
 	"os"
 	"testing"
 	"time"
 
 	"github.com/pathvet/pathvet/api/service"
+	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
 )
@@ -78,5 +80,44 @@ func TestRerun_AfterDiscardedJob(t *testing.T) {
 	again, err := db.Rerun(ctx, s.ID, k.Scope())
 	if err != nil || again.Status != service.StatusQueued {
 		t.Fatalf("rerun after the job was discarded: %+v, %v", again, err)
+	}
+}
+
+// A job cancelled by a shutdown, even on its last attempt, goes back to
+// the queue without spending the attempt, and its submission shows queued.
+func TestWorkers_ShutdownReleasesUnspent(t *testing.T) {
+	db, _ := storetest.MustOpenDB(t)
+	k, _ := mustKey(t, db, "Office U", service.RoleEditor)
+	started := make(chan struct{}, 1)
+	block := func(ctx context.Context, _, _ []byte) (*checks.Report, error) {
+		started <- struct{}{}
+		<-ctx.Done()
+		return nil, ctx.Err()
+	}
+	s, _, err := db.CreateSubmission(ctx, newSub(k, "h", ""))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := db.Pool.Exec(ctx, `UPDATE river_job SET attempt = 3 WHERE args->>'submission_id' = $1`, s.ID); err != nil {
+		t.Fatal(err)
+	}
+	w, err := db.StartWorkers(ctx, store.WorkerConfig{Workers: 1, Timeout: time.Minute, Screen: block})
+	if err != nil {
+		t.Fatal(err)
+	}
+	<-started
+	expired, cancel := context.WithTimeout(ctx, time.Millisecond)
+	defer cancel()
+	if err := w.Stop(expired); err != nil {
+		t.Fatal(err)
+	}
+	var left int
+	var state string
+	if err := db.Pool.QueryRow(ctx, `SELECT max_attempts - attempt, state FROM river_job
+		WHERE args->>'submission_id' = $1`, s.ID).Scan(&left, &state); err != nil || left != 1 || state != "available" {
+		t.Fatalf("after a shutdown the job has %d attempts left, state %q (%v); want 1, available", left, state, err)
+	}
+	if got, _ := db.Submission(ctx, s.ID, k.Scope()); got.Status != service.StatusQueued {
+		t.Fatalf("submission %s after the shutdown", got.Status)
 	}
 }
