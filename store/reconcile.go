@@ -40,7 +40,7 @@ const reconcileSQL = `
 SELECT s.id, j.state, j.attempt,
 	(SELECT count(*) FROM unnest(j.errors) e WHERE e->>'error' = $1),
 	coalesce(j.errors[array_length(j.errors, 1)]->>'error', '')
-FROM river_job j JOIN submissions s ON s.id::text = j.args->>'submission_id'
+FROM river_job j JOIN submissions s ON s.id = (j.args->>'submission_id')::uuid
 WHERE j.kind = 'screen_submission' AND j.state IN ('discarded', 'cancelled')
 	AND s.status IN ('queued', 'running') AND ($2 = '' OR s.id::text = $2)
 	AND NOT EXISTS (SELECT 1 FROM river_job k
