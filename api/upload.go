@@ -1,6 +1,7 @@
 package api
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -19,7 +20,7 @@ func (s *Server) readPackage(c echo.Context) (doc, data []byte, err error) {
 	case perr == nil && mt == echo.MIMEMultipartForm:
 		return s.readMultipart(c)
 	case perr == nil && (mt == echo.MIMEApplicationJSON || mt == "application/vnd.pathvet.package+json"):
-		doc, err = readLimited(req.Body, s.cfg.Limits.PackageBytes, "package")
+		doc, err = readLimited(req.Body, s.cfg.Limits.PackageBytes, "package", req.ContentLength)
 		return doc, nil, err
 	}
 	return nil, nil, problemError(http.StatusUnsupportedMediaType,
@@ -43,12 +44,12 @@ func (s *Server) readMultipart(c echo.Context) (doc, data []byte, err error) {
 		case "package":
 			err = onlyOnce(doc, "package")
 			if err == nil {
-				doc, err = readLimited(part, s.cfg.Limits.PackageBytes, "package")
+				doc, err = readLimited(part, s.cfg.Limits.PackageBytes, "package", 0)
 			}
 		case "data":
 			err = onlyOnce(data, "data")
 			if err == nil {
-				data, err = readLimited(part, s.cfg.Limits.CSVBytes, "data")
+				data, err = readLimited(part, s.cfg.Limits.CSVBytes, "data", c.Request().ContentLength-int64(len(doc)))
 			}
 		default:
 			err = problemError(http.StatusBadRequest,
@@ -73,11 +74,15 @@ func onlyOnce(earlier []byte, name string) error {
 }
 
 // readLimited reads at most limit bytes; more is 413 naming the limit.
-func readLimited(r io.Reader, limit int64, what string) ([]byte, error) {
-	b, err := io.ReadAll(io.LimitReader(r, limit+1))
-	if err != nil {
+// size, when positive, is the expected size (from Content-Length): the
+// buffer is made that large at once, so that a large upload is not copied
+// again and again as it grows.
+func readLimited(r io.Reader, limit int64, what string, size int64) ([]byte, error) {
+	buf := bytes.NewBuffer(make([]byte, 0, min(max(size, 0), limit)+bytes.MinRead))
+	if _, err := buf.ReadFrom(io.LimitReader(r, limit+1)); err != nil {
 		return nil, bodyError(err)
 	}
+	b := buf.Bytes()
 	if int64(len(b)) > limit {
 		return nil, problemError(http.StatusRequestEntityTooLarge,
 			fmt.Sprintf("The %s is larger than the limit of %d bytes.", what, limit))
