@@ -166,3 +166,19 @@ func mib(t *testing.T, q string) int {
 	t.Fatalf("quantity %q", q)
 	return 0
 }
+
+// docker compose waits longer than the default shutdown grace.
+func TestDeploy_ComposeGrace(t *testing.T) {
+	var doc struct {
+		Services map[string]struct {
+			Grace string `yaml:"stop_grace_period"`
+		}
+	}
+	if err := yaml.Unmarshal(readFile(t, "../../docker-compose.yml"), &doc); err != nil {
+		t.Fatal(err)
+	}
+	grace, err := time.ParseDuration(doc.Services["pathvet"].Grace)
+	if def := defaultConfig(func(string) string { return "" }).Shutdown; err != nil || grace <= def {
+		t.Fatalf("stop_grace_period %q is not longer than the shutdown grace %v", doc.Services["pathvet"].Grace, def)
+	}
+}
