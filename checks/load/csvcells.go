@@ -1,0 +1,71 @@
+package load
+
+import (
+	"bytes"
+	"math"
+	"strings"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// cellReader turns the cells of a row into column values.
+type cellReader struct {
+	s       *study
+	cols    []int  // CSV column → variable, -1 for an ignored column
+	binary  []bool // by variable
+	missing map[string]bool
+	lengths uint64 // bit k set: a missing code has k bytes (k < 64), bit 63 also for longer codes
+}
+
+func newCells(s *study, cols []int) *cellReader {
+	cr := &cellReader{s: s, cols: cols, binary: make([]bool, len(s.Names)), missing: map[string]bool{}}
+	for j, v := range s.Package.Variables {
+		cr.binary[j] = v.Scale == checks.ScaleBinary
+	}
+	for _, c := range s.Package.Data.MissingCodes {
+		c = strings.TrimSpace(c)
+		cr.missing[c] = true
+		cr.lengths |= 1 << min(len(c), 63)
+	}
+	return cr
+}
+
+// row appends the values of one row to the columns, NaN for a missing
+// cell, and reports each cell that is not a number, or not 0 or 1 in a
+// binary column, at its line and column. It allocates only to report.
+func (cr *cellReader) row(rec []cell, ds *checks.Dataset, ps *problems) {
+	for i, c := range rec {
+		j := cr.cols[i]
+		if j < 0 {
+			continue
+		}
+		b := bytes.TrimSpace(c.b)
+		if len(b) == 0 || isNA(b) || cr.isCode(b) {
+			ds.Columns[j] = append(ds.Columns[j], math.NaN())
+			continue
+		}
+		x, err := parseFloat(b)
+		switch {
+		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
+			cell := string(b)
+			ps.csv(c.line, i+1, "%q in column %q is not a number%s", cell, cr.s.Names[j], codeHint(cell, missingMark(cell)))
+		case cr.binary[j] && x != 0 && x != 1:
+			cell := string(b)
+			ps.csv(c.line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s",
+				cell, cr.s.Names[j], codeHint(cell, CodeLike(x)))
+		}
+		ds.Columns[j] = append(ds.Columns[j], x)
+	}
+}
+
+// isNA reports whether b is NA in any case (as strings.EqualFold: no
+// other character folds to n or a).
+func isNA(b []byte) bool {
+	return len(b) == 2 && b[0]|0x20 == 'n' && b[1]|0x20 == 'a'
+}
+
+// isCode reports whether b is one of the package's missing codes; the
+// lengths of the codes spare most cells the lookup.
+func (cr *cellReader) isCode(b []byte) bool {
+	return cr.lengths&(1<<min(len(b), 63)) != 0 && cr.missing[string(b)]
+}
