@@ -39,7 +39,7 @@ func (cr *cellReader) row(rec []cell, ds *checks.Dataset, ps *problems) {
 		if j < 0 {
 			continue
 		}
-		b := bytes.TrimSpace(c.b)
+		b := trimSpace(c.b)
 		if len(b) == 0 || isNA(b) || cr.isCode(b) {
 			ds.Columns[j] = append(ds.Columns[j], math.NaN())
 			continue
@@ -68,4 +68,13 @@ func isNA(b []byte) bool {
 // lengths of the codes spare most cells the lookup.
 func (cr *cellReader) isCode(b []byte) bool {
 	return cr.lengths&(1<<min(len(b), 63)) != 0 && cr.missing[string(b)]
+}
+
+// trimSpace is bytes.TrimSpace, with a shortcut for a cell that starts and
+// ends with a printable ASCII character.
+func trimSpace(b []byte) []byte {
+	if n := len(b); n > 0 && b[0] > ' ' && b[0] < 0x7f && b[n-1] > ' ' && b[n-1] < 0x7f {
+		return b
+	}
+	return bytes.TrimSpace(b)
 }

@@ -10,8 +10,8 @@ var exact10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e1
 	1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
 
 // parseFloat is strconv.ParseFloat(b, 64) without copying b. A plain
-// decimal ([+-]digits[.digits], at most 19 digits, a mantissa below 2^53
-// and at most 22 decimals) is converted directly: the mantissa and the
+// decimal ([+-]digits[.digits], at most 19 digits, so at most 19
+// decimals, and a mantissa below 2^53) is converted directly: the mantissa and the
 // power of ten are both exact in float64, so one division rounds
 // correctly (Clinger 1990, "How to read floating point numbers
 // accurately", the fast path strconv takes too); anything else goes to
@@ -44,7 +44,7 @@ func plainDecimal(b []byte) (float64, bool) {
 			return 0, false
 		}
 	}
-	if digits == 0 || digits > 19 || m >= 1<<53 || frac >= len(exact10) {
+	if digits == 0 || digits > 19 || m >= 1<<53 {
 		return 0, false
 	}
 	x := float64(m) / exact10[frac]
