@@ -3,7 +3,9 @@ package load
 import (
 	"bytes"
 	"math"
+	"strconv"
 	"strings"
+	"unsafe"
 
 	"github.com/pathvet/pathvet/checks"
 )
@@ -44,9 +46,9 @@ func (cr *cellReader) row(rec []cell, ds *checks.Dataset, ps *problems) {
 			ds.Columns[j] = append(ds.Columns[j], math.NaN())
 			continue
 		}
-		x, err := parseFloat(b)
+		x, ok := plainDecimal(b)
 		switch {
-		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
+		case !ok && !finite(b, &x):
 			cell := string(b)
 			ps.csv(c.line, i+1, "%q in column %q is not a number%s", cell, cr.s.Names[j], codeHint(cell, missingMark(cell)))
 		case cr.binary[j] && x != 0 && x != 1:
@@ -77,4 +79,12 @@ func trimSpace(b []byte) []byte {
 		return b
 	}
 	return bytes.TrimSpace(b)
+}
+
+// finite parses b with strconv.ParseFloat, without copying it, into x and
+// reports whether it is a finite number.
+func finite(b []byte, x *float64) bool {
+	var err error
+	*x, err = strconv.ParseFloat(unsafe.String(&b[0], len(b)), 64)
+	return err == nil && !math.IsNaN(*x) && !math.IsInf(*x, 0)
 }

@@ -9,7 +9,7 @@ import (
 )
 
 // randomDecimal is a decimal as data carry them, or near the edges of
-// parseFloat's fast path: up to 25 digits, a point anywhere, a sign, now
+// plainDecimal's fast path: up to 25 digits, a point anywhere, a sign, now
 // and then an exponent or a stray character.
 func randomDecimal(rng *rand.Rand) string {
 	var b strings.Builder
@@ -45,21 +45,37 @@ func TestParseFloatMatchesStrconv(t *testing.T) {
 	}
 }
 
-// compareFloat fails where parseFloat and strconv.ParseFloat differ in
-// the bits of the value or in whether there is an error.
+// compareFloat fails where plainDecimal takes s but differs from
+// strconv.ParseFloat in the bits of the value, or takes text strconv
+// refuses.
 func compareFloat(t *testing.T, s string) {
 	t.Helper()
 	if s == "" {
 		return
 	}
-	got, gerr := parseFloat([]byte(s))
-	want, werr := strconv.ParseFloat(s, 64)
-	if math.Float64bits(got) != math.Float64bits(want) || (gerr == nil) != (werr == nil) {
-		t.Fatalf("parseFloat(%q) = %v, %v; strconv gives %v, %v", s, got, gerr, want, werr)
+	got, ok := plainDecimal([]byte(s))
+	want, err := strconv.ParseFloat(s, 64)
+	if ok && (math.Float64bits(got) != math.Float64bits(want) || err != nil) {
+		t.Fatalf("plainDecimal(%q) = %v; strconv gives %v, %v", s, got, want, err)
 	}
 }
 
-// FuzzParseFloat checks parseFloat against strconv.ParseFloat.
+// TestPlainDecimalTakesPlainData checks that the fast path is taken for
+// the decimals data carry, so that the comparison above compares.
+func TestPlainDecimalTakesPlainData(t *testing.T) {
+	for _, s := range []string{"0", "-0", "+1", "50.1234", ".5", "5.", "-12.75", "0.1234567890123456"} {
+		if _, ok := plainDecimal([]byte(s)); !ok {
+			t.Errorf("%q takes the slow path", s)
+		}
+	}
+	for _, s := range []string{".", "-", "1e3", "1_0", "12345678901234567890", "9007199254740993", "nan", "1..2"} {
+		if _, ok := plainDecimal([]byte(s)); ok {
+			t.Errorf("%q takes the fast path", s)
+		}
+	}
+}
+
+// FuzzParseFloat checks plainDecimal against strconv.ParseFloat.
 func FuzzParseFloat(f *testing.F) {
 	rng := rand.New(rand.NewPCG(5, 6))
 	for range 30 {
