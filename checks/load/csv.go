@@ -58,7 +58,8 @@ func (s *study) newDataset(header []string, cols []int, rows int) *checks.Datase
 }
 
 // readRows reads the data rows after the header into ds; false means the
-// data are rejected.
+// data are rejected. Load takes no context, so this loop watches none: its
+// length is bounded by Limits.CSVBytes instead.
 func (s *study) readRows(sc *scanner, cr *cellReader, ds *checks.Dataset, lim Limits, ps *problems) bool {
 	reported := len(ps.list)
 	for {
