@@ -63,7 +63,7 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 		ests[key] = a.estimateWith(m, c, pa)
 	}
 	if len(r.imputed) > 0 {
-		ests[MissingMultipleImputation] = a.pooled(c, pa, r.imputed)
+		ests[MissingMultipleImputation] = pooled(c, r.imputedEst[i], r.imputed)
 	}
 	out := map[string]*Estimate{}
 	for key, e := range ests {
@@ -119,14 +119,14 @@ func (a *Analysis) declaredParentsFor(c Claim) parentsFunc {
 	return nil
 }
 
-// pooled estimates a claim in every imputed dataset and pools them by
-// Rubin's rules with the Barnard–Rubin degrees of freedom. Correlations
-// are pooled on Fisher's z scale, odds ratios on the log scale.
-func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
+// pooled pools a claim's estimates in the imputed datasets by Rubin's
+// rules with the Barnard–Rubin degrees of freedom. Correlations are pooled
+// on Fisher's z scale, odds ratios on the log scale.
+func pooled(c Claim, ests []est, imputed []*Moments) est {
 	var q, u []float64
 	var first est
 	for k, m := range imputed {
-		e := a.estimateWith(m, c, pa)
+		e := ests[k]
 		if !e.ok() {
 			return est{err: fmt.Errorf("imputation %d: %w", k+1, e.err), scale: e.scale}
 		}

@@ -6,6 +6,7 @@ import (
 	"encoding/hex"
 	"fmt"
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -38,8 +39,11 @@ type missingResult struct {
 	mcar    *missing.MCARTest
 	// moments by method key: complete_cases, maximum_likelihood, the
 	// declared single imputation; and one per imputed dataset.
-	moments     map[string]*Moments
+	moments map[string]*Moments
+	// imputed are the moments of each imputed dataset (without its rows),
+	// imputedEst[i][k] claim i's estimate in imputed dataset k.
 	imputed     []*Moments
+	imputedEst  [][]est
 	pairwiseErr string
 	err         error
 }
@@ -72,20 +76,67 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	for i, v := range a.Study.Package.Variables {
 		binary[i] = v.Scale == ScaleBinary
 	}
-	imps, err := missing.Impute(ctx, d.Columns, em, missing.ImputeOptions{M: Imputations, Seed: seedOf(a.Study.SHA256), Binary: binary})
-	if err != nil {
+	if err := a.imputeClaims(ctx, r, binary); err != nil {
 		r.err = err
-		return r
-	}
-	for k, cols := range imps {
-		m, err := rowMoments(columnsMatrix(cols), fmt.Sprintf("imputation_%d", k+1))
-		if err != nil {
-			r.err = err
-			return r
-		}
-		r.imputed = append(r.imputed, m)
 	}
 	return r
+}
+
+// imputeClaims draws the imputed datasets one by one (missing.ImputeEach)
+// and keeps of each only its moments and the claims' estimates in it, so
+// that memory does not grow with the number of imputations.
+func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, binary []bool) error {
+	claims := a.Study.Package.Claims
+	imputed, ests := make([]*Moments, Imputations), make([][]est, len(claims))
+	for i := range ests {
+		ests[i] = make([]est, Imputations)
+	}
+	var mu sync.Mutex
+	done := 0
+	opt := missing.ImputeOptions{M: Imputations, Seed: seedOf(a.Study.SHA256), Binary: binary}
+	err := missing.ImputeEach(ctx, a.Study.Data.Columns, r.em, opt, func(k int, data *mat.Dense) error {
+		m, err := imputedMoments(data, fmt.Sprintf("imputation_%d", k+1))
+		if err != nil {
+			return err
+		}
+		mu.Lock()
+		defer mu.Unlock()
+		for i, c := range claims {
+			ests[i][k] = a.estimateWith(m, c, a.declaredParentsFor(c))
+		}
+		m.Rows, imputed[k] = nil, m
+		done++
+		a.reportProgress("missing data: imputations", done, Imputations)
+		return nil
+	})
+	if err == nil {
+		r.imputed, r.imputedEst = imputed, ests
+	}
+	return err
+}
+
+// imputedMoments are the moments of an imputed dataset, as rowMoments
+// gives them, from missing.RowMoments, which does not copy the rows.
+func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
+	mean, cov := missing.RowMoments(data)
+	n, p := data.Dims()
+	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: mean, Rows: data, Method: method}
+	for j := range p {
+		if m.SD[j] = math.Sqrt(cov.At(j, j)); m.SD[j] == 0 {
+			return nil, Errorf(EInvalid, "a variable is constant in the %s", casesName(method))
+		}
+	}
+	for i := range p {
+		for j := 0; j <= i; j++ {
+			m.Cor.SetSym(i, j, cov.At(i, j)/(m.SD[i]*m.SD[j]))
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
+		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear",
+			casesName(method))
+	}
+	return m, nil
 }
 
 // seedOf takes the randomness of a report from its package's hash, so the
