@@ -25,9 +25,11 @@ func diffStudy() *study {
 	pkg := &checks.Package{
 		Variables: []checks.Variable{{Name: "a", Scale: checks.ScaleBinary}, {Name: "b", Scale: "continuous"},
 			{Name: "c", Scale: "ordinal"}},
-		Data: checks.Data{Kind: checks.DataRows, MissingCodes: []string{"-9", " x ", "999999"}, IgnoreColumns: []string{"id"}},
+		Data: checks.Data{Kind: checks.DataRows, MissingCodes: []string{"-9", " x ", "999999"},
+			IgnoreColumns: []string{"id"}},
 	}
-	return &study{&checks.Study{Package: pkg, Index: map[string]int{"a": 0, "b": 1, "c": 2}, Names: []string{"a", "b", "c"}}}
+	index := map[string]int{"a": 0, "b": 1, "c": 2}
+	return &study{&checks.Study{Package: pkg, Index: index, Names: []string{"a", "b", "c"}}}
 }
 
 // cellPool holds cells of every kind the loader tells apart.
