@@ -45,12 +45,14 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	var fs []Finding
 	computed := 0
 	for i, c := range s.Package.Claims {
-		if !Causal(c.Kind) || c.AssertsAbsence {
+		ce := a.eValues()[i] // shared with causal-language (shared.go)
+		ev, note := ce.ev, ce.why
+		if ev == nil && note == "" {
 			continue // an association, or a claim of no effect, has nothing to explain away
 		}
-		ev, note := a.eValue(i, c)
 		if ev == nil {
-			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)})
+			sev := map[bool]string{true: SeverityInfo, false: StatusWarn}[ce.contradicted]
+			fs = append(fs, Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)})
 			continue
 		}
 		computed++

@@ -88,7 +88,7 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 	fs = append(fs, discussionFinding(s, eq)...)
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: equivalenceMetrics(eq, reversible)}
 	res.Metrics["claims_unstable"] = unstable
-	res.Summary = equivalenceSummary(s, eq, res.Status, unstable)
+	res.Summary = equivalenceSummary(s, eq, res.Status, equivalenceTally{unstable: unstable, reversible: reversible, claimWarnings: claimWarnings(fs)})
 	return res, nil
 }
 
@@ -98,12 +98,18 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEquivalents, []Finding) {
 	decl := a.declaredEstimate(i)
 	if !decl.ok() {
-		return nil, structural
+		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be estimated under the declared graph (%v), so it could not be re-estimated across the equivalent graphs either.", c.ID, decl.err)})
 	}
 	across, err := a.acrossEquivalents(c, decl)
 	if err != nil {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})
+	}
+	if across.Failed > 0 && !across.Unstable {
+		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be estimated in %d of the %d graphs or parent sets it was tried in, so whether its conclusion holds in all of them is not known.",
+			c.ID, across.Failed, across.Failed+across.Estimates)})
 	}
 	if !across.Unstable {
 		if len(structural) > 0 && structural[0].Severity != SeverityInfo {
@@ -118,13 +124,12 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 		sev = StatusFail
 	}
 	return across, []Finding{{Severity: sev, Claim: c.ID, Message: a.unstableText(c, decl, across),
-		Details: map[string]any{"graphs": across.Graphs, "graphs_differing": across.Differing, "method": across.Method}}}
+		Details: map[string]any{"estimates": across.Estimates, "estimates_differing": across.Differing, "method": across.Method}}}
 }
 
 // unstableText says in one sentence how a claim depends on the choice
 // among equivalent graphs.
 func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) string {
-	eq := a.equivalenceClass()
 	ct := across.Contrast
 	other := "zero"
 	if ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
@@ -149,12 +154,23 @@ func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) st
 		}
 		where = fmt.Sprintf(", for instance if the parents of %s are {%s}", node, strings.Join(ct.ParentSet, ", "))
 	}
-	scope := fmt.Sprintf("in %d of the %s plausible equivalent graphs", across.Differing, countText(eq.plausible))
+	scope := fmt.Sprintf("in %d of the %d plausible members of the declared graph's class", across.Differing, across.Estimates)
 	if across.Method == AcrossParentSets {
-		scope = fmt.Sprintf("under %d of the %d locally valid parent sets (the class is too large to list)", across.Differing, across.Graphs)
+		scope = fmt.Sprintf("under %d of the %d locally valid parent sets (the class is too large to list)", across.Differing, across.Estimates)
 	}
 	return fmt.Sprintf("%s is %s under the declared graph but %s %s%s; the data fit those graphs exactly as well, so the data do not decide this claim, the choice of graph does.",
 		c.ID, valueText(decl), other, scope, where)
+}
+
+// claimWarnings counts the claims with a warning or failure.
+func claimWarnings(fs []Finding) int {
+	seen := map[string]bool{}
+	for _, f := range fs {
+		if f.Claim != "" && (f.Severity == StatusWarn || f.Severity == StatusFail) {
+			seen[f.Claim] = true
+		}
+	}
+	return len(seen)
 }
 
 func equivalenceMetrics(eq *equivalenceResult, reversible int) map[string]any {
@@ -209,7 +225,7 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 		sev = StatusFail
 	}
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
-		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible equivalent graphs it does, those graphs fit the data exactly as well, and in them the direct effect of %s on %s is zero.",
+		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible members of the declared graph's class it does, those graphs fit the data exactly as well, and in them the direct effect of %s on %s is zero.",
 		c.From, c.To, c.ID, n, countText(eq.plausible), c.From, c.To)}}, rev, nil
 }
 
@@ -234,30 +250,74 @@ func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
 	}
 	if s.Package.Graph.EquivalentsDiscussed {
 		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
-			"The authors say they discussed the graphs equivalent to theirs (%s in the whole class).", eq.size)}}
+			"The authors say they discussed the graphs equivalent to theirs (the class has %s members, the declared graph among them).", eq.size)}}
 	}
 	return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
-		"%s graphs fit any data exactly as well as the declared one (%s of them %s the stated background knowledge), and the authors do not discuss them.",
-		eq.size, countText(eq.plausible), verb(eq.plausible, "respects", "respect"))}}
+		"%s fit any data exactly as well as the declared one (%s), and the authors do not discuss them.",
+		otherGraphs(eq.size), plausibleOthers(eq.plausible))}}
 }
 
-func equivalenceSummary(s *Study, eq *equivalenceResult, status string, unstable int) string {
+// otherGraphs counts the members of a class besides the declared graph.
+func otherGraphs(size *big.Int) string {
+	n := new(big.Int).Sub(size, big.NewInt(1))
+	return n.String() + verb(n, " other graph", " other graphs")
+}
+
+// plausibleOthers says how many of the other members respect the
+// background knowledge.
+func plausibleOthers(plausible *big.Int) string {
+	if plausible == nil {
+		return "how many of them respect the stated background knowledge could not be counted"
+	}
+	n := new(big.Int).Sub(plausible, big.NewInt(1))
+	return fmt.Sprintf("%s of them %s the stated background knowledge", n, verb(n, "respects", "respect"))
+}
+
+// equivalenceTally is what the summary of the check rests on.
+type equivalenceTally struct {
+	unstable, reversible, claimWarnings int
+}
+
+func equivalenceSummary(s *Study, eq *equivalenceResult, status string, t equivalenceTally) string {
 	switch {
-	case status == StatusFail && unstable > 0:
-		return fmt.Sprintf("A headline claim changes sign or significance among the %s plausible graphs that fit the data exactly as well, and the paper does not discuss them; ask the authors to justify the arrows it rests on or to report it under every equivalent graph.", countText(eq.plausible))
+	case status == StatusFail && t.unstable > 0:
+		return fmt.Sprintf("A headline claim changes sign or significance among the %s plausible members of the declared graph's class, which fit the data exactly as well, and the paper does not discuss them; ask the authors to justify the arrows it rests on or to report it under every equivalent graph.", countText(eq.plausible))
 	case status == StatusFail:
-		return fmt.Sprintf("A headline claim rests on an arrow the data cannot orient, among %s plausible equivalent graphs the paper does not discuss; ask the authors to justify its direction or report the claim under every equivalent graph.", countText(eq.plausible))
-	case unstable > 0:
-		return fmt.Sprintf("%d claim(s) change sign or significance among the equivalent graphs; the paper should justify the arrows they rest on or show them under every equivalent graph.", unstable)
+		return fmt.Sprintf("A headline claim rests on an arrow the data cannot orient, in a class of %s plausible members the paper does not discuss; ask the authors to justify its direction or report the claim under every equivalent graph.", countText(eq.plausible))
+	case t.unstable > 0:
+		return fmt.Sprintf("%s %s sign or significance among the equivalent graphs; the paper should justify the arrows they rest on or show them under every equivalent graph.",
+			count(t.unstable, "claim", "claims"), map[bool]string{true: "changes", false: "change"}[t.unstable == 1])
 	case eq.size.Cmp(big.NewInt(1)) == 0:
 		return "The declared graph is the only member of its equivalence class: the data could in principle tell it from every other graph on its skeleton."
+	case t.claimWarnings > 0:
+		return fmt.Sprintf("%s fit any data exactly as well as the declared one; the findings about %s need attention.",
+			otherGraphs(eq.size), count(t.claimWarnings, "claim", "claims"))
+	case status == StatusWarn && onlyDeclared(eq):
+		return fmt.Sprintf("%s fit any data exactly as well as the declared one, and the paper does not discuss them; the stated background knowledge rules them all out.", otherGraphs(eq.size))
 	case status == StatusWarn:
-		return fmt.Sprintf("The declared graph has %s equivalent graphs that fit equally well, which the paper does not discuss, though no claimed arrow depends on them.", eq.size)
+		return fmt.Sprintf("%s fit any data exactly as well as the declared one, and the paper does not discuss them; %s.",
+			otherGraphs(eq.size), reversibleText(t.reversible))
 	}
-	if eq.plausible != nil && eq.plausible.Cmp(big.NewInt(1)) == 0 {
-		return fmt.Sprintf("The declared graph has %s equivalent graphs, and the stated background knowledge rules out all but the declared one.", eq.size)
+	if onlyDeclared(eq) {
+		return fmt.Sprintf("%s fit any data exactly as well as the declared one, and the stated background knowledge rules them all out.", otherGraphs(eq.size))
 	}
-	return fmt.Sprintf("The declared graph has %s equivalent graphs; no claim changes sign or significance among the %s plausible ones.", eq.size, countText(eq.plausible))
+	return fmt.Sprintf("%s fit any data exactly as well as the declared one (%s); %s.",
+		otherGraphs(eq.size), plausibleOthers(eq.plausible), reversibleText(t.reversible))
+}
+
+// onlyDeclared: the background knowledge leaves only the declared graph.
+func onlyDeclared(eq *equivalenceResult) bool {
+	return eq.plausible != nil && eq.plausible.Cmp(big.NewInt(1)) == 0
+}
+
+// reversibleText says whether claimed arrows can point the other way; it
+// is used only where no claim's conclusion changes across the class.
+func reversibleText(n int) string {
+	if n == 0 {
+		return "no claim's conclusion changes among the plausible ones, and no claimed arrow can point the other way in them"
+	}
+	return fmt.Sprintf("%s can point the other way in some of them, but no claim's conclusion changes among the plausible ones",
+		count(n, "claimed arrow", "claimed arrows"))
 }
 
 // graphReport fills the report's graph section: the CPDAG, both class

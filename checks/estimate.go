@@ -34,7 +34,9 @@ type est struct {
 	n        int
 	adjusted []int
 	note     string
-	err      error
+	// zero says why the graph makes the estimate zero (MethodZero).
+	zero string
+	err  error
 }
 
 func (e est) ok() bool { return e.err == nil }
@@ -62,7 +64,10 @@ type Estimate struct {
 	N           int       `json:"n,omitempty"`
 	AdjustedFor []string  `json:"adjusted_for"`
 	Note        string    `json:"note,omitempty"`
-	Error       string    `json:"error,omitempty"`
+	// StructuralZero says why the graph itself makes the estimate "no
+	// effect"; its SE, interval and p-value are then null, not 0.
+	StructuralZero string `json:"structural_zero,omitempty"`
+	Error          string `json:"error,omitempty"`
 }
 
 // finite returns a pointer to x rounded for a report, or nil where x is
@@ -82,6 +87,11 @@ func (a *Analysis) report(e est) *Estimate {
 	}
 	if e.err != nil {
 		r.Error = e.err.Error()
+		return r
+	}
+	if e.method == MethodZero {
+		v := zeroOnScale(e.scale)
+		r.Estimate, r.StructuralZero = &v, e.zero
 		return r
 	}
 	r.Estimate, r.StdError, r.PValue = finite(e.value), finite(e.se), finite(e.p)
@@ -119,13 +129,14 @@ func (a *Analysis) estimateWith(m *Moments, c Claim, pa parentsFunc) est {
 	case c.Kind == KindDirect:
 		parents := pa(to)
 		if !slices.Contains(parents, from) {
-			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
+			return structuralZero(c, parents, directZeroWhy(c, pa(from), to, "this graph"))
 		}
 		return a.regress(m, c, to, from, parents)
 	case c.Kind == KindTotal:
 		parents := pa(from)
 		if slices.Contains(parents, to) {
-			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
+			return structuralZero(c, parents, fmt.Sprintf(
+				"no directed path from %s to %s in this graph (%s is a parent of %s)", c.From, c.To, c.To, c.From))
 		}
 		return a.regress(m, c, to, from, parents)
 	}
@@ -134,6 +145,19 @@ func (a *Analysis) estimateWith(m *Moments, c Claim, pa parentsFunc) est {
 		adj = append(adj, s.Index[v])
 	}
 	return a.regress(m, c, to, from, adj)
+}
+
+func structuralZero(c Claim, adjusted []int, why string) est {
+	return est{method: MethodZero, scale: claimScale(c), adjusted: adjusted, zero: why}
+}
+
+// directZeroWhy says why a graph gives a direct effect of c.From on c.To
+// no arrow: it points the other way, or there is none.
+func directZeroWhy(c Claim, parentsOfFrom []int, to int, graph string) string {
+	if slices.Contains(parentsOfFrom, to) {
+		return fmt.Sprintf("the arrow points the other way (%s → %s) in %s", c.To, c.From, graph)
+	}
+	return fmt.Sprintf("no arrow %s → %s in %s", c.From, c.To, graph)
 }
 
 func claimScale(c Claim) string {

@@ -77,7 +77,7 @@ func noGraph(s *Study) CheckResult {
 			Summary: "No causal graph is declared, and none is needed: every claim is an association."}
 	}
 	return CheckResult{Status: StatusFail, Findings: fs, Metrics: metrics,
-		Summary: fmt.Sprintf("The paper makes %d causal claim(s) without declaring a causal graph; ask the authors for the graph their analysis assumes.", len(fs))}
+		Summary: fmt.Sprintf("The paper makes %s without declaring a causal graph; ask the authors for the graph their analysis assumes.", count(len(fs), "causal claim", "causal claims"))}
 }
 
 func kindText(kind string) string {
@@ -113,6 +113,25 @@ func claimAgainstGraph(s *Study, c Claim) []Finding {
 		}
 	}
 	return nil
+}
+
+// graphContradiction says why the declared graph itself gives a causal
+// claim no effect (a direct effect that is no arrow of it, a total effect
+// without a directed path), or "" when it does not. Such a claim fails
+// graph-declared; the other checks do not weigh it as if it held.
+func (a *Analysis) graphContradiction(c Claim) string {
+	s := a.Study
+	if !Causal(c.Kind) || !a.claimInGraph(c) {
+		return ""
+	}
+	from, to := s.Index[c.From], s.Index[c.To]
+	switch {
+	case c.Kind == KindDirect && !s.Declared.HasArc(from, to):
+		return directZeroWhy(c, s.Declared.Parents(from), to, "the declared graph")
+	case c.Kind == KindTotal && !dag.HasDirectedPath(s.Declared, from, to):
+		return fmt.Sprintf("no directed path from %s to %s in the declared graph", c.From, c.To)
+	}
+	return ""
 }
 
 func directAgainstGraph(g *dag.PDAG, c Claim, from, to int) []Finding {

@@ -99,7 +99,7 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 		res.Summary = "The declared graph is saturated (every pair of its variables is joined): it implies no independence and fits any data perfectly, so fit says nothing about it."
 		return res, nil
 	}
-	res.Summary = fitSummary(res.Status, mf.fit, tests)
+	res.Summary = fitSummary(res.Status, mf.fit, tests, a.Alpha)
 	return res, nil
 }
 
@@ -260,14 +260,36 @@ func (a *Analysis) fitMetrics(f *sem.Fit, tests []implicationTest, m *Moments) m
 	}
 }
 
-func fitSummary(status string, f *sem.Fit, tests []implicationTest) string {
-	base := fmt.Sprintf("χ² = %.2f on %d df (%s), RMSEA %.3f, CFI %.3f, SRMR %.3f; %d implied independences tested.",
-		f.ChiSquare, f.DF, pText(f.P), f.RMSEA, f.CFI, f.SRMR, len(tests))
+func fitSummary(status string, f *sem.Fit, tests []implicationTest, alpha float64) string {
+	base := fmt.Sprintf("χ² = %.2f on %d df (%s), RMSEA %.3f, CFI %.3f, SRMR %.3f; %s tested.",
+		f.ChiSquare, f.DF, pText(f.P), f.RMSEA, f.CFI, f.SRMR, count(len(tests), "implied independence", "implied independences"))
 	switch status {
 	case StatusFail:
-		return "The data contradict independences the declared graph implies, so the graph is wrong somewhere: " + base
+		rejected := 0
+		for _, t := range tests {
+			if t.pHolm < alpha {
+				rejected++
+			}
+		}
+		which := fmt.Sprintf("%d of the %d independences", rejected, len(tests))
+		if len(tests) == 1 {
+			which = "the one independence"
+		}
+		return fmt.Sprintf("The data reject %s the declared graph implies (Holm-adjusted, family-wise level %g; %s): "+
+			"the graph may lack an arrow or a common cause there, or those assumptions may not hold. ",
+			which, alpha, testAssumptions(tests)) + base
 	case StatusWarn:
 		return "The declared graph fits the data only loosely: " + base
 	}
 	return "The data do not contradict the declared graph's testable implications: " + base
+}
+
+// testAssumptions names what the implication tests assume.
+func testAssumptions(tests []implicationTest) string {
+	for _, t := range tests {
+		if t.method == "logistic_wald" {
+			return "tests that assume linear relations and normal errors, and logistic ones for binary variables"
+		}
+	}
+	return "tests that assume linear relations and normal errors"
 }

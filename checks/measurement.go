@@ -67,18 +67,30 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if problem != "" {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: "Corrected for attenuation (Spearman 1904), the correlation matrix " + problem + ", so the claims are not re-estimated on it; the reliabilities and the correlations cannot all be right."})
 	} else {
-		fs = append(fs, a.correctedClaims(corrected)...)
+		var cf []Finding
+		cf, metrics["claims_corrected"] = a.correctedClaims(corrected)
+		fs = append(fs, cf...)
 	}
 	if err := ctx.Err(); err != nil {
 		return CheckResult{}, err
 	}
 	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: metrics}
-	res.Summary = map[string]string{
-		StatusPass: "Reliabilities are reported for the claims' variables, and correcting for measurement error changes no claim's sign or significance.",
-		StatusWarn: "Measurement error needs attention: reliabilities are missing, or correcting for them changes some claims; see the findings.",
-		StatusFail: "Correcting for measurement error changes the sign or significance of a headline claim.",
-	}[res.Status]
+	res.Summary = measurementSummary(res.Status, metrics, len(s.Package.Claims), problem != "")
 	return res, nil
+}
+
+func measurementSummary(status string, metrics map[string]any, claims int, impossible bool) string {
+	switch {
+	case status == StatusFail:
+		return "Correcting for measurement error changes the sign or significance of a headline claim."
+	case impossible:
+		return "Corrected for the reported reliabilities, the correlations are impossible, so the claims could not be re-estimated; the reliabilities or the correlations need checking."
+	case status == StatusWarn:
+		return "Measurement error needs attention: reliabilities are missing for some claims' variables, or correcting for them changes some claims; see the findings."
+	}
+	n, _ := metrics["claims_corrected"].(int)
+	return fmt.Sprintf("Reliabilities are reported for the claims' variables; correcting for measurement error changes the conclusion of none of the %s re-estimated on the corrected correlations (of %d).",
+		count(n, "claim", "claims"), claims)
 }
 
 // claimVariables marks the variables that some claim names.
@@ -118,12 +130,12 @@ func correctedMoments(m *Moments, rel []float64) (*Moments, string) {
 }
 
 // correctedClaims re-estimates every claim on the corrected matrix, on
-// the standardized scale, and reports the change.
-func (a *Analysis) correctedClaims(cm *Moments) []Finding {
-	var fs []Finding
+// the standardized scale, and reports the change; n counts the claims
+// re-estimated.
+func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 	for i, c := range a.Study.Package.Claims {
-		if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary {
-			continue // no attenuation correction for a binary outcome's logistic model
+		if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary || a.graphContradiction(c) != "" {
+			continue // no attenuation correction for a logistic model; a claim the graph gives no effect
 		}
 		std := c
 		if std.EstimateScale != "correlation" {
@@ -134,6 +146,7 @@ func (a *Analysis) correctedClaims(cm *Moments) []Finding {
 		if !decl.ok() || !corr.ok() || corr.method == MethodZero {
 			continue
 		}
+		n++
 		r := &MeasurementResult{Corrected: a.report(corr), Change: finite(corr.value - decl.value)}
 		r.Changed = corr.category(a.Alpha) != decl.category(a.Alpha)
 		a.Claims[i].Measurement = r
@@ -143,10 +156,11 @@ func (a *Analysis) correctedClaims(cm *Moments) []Finding {
 				c.ID, valueText(decl), valueText(corr))})
 		} else if math.Abs(corr.value-decl.value) >= 0.05 {
 			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-				"%s moves from %.2f to %.2f (standardized) when corrected for measurement error; its sign and significance stay.", c.ID, decl.value, corr.value)})
+				"%s moves from %.2f to %.2f (standardized) when corrected for measurement error; it %s.", c.ID, decl.value, corr.value,
+				agreement(decl, corr, a.Alpha))})
 		}
 	}
-	return fs
+	return fs, n
 }
 
 func (a *Analysis) mustMoments() *Moments {

@@ -23,7 +23,11 @@ func methodFindings(method string, r *missingResult) []Finding {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
 			"The package says no values are missing, but %.1f%% of the data cells are (%d of %d rows are complete).", share, r.summary.CompleteRows, r.summary.Rows)})
 	case bad:
-		fs = append(fs, Finding{Severity: StatusWarn, Message: name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data); the claims are re-estimated below by maximum likelihood and multiple imputation."})
+		tail := "; the claims could not be re-estimated by a principled method (see below)."
+		if p := principledDone(r); p != "" {
+			tail = "; the claims are re-estimated below by " + p + "."
+		}
+		fs = append(fs, Finding{Severity: StatusWarn, Message: name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data)" + tail})
 	case method == MissingAvailableCases && r.pairwiseErr != "":
 		fs = append(fs, Finding{Severity: StatusWarn, Message: "Available-case analysis: " + r.pairwiseErr + "."})
 	}
@@ -41,6 +45,35 @@ func methodFindings(method string, r *missingResult) []Finding {
 			"Little's test %s that values are missing completely at random (χ² = %.2f on %d df, %s).%s", verdict, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
 	}
 	return fs
+}
+
+// principledDone names the principled methods the claims were re-estimated
+// by: maximum likelihood, multiple imputation, both or neither ("").
+func principledDone(r *missingResult) string {
+	_, ml := r.moments[MissingMaximumLikelihood]
+	switch mi := len(r.imputed) > 0; {
+	case ml && mi:
+		return "maximum likelihood and multiple imputation"
+	case ml:
+		return "maximum likelihood"
+	case mi:
+		return "multiple imputation"
+	}
+	return ""
+}
+
+// principledMissing names the principled methods that could not be run.
+func principledMissing(r *missingResult) string {
+	_, ml := r.moments[MissingMaximumLikelihood]
+	switch mi := len(r.imputed) > 0; {
+	case !ml && !mi:
+		return "maximum likelihood and multiple imputation"
+	case !ml:
+		return "maximum likelihood"
+	case !mi:
+		return "multiple imputation"
+	}
+	return ""
 }
 
 // methodLabel names the missing-data methods in sentences.
@@ -70,23 +103,48 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 		out[key] = a.report(e)
 	}
 	a.Claims[i].MissingData = out
+	if why := a.graphContradiction(c); why != "" {
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			"%s is not weighed here: the declared graph itself gives it no effect (%s); see graph-declared.", c.ID, why)}}, false
+	}
 	declaredKey, principledKey := comparison(method, ests)
-	d, okD := ests[declaredKey]
-	p, okP := ests[principledKey]
-	if !okD || !okP || !d.ok() || !p.ok() {
-		return nil, false
+	d, p := ests[declaredKey], ests[principledKey]
+	if f := uncompared(c, ests, declaredKey, principledKey); f != nil {
+		return f, false
 	}
 	if d.category(a.Alpha) == p.category(a.Alpha) {
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s keeps its sign and significance: %s by %s, %s by %s.", c.ID, valueText(d), methodLabel[declaredKey], valueText(p), methodLabel[principledKey])}}, false
+			"%s %s: %s by %s, %s by %s.", c.ID, agreement(d, p, a.Alpha),
+			valueText(d), methodLabel[declaredKey], valueText(p), methodLabel[principledKey])}}, false
 	}
 	sev := StatusWarn
 	if c.Headline {
 		sev = StatusFail
 	}
+	level := claimLevel(c)
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
 		"%s is %s by %s (%s) but %s by %s (%s): the conclusion depends on how missing values were handled.",
-		c.ID, valueText(d), methodLabel[declaredKey], ciText(d), valueText(p), methodLabel[principledKey], ciText(p))}}, true
+		c.ID, valueText(d), methodLabel[declaredKey], ciText(d, level), valueText(p), methodLabel[principledKey], ciText(p, level))}}, true
+}
+
+// uncompared is the warning for a claim whose declared-method or
+// principled estimate could not be made, with the reason; nil when both
+// were made.
+func uncompared(c Claim, ests map[string]est, declaredKey, principledKey string) []Finding {
+	for _, key := range []string{declaredKey, principledKey} {
+		e, ok := ests[key]
+		why := "that method could not be run on these data"
+		if ok && e.ok() {
+			continue
+		}
+		if ok {
+			why = e.err.Error()
+		}
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be estimated by %s (%s), so whether its conclusion depends on how missing values were handled is not known.",
+			c.ID, methodLabel[key], why)}}
+	}
+	return nil
 }
 
 // comparison picks the declared method's estimate and the principled one
@@ -104,11 +162,11 @@ func comparison(method string, ests map[string]est) (declared, principled string
 	return declared, principled
 }
 
-func ciText(e est) string {
-	if math.IsNaN(e.lo) || math.IsNaN(e.hi) {
+func ciText(e est, level float64) string {
+	if e.method == MethodZero || math.IsNaN(e.lo) || math.IsNaN(e.hi) {
 		return "no interval"
 	}
-	return fmt.Sprintf("95%% interval %.2f to %.2f", e.lo, e.hi)
+	return fmt.Sprintf("%g%% interval %.2f to %.2f", 100*level, e.lo, e.hi)
 }
 
 // declaredParentsFor is the graph the declared estimate uses.
@@ -171,14 +229,27 @@ func pooledScale(e est, n int, level float64) (q, u float64) {
 	return e.value, e.se * e.se
 }
 
-func missingSummary(status string, changed int, r *missingResult) string {
+func missingSummary(status string, changed, uncompared int, method string, r *missingResult) string {
+	has := map[string]est{}
+	for k := range r.moments {
+		has[k] = est{}
+	}
+	if len(r.imputed) > 0 {
+		has[MissingMultipleImputation] = est{}
+	}
+	dk, pk := comparison(method, has)
 	switch {
 	case changed > 0 && status == StatusFail:
 		return "A headline claim changes sign or significance once missing values are handled by a principled method; the conclusion rests on the missing-data method, not on the data."
 	case changed > 0:
-		return fmt.Sprintf("%d claim(s) change sign or significance once missing values are handled by a principled method; the paper should report the analysis by multiple imputation or maximum likelihood.", changed)
+		return fmt.Sprintf("%s %s sign or significance once missing values are handled by a principled method; the paper should report the analysis by multiple imputation or maximum likelihood.",
+			count(changed, "claim", "claims"), map[bool]string{true: "changes", false: "change"}[changed == 1])
+	case uncompared > 0:
+		return fmt.Sprintf("%s could not be compared between %s and %s, so the screen of missing data is incomplete; see the findings.",
+			count(uncompared, "claim", "claims"), methodLabel[dk], methodLabel[pk])
 	case status == StatusWarn:
-		return "Every claim keeps its sign and significance under maximum likelihood and multiple imputation, but the way missing values were handled or reported needs attention; see the findings."
+		return fmt.Sprintf("No claim changes its conclusion between %s and %s, but the way missing values were handled or reported needs attention; see the findings.", methodLabel[dk], methodLabel[pk])
 	}
-	return fmt.Sprintf("Every claim keeps its sign and significance under complete cases, maximum likelihood and multiple imputation (%d of %d rows complete).", r.summary.CompleteRows, r.summary.Rows)
+	return fmt.Sprintf("No claim changes its conclusion (the sign of a significant estimate, or its non-significance) between %s and %s (%d of %d rows complete).",
+		methodLabel[dk], methodLabel[pk], r.summary.CompleteRows, r.summary.Rows)
 }

@@ -80,7 +80,7 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	for k, cols := range imps {
 		m, err := rowMoments(columnsMatrix(cols), fmt.Sprintf("imputation_%d", k+1))
 		if err != nil {
-			r.err = err
+			r.err, r.imputed = err, nil
 			return r
 		}
 		r.imputed = append(r.imputed, m)
@@ -180,19 +180,23 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	res.Findings = methodFindings(method, r)
 	if r.err != nil {
-		res.Findings = append(res.Findings, Finding{Severity: StatusWarn, Message: "The claims could not be re-estimated by maximum likelihood and multiple imputation: " + r.err.Error() + "."})
+		res.Findings = append(res.Findings, Finding{Severity: StatusWarn, Message: "The claims could not be re-estimated by " + principledMissing(r) + ": " + r.err.Error() + "."})
 	}
-	changed := 0
+	changed, uncompared := 0, 0
 	for i, c := range s.Package.Claims {
 		f, ch := a.claimMissing(i, c, method, r)
 		res.Findings = append(res.Findings, f...)
 		if ch {
 			changed++
 		}
+		if len(f) > 0 && f[0].Severity == StatusWarn && !ch {
+			uncompared++
+		}
 	}
 	res.Metrics["claims_changed"] = changed
+	res.Metrics["claims_not_compared"] = uncompared
 	res.Status = statusOf(res.Findings)
-	res.Summary = missingSummary(res.Status, changed, r)
+	res.Summary = missingSummary(res.Status, changed, uncompared, method, r)
 	return res, nil
 }
 

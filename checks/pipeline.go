@@ -1,9 +1,11 @@
 package checks
 
 import (
+	"cmp"
 	"context"
 	"encoding/json"
 	"fmt"
+	"reflect"
 	"time"
 )
 
@@ -42,8 +44,12 @@ type Options struct {
 }
 
 // Analysis is one run of the pipeline over a study: the study, results
-// that several checks share, computed once on first use, and the report's
-// graph and claim sections, which the checks fill in.
+// that several checks share, computed once on first use (never by one
+// check for another), and the graph and claim sections a check annotates.
+// Each check gets sections of its own, empty when it starts; the pipeline
+// merges them into the report after it returns, so no check can read
+// another's annotations, and the checks give the same results in any
+// order or subset.
 type Analysis struct {
 	Study  *Study
 	Alpha  float64
@@ -58,6 +64,7 @@ type Analysis struct {
 	plausible    []alternativeGraph
 	plausibleErr error
 	miss         *missingResult
+	evs          []claimEValue
 }
 
 // Run screens the study and returns its report. It stops with ctx's error
@@ -79,16 +86,23 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 		Title: s.Package.Title, ManuscriptID: s.Package.ManuscriptID, Design: s.Package.Design,
 		Caution: Caution, SignificanceLevel: opt.Alpha,
 	}
+	claims, graph := claimReports(s.Package), (*GraphReport)(nil)
 	for _, c := range opt.Checks {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
+		a.Claims, a.Graph = claimReports(s.Package), nil // this check's annotations only
 		res := runCheck(ctx, c, a)
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
 		rep.Checks = append(rep.Checks, res)
+		if res.RunError == "" {
+			mergeClaims(claims, a.Claims)
+			graph = cmp.Or(a.Graph, graph)
+		}
 	}
+	a.Claims, a.Graph = claims, graph
 	a.fillDeclared()
 	rep.Data = a.dataReport()
 	rep.Graph, rep.Claims = a.Graph, a.Claims
@@ -166,6 +180,19 @@ func (a *Analysis) safeDeclared(i int) (r *Estimate) {
 		}
 	}()
 	return a.report(a.declaredEstimate(i))
+}
+
+// mergeClaims copies into dst every annotation that a check set in src
+// (a field of src that is not its zero value and is zero in dst).
+func mergeClaims(dst, src []ClaimReport) {
+	for i := range dst {
+		d, s := reflect.ValueOf(&dst[i]).Elem(), reflect.ValueOf(src[i])
+		for f := range d.NumField() {
+			if !s.Field(f).IsZero() && d.Field(f).IsZero() {
+				d.Field(f).Set(s.Field(f))
+			}
+		}
+	}
 }
 
 func claimReports(pkg *Package) []ClaimReport {

@@ -1,0 +1,48 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+)
+
+// count writes n with the singular or plural of a noun: "1 claim",
+// "2 claims".
+func count(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
+// agreement says how two estimates of a claim with the same category at
+// alpha agree, true for every such pair: both significant with one sign,
+// both not significant (whatever their signs), or both zero by the graph;
+// and, where it is so, that the estimate changes sign or at least doubles
+// or halves.
+func agreement(a, b est, alpha float64) string {
+	switch {
+	case a.method == MethodZero && b.method == MethodZero:
+		return "is zero by the graph either way"
+	case a.method == MethodZero || b.method == MethodZero:
+		return "is not significant either way (zero by the graph in one)"
+	case a.category(alpha) == 0:
+		return "is not significant either way" + sizeChange(a, b)
+	}
+	return "keeps its sign and significance" + sizeChange(a, b)
+}
+
+// sizeChange notes a change of sign, or a change of size by a factor of
+// two or more, between two estimates; empty otherwise.
+func sizeChange(a, b est) string {
+	x, y := a.additive, b.additive
+	switch {
+	case x*y < 0:
+		return fmt.Sprintf(", though its estimate changes sign (%.2f to %.2f)", a.value, b.value)
+	case x == 0 || y == 0:
+		return ""
+	case math.Abs(y/x) >= 2 || math.Abs(y/x) <= 0.5:
+		return fmt.Sprintf(", though its estimate changes size by a factor of %.1f (%.2f to %.2f)",
+			math.Abs(y/x), a.value, b.value)
+	}
+	return ""
+}
