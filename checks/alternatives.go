@@ -36,11 +36,11 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The alternatives could not be compared: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: %w", a.dataError())
 	}
 	declFit, err := a.fitGraph(s.Declared, s.InGraph)
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The alternatives could not be compared: the declared graph could not be fitted to the data (" + err.Error() + ")."}, nil
+		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: the declared graph could not be fitted to the data (%w)", err)
 	}
 	var fs []Finding
 	var rows []map[string]any

@@ -114,7 +114,7 @@ type parentsFunc func(v int) []int
 func (a *Analysis) estimateClaim(c Claim, pa parentsFunc) est {
 	m, err := a.moments()
 	if err != nil {
-		return est{err: err, scale: claimScale(c)}
+		return est{err: a.dataError(), scale: claimScale(c)}
 	}
 	return a.estimateWith(m, c, pa)
 }
@@ -230,6 +230,10 @@ func needs(scale string) string {
 
 func olsEstimate(cov mat.Symmetric, means []float64, n, y int, x []int, scale string, level float64, note string) est {
 	fit, err := linmod.FromMoments(cov, means, n, y, x, level)
+	if errors.Is(err, linmod.ErrTooFewCases) {
+		err = fmt.Errorf("%s for a regression with %d parameters besides its intercept: it needs at least %d (%w)",
+			count(n, "case", "cases"), len(x), len(x)+2, err)
+	}
 	if err != nil {
 		return est{err: err, scale: scale, method: MethodOLS, n: n}
 	}

@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"github.com/pathvet/pathvet/checks/dag"
+	"github.com/pathvet/pathvet/checks/linmod"
 	"github.com/pathvet/pathvet/checks/sem"
 )
 
@@ -63,6 +64,11 @@ func (a *Analysis) fitGraph(g *dag.PDAG, in []bool) (*modelFit, error) {
 	}
 	f, err := sem.FitDAG(sub, m.N, parents)
 	var ee *sem.EquationError
+	if errors.As(err, &ee) && errors.Is(ee.Err, linmod.ErrTooFewCases) {
+		k := len(parents[ee.Variable])
+		return nil, fmt.Errorf("the equation of %s has %s and the data %s; it needs at least %d (%w)",
+			a.Study.Names[nodes[ee.Variable]], count(k, "parent", "parents"), count(m.N, "case", "cases"), k+2, ee.Err)
+	}
 	if errors.As(err, &ee) {
 		return nil, fmt.Errorf("the equation of %s: %w", a.Study.Names[nodes[ee.Variable]], ee.Err)
 	}
@@ -79,11 +85,11 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The fit could not be computed: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the fit could not be computed: %w", a.dataError())
 	}
 	mf, err := a.fitGraph(s.Declared, s.InGraph)
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The declared graph could not be fitted to the data: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the declared graph could not be fitted to the data: %w", err)
 	}
 	tests := a.implicationTests(m)
 	if err := ctx.Err(); err != nil {

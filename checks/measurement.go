@@ -60,7 +60,7 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The correction for measurement error needs the data's correlations: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the correction for measurement error needs the data's correlations: %w", a.dataError())
 	}
 	corrected, problem := correctedMoments(m, rel)
 	metrics := map[string]any{"variables_without_reliability": len(missingRel), "variables_low_reliability": len(low)}
@@ -143,7 +143,12 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 		}
 		decl := a.estimateWith(a.mustMoments(), std, a.declaredParentsFor(c))
 		corr := a.estimateWith(cm, std, a.declaredParentsFor(c))
-		if !decl.ok() || !corr.ok() || corr.method == MethodZero {
+		if bad := firstErr(decl, corr); bad != nil {
+			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+				"%s could not be estimated with and without the correction (%v), so what measurement error does to it is not known.", c.ID, bad)})
+			continue
+		}
+		if corr.method == MethodZero {
 			continue
 		}
 		n++
@@ -161,6 +166,16 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 		}
 	}
 	return fs, n
+}
+
+// firstErr is the error of the first estimate that has one.
+func firstErr(es ...est) error {
+	for _, e := range es {
+		if e.err != nil {
+			return e.err
+		}
+	}
+	return nil
 }
 
 func (a *Analysis) mustMoments() *Moments {

@@ -59,6 +59,7 @@ type Analysis struct {
 	equivalence  *equivalenceResult
 	mom          *Moments
 	momErr       error
+	dataErr      error
 	fits         map[string]est
 	declared     []*est
 	plausible    []alternativeGraph
