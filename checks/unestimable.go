@@ -100,4 +100,3 @@ func observedRows(cols [][]float64) [][]float64 {
 	}
 	return out
 }
-
