@@ -105,7 +105,7 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	a.Claims[i].MissingData = out
 	if why := a.graphContradiction(c); why != "" {
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s is not weighed here: the declared graph itself gives it no effect (%s); see graph-declared.", c.ID, why)}}, false
+			"%s is not weighed here: the declared graph itself gives it no effect, %s (see graph-declared).", c.ID, why)}}, false
 	}
 	declaredKey, principledKey := comparison(method, ests)
 	d, p := ests[declaredKey], ests[principledKey]

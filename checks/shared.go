@@ -26,8 +26,8 @@ func (a *Analysis) eValues() []claimEValue {
 		case !Causal(c.Kind) || c.AssertsAbsence:
 			continue // nothing to explain away
 		case a.graphContradiction(c) != "":
-			a.evs[i] = claimEValue{contradicted: true, why: "the declared graph itself gives it no effect (" +
-				a.graphContradiction(c) + "); see graph-declared"}
+			a.evs[i] = claimEValue{contradicted: true, why: "the declared graph itself gives it no effect: " +
+				a.graphContradiction(c) + " (see graph-declared)"}
 		default:
 			ev, why := a.eValue(i, c)
 			a.evs[i] = claimEValue{ev: ev, why: why}
