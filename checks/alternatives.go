@@ -19,6 +19,12 @@ var alternativesCheck = Check{
 	ID:    "alternatives",
 	Title: "Stated alternative graphs",
 	Run:   runAlternatives,
+	Summaries: map[string]string{
+		StatusPass:          "No claim changes its conclusion under a stated alternative that fits the data about as well as the declared graph.",
+		StatusWarn:          "The stated alternatives need attention; see the findings.",
+		StatusFail:          "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it.",
+		StatusNotApplicable: "No alternatives are stated, and the paper makes no causal claim.",
+	},
 }
 
 func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
@@ -30,7 +36,7 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 			Summary:  "The paper states no alternative graph for its causal claims; ask which other causal orders the authors considered and why they rejected them.",
 			Findings: []Finding{{Severity: StatusWarn, Message: "No alternative graph is stated, so nothing shows the causal claims were weighed against another causal order."}}}, nil
 	case len(s.Alternatives) == 0:
-		return CheckResult{Status: StatusNotApplicable, Summary: "No alternatives are stated, and the paper makes no causal claim."}, nil
+		return CheckResult{Status: StatusNotApplicable}, nil
 	case s.Declared == nil:
 		return CheckResult{Status: StatusNotApplicable, Summary: "Alternatives are stated but no declared graph, so there is nothing to compare them with."}, nil
 	}

@@ -28,6 +28,12 @@ var causalLanguageCheck = Check{
 	ID:    "causal-language",
 	Title: "Causal language and the target trial",
 	Run:   runCausalLanguage,
+	Summaries: map[string]string{
+		StatusPass:          "Causal wording is backed by what the package supplies; see the findings.",
+		StatusWarn:          "Causal wording from a non-randomized design is not fully backed by what the package supplies; see the findings.",
+		StatusFail:          "A claim is worded causally without the support a non-randomized design needs; see the findings.",
+		StatusNotApplicable: "No claim is causal or worded causally.",
+	},
 }
 
 func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
@@ -58,7 +64,7 @@ func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
 			res.Status, res.Summary = StatusNotApplicable, "The design is randomized and no claim uses causal wording."
 		}
 	case !causal:
-		res.Status, res.Summary = StatusNotApplicable, "No claim is causal or worded causally."
+		res.Status = StatusNotApplicable
 	default:
 		res.Status = statusOf(fs)
 		res.Summary = languageSummary(res.Status, worded)
@@ -74,10 +80,8 @@ func languageSummary(status string, worded int) string {
 		return "No claim is worded causally, but the target trial behind the causal claims is not fully described; see the findings."
 	case status == StatusPass:
 		return "Causal wording is backed by a declared graph, a discussion of equivalent graphs, E-values where a claim needs them, and a described target trial."
-	case status == StatusWarn:
-		return "Causal wording from a non-randomized design is not fully backed by what the package supplies; see the findings."
 	}
-	return "A claim is worded causally without the support a non-randomized design needs; see the findings."
+	return "" // the declared summary
 }
 
 func hasCausalClaim(p *Package) bool {

@@ -26,6 +26,11 @@ var confoundingCheck = Check{
 	ID:    "confounding-sensitivity",
 	Title: "Sensitivity to unmeasured confounding",
 	Run:   runConfounding,
+	Summaries: map[string]string{
+		StatusPass:          "An unmeasured confounder would need to be strongly associated with both cause and outcome to explain the causal claims away.",
+		StatusWarn:          "Modest unmeasured confounding could explain some causal claims away, and the paper's design does not rule it out; see the E-values.",
+		StatusNotApplicable: "The paper makes no causal claim, so there is nothing to explain away.",
+	},
 }
 
 // EValue is a causal claim's E-values (VanderWeele & Ding 2017).
@@ -63,13 +68,12 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 		}
 	}
 	if len(fs) == 0 {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The paper makes no causal claim, so there is nothing to explain away."}, nil
+		return CheckResult{Status: StatusNotApplicable}, nil
 	}
 	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: map[string]any{"claims_with_e_value": computed, "weak_e_value_below": weakEValue}}
-	res.Summary = map[string]string{
-		StatusPass: "An unmeasured confounder would need to be strongly associated with both cause and outcome to explain the causal claims away.",
-		StatusWarn: "Modest unmeasured confounding could explain some causal claims away, and the paper's design does not rule it out; see the E-values.",
-	}[res.Status]
+	if computed == 0 && res.Status == StatusPass { // only claims the declared graph gives no effect
+		res.Status, res.Summary = StatusNotApplicable, "No causal claim is left to explain away: the declared graph gives each no effect (see graph-declared)."
+	}
 	return res, nil
 }
 

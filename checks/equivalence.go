@@ -20,6 +20,12 @@ var equivalenceCheck = Check{
 	ID:    "equivalence",
 	Title: "Equivalent graphs",
 	Run:   runEquivalence,
+	Summaries: map[string]string{
+		StatusPass:          "No claim changes sign or significance among the graphs that fit the data exactly as well as the declared one.",
+		StatusWarn:          "Some claims or the equivalent graphs need attention; see the findings.",
+		StatusFail:          "A headline claim depends on a choice among equivalent graphs that the paper does not discuss; see the findings.",
+		StatusNotApplicable: "No causal graph is declared, so there is no equivalence class to report.",
+	},
 }
 
 // equivalenceResult is the declared graph's class, shared by the checks.
@@ -47,7 +53,7 @@ func (a *Analysis) equivalenceClass() *equivalenceResult {
 func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 	s := a.Study
 	if s.Declared == nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "No causal graph is declared, so there is no equivalence class to report."}, nil
+		return CheckResult{Status: StatusNotApplicable}, nil
 	}
 	eq := a.equivalenceClass()
 	graph, err := graphReport(s, eq)

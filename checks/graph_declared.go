@@ -14,6 +14,12 @@ var graphDeclaredCheck = Check{
 	ID:    "graph-declared",
 	Title: "Declared causal graph",
 	Run:   runGraphDeclared,
+	Summaries: map[string]string{
+		StatusPass:          "A causal graph is declared, it is acyclic, it respects the stated background knowledge, and every claim's variables are in it.",
+		StatusWarn:          "A causal graph is declared and acyclic, but it does not fully carry some claims; see the findings.",
+		StatusFail:          "Causal claims are made without a declared graph, or are not arrows or paths of it; see the findings.",
+		StatusNotApplicable: "No causal graph is declared, and none is needed: every claim is an association.",
+	},
 }
 
 func runGraphDeclared(_ context.Context, a *Analysis) (CheckResult, error) {
@@ -40,11 +46,9 @@ func runGraphDeclared(_ context.Context, a *Analysis) (CheckResult, error) {
 		fs = append(fs, Finding{Severity: SeverityInfo, Message: "Data columns skipped as the package asks: " + strings.Join(ign, ", ") + "."})
 	}
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: graphMetrics(s, outside)}
-	res.Summary = map[string]string{
-		StatusPass: "A causal graph is declared, it is acyclic, it respects the stated background knowledge, and every claim's variables are in it.",
-		StatusWarn: "A causal graph is declared and acyclic, but it does not fully carry some claims; see the findings.",
-		StatusFail: "A causal graph is declared, but some causal claims are not arrows or paths of it; see the findings.",
-	}[res.Status]
+	if res.Status == StatusFail {
+		res.Summary = "A causal graph is declared, but some causal claims are not arrows or paths of it; see the findings."
+	}
 	return res, nil
 }
 
@@ -73,8 +77,7 @@ func noGraph(s *Study) CheckResult {
 	}
 	metrics := map[string]any{"graph_declared": false}
 	if len(fs) == 0 {
-		return CheckResult{Status: StatusNotApplicable, Metrics: metrics,
-			Summary: "No causal graph is declared, and none is needed: every claim is an association."}
+		return CheckResult{Status: StatusNotApplicable, Metrics: metrics}
 	}
 	return CheckResult{Status: StatusFail, Findings: fs, Metrics: metrics,
 		Summary: fmt.Sprintf("The paper makes %s without declaring a causal graph; ask the authors for the graph their analysis assumes.", count(len(fs), "causal claim", "causal claims"))}

@@ -30,6 +30,12 @@ var graphFitCheck = Check{
 	ID:    "graph-fit",
 	Title: "Fit of the declared graph",
 	Run:   runGraphFit,
+	Summaries: map[string]string{
+		StatusPass:          "The data do not contradict the declared graph's testable implications.",
+		StatusWarn:          "The declared graph fits the data only loosely; see the findings.",
+		StatusFail:          "The data reject independences the declared graph implies; see the findings.",
+		StatusNotApplicable: "No causal graph is declared, so there is nothing to test against the data.",
+	},
 }
 
 // modelFit is a graph's fit over the nodes of the declared graph.
@@ -81,7 +87,7 @@ func (a *Analysis) fitGraph(g *dag.PDAG, in []bool) (*modelFit, error) {
 func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 	s := a.Study
 	if s.Declared == nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "No causal graph is declared, so there is nothing to test against the data."}, nil
+		return CheckResult{Status: StatusNotApplicable}, nil
 	}
 	m, err := a.moments()
 	if err != nil {

@@ -21,6 +21,12 @@ var measurementCheck = Check{
 	ID:    "measurement",
 	Title: "Measurement error",
 	Run:   runMeasurement,
+	Summaries: map[string]string{
+		StatusPass:          "Correcting for measurement error changes the conclusion of no claim it could re-estimate.",
+		StatusWarn:          "Measurement error needs attention; see the findings.",
+		StatusFail:          "Correcting for measurement error changes the sign or significance of a headline claim.",
+		StatusNotApplicable: "Nothing here is open to a correction for measurement error.",
+	},
 }
 
 // MeasurementResult is a claim re-estimated on the correlation matrix
@@ -82,7 +88,7 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 func measurementSummary(status string, metrics map[string]any, claims int, impossible bool) string {
 	switch {
 	case status == StatusFail:
-		return "Correcting for measurement error changes the sign or significance of a headline claim."
+		return "" // the declared summary
 	case impossible:
 		return "Corrected for the reported reliabilities, the correlations are impossible, so the claims could not be re-estimated; the reliabilities or the correlations need checking."
 	case status == StatusWarn:

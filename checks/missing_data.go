@@ -18,6 +18,12 @@ var missingDataCheck = Check{
 	ID:    "missing-data",
 	Title: "Missing data",
 	Run:   runMissingData,
+	Summaries: map[string]string{
+		StatusPass:          "No claim changes its conclusion once missing values are handled by a principled method.",
+		StatusWarn:          "The way missing values were handled or reported needs attention; see the findings.",
+		StatusFail:          "A headline claim changes sign or significance once missing values are handled by a principled method; the conclusion rests on the missing-data method, not on the data.",
+		StatusNotApplicable: "No value is missing in the data, so there is nothing to re-analyse.",
+	},
 }
 
 // Imputations is m, the number of imputed datasets.
@@ -227,7 +233,6 @@ func completeRows(method string, res CheckResult) CheckResult {
 		return res
 	}
 	res.Status = StatusNotApplicable
-	res.Summary = "No value is missing in the data, so there is nothing to re-analyse."
 	return res
 }
 

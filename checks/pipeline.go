@@ -14,6 +14,11 @@ type Check struct {
 	ID    string
 	Title string
 	Run   func(ctx context.Context, a *Analysis) (CheckResult, error)
+	// Summaries has the summary sentence of every status the check can
+	// end with. Run may return a sentence more specific to the package,
+	// which replaces it; a status without a summary here is an internal
+	// error, reported as such.
+	Summaries map[string]string
 }
 
 // Pipeline returns the checks in pipeline order (report-format.md, "Fixed
@@ -124,6 +129,11 @@ func runCheck(ctx context.Context, c Check, a *Analysis) (res CheckResult) {
 	if err != nil {
 		return failedToRun(c, err.Error())
 	}
+	declared, ok := c.Summaries[res.Status]
+	if !ok {
+		return failedToRun(c, fmt.Sprintf("internal error: the check ended with status %q, for which it declares no summary", res.Status))
+	}
+	res.Summary = cmp.Or(res.Summary, declared)
 	res.ID, res.Title = c.ID, c.Title
 	if res.Findings == nil {
 		res.Findings = []Finding{}
