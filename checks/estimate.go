@@ -36,7 +36,11 @@ type est struct {
 	note     string
 	// zero says why the graph makes the estimate zero (MethodZero).
 	zero string
-	err  error
+	// mcse is the Monte Carlo error of a pooled estimate, on its pooling
+	// scale; nearLine that it could carry it across the significance line.
+	mcse     float64
+	nearLine bool
+	err      error
 }
 
 func (e est) ok() bool { return e.err == nil }
@@ -67,7 +71,10 @@ type Estimate struct {
 	// StructuralZero says why the graph itself makes the estimate "no
 	// effect"; its SE, interval and p-value are then null, not 0.
 	StructuralZero string `json:"structural_zero,omitempty"`
-	Error          string `json:"error,omitempty"`
+	// MonteCarloError is the Monte Carlo error of a pooled
+	// multiple-imputation estimate, sqrt(B/m), on its pooling scale.
+	MonteCarloError *float64 `json:"monte_carlo_error,omitempty"`
+	Error           string   `json:"error,omitempty"`
 }
 
 // finite returns a pointer to x rounded for a report, or nil where x is
@@ -95,6 +102,9 @@ func (a *Analysis) report(e est) *Estimate {
 		return r
 	}
 	r.Estimate, r.StdError, r.PValue = finite(e.value), finite(e.se), finite(e.p)
+	if e.method == "multiple_imputation" {
+		r.MonteCarloError = finite(e.mcse)
+	}
 	if lo, hi := finite(e.lo), finite(e.hi); lo != nil && hi != nil {
 		r.CI = []float64{*lo, *hi}
 	}

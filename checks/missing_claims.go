@@ -1,8 +1,12 @@
 package checks
 
 import (
+	"context"
 	"fmt"
 	"math"
+	"strings"
+
+	"gonum.org/v1/gonum/stat/distuv"
 
 	"github.com/pathvet/pathvet/checks/effects"
 	"github.com/pathvet/pathvet/checks/missing"
@@ -83,7 +87,14 @@ var methodLabel = map[string]string{
 	MissingMeanSubstitution:   "mean substitution",
 	MissingSingleRegression:   "single regression imputation",
 	MissingMaximumLikelihood:  "maximum likelihood (EM)",
-	MissingMultipleImputation: fmt.Sprintf("multiple imputation with %d imputations", Imputations),
+}
+
+// label names a method in sentences; multiple imputation with the m it ran.
+func (r *missingResult) label(key string) string {
+	if key == MissingMultipleImputation {
+		return fmt.Sprintf("multiple imputation with %d imputations", max(len(r.imputed), Imputations))
+	}
+	return methodLabel[key]
 }
 
 // claimMissing estimates a claim by every method, fills
@@ -109,13 +120,13 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	}
 	declaredKey, principledKey := comparison(method, ests)
 	d, p := ests[declaredKey], ests[principledKey]
-	if f := uncompared(c, ests, declaredKey, principledKey); f != nil {
+	if f := r.uncompared(c, ests, declaredKey, principledKey); f != nil {
 		return f, false
 	}
 	if d.category(a.Alpha) == p.category(a.Alpha) {
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
 			"%s %s: %s by %s, %s by %s.", c.ID, agreement(d, p, a.Alpha),
-			valueText(d), methodLabel[declaredKey], valueText(p), methodLabel[principledKey])}}, false
+			valueText(d), r.label(declaredKey), valueText(p), r.label(principledKey))}}, false
 	}
 	sev := StatusWarn
 	if c.Headline {
@@ -124,13 +135,13 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	level := claimLevel(c)
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
 		"%s is %s by %s (%s) but %s by %s (%s): the conclusion depends on how missing values were handled.",
-		c.ID, valueText(d), methodLabel[declaredKey], ciText(d, level), valueText(p), methodLabel[principledKey], ciText(p, level))}}, true
+		c.ID, valueText(d), r.label(declaredKey), ciText(d, level), valueText(p), r.label(principledKey), ciText(p, level))}}, true
 }
 
 // uncompared is the warning for a claim whose declared-method or
 // principled estimate could not be made, with the reason; nil when both
 // were made.
-func uncompared(c Claim, ests map[string]est, declaredKey, principledKey string) []Finding {
+func (r *missingResult) uncompared(c Claim, ests map[string]est, declaredKey, principledKey string) []Finding {
 	for _, key := range []string{declaredKey, principledKey} {
 		e, ok := ests[key]
 		why := "that method could not be run on these data"
@@ -142,7 +153,7 @@ func uncompared(c Claim, ests map[string]est, declaredKey, principledKey string)
 		}
 		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s could not be estimated by %s (%s), so whether its conclusion depends on how missing values were handled is not known.",
-			c.ID, methodLabel[key], why)}}
+			c.ID, r.label(key), why)}}
 	}
 	return nil
 }
@@ -205,7 +216,9 @@ func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
 	}
 	e := est{method: "multiple_imputation", scale: first.scale, n: first.n, adjusted: first.adjusted, p: pr.P,
 		value: pr.Estimate, additive: pr.Estimate, se: pr.StdError, lo: pr.CI[0], hi: pr.CI[1],
-		note: fmt.Sprintf("%d imputations pooled by Rubin's rules; Barnard–Rubin df %.1f; fraction of missing information %.2f", pr.M, pr.DF, pr.FMI)}
+		note: fmt.Sprintf("%d imputations pooled by Rubin's rules; Barnard–Rubin df %.1f; fraction of missing information %.2f; "+
+			"Monte Carlo error of the pooled estimate %.2g%s", pr.M, pr.DF, pr.FMI, monteCarloError(pr), poolScaleNote(first))}
+	e.mcse, e.nearLine = monteCarloError(pr), nearLine(pr, a.Alpha)
 	switch {
 	case first.method == MethodPartial:
 		e.value, e.lo, e.hi, e.se = math.Tanh(pr.Estimate), math.Tanh(pr.CI[0]), math.Tanh(pr.CI[1]), math.NaN()
@@ -214,6 +227,87 @@ func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
 		e.value, e.lo, e.hi, e.se = math.Exp(pr.Estimate), math.Exp(pr.CI[0]), math.Exp(pr.CI[1]), math.NaN()
 	}
 	return e
+}
+
+// raiseImputations raises m to MaxImputations where the Monte Carlo error
+// of some claim's pooled estimate could carry it across the significance
+// line (White, Royston & Wood 2011 advise m large enough that it cannot).
+func (a *Analysis) raiseImputations(ctx context.Context, r *missingResult) {
+	if r.err != nil || len(r.imputed) == 0 || len(r.imputed) >= MaxImputations {
+		return
+	}
+	if r.raised = a.claimsNearLine(r.imputed); len(r.raised) == 0 {
+		return
+	}
+	imps, err := a.impute(ctx, r.em, MaxImputations)
+	if err != nil {
+		r.raiseErr = err
+		return
+	}
+	r.imputed, r.stillNear = imps, a.claimsNearLine(imps)
+}
+
+// claimsNearLine lists the claims whose pooled estimate lies within Monte
+// Carlo error of the significance line.
+func (a *Analysis) claimsNearLine(imputed []*Moments) []string {
+	var ids []string
+	for _, c := range a.Study.Package.Claims {
+		if a.graphContradiction(c) != "" {
+			continue
+		}
+		if e := a.pooled(c, a.declaredParentsFor(c), imputed); e.ok() && e.nearLine {
+			ids = append(ids, c.ID)
+		}
+	}
+	return ids
+}
+
+// raisedFindings say where m was raised and whether that settled it.
+func raisedFindings(r *missingResult) []Finding {
+	if len(r.raised) == 0 {
+		return nil
+	}
+	ids := strings.Join(r.raised, ", ")
+	if r.raiseErr != nil {
+		return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
+			"With %d imputations the Monte Carlo error could carry the pooled estimate of %s across the significance line, and raising m failed (%v): read %s as on the line.",
+			Imputations, ids, r.raiseErr, ids)}}
+	}
+	msg := fmt.Sprintf("Multiple imputation was run with %d imputations, not %d: with %d, the Monte Carlo error could have carried the pooled estimate of %s across the significance line.",
+		len(r.imputed), Imputations, Imputations, ids)
+	if len(r.stillNear) > 0 {
+		msg += fmt.Sprintf(" With %d it still could for %s: read %s as on the line.", len(r.imputed), strings.Join(r.stillNear, ", "), strings.Join(r.stillNear, ", "))
+	}
+	return []Finding{{Severity: SeverityInfo, Message: msg}}
+}
+
+// monteCarloError is the Monte Carlo standard error of a pooled estimate,
+// sqrt(B/m): how much Q̄ would move with another set of m imputations
+// (Rubin 1987, sec. 3.3; White, Royston & Wood 2011, sec. 7.3).
+func monteCarloError(pr missing.Pooled) float64 {
+	return math.Sqrt(pr.Between / float64(pr.M))
+}
+
+// nearLine reports whether the Monte Carlo error could carry a pooled
+// estimate across the significance line at alpha: |Q̄| within two Monte
+// Carlo errors of t(1 − α/2, df)·SE. (The Monte Carlo error of the SE
+// itself is smaller and left out.)
+func nearLine(pr missing.Pooled, alpha float64) bool {
+	crit := distuv.UnitNormal.Quantile(1 - alpha/2)
+	if !math.IsInf(pr.DF, 1) && pr.DF > 0 {
+		crit = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: pr.DF}.Quantile(1 - alpha/2)
+	}
+	return math.Abs(math.Abs(pr.Estimate)-crit*pr.StdError) < 2*monteCarloError(pr)
+}
+
+func poolScaleNote(first est) string {
+	switch {
+	case first.method == MethodPartial:
+		return " (on Fisher's z scale)"
+	case first.scale == "odds_ratio":
+		return " (on the log-odds scale)"
+	}
+	return ""
 }
 
 // pooledScale gives an estimate and its variance on the scale Rubin's
@@ -246,10 +340,10 @@ func missingSummary(status string, changed, uncompared int, method string, r *mi
 			count(changed, "claim", "claims"), map[bool]string{true: "changes", false: "change"}[changed == 1])
 	case uncompared > 0:
 		return fmt.Sprintf("%s could not be compared between %s and %s, so the screen of missing data is incomplete; see the findings.",
-			count(uncompared, "claim", "claims"), methodLabel[dk], methodLabel[pk])
+			count(uncompared, "claim", "claims"), r.label(dk), r.label(pk))
 	case status == StatusWarn:
-		return fmt.Sprintf("No claim changes its conclusion between %s and %s, but the way missing values were handled or reported needs attention; see the findings.", methodLabel[dk], methodLabel[pk])
+		return fmt.Sprintf("No claim changes its conclusion between %s and %s, but the way missing values were handled or reported needs attention; see the findings.", r.label(dk), r.label(pk))
 	}
 	return fmt.Sprintf("No claim changes its conclusion (the sign of a significant estimate, or its non-significance) between %s and %s (%d of %d rows complete).",
-		methodLabel[dk], methodLabel[pk], r.summary.CompleteRows, r.summary.Rows)
+		r.label(dk), r.label(pk), r.summary.CompleteRows, r.summary.Rows)
 }

@@ -2,8 +2,8 @@ package checks
 
 import (
 	"context"
+	"crypto/sha256"
 	"encoding/binary"
-	"encoding/hex"
 	"fmt"
 	"math"
 
@@ -26,8 +26,13 @@ var missingDataCheck = Check{
 	},
 }
 
-// Imputations is m, the number of imputed datasets.
-const Imputations = missing.DefaultImputations
+// Imputations is m, the number of imputed datasets; MaxImputations the m
+// it is raised to where the Monte Carlo error of a pooled estimate could
+// move it across the significance line.
+const (
+	Imputations    = missing.DefaultImputations
+	MaxImputations = 100
+)
 
 // unsoundMethods bias coefficients and understate uncertainty (Little &
 // Rubin, Statistical Analysis with Missing Data, ch. 4).
@@ -48,6 +53,12 @@ type missingResult struct {
 	imputed     []*Moments
 	pairwiseErr string
 	err         error
+	// raised lists the claims whose pooled estimate, with Imputations,
+	// lay within Monte Carlo error of the significance line, so that m
+	// was raised to MaxImputations; stillNear those for which it still
+	// does; raiseErr why raising failed.
+	raised, stillNear []string
+	raiseErr          error
 }
 
 func (a *Analysis) missingData(ctx context.Context) *missingResult {
@@ -74,34 +85,62 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	}
 	r.moments[MissingMaximumLikelihood] = emMoments(em, d.N)
 	a.declaredMethodMoments(r)
+	r.imputed, r.err = a.impute(ctx, em, Imputations)
+	a.raiseImputations(ctx, r)
+	return r
+}
+
+// impute makes m imputed datasets and their moments.
+func (a *Analysis) impute(ctx context.Context, em *missing.EMResult, m int) ([]*Moments, error) {
+	binary := a.binaryVariables()
+	cols := a.Study.Data.Columns
+	imps, err := missing.Impute(ctx, cols, em, missing.ImputeOptions{M: m, Seed: dataSeed(cols, binary), Binary: binary})
+	if err != nil {
+		return nil, err
+	}
+	var out []*Moments
+	for k, imp := range imps {
+		// The method names the run (k of m), so estimates cached for one
+		// set of imputations are never read for another.
+		mo, err := rowMoments(columnsMatrix(imp), fmt.Sprintf("imputation_%d_of_%d", k+1, m))
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, mo)
+	}
+	return out, nil
+}
+
+func (a *Analysis) binaryVariables() []bool {
 	binary := make([]bool, len(a.Study.Names))
 	for i, v := range a.Study.Package.Variables {
 		binary[i] = v.Scale == ScaleBinary
 	}
-	imps, err := missing.Impute(ctx, d.Columns, em, missing.ImputeOptions{M: Imputations, Seed: seedOf(a.Study.SHA256), Binary: binary})
-	if err != nil {
-		r.err = err
-		return r
-	}
-	for k, cols := range imps {
-		m, err := rowMoments(columnsMatrix(cols), fmt.Sprintf("imputation_%d", k+1))
-		if err != nil {
-			r.err, r.imputed = err, nil
-			return r
-		}
-		r.imputed = append(r.imputed, m)
-	}
-	return r
+	return binary
 }
 
-// seedOf takes the randomness of a report from its package's hash, so the
-// same package always gives the same report.
-func seedOf(sha string) uint64 {
-	b, err := hex.DecodeString(sha)
-	if err != nil || len(b) < 8 {
+// dataSeed takes the randomness of the imputations from what they depend
+// on, the data and which variables are binary, and nothing else: the same
+// data give the same numbers whatever the title, texts or names say.
+func dataSeed(cols [][]float64, binaryVars []bool) uint64 {
+	h := sha256.New()
+	var b [8]byte
+	for j, col := range cols {
+		binary.BigEndian.PutUint64(b[:], uint64(len(col))<<1|uint64(boolInt(binaryVars[j])))
+		h.Write(b[:])
+		for _, v := range col {
+			binary.BigEndian.PutUint64(b[:], math.Float64bits(v))
+			h.Write(b[:])
+		}
+	}
+	return binary.BigEndian.Uint64(h.Sum(nil)[:8])
+}
+
+func boolInt(b bool) int {
+	if b {
 		return 1
 	}
-	return binary.BigEndian.Uint64(b[:8])
+	return 0
 }
 
 func emMoments(em *missing.EMResult, n int) *Moments {
@@ -184,7 +223,7 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if r.summary.MissingCells == 0 {
 		return completeRows(method, res), nil
 	}
-	res.Findings = methodFindings(method, r)
+	res.Findings = append(methodFindings(method, r), raisedFindings(r)...)
 	if r.err != nil {
 		res.Findings = append(res.Findings, Finding{Severity: StatusWarn, Message: "The claims could not be re-estimated by " + principledMissing(r) + ": " + r.err.Error() + "."})
 	}
@@ -261,6 +300,9 @@ func (a *Analysis) missingMetrics(r *missingResult) map[string]any {
 	if r.em != nil {
 		m["em_iterations"], m["em_converged"], m["em_tolerance"] = r.em.Iterations, r.em.Converged, r.em.Tolerance
 		m["em_max_iterations"] = missing.DefaultMaxIter
+	}
+	if len(r.raised) > 0 {
+		m["imputations_raised_for"] = r.raised
 	}
 	if len(r.imputed) > 0 {
 		m["imputations"] = len(r.imputed)

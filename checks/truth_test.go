@@ -140,3 +140,43 @@ func runWith(tb testing.TB, path string, cs []checks.Check) *checks.Report {
 	}
 	return r
 }
+
+// A cosmetic edit moves no number: the imputations are seeded from the
+// data, not from the whole package (a trailing space in the title, a
+// reworded claim text).
+func TestRun_CosmeticEditMovesNoNumber(t *testing.T) {
+	path := "../testdata/demo/sleep-attention/package.json"
+	want := mustRun(t, MustLoad(t, path))
+	for _, edit := range [][2]string{
+		{`"title": "`, `"title": " `},
+		{"Students with part-time jobs sleep less", "Students with part-time jobs sleep less each night"},
+	} {
+		got := mustRun(t, loadEdited(t, path, edit[0], edit[1]))
+		if got.PackageSHA256 == want.PackageSHA256 {
+			t.Fatalf("%q: the edit did not change the package", edit[1])
+		}
+		if !reflect.DeepEqual(got.Claims, want.Claims) || !reflect.DeepEqual(got.Checks, want.Checks) {
+			t.Errorf("%q: the report's numbers or sentences moved", edit[1])
+		}
+	}
+}
+
+// Where the Monte Carlo error of a pooled estimate could carry it across
+// the significance line, m is raised and the report says so
+// (sleep-attention: S1's pooled estimate with 20 imputations is within two
+// Monte Carlo errors of the line).
+func TestMissingData_RaisesImputations(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/sleep-attention/package.json"))
+	c := checkOf(r, "missing-data")
+	if c.Metrics["imputations"] != checks.MaxImputations || !reflect.DeepEqual(c.Metrics["imputations_raised_for"], []string{"S1"}) {
+		t.Fatalf("imputations %v, raised for %v", c.Metrics["imputations"], c.Metrics["imputations_raised_for"])
+	}
+	mi := r.Claims[0].MissingData[checks.MissingMultipleImputation]
+	if mi.MonteCarloError == nil || *mi.MonteCarloError <= 0 || !strings.Contains(mi.Note, "100 imputations") {
+		t.Fatalf("S1 pooled %+v", mi)
+	}
+	r = mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
+	if c := checkOf(r, "missing-data"); c.Metrics["imputations"] != checks.Imputations {
+		t.Errorf("coding-club: m = %v, nothing near the line", c.Metrics["imputations"])
+	}
+}

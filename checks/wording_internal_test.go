@@ -169,3 +169,22 @@ func TestLanguageSummary_Branches(t *testing.T) {
 		t.Errorf("%q", got)
 	}
 }
+
+// nearLine: two Monte Carlo errors either side of t(.975, df)·SE.
+// Figures: with df = 1e6 the critical value is 1.95996 (normal quantile).
+func TestNearLine(t *testing.T) {
+	for _, tc := range []struct {
+		est, between float64
+		want         bool
+	}{
+		{0.196, 0.0002, true},  // margin 0.00004, MC error 0.0032
+		{0.250, 0.0002, false}, // margin 0.054, 2 MC errors 0.0063
+		{0.150, 0.0002, false}, // margin −0.046
+		{0.190, 0.0002, true},  // margin −0.006
+	} {
+		pr := missing.Pooled{M: 20, Estimate: tc.est, Between: tc.between, StdError: 0.1, DF: 1e6}
+		if got := nearLine(pr, 0.05); got != tc.want {
+			t.Errorf("nearLine(%v) = %v, want %v", tc.est, got, tc.want)
+		}
+	}
+}
