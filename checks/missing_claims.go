@@ -82,11 +82,11 @@ func principledMissing(r *missingResult) string {
 
 // methodLabel names the missing-data methods in sentences.
 var methodLabel = map[string]string{
-	MissingCompleteCases:      "complete cases",
-	MissingAvailableCases:     "available cases",
-	MissingMeanSubstitution:   "mean substitution",
-	MissingSingleRegression:   "single regression imputation",
-	MissingMaximumLikelihood:  "maximum likelihood (EM)",
+	MissingCompleteCases:     "complete cases",
+	MissingAvailableCases:    "available cases",
+	MissingMeanSubstitution:  "mean substitution",
+	MissingSingleRegression:  "single regression imputation",
+	MissingMaximumLikelihood: "maximum likelihood (EM)",
 }
 
 // label names a method in sentences; multiple imputation with the m it ran.
