@@ -114,8 +114,8 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 	}
 	if across.Failed > 0 && !across.Unstable {
 		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be estimated in %d of the %d graphs or parent sets it was tried in, so whether its conclusion holds in all of them is not known.",
-			c.ID, across.Failed, across.Failed+across.Estimates)})
+			"%s could not be estimated in %d of the %s it was tried in, so whether its conclusion holds in all of them is not known.",
+			c.ID, across.Failed, acrossNoun(across.Method, across.Failed+across.Estimates))})
 	}
 	if !across.Unstable {
 		if len(structural) > 0 && structural[0].Severity != SeverityInfo {
@@ -143,7 +143,7 @@ func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) st
 		if ct.Estimate.PValue != nil {
 			p = *ct.Estimate.PValue
 		}
-		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
+		other = fmt.Sprintf("%s (%s)", estText(*ct.Estimate.Estimate), pText(p))
 	}
 	where := ""
 	switch {
@@ -166,6 +166,15 @@ func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) st
 	}
 	return fmt.Sprintf("%s is %s under the declared graph but %s %s%s; the data fit those graphs exactly as well, so the data do not decide this claim, the choice of graph does.",
 		c.ID, valueText(decl), other, scope, where)
+}
+
+// acrossNoun counts what claims were estimated in: plausible graphs, or
+// locally valid parent sets.
+func acrossNoun(method string, n int) string {
+	if method == AcrossParentSets {
+		return count(n, "locally valid parent set", "locally valid parent sets")
+	}
+	return count(n, "plausible graph", "plausible graphs")
 }
 
 // claimWarnings counts the claims with a warning or failure.

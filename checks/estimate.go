@@ -313,7 +313,7 @@ func valueText(e est) string {
 	if e.method == MethodZero {
 		return "zero"
 	}
-	return fmt.Sprintf("%.2f (%s)", e.value, pText(e.p))
+	return fmt.Sprintf("%s (%s)", estText(e.value), pText(e.p))
 }
 
 // declaredEstimate is claim i under the declared graph (or, with none, its
@@ -327,7 +327,11 @@ func (a *Analysis) declaredEstimate(i int) est {
 		if a.Study.Declared != nil && a.claimInGraph(a.Study.Package.Claims[i]) {
 			pa = a.Study.Declared.Parents
 		}
-		e := a.estimateClaim(a.Study.Package.Claims[i], pa)
+		c := a.Study.Package.Claims[i]
+		e := a.estimateClaim(c, pa)
+		if why := a.graphContradiction(c); why != "" && e.ok() {
+			e = structuralZero(c, e.adjusted, why) // a total effect with no directed path, too
+		}
 		a.declared[i] = &e
 	}
 	return *a.declared[i]

@@ -167,7 +167,7 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 				c.ID, valueText(decl), valueText(corr))})
 		} else if math.Abs(corr.value-decl.value) >= 0.05 {
 			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-				"%s moves from %.2f to %.2f (standardized) when corrected for measurement error; it %s.", c.ID, decl.value, corr.value,
+				"%s moves from %s to %s (standardized) when corrected for measurement error; it %s.", c.ID, estText(decl.value), estText(corr.value),
 				agreement(decl, corr, a.Alpha))})
 		}
 	}

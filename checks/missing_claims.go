@@ -13,11 +13,11 @@ import (
 )
 
 // methodFindings judge the declared method against the missingness.
-func methodFindings(method string, r *missingResult) []Finding {
+func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 	share := 100 * float64(r.summary.MissingCells) / float64(r.summary.Rows*len(r.summary.MissingByVariable))
 	fs := []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
-		"%d of %d rows are complete; %.1f%% of the data cells are missing, in %d patterns.",
-		r.summary.CompleteRows, r.summary.Rows, share, r.summary.Patterns)}}
+		"%d of %d rows are complete; %.1f%% of the data cells are missing, in %s.",
+		r.summary.CompleteRows, r.summary.Rows, share, count(r.summary.Patterns, "pattern", "patterns"))}}
 	switch name, bad := unsoundMethods[method]; {
 	case method == "":
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
@@ -37,7 +37,7 @@ func methodFindings(method string, r *missingResult) []Finding {
 	}
 	if r.mcar != nil && !math.IsNaN(r.mcar.P) {
 		sev, tail := SeverityInfo, ""
-		rejected := r.mcar.P < 0.05
+		rejected := r.mcar.P < alpha
 		if rejected && (method == MissingCompleteCases || method == MissingAvailableCases || method == "") {
 			sev, tail = StatusWarn, " An analysis of complete or available cases is then unbiased only under assumptions the data argue against."
 		}
@@ -46,7 +46,7 @@ func methodFindings(method string, r *missingResult) []Finding {
 			verdict = "rejects"
 		}
 		fs = append(fs, Finding{Severity: sev, Message: fmt.Sprintf(
-			"Little's test %s that values are missing completely at random (χ² = %.2f on %d df, %s).%s", verdict, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
+			"Little's test %s at the %g level that values are missing completely at random (χ² = %.2f on %d df, %s).%s", verdict, alpha, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
 	}
 	return fs
 }
@@ -177,7 +177,7 @@ func ciText(e est, level float64) string {
 	if e.method == MethodZero || math.IsNaN(e.lo) || math.IsNaN(e.hi) {
 		return "no interval"
 	}
-	return fmt.Sprintf("%g%% interval %.2f to %.2f", 100*level, e.lo, e.hi)
+	return fmt.Sprintf("%g%% interval %s to %s", 100*level, estText(e.lo), estText(e.hi))
 }
 
 // declaredParentsFor is the graph the declared estimate uses.

@@ -223,7 +223,7 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if r.summary.MissingCells == 0 {
 		return completeRows(method, res), nil
 	}
-	res.Findings = append(methodFindings(method, r), raisedFindings(r)...)
+	res.Findings = append(methodFindings(method, r, a.Alpha), raisedFindings(r)...)
 	if r.err != nil {
 		res.Findings = append(res.Findings, Finding{Severity: StatusWarn, Message: "The claims could not be re-estimated by " + principledMissing(r) + ": " + r.err.Error() + "."})
 	}

@@ -180,3 +180,15 @@ func TestMissingData_RaisesImputations(t *testing.T) {
 		t.Errorf("coding-club: m = %v, nothing near the line", c.Metrics["imputations"])
 	}
 }
+
+// A total effect without a directed path is zero by the declared graph,
+// as graph-declared says, whichever way the regression would come out.
+func TestRun_TotalEffectWithoutPath(t *testing.T) {
+	s := loadEdited(t, "../testdata/demo/coding-club/package.json",
+		`"kind": "direct_effect", "from": "club_member", "to": "practice_hours"`,
+		`"kind": "total_effect", "from": "persistence", "to": "club_member"`)
+	d := mustRun(t, s).Claims[0].Declared
+	if d.Method != checks.MethodZero || d.PValue != nil || !strings.Contains(d.StructuralZero, "no directed path from persistence to club_member") {
+		t.Fatalf("%+v", d)
+	}
+}

@@ -3,6 +3,7 @@ package checks
 import (
 	"fmt"
 	"math"
+	"strconv"
 )
 
 // count writes n with the singular or plural of a noun: "1 claim",
@@ -31,18 +32,27 @@ func agreement(a, b est, alpha float64) string {
 	return "keeps its sign and significance" + sizeChange(a, b)
 }
 
+// estText writes an estimate to two decimals, or to two significant
+// digits where two decimals would show it as 0.00 or -0.00.
+func estText(v float64) string {
+	if v != 0 && math.Abs(v) < 0.005 {
+		return strconv.FormatFloat(v, 'g', 2, 64)
+	}
+	return fmt.Sprintf("%.2f", v)
+}
+
 // sizeChange notes a change of sign, or a change of size by a factor of
 // two or more, between two estimates; empty otherwise.
 func sizeChange(a, b est) string {
 	x, y := a.additive, b.additive
 	switch {
 	case x*y < 0:
-		return fmt.Sprintf(", though its estimate changes sign (%.2f to %.2f)", a.value, b.value)
+		return fmt.Sprintf(", though its estimate changes sign (%s to %s)", estText(a.value), estText(b.value))
 	case x == 0 || y == 0:
 		return ""
 	case math.Abs(y/x) >= 2 || math.Abs(y/x) <= 0.5:
-		return fmt.Sprintf(", though its estimate changes size by a factor of %.1f (%.2f to %.2f)",
-			math.Abs(y/x), a.value, b.value)
+		return fmt.Sprintf(", though its estimate changes size by a factor of %.1f (%s to %s)",
+			math.Abs(y/x), estText(a.value), estText(b.value))
 	}
 	return ""
 }

@@ -66,7 +66,7 @@ func TestPrincipledDone_NamesWhatRan(t *testing.T) {
 		}
 	}
 	fs := methodFindings(MissingMeanSubstitution, &missingResult{
-		summary: missing.Summary{Rows: 10, MissingCells: 1, MissingByVariable: []int{1}}, moments: ml})
+		summary: missing.Summary{Rows: 10, MissingCells: 1, MissingByVariable: []int{1}}, moments: ml}, 0.05)
 	for _, f := range fs {
 		if strings.Contains(f.Message, "multiple imputation") {
 			t.Errorf("names multiple imputation, which did not run: %s", f.Message)
