@@ -10,8 +10,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/api"
-	"github.com/pathvet/pathvet/checks"
-	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/api/service"
 )
 
 // fakeStore answers from memory; its err is returned by every call that
@@ -22,26 +21,26 @@ type fakeStore struct {
 }
 
 func (f *fakeStore) Ping(context.Context) error { return f.pingErr }
-func (f *fakeStore) KeyByToken(_ context.Context, token string) (*store.Key, error) {
+func (f *fakeStore) KeyByToken(_ context.Context, token string) (*service.Key, error) {
 	if token != "good" {
-		return nil, checks.Errorf(checks.ENotFound, "key not found")
+		return nil, service.Errorf(service.ENotFound, "key not found")
 	}
-	return &store.Key{ID: 1, OfficeID: 1, Role: store.RoleEditor}, nil
+	return &service.Key{ID: 1, OfficeID: 1, Role: service.RoleEditor}, nil
 }
-func (f *fakeStore) CreateSubmission(context.Context, store.NewSubmission) (*store.Submission, bool, error) {
+func (f *fakeStore) CreateSubmission(context.Context, service.NewSubmission) (*service.Submission, bool, error) {
 	return nil, false, f.err
 }
-func (f *fakeStore) Submission(context.Context, string, store.Scope) (*store.Submission, error) {
+func (f *fakeStore) Submission(context.Context, string, service.Scope) (*service.Submission, error) {
 	return nil, f.err
 }
-func (f *fakeStore) Submissions(context.Context, store.Filter) ([]*store.Submission, string, error) {
+func (f *fakeStore) Submissions(context.Context, service.Filter) ([]*service.Submission, string, error) {
 	return nil, "", f.err
 }
-func (f *fakeStore) DeleteSubmission(context.Context, string, store.Scope) error { return f.err }
-func (f *fakeStore) Rerun(context.Context, string, store.Scope) (*store.Submission, error) {
+func (f *fakeStore) DeleteSubmission(context.Context, string, service.Scope) error { return f.err }
+func (f *fakeStore) Rerun(context.Context, string, service.Scope) (*service.Submission, error) {
 	return nil, f.err
 }
-func (f *fakeStore) LatestReport(context.Context, string, store.Scope) ([]byte, error) {
+func (f *fakeStore) LatestReport(context.Context, string, service.Scope) ([]byte, error) {
 	return nil, f.err
 }
 
@@ -67,9 +66,9 @@ func TestErrors_MapToProblems(t *testing.T) {
 		status int
 		detail string
 	}{
-		{checks.Errorf(checks.ENotFound, "submission not found"), 404, "submission not found"},
-		{checks.Errorf(checks.EConflict, "busy"), 409, "busy"},
-		{checks.Errorf(checks.EInvalid, "bad cursor"), 400, "bad cursor"},
+		{service.Errorf(service.ENotFound, "submission not found"), 404, "submission not found"},
+		{service.Errorf(service.EConflict, "busy"), 409, "busy"},
+		{service.Errorf(service.EInvalid, "bad cursor"), 400, "bad cursor"},
 		{errors.New("connection reset by peer at 10.1.2.3"), 500, "internal error"},
 	} {
 		rr, p := serve(t, &fakeStore{err: tc.err}, http.MethodGet, "/v1/submissions/x", "good")

@@ -6,8 +6,7 @@ import (
 
 	"github.com/labstack/echo/v4"
 
-	"github.com/pathvet/pathvet/checks"
-	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/api/service"
 )
 
 const keyContext = "pathvet.key"
@@ -21,7 +20,7 @@ func (s *Server) authenticate(next echo.HandlerFunc) echo.HandlerFunc {
 			return problemError(http.StatusUnauthorized, "Send an API key as Authorization: Bearer <token>.")
 		}
 		k, err := s.cfg.Store.KeyByToken(c.Request().Context(), strings.TrimSpace(token))
-		if checks.ErrorCode(err) == checks.ENotFound {
+		if service.ErrorCode(err) == service.ENotFound {
 			return problemError(http.StatusUnauthorized, "The API key is not valid.")
 		}
 		if err != nil {
@@ -32,4 +31,4 @@ func (s *Server) authenticate(next echo.HandlerFunc) echo.HandlerFunc {
 	}
 }
 
-func keyOf(c echo.Context) *store.Key { return c.Get(keyContext).(*store.Key) }
+func keyOf(c echo.Context) *service.Key { return c.Get(keyContext).(*service.Key) }

@@ -2,10 +2,12 @@ package api
 
 import (
 	"errors"
+	"fmt"
 	"net/http"
 
 	"github.com/labstack/echo/v4"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 )
 
@@ -41,38 +43,47 @@ func problemError(status int, detail string) error {
 	return &echo.HTTPError{Code: status, Message: detail}
 }
 
+// codeStatus maps the service's error codes to HTTP statuses.
+var codeStatus = map[string]int{
+	service.EInvalid:     http.StatusBadRequest,
+	service.ENotFound:    http.StatusNotFound,
+	service.EConflict:    http.StatusConflict,
+	service.ETooLarge:    http.StatusRequestEntityTooLarge,
+	service.EUnavailable: http.StatusServiceUnavailable,
+}
+
+const invalidPackageDetail = "The package is not valid; every problem is listed with its JSON pointer or CSV line and column."
+
 // problemFor maps an error to its problem: the one place where error
 // codes become HTTP statuses. An internal error shows only "internal
 // error".
 func problemFor(err error) (Problem, bool) {
 	var he *echo.HTTPError
 	var ip *checks.InvalidPackageError
-	switch code := checks.ErrorCode(err); {
+	var ce *checks.Error
+	switch {
 	case errors.As(err, &he):
 		detail, _ := he.Message.(string)
-		if he.Code == http.StatusRequestEntityTooLarge {
-			detail = "The request body is larger than this server accepts."
-		}
 		return Problem{Status: he.Code, Detail: detail}, false
 	case errors.As(err, &ip) && ip.TooLarge:
 		return Problem{Status: http.StatusRequestEntityTooLarge, Detail: ip.Problems[0].Detail, Errors: ip.Problems}, false
 	case errors.As(err, &ip):
-		return Problem{Status: http.StatusUnprocessableEntity, Detail: "The package is not valid; every problem is listed with its JSON pointer or CSV line and column.", Errors: ip.Problems}, false
-	case code == checks.EInvalid:
-		return Problem{Status: http.StatusBadRequest, Detail: err.Error()}, false
-	case code == checks.ENotFound:
-		return Problem{Status: http.StatusNotFound, Detail: err.Error()}, false
-	case code == checks.EConflict:
-		return Problem{Status: http.StatusConflict, Detail: err.Error()}, false
-	case code == checks.ETooLarge:
-		return Problem{Status: http.StatusRequestEntityTooLarge, Detail: err.Error()}, false
+		return Problem{Status: http.StatusUnprocessableEntity, Detail: invalidPackageDetail, Errors: ip.Problems}, false
+	case errors.As(err, &ce) && ce.Code == checks.EInvalid:
+		return Problem{Status: http.StatusUnprocessableEntity, Detail: ce.Message}, false
 	case errors.Is(err, errTimeout):
 		return Problem{Status: http.StatusGatewayTimeout, Detail: "The request took too long."}, false
+	}
+	if status, ok := codeStatus[service.ErrorCode(err)]; ok {
+		return Problem{Status: status, Detail: err.Error()}, false
 	}
 	return Problem{Status: http.StatusInternalServerError, Detail: "internal error"}, true
 }
 
 var errTimeout = errors.New("timeout")
+
+// retryAfter is the Retry-After of every 503, in seconds.
+const retryAfter = "5"
 
 // handleError is Echo's error handler: every error becomes problem
 // details.
@@ -81,6 +92,9 @@ func (s *Server) handleError(err error, c echo.Context) {
 		return
 	}
 	p, internal := problemFor(err)
+	if he := (*echo.HTTPError)(nil); errors.As(err, &he) && he == echo.ErrStatusRequestEntityTooLarge {
+		p.Detail = fmt.Sprintf("The request body is larger than the limit of %d bytes.", s.bodyLimit())
+	}
 	if internal {
 		s.cfg.Logger.Error("internal error", "error", err, "path", c.Path(), "request_id", c.Response().Header().Get(echo.HeaderXRequestID))
 	}
@@ -90,8 +104,11 @@ func (s *Server) handleError(err error, c echo.Context) {
 	}
 	p.Title = http.StatusText(p.Status)
 	p.Instance = c.Request().URL.Path
-	if p.Status == http.StatusUnauthorized {
+	switch p.Status {
+	case http.StatusUnauthorized:
 		c.Response().Header().Set("WWW-Authenticate", `Bearer realm="pathvet"`)
+	case http.StatusServiceUnavailable:
+		c.Response().Header().Set("Retry-After", retryAfter)
 	}
 	c.Response().Header().Set(echo.HeaderContentType, ProblemContentType)
 	c.Response().WriteHeader(p.Status)

@@ -10,26 +10,26 @@ import (
 
 	"github.com/labstack/echo/v4"
 
-	"github.com/pathvet/pathvet/checks"
-	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/api/service"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // Store is what the API needs from storage; tests may give a fake.
 type Store interface {
 	Ping(ctx context.Context) error
-	KeyByToken(ctx context.Context, token string) (*store.Key, error)
-	CreateSubmission(ctx context.Context, n store.NewSubmission) (*store.Submission, bool, error)
-	Submission(ctx context.Context, id string, sc store.Scope) (*store.Submission, error)
-	Submissions(ctx context.Context, f store.Filter) ([]*store.Submission, string, error)
-	DeleteSubmission(ctx context.Context, id string, sc store.Scope) error
-	Rerun(ctx context.Context, id string, sc store.Scope) (*store.Submission, error)
-	LatestReport(ctx context.Context, id string, sc store.Scope) ([]byte, error)
+	KeyByToken(ctx context.Context, token string) (*service.Key, error)
+	CreateSubmission(ctx context.Context, n service.NewSubmission) (*service.Submission, bool, error)
+	Submission(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
+	Submissions(ctx context.Context, f service.Filter) ([]*service.Submission, string, error)
+	DeleteSubmission(ctx context.Context, id string, sc service.Scope) error
+	Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
+	LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error)
 }
 
 // Config configures the API.
 type Config struct {
 	Store  Store
-	Limits checks.Limits
+	Limits load.Limits
 	Logger *slog.Logger
 	// RequestTimeout bounds each request; long polls stop before it.
 	RequestTimeout time.Duration
@@ -48,8 +48,8 @@ type Server struct {
 
 // New returns the API's HTTP handler with every route registered.
 func New(cfg Config) *Server {
-	if cfg.Limits == (checks.Limits{}) {
-		cfg.Limits = checks.DefaultLimits
+	if cfg.Limits == (load.Limits{}) {
+		cfg.Limits = load.DefaultLimits
 	}
 	if cfg.Logger == nil {
 		cfg.Logger = slog.Default()

@@ -12,8 +12,9 @@ import (
 
 	"github.com/labstack/echo/v4"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
-	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // SubmissionView is a submission as the API shows it.
@@ -39,7 +40,7 @@ type Links struct {
 	Report string `json:"report"`
 }
 
-func view(s *store.Submission) SubmissionView {
+func view(s *service.Submission) SubmissionView {
 	self := "/v1/submissions/" + s.ID
 	return SubmissionView{ID: s.ID, Status: s.Status, Title: s.Title, ManuscriptID: s.ManuscriptID,
 		PackageSHA256: s.PackageSHA256, Score: s.Score, Band: s.Band, Error: s.Error, Attempts: s.Attempts,
@@ -63,7 +64,7 @@ func (s *Server) createSubmission(c echo.Context) error {
 	if err != nil {
 		return err
 	}
-	study, err := checks.Load(doc, checks.LoadOptions{Limits: s.cfg.Limits, CSV: data})
+	study, err := load.Load(doc, load.Options{Limits: s.cfg.Limits, CSV: data})
 	if err != nil {
 		return err
 	}
@@ -71,7 +72,7 @@ func (s *Server) createSubmission(c echo.Context) error {
 	if len(idem) > 200 {
 		return problemError(http.StatusBadRequest, "The Idempotency-Key header is longer than 200 characters.")
 	}
-	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), store.NewSubmission{
+	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), service.NewSubmission{
 		Key: keyOf(c), Package: doc, Data: data, Title: study.Package.Title,
 		ManuscriptID: study.Package.ManuscriptID, PackageSHA256: study.SHA256, IdempotencyKey: idem,
 	})
@@ -166,7 +167,7 @@ func (s *Server) getSubmission(c echo.Context) error {
 		if err != nil {
 			return err
 		}
-		finished := sub.Status == store.StatusDone || sub.Status == store.StatusFailed
+		finished := sub.Status == service.StatusDone || sub.Status == service.StatusFailed
 		if finished || !time.Now().Add(s.cfg.PollInterval).Before(deadline) {
 			return c.JSON(http.StatusOK, view(sub))
 		}
@@ -204,11 +205,11 @@ type SubmissionList struct {
 	NextCursor  string           `json:"next_cursor,omitempty"`
 }
 
-var validStatus = map[string]bool{"": true, store.StatusQueued: true, store.StatusRunning: true, store.StatusDone: true, store.StatusFailed: true}
+var validStatus = map[string]bool{"": true, service.StatusQueued: true, service.StatusRunning: true, service.StatusDone: true, service.StatusFailed: true}
 var validBand = map[string]bool{"": true, checks.BandLow: true, checks.BandModerate: true, checks.BandHigh: true}
 
 func (s *Server) listSubmissions(c echo.Context) error {
-	f := store.Filter{Scope: keyOf(c).Scope(), ManuscriptID: c.QueryParam("manuscript_id"),
+	f := service.Filter{Scope: keyOf(c).Scope(), ManuscriptID: c.QueryParam("manuscript_id"),
 		Status: c.QueryParam("status"), Band: c.QueryParam("band"), Cursor: c.QueryParam("cursor")}
 	switch {
 	case !validStatus[f.Status]:
@@ -218,8 +219,8 @@ func (s *Server) listSubmissions(c echo.Context) error {
 	}
 	if l := c.QueryParam("limit"); l != "" {
 		n, err := strconv.Atoi(l)
-		if err != nil || n < 1 || n > store.MaxPage {
-			return problemError(http.StatusBadRequest, fmt.Sprintf("limit must be a whole number from 1 to %d.", store.MaxPage))
+		if err != nil || n < 1 || n > service.MaxPage {
+			return problemError(http.StatusBadRequest, fmt.Sprintf("limit must be a whole number from 1 to %d.", service.MaxPage))
 		}
 		f.Limit = n
 	}

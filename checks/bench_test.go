@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // benchPackage is a summary-data package on p variables from a random
@@ -72,7 +73,7 @@ func BenchmarkPipelineSummary(b *testing.B) {
 		b.Run(fmt.Sprintf("p=%d", p), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				s, err := checks.Load(doc, checks.LoadOptions{})
+				s, err := load.Load(doc, load.Options{})
 				if err != nil {
 					b.Fatal(err)
 				}
@@ -86,7 +87,7 @@ func BenchmarkPipelineSummary(b *testing.B) {
 
 func TestBenchPackagesLoad(t *testing.T) {
 	for _, p := range []int{10, 30, 100} {
-		if _, err := checks.Load(benchPackage(p), checks.LoadOptions{}); err != nil {
+		if _, err := load.Load(benchPackage(p), load.Options{}); err != nil {
 			t.Fatalf("p=%d: %v", p, err)
 		}
 	}

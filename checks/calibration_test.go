@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // calibration are the scores the README quotes (section "Score"), held
@@ -81,7 +82,7 @@ func TestEffectReporting_Consistency(t *testing.T) {
 	doc = bytes.Replace(doc, []byte(`"std_error": 0.030,
      "ci": [0.26, 0.38], "p_value": 0.001, "p_relation": "<"`), []byte(`"std_error": 0.030,
      "ci": [0.26, 0.38], "p_value": 0.06`), 1)
-	s, err := checks.Load(doc, checks.LoadOptions{})
+	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -141,7 +142,7 @@ func TestMeasurement_Correction(t *testing.T) {
 	}
 	doc, _ := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
 	doc = bytes.Replace(doc, []byte(`"reliability": 0.84`), []byte(`"reliability": 0.12`), 1)
-	s, err := checks.Load(doc, checks.LoadOptions{})
+	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

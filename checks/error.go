@@ -6,12 +6,11 @@ import (
 	"strings"
 )
 
-// Error codes shared by the core and its adapters; the API maps them to
-// HTTP statuses in one place.
+// Error codes of the statistics package: a package it cannot analyse, or
+// one past a size limit. The service's own codes (not found, conflict,
+// unavailable) live in api/service.
 const (
 	EInvalid  = "invalid"
-	ENotFound = "not_found"
-	EConflict = "conflict"
 	ETooLarge = "too_large"
 	EInternal = "internal"
 )
@@ -84,34 +83,4 @@ func (e *InvalidPackageError) Error() string {
 		lines[i] = p.String()
 	}
 	return "invalid package:\n" + strings.Join(lines, "\n")
-}
-
-// problems collects Problems while a package is checked.
-type problems struct{ list []Problem }
-
-func (ps *problems) at(pointer, format string, args ...any) {
-	ps.list = append(ps.list, Problem{Pointer: pointer, Detail: fmt.Sprintf(format, args...)})
-}
-
-func (ps *problems) csv(line, column int, format string, args ...any) {
-	ps.list = append(ps.list, Problem{Line: line, Column: column, Detail: fmt.Sprintf(format, args...)})
-}
-
-func (ps *problems) err() error {
-	if len(ps.list) == 0 {
-		return nil
-	}
-	return &InvalidPackageError{Problems: ps.list}
-}
-
-// pointer builds a JSON pointer (RFC 6901) from its tokens.
-func pointer(tokens ...any) string {
-	var b strings.Builder
-	for _, t := range tokens {
-		s := fmt.Sprint(t)
-		s = strings.ReplaceAll(s, "~", "~0")
-		s = strings.ReplaceAll(s, "/", "~1")
-		b.WriteString("/" + s)
-	}
-	return b.String()
 }

@@ -58,7 +58,7 @@ func TestLocalParentSets_IDAValues(t *testing.T) {
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			doc := summaryPackage(tc.vars, tc.edges, tc.lower, 500)
-			s, err := Load(doc, LoadOptions{})
+			s, err := LoadForTest(doc)
 			if err != nil {
 				t.Fatalf("%v\n%s", err, doc)
 			}
@@ -91,7 +91,7 @@ func TestLocalParentSets_IDAValues(t *testing.T) {
 
 func runDoc(t *testing.T, doc []byte) *Report {
 	t.Helper()
-	s, err := Load(doc, LoadOptions{})
+	s, err := LoadForTest(doc)
 	if err != nil {
 		t.Fatalf("%v\n%s", err, doc)
 	}
@@ -223,7 +223,7 @@ func TestLocalGraphs_BackgroundKnowledgeExact(t *testing.T) {
 		}
 		vars := append([]string(nil), names...)
 		doc := summaryPackageBK(vars, edges, lower, edges[r.IntN(len(edges))])
-		s, err := Load(doc, LoadOptions{})
+		s, err := LoadForTest(doc)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // graphPackage: variables a, b, c, d (d in no edge), the graph a → b → c,
@@ -24,7 +25,7 @@ func graphPackage(t *testing.T, claims ...map[string]any) *checks.Report {
 		"data": map[string]any{"kind": "summary", "n": 200, "variables": []string{"a", "b", "c", "d"},
 			"correlations": [][]float64{{1}, {.3, 1}, {.1, .3, 1}, {0, 0, 0, 1}}},
 	})
-	s, err := checks.Load(doc, checks.LoadOptions{})
+	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

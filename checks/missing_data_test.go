@@ -12,6 +12,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 func checkOf(r *checks.Report, id string) checks.CheckResult {
@@ -61,7 +62,7 @@ func TestMissingData_CompletedRowsUploaded(t *testing.T) {
 	doc, _ := os.ReadFile("../testdata/demo/sleep-attention/package.json")
 	rows := "part_time_job,sleep_hours,attention\n1,6.5,55\n0,7.5,60\n1,6,50\n0,8,62\n1,7,58\n0,7,57\n"
 	doc = bytes.Replace(doc, []byte(`"file": "rows.csv", "ignore_columns": ["student"]`), []byte(`"csv": "`+strings.ReplaceAll(rows, "\n", `\n`)+`"`), 1)
-	s, err := checks.Load(doc, checks.LoadOptions{})
+	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -82,7 +83,7 @@ func rowsPackage(t *testing.T, csv, yScale, claims, method string) *checks.Repor
 		"variables": [{"name": "x", "scale": "continuous"}, {"name": "y", "scale": "` + yScale + `"}, {"name": "z", "scale": "continuous"}],
 		"claims": [` + claims + `], "missing_data": {"method": "` + method + `"},
 		"data": {"kind": "rows", "csv": "` + strings.ReplaceAll(csv, "\n", `\n`) + `"}}`
-	s, err := checks.Load([]byte(doc), checks.LoadOptions{})
+	s, err := load.Load([]byte(doc), load.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

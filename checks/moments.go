@@ -8,6 +8,12 @@ import (
 	"gonum.org/v1/gonum/stat"
 )
 
+// MinEigen is the smallest eigenvalue a correlation matrix may have to
+// count as positive definite (README, "Choices where the spec is silent").
+const MinEigen = 1e-10
+
+const minEigen = MinEigen
+
 // Moments are the summary statistics that the estimators work from: the
 // correlation matrix over all declared variables, and the SDs and means
 // where known. For raw rows they come from the complete cases, and Rows

@@ -7,24 +7,24 @@ import (
 	"strings"
 )
 
-// printed holds a claim's numbers as the package prints them, so that a
+// Printed holds a claim's numbers as the package prints them, so that a
 // check can tell how much rounding they carry.
-type printed struct {
+type Printed struct {
 	Estimate json.Number   `json:"estimate"`
 	StdError json.Number   `json:"std_error"`
 	CI       []json.Number `json:"ci"`
 	PValue   json.Number   `json:"p_value"`
 }
 
-// printedClaims re-reads the claims' numbers from the source document.
-func (s *Study) printedClaims() []printed {
-	var doc struct {
-		Claims []printed `json:"claims"`
+type printed = Printed
+
+// printedClaims returns the claims' printed numbers, none where the
+// study does not have them.
+func (s *Study) printedClaims() []Printed {
+	if len(s.Printed) != len(s.Package.Claims) {
+		return make([]Printed, len(s.Package.Claims))
 	}
-	if err := json.Unmarshal(s.Source, &doc); err != nil || len(doc.Claims) != len(s.Package.Claims) {
-		return make([]printed, len(s.Package.Claims))
-	}
-	return doc.Claims
+	return s.Printed
 }
 
 // halfUnit is half a unit in the last printed digit of a number: the most

@@ -1,35 +1,6 @@
 package checks
 
-import (
-	"crypto/sha256"
-	"encoding/hex"
-	"encoding/json"
-	"fmt"
-
-	"github.com/pathvet/pathvet/checks/dag"
-)
-
-// Limits bound what one package may hold (package-format.md, "Limits").
-type Limits struct {
-	PackageBytes int64 // the package JSON
-	CSVBytes     int64 // the CSV data
-	Rows         int   // data rows
-	Variables    int
-	Edges        int // per graph
-	Claims       int
-	Alternatives int
-}
-
-// DefaultLimits are the limits of package-format.md.
-var DefaultLimits = Limits{
-	PackageBytes: 5 << 20,
-	CSVBytes:     100 << 20,
-	Rows:         2_000_000,
-	Variables:    500,
-	Edges:        5_000,
-	Claims:       200,
-	Alternatives: 50,
-}
+import "github.com/pathvet/pathvet/checks/dag"
 
 // DefaultAlpha is the significance level used unless one is configured.
 const DefaultAlpha = 0.05
@@ -38,20 +9,8 @@ const DefaultAlpha = 0.05
 // standardized scale when a package gives none (package-format.md).
 const DefaultSmallestEffect = 0.1
 
-// LoadOptions say where a package's CSV data come from and which limits
-// apply.
-type LoadOptions struct {
-	Limits Limits
-	// ReadFile reads data.file, relative to the package (the CLI). Nil
-	// where files cannot be read (the API).
-	ReadFile func(name string) ([]byte, error)
-	// CSV is data sent beside the package (the API's multipart part
-	// "data"); it stands in for data.file.
-	CSV []byte
-}
-
-// Study is a package that passed every check of the format, resolved for
-// the pipeline: variables by index, graphs as DAGs, data as numbers.
+// Study is a package that passed every check of the format (package load
+// builds it), resolved for the pipeline: variables by index, graphs as DAGs, data as numbers.
 type Study struct {
 	Package *Package
 	Names   []string
@@ -69,9 +28,9 @@ type Study struct {
 	Data       *Dataset
 	// SHA256 is the hash of the canonical package bytes, data included.
 	SHA256 string
-	// Source is the package document as sent, for the printed digits of
-	// its numbers.
-	Source []byte
+	// Printed holds each claim's numbers as the package document prints
+	// them, for the rounding they carry.
+	Printed []Printed
 }
 
 // SmallestEffect returns the package's smallest effect of interest, or
@@ -81,104 +40,4 @@ func (s *Study) SmallestEffect() float64 {
 		return *p
 	}
 	return DefaultSmallestEffect
-}
-
-// Load decodes and checks a package document and its data, and returns
-// the resolved study, or an *InvalidPackageError that lists every problem
-// found, each with its JSON pointer or CSV line and column.
-func Load(doc []byte, opt LoadOptions) (*Study, error) {
-	lim := opt.Limits
-	if lim == (Limits{}) {
-		lim = DefaultLimits
-	}
-	if int64(len(doc)) > lim.PackageBytes {
-		return nil, &InvalidPackageError{TooLarge: true, Problems: []Problem{{
-			Detail: fmt.Sprintf("the package is %d bytes; the limit is %d", len(doc), lim.PackageBytes)}}}
-	}
-	pkg := new(Package)
-	if err := decodeStrict(doc, pkg); err != nil {
-		return nil, err
-	}
-	var ps problems
-	checkFields(pkg, &ps)
-	checkLimits(pkg, lim, &ps)
-	if len(ps.list) > 0 {
-		return nil, ps.err()
-	}
-	s := &Study{Package: pkg, Index: indexVariables(pkg, &ps), Source: doc}
-	for _, v := range pkg.Variables {
-		s.Names = append(s.Names, v.Name)
-	}
-	s.resolveGraphs(&ps)
-	checkClaims(pkg, s.Index, &ps)
-	csvText := s.resolveData(opt, lim, &ps)
-	if err := ps.err(); err != nil {
-		return nil, err
-	}
-	s.SHA256 = canonicalHash(pkg, csvText)
-	return s, nil
-}
-
-// resolveGraphs checks the declared graph and the alternatives and builds
-// their DAGs and the background knowledge.
-func (s *Study) resolveGraphs(ps *problems) {
-	pkg, n := s.Package, len(s.Names)
-	if g := pkg.Graph; g != nil {
-		edges := graphEdges("/graph/edges", g.Edges, s.Index, ps)
-		checkExogenous("/graph/edges", pkg, g.Edges, s.Index, ps)
-		if edges != nil {
-			s.Declared = acyclicGraph("/graph/edges", n, edges, s.Names, ps)
-			s.InGraph = make([]bool, n)
-			for _, e := range edges {
-				s.InGraph[e.From], s.InGraph[e.To] = true, true
-			}
-		}
-		fixed := graphEdges("/graph/fixed_edges", g.FixedEdges, s.Index, ps)
-		if s.Declared != nil && fixed != nil {
-			s.background(fixed, ps)
-		}
-	}
-	names := map[string]int{}
-	for i, a := range pkg.Alternatives {
-		base := pointer("alternatives", i)
-		if j, dup := names[a.Name]; dup {
-			ps.at(base+"/name", "%q is already the name of /alternatives/%d", a.Name, j)
-		}
-		names[a.Name] = i
-		checkExogenous(base+"/edges", pkg, a.Edges, s.Index, ps)
-		if edges := graphEdges(base+"/edges", a.Edges, s.Index, ps); edges != nil {
-			s.Alternatives = append(s.Alternatives, acyclicGraph(base+"/edges", n, edges, s.Names, ps))
-		}
-	}
-}
-
-// background collects the required arcs and checks that each fixed edge
-// is an edge of the declared graph.
-func (s *Study) background(fixed []dag.Edge, ps *problems) {
-	for i, e := range fixed {
-		if !s.Declared.HasArc(e.From, e.To) {
-			ps.at(pointer("graph", "fixed_edges", i), "%s → %s is not an edge of /graph/edges", s.Names[e.From], s.Names[e.To])
-			continue
-		}
-		s.Background = append(s.Background, e)
-	}
-	for i, v := range s.Package.Variables {
-		if v.Exogenous && s.InGraph[i] {
-			s.Background = append(s.Background, dag.ExogenousArcs(s.Declared, i)...)
-		}
-	}
-}
-
-// canonicalHash hashes the package as re-encoded by this program with its
-// CSV inline, so the same study hashes alike from the CLI and the API.
-func canonicalHash(pkg *Package, csvText []byte) string {
-	c := *pkg
-	c.Data.File = ""
-	c.Data.CSV = string(csvText)
-	b, err := json.Marshal(&c)
-	if err != nil {
-		panic(err) // a decoded package always encodes
-	}
-	sum := sha256.Sum256(b)
-	return hex.EncodeToString(sum[:])
 }

@@ -18,7 +18,7 @@ import (
 	"github.com/riverqueue/river/riverdriver/riverpgxv5"
 	"github.com/riverqueue/river/rivermigrate"
 
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/migrations"
 )
 
@@ -113,16 +113,16 @@ func (db *DB) MigrationStatus(ctx context.Context) ([]MigrationStep, error) {
 // unique violation is a conflict; a coded error passes through.
 func dbError(err error, what string) error {
 	var pe *pgconn.PgError
-	var ce *checks.Error
+	var ce *service.Error
 	switch {
 	case err == nil:
 		return nil
 	case errors.As(err, &ce):
 		return err // already a coded error of the core
 	case errors.Is(err, pgx.ErrNoRows):
-		return checks.Errorf(checks.ENotFound, "%s not found", what)
+		return service.Errorf(service.ENotFound, "%s not found", what)
 	case errors.As(err, &pe) && pe.Code == "23505":
-		return checks.Errorf(checks.EConflict, "%s already exists", what)
+		return service.Errorf(service.EConflict, "%s already exists", what)
 	}
 	return fmt.Errorf("store: %s: %w", what, err)
 }

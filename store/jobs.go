@@ -13,6 +13,7 @@ import (
 	"github.com/riverqueue/river/riverdriver/riverpgxv5"
 	"github.com/riverqueue/river/rivertype"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 )
 
@@ -63,7 +64,7 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 	start := time.Now()
 	id := job.Args.SubmissionID
 	pkg, data, err := w.db.Claim(ctx, id)
-	if checks.ErrorCode(err) == checks.ENotFound {
+	if service.ErrorCode(err) == service.ENotFound {
 		return nil
 	}
 	if err != nil {
@@ -74,7 +75,7 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 		err = w.db.SaveReport(ctx, id, rep, time.Since(start))
 	}
 	if err == nil {
-		w.done(StatusDone, start)
+		w.done(service.StatusDone, start)
 		return nil
 	}
 	final := errors.Is(err, ErrPermanent) || job.Attempt >= job.MaxAttempts
@@ -84,7 +85,7 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 		if ferr := w.db.MarkFailed(bg, id, reason); ferr != nil {
 			return ferr
 		}
-		w.done(StatusFailed, start)
+		w.done(service.StatusFailed, start)
 		return river.JobCancel(err)
 	}
 	_ = w.db.NoteAttemptError(bg, id, reason)

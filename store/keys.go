@@ -6,43 +6,14 @@ import (
 	"crypto/sha256"
 	"encoding/base64"
 	"strings"
-	"time"
 
 	"github.com/jackc/pgx/v5"
 
-	"github.com/pathvet/pathvet/checks"
-)
-
-// Roles of an API key.
-const (
-	RoleEditor    = "editor"    // sees every submission of its office
-	RoleSubmitter = "submitter" // sees its own submissions
+	"github.com/pathvet/pathvet/api/service"
 )
 
 // tokenPrefix starts every token, so that a leaked one is easy to spot.
 const tokenPrefix = "pv_"
-
-// Key is an API key, without its token.
-type Key struct {
-	ID         int64
-	OfficeID   int64
-	OfficeName string
-	Role       string
-	CreatedAt  time.Time
-}
-
-// Scope is what a key may see.
-func (k *Key) Scope() Scope {
-	return Scope{OfficeID: k.OfficeID, KeyID: k.ID, Editor: k.Role == RoleEditor}
-}
-
-// Scope limits queries to what one key may see: its office's submissions
-// for an editor, its own for a submitter.
-type Scope struct {
-	OfficeID int64
-	KeyID    int64
-	Editor   bool
-}
 
 func hashToken(token string) []byte {
 	sum := sha256.Sum256([]byte(token))
@@ -51,20 +22,20 @@ func hashToken(token string) []byte {
 
 // CreateKey makes a key for the office (creating the office if it is new)
 // and returns the token, which is stored only as its hash.
-func (db *DB) CreateKey(ctx context.Context, office, role string) (string, *Key, error) {
+func (db *DB) CreateKey(ctx context.Context, office, role string) (string, *service.Key, error) {
 	office = strings.TrimSpace(office)
 	if office == "" {
-		return "", nil, checks.Errorf(checks.EInvalid, "the office needs a name")
+		return "", nil, service.Errorf(service.EInvalid, "the office needs a name")
 	}
-	if role != RoleEditor && role != RoleSubmitter {
-		return "", nil, checks.Errorf(checks.EInvalid, "role must be editor or submitter, not %q", role)
+	if role != service.RoleEditor && role != service.RoleSubmitter {
+		return "", nil, service.Errorf(service.EInvalid, "role must be editor or submitter, not %q", role)
 	}
 	raw := make([]byte, 32)
 	if _, err := rand.Read(raw); err != nil {
 		return "", nil, err
 	}
 	token := tokenPrefix + base64.RawURLEncoding.EncodeToString(raw)
-	k := &Key{OfficeName: office, Role: role, CreatedAt: db.now()}
+	k := &service.Key{OfficeName: office, Role: role, CreatedAt: db.now()}
 	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
 		if err := tx.QueryRow(ctx, `
 			INSERT INTO offices (name, created_at) VALUES ($1, $2)
@@ -83,8 +54,8 @@ func (db *DB) CreateKey(ctx context.Context, office, role string) (string, *Key,
 }
 
 // KeyByToken finds the live key with this token.
-func (db *DB) KeyByToken(ctx context.Context, token string) (*Key, error) {
-	k := &Key{}
+func (db *DB) KeyByToken(ctx context.Context, token string) (*service.Key, error) {
+	k := &service.Key{}
 	err := db.Pool.QueryRow(ctx, `
 		SELECT k.id, k.office_id, o.name, k.role, k.created_at
 		FROM api_keys k JOIN offices o ON o.id = k.office_id

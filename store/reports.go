@@ -8,6 +8,7 @@ import (
 
 	"github.com/jackc/pgx/v5"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 )
 
@@ -52,14 +53,14 @@ func (db *DB) NoteAttemptError(ctx context.Context, id, reason string) error {
 }
 
 // LatestReport returns the newest report of a submission the scope may see.
-func (db *DB) LatestReport(ctx context.Context, id string, sc Scope) ([]byte, error) {
+func (db *DB) LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error) {
 	if _, err := db.Submission(ctx, id, sc); err != nil {
 		return nil, err
 	}
 	var b string
 	err := db.Pool.QueryRow(ctx, `SELECT report FROM reports WHERE submission_id = $1 ORDER BY id DESC LIMIT 1`, id).Scan(&b)
 	if errors.Is(err, pgx.ErrNoRows) {
-		return nil, checks.Errorf(checks.ENotFound, "no report yet: the submission has not been screened")
+		return nil, service.Errorf(service.ENotFound, "no report yet: the submission has not been screened")
 	}
 	if err != nil {
 		return nil, dbError(err, "report")

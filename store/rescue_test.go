@@ -5,6 +5,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
 )
@@ -15,12 +16,12 @@ import (
 // for by marking the job running, attempted an hour ago.
 func TestWorkers_RescueAfterHardKill(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
-	k, _ := mustKey(t, db, "Office R", store.RoleEditor)
+	k, _ := mustKey(t, db, "Office R", service.RoleEditor)
 	doc, err := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, _, err := db.CreateSubmission(ctx, store.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"})
+	s, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -38,7 +39,7 @@ func TestWorkers_RescueAfterHardKill(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer w.Stop(ctx)
-	done := waitStatusWithin(t, db, s.ID, k.Scope(), store.StatusDone, 90*time.Second)
+	done := waitStatusWithin(t, db, s.ID, k.Scope(), service.StatusDone, 90*time.Second)
 	t.Logf("rescued and finished after %v, attempts %d", time.Since(start).Round(time.Second), done.Attempts)
 	if done.Attempts != 2 {
 		t.Fatalf("attempts %d, want 2", done.Attempts)

@@ -8,14 +8,16 @@ import (
 	"testing"
 	"time"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
 )
 
 var ctx = context.Background()
 
-func mustKey(t *testing.T, db *store.DB, office, role string) (*store.Key, string) {
+func mustKey(t *testing.T, db *store.DB, office, role string) (*service.Key, string) {
 	t.Helper()
 	token, k, err := db.CreateKey(ctx, office, role)
 	if err != nil {
@@ -24,29 +26,29 @@ func mustKey(t *testing.T, db *store.DB, office, role string) (*store.Key, strin
 	return k, token
 }
 
-func newSub(k *store.Key, hash, idem string) store.NewSubmission {
-	return store.NewSubmission{Key: k, Package: []byte(`{"title": "x"}`), Title: "A study", ManuscriptID: "M-1",
+func newSub(k *service.Key, hash, idem string) service.NewSubmission {
+	return service.NewSubmission{Key: k, Package: []byte(`{"title": "x"}`), Title: "A study", ManuscriptID: "M-1",
 		PackageSHA256: hash, IdempotencyKey: idem}
 }
 
 func TestKeys(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
-	k, token := mustKey(t, db, "Journal of Invented Studies", store.RoleEditor)
+	k, token := mustKey(t, db, "Journal of Invented Studies", service.RoleEditor)
 	got, err := db.KeyByToken(ctx, token)
-	if err != nil || got.ID != k.ID || got.Role != store.RoleEditor || got.OfficeName != "Journal of Invented Studies" {
+	if err != nil || got.ID != k.ID || got.Role != service.RoleEditor || got.OfficeName != "Journal of Invented Studies" {
 		t.Fatalf("KeyByToken: %+v, %v", got, err)
 	}
-	k2, _ := mustKey(t, db, "Journal of Invented Studies", store.RoleSubmitter)
+	k2, _ := mustKey(t, db, "Journal of Invented Studies", service.RoleSubmitter)
 	if k2.OfficeID != k.OfficeID {
 		t.Fatal("a second key for the same office made a second office")
 	}
 	t.Run("ErrNotFound", func(t *testing.T) {
-		if _, err := db.KeyByToken(ctx, token+"x"); checks.ErrorCode(err) != checks.ENotFound {
+		if _, err := db.KeyByToken(ctx, token+"x"); service.ErrorCode(err) != service.ENotFound {
 			t.Fatalf("bad token: %v", err)
 		}
 	})
 	t.Run("ErrInvalid", func(t *testing.T) {
-		if _, _, err := db.CreateKey(ctx, "x", "admin"); checks.ErrorCode(err) != checks.EInvalid {
+		if _, _, err := db.CreateKey(ctx, "x", "admin"); service.ErrorCode(err) != service.EInvalid {
 			t.Fatalf("bad role: %v", err)
 		}
 	})
@@ -58,13 +60,13 @@ func TestKeys(t *testing.T) {
 
 func TestSubmissionStore(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
-	editor, _ := mustKey(t, db, "Office A", store.RoleEditor)
-	sub1, _ := mustKey(t, db, "Office A", store.RoleSubmitter)
-	sub2, _ := mustKey(t, db, "Office A", store.RoleSubmitter)
-	other, _ := mustKey(t, db, "Office B", store.RoleEditor)
+	editor, _ := mustKey(t, db, "Office A", service.RoleEditor)
+	sub1, _ := mustKey(t, db, "Office A", service.RoleSubmitter)
+	sub2, _ := mustKey(t, db, "Office A", service.RoleSubmitter)
+	other, _ := mustKey(t, db, "Office B", service.RoleEditor)
 
 	s, replayed, err := db.CreateSubmission(ctx, newSub(sub1, "h1", "k1"))
-	if err != nil || replayed || s.Status != store.StatusQueued {
+	if err != nil || replayed || s.Status != service.StatusQueued {
 		t.Fatalf("create: %+v, %v, %v", s, replayed, err)
 	}
 	var jobs int
@@ -76,7 +78,7 @@ func TestSubmissionStore(t *testing.T) {
 		if err != nil || !replayed || again.ID != s.ID {
 			t.Fatalf("replay: %+v, %v, %v", again, replayed, err)
 		}
-		if _, _, err := db.CreateSubmission(ctx, newSub(sub1, "h2", "k1")); checks.ErrorCode(err) != checks.EConflict {
+		if _, _, err := db.CreateSubmission(ctx, newSub(sub1, "h2", "k1")); service.ErrorCode(err) != service.EConflict {
 			t.Fatalf("same key, other package: %v", err)
 		}
 		if _, replayed, err := db.CreateSubmission(ctx, newSub(sub2, "h1", "k1")); err != nil || replayed {
@@ -86,15 +88,15 @@ func TestSubmissionStore(t *testing.T) {
 	t.Run("Scope", func(t *testing.T) {
 		for _, tc := range []struct {
 			name string
-			key  *store.Key
+			key  *service.Key
 			want string
-		}{{"editor", editor, ""}, {"own submitter", sub1, ""}, {"other submitter", sub2, checks.ENotFound}, {"other office", other, checks.ENotFound}} {
+		}{{"editor", editor, ""}, {"own submitter", sub1, ""}, {"other submitter", sub2, service.ENotFound}, {"other office", other, service.ENotFound}} {
 			_, err := db.Submission(ctx, s.ID, tc.key.Scope())
-			if checks.ErrorCode(err) != tc.want {
+			if service.ErrorCode(err) != tc.want {
 				t.Errorf("%s: %v", tc.name, err)
 			}
 		}
-		if _, err := db.Submission(ctx, "not-a-uuid", editor.Scope()); checks.ErrorCode(err) != checks.ENotFound {
+		if _, err := db.Submission(ctx, "not-a-uuid", editor.Scope()); service.ErrorCode(err) != service.ENotFound {
 			t.Errorf("bad id: %v", err)
 		}
 	})
@@ -106,11 +108,11 @@ func TestSubmissionStore(t *testing.T) {
 				t.Fatal(err)
 			}
 		}
-		page, next, err := db.Submissions(ctx, store.Filter{Scope: editor.Scope(), Limit: 4})
+		page, next, err := db.Submissions(ctx, service.Filter{Scope: editor.Scope(), Limit: 4})
 		if err != nil || len(page) != 4 || next == "" {
 			t.Fatalf("page 1: %d, %q, %v", len(page), next, err)
 		}
-		rest, next2, err := db.Submissions(ctx, store.Filter{Scope: editor.Scope(), Limit: 4, Cursor: next})
+		rest, next2, err := db.Submissions(ctx, service.Filter{Scope: editor.Scope(), Limit: 4, Cursor: next})
 		if err != nil || len(rest) != 3 || next2 != "" {
 			t.Fatalf("page 2: %d, %q, %v", len(rest), next2, err)
 		}
@@ -121,20 +123,20 @@ func TestSubmissionStore(t *testing.T) {
 			}
 			seen[x.ID] = true
 		}
-		m2, _, _ := db.Submissions(ctx, store.Filter{Scope: editor.Scope(), ManuscriptID: "M-2"})
+		m2, _, _ := db.Submissions(ctx, service.Filter{Scope: editor.Scope(), ManuscriptID: "M-2"})
 		if len(m2) != 3 {
 			t.Fatalf("manuscript filter: %d", len(m2))
 		}
-		own, _, _ := db.Submissions(ctx, store.Filter{Scope: sub2.Scope()})
+		own, _, _ := db.Submissions(ctx, service.Filter{Scope: sub2.Scope()})
 		if len(own) != 1 {
 			t.Fatalf("a submitter lists %d submissions, want its 1", len(own))
 		}
-		if _, _, err := db.Submissions(ctx, store.Filter{Scope: editor.Scope(), Cursor: "garbage"}); checks.ErrorCode(err) != checks.EInvalid {
+		if _, _, err := db.Submissions(ctx, service.Filter{Scope: editor.Scope(), Cursor: "garbage"}); service.ErrorCode(err) != service.EInvalid {
 			t.Fatalf("bad cursor: %v", err)
 		}
 	})
 	t.Run("ReportsAndRerun", func(t *testing.T) {
-		if _, err := db.Rerun(ctx, s.ID, editor.Scope()); checks.ErrorCode(err) != checks.EConflict {
+		if _, err := db.Rerun(ctx, s.ID, editor.Scope()); service.ErrorCode(err) != service.EConflict {
 			t.Fatalf("rerun while queued: %v", err)
 		}
 		if _, _, err := db.Claim(ctx, s.ID); err != nil {
@@ -145,28 +147,28 @@ func TestSubmissionStore(t *testing.T) {
 			t.Fatal(err)
 		}
 		got, _ := db.Submission(ctx, s.ID, editor.Scope())
-		if got.Status != store.StatusDone || *got.Score != 77 || got.Reports != 1 || got.Attempts != 1 {
+		if got.Status != service.StatusDone || *got.Score != 77 || got.Reports != 1 || got.Attempts != 1 {
 			t.Fatalf("after report: %+v", got)
 		}
 		again, err := db.Rerun(ctx, s.ID, editor.Scope())
-		if err != nil || again.Status != store.StatusQueued || again.Reports != 1 {
+		if err != nil || again.Status != service.StatusQueued || again.Reports != 1 {
 			t.Fatalf("rerun: %+v, %v", again, err)
 		}
 		if b, err := db.LatestReport(ctx, s.ID, sub1.Scope()); err != nil || len(b) == 0 {
 			t.Fatalf("the old report is kept: %v", err)
 		}
-		if _, err := db.LatestReport(ctx, s.ID, other.Scope()); checks.ErrorCode(err) != checks.ENotFound {
+		if _, err := db.LatestReport(ctx, s.ID, other.Scope()); service.ErrorCode(err) != service.ENotFound {
 			t.Fatalf("other office reads the report: %v", err)
 		}
 	})
 	t.Run("Delete", func(t *testing.T) {
-		if err := db.DeleteSubmission(ctx, s.ID, other.Scope()); checks.ErrorCode(err) != checks.ENotFound {
+		if err := db.DeleteSubmission(ctx, s.ID, other.Scope()); service.ErrorCode(err) != service.ENotFound {
 			t.Fatalf("other office deletes: %v", err)
 		}
 		if err := db.DeleteSubmission(ctx, s.ID, editor.Scope()); err != nil {
 			t.Fatal(err)
 		}
-		if _, err := db.Submission(ctx, s.ID, editor.Scope()); checks.ErrorCode(err) != checks.ENotFound {
+		if _, err := db.Submission(ctx, s.ID, editor.Scope()); service.ErrorCode(err) != service.ENotFound {
 			t.Fatalf("deleted submission still found: %v", err)
 		}
 	})
@@ -175,12 +177,12 @@ func TestSubmissionStore(t *testing.T) {
 	}
 }
 
-func waitStatus(t *testing.T, db *store.DB, id string, sc store.Scope, want string) *store.Submission {
+func waitStatus(t *testing.T, db *store.DB, id string, sc service.Scope, want string) *service.Submission {
 	t.Helper()
 	return waitStatusWithin(t, db, id, sc, want, 30*time.Second)
 }
 
-func waitStatusWithin(t *testing.T, db *store.DB, id string, sc store.Scope, want string, within time.Duration) *store.Submission {
+func waitStatusWithin(t *testing.T, db *store.DB, id string, sc service.Scope, want string, within time.Duration) *service.Submission {
 	t.Helper()
 	deadline := time.Now().Add(within)
 	for time.Now().Before(deadline) {
@@ -199,7 +201,7 @@ func waitStatusWithin(t *testing.T, db *store.DB, id string, sc store.Scope, wan
 
 func TestWorkers(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
-	k, _ := mustKey(t, db, "Office W", store.RoleEditor)
+	k, _ := mustKey(t, db, "Office W", service.RoleEditor)
 	doc, err := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
 	if err != nil {
 		t.Fatal(err)
@@ -211,16 +213,16 @@ func TestWorkers(t *testing.T) {
 			t.Fatal(err)
 		}
 		defer w.Stop(ctx)
-		s, _, err := db.CreateSubmission(ctx, store.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"})
+		s, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"})
 		if err != nil {
 			t.Fatal(err)
 		}
-		done := waitStatus(t, db, s.ID, k.Scope(), store.StatusDone)
+		done := waitStatus(t, db, s.ID, k.Scope(), service.StatusDone)
 		if done.Score == nil || done.Band == nil {
 			t.Fatalf("done without a score: %+v", done)
 		}
-		bad, _, _ := db.CreateSubmission(ctx, store.NewSubmission{Key: k, Package: []byte(`{}`), Title: "t", PackageSHA256: "h2"})
-		failed := waitStatus(t, db, bad.ID, k.Scope(), store.StatusFailed)
+		bad, _, _ := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: []byte(`{}`), Title: "t", PackageSHA256: "h2"})
+		failed := waitStatus(t, db, bad.ID, k.Scope(), service.StatusFailed)
 		if failed.Error == "" || failed.Attempts != 1 {
 			t.Fatalf("a permanent error should fail at once with its reason: %+v", failed)
 		}
@@ -240,7 +242,7 @@ func TestWorkers(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		s, _, _ := db.CreateSubmission(ctx, store.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h3"})
+		s, _, _ := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h3"})
 		<-started
 		if err := first.Kill(ctx); err != nil {
 			t.Fatal(err)
@@ -250,7 +252,7 @@ func TestWorkers(t *testing.T) {
 			t.Fatal(err)
 		}
 		defer second.Stop(ctx)
-		done := waitStatus(t, db, s.ID, k.Scope(), store.StatusDone)
+		done := waitStatus(t, db, s.ID, k.Scope(), service.StatusDone)
 		if done.Attempts != 2 || calls.Load() != 2 {
 			t.Fatalf("attempts %d, calls %d; want the job retried once by the second worker", done.Attempts, calls.Load())
 		}
@@ -259,7 +261,7 @@ func TestWorkers(t *testing.T) {
 
 // screenDemo is the workers' job in these tests: load and screen.
 func screenDemo(ctx context.Context, pkg, _ []byte) (*checks.Report, error) {
-	s, err := checks.Load(pkg, checks.LoadOptions{})
+	s, err := load.Load(pkg, load.Options{})
 	if err != nil {
 		return nil, errors.Join(store.ErrPermanent, err)
 	}

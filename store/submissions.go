@@ -12,45 +12,8 @@ import (
 
 	"github.com/jackc/pgx/v5"
 
-	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/api/service"
 )
-
-// Submission statuses.
-const (
-	StatusQueued  = "queued"
-	StatusRunning = "running"
-	StatusDone    = "done"
-	StatusFailed  = "failed"
-)
-
-// Submission is one package sent for screening, without its bytes.
-type Submission struct {
-	ID             string
-	OfficeID       int64
-	SubmitterKeyID int64
-	ManuscriptID   string
-	Title          string
-	PackageSHA256  string
-	Status         string
-	Error          string
-	Attempts       int
-	// Score and Band are those of the newest report; Reports counts them.
-	Score     *int
-	Band      *string
-	Reports   int
-	CreatedAt time.Time
-	UpdatedAt time.Time
-}
-
-// NewSubmission is what CreateSubmission stores.
-type NewSubmission struct {
-	Key            *Key
-	Package, Data  []byte
-	Title          string
-	ManuscriptID   string
-	PackageSHA256  string
-	IdempotencyKey string
-}
 
 var uuidRE = regexp.MustCompile(`^[0-9a-fA-F]{8}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{12}$`)
 
@@ -61,8 +24,8 @@ const submissionColumns = `s.id, s.office_id, s.submitter_key_id, s.manuscript_i
 const submissionFrom = ` FROM submissions s LEFT JOIN LATERAL (
 	SELECT score, band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1) r ON true`
 
-func scanSubmission(row pgx.Row) (*Submission, error) {
-	s := &Submission{}
+func scanSubmission(row pgx.Row) (*service.Submission, error) {
+	s := &service.Submission{}
 	err := row.Scan(&s.ID, &s.OfficeID, &s.SubmitterKeyID, &s.ManuscriptID, &s.Title, &s.PackageSHA256,
 		&s.Status, &s.Error, &s.Attempts, &s.Score, &s.Band, &s.Reports, &s.CreatedAt, &s.UpdatedAt)
 	return s, err
@@ -72,7 +35,7 @@ func scanSubmission(row pgx.Row) (*Submission, error) {
 // transaction. With an idempotency key already used by the same API key it
 // returns the earlier submission and replayed = true, or a conflict when
 // the package differs.
-func (db *DB) CreateSubmission(ctx context.Context, n NewSubmission) (sub *Submission, replayed bool, err error) {
+func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (sub *service.Submission, replayed bool, err error) {
 	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
 		var idem *string
 		if n.IdempotencyKey != "" {
@@ -92,7 +55,7 @@ func (db *DB) CreateSubmission(ctx context.Context, n NewSubmission) (sub *Submi
 			sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
 				WHERE s.submitter_key_id = $1 AND s.idempotency_key = $2`, n.Key.ID, n.IdempotencyKey))
 			if err == nil && sub.PackageSHA256 != n.PackageSHA256 {
-				return checks.Errorf(checks.EConflict, "the Idempotency-Key %q was used for a different package", n.IdempotencyKey)
+				return service.Errorf(service.EConflict, "the Idempotency-Key %q was used for a different package", n.IdempotencyKey)
 			}
 			return err
 		}
@@ -115,35 +78,20 @@ func (db *DB) CreateSubmission(ctx context.Context, n NewSubmission) (sub *Submi
 const scopeSQL = ` s.office_id = $1 AND ($2 OR s.submitter_key_id = $3)`
 
 // Submission returns one submission that the scope may see.
-func (db *DB) Submission(ctx context.Context, id string, sc Scope) (*Submission, error) {
+func (db *DB) Submission(ctx context.Context, id string, sc service.Scope) (*service.Submission, error) {
 	if !uuidRE.MatchString(id) {
-		return nil, checks.Errorf(checks.ENotFound, "submission not found")
+		return nil, service.Errorf(service.ENotFound, "submission not found")
 	}
 	s, err := scanSubmission(db.Pool.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
 		WHERE`+scopeSQL+` AND s.id = $4`, sc.OfficeID, sc.Editor, sc.KeyID, id))
 	return s, dbError(err, "submission")
 }
 
-// Filter selects submissions for a listing.
-type Filter struct {
-	Scope        Scope
-	ManuscriptID string
-	Status       string
-	Band         string
-	// Cursor continues a listing where an earlier page ended; Limit is the
-	// page size.
-	Cursor string
-	Limit  int
-}
-
-// MaxPage is the largest page of a listing.
-const MaxPage = 200
-
 // Submissions lists submissions, newest first, and the cursor of the next
 // page ("" on the last).
-func (db *DB) Submissions(ctx context.Context, f Filter) ([]*Submission, string, error) {
+func (db *DB) Submissions(ctx context.Context, f service.Filter) ([]*service.Submission, string, error) {
 	limit := f.Limit
-	if limit <= 0 || limit > MaxPage {
+	if limit <= 0 || limit > service.MaxPage {
 		limit = 50
 	}
 	q := `SELECT ` + submissionColumns + submissionFrom + ` WHERE` + scopeSQL
@@ -175,7 +123,7 @@ func (db *DB) Submissions(ctx context.Context, f Filter) ([]*Submission, string,
 		return nil, "", dbError(err, "submissions")
 	}
 	defer rows.Close()
-	var out []*Submission
+	var out []*service.Submission
 	for rows.Next() {
 		s, err := scanSubmission(rows)
 		if err != nil {
@@ -204,33 +152,33 @@ func decodeCursor(c string) (time.Time, string, error) {
 	at, id, ok := strings.Cut(string(b), "/")
 	micros, perr := strconv.ParseInt(at, 10, 64)
 	if err != nil || !ok || perr != nil || !uuidRE.MatchString(id) {
-		return time.Time{}, "", checks.Errorf(checks.EInvalid, "the cursor is not one this server gave out")
+		return time.Time{}, "", service.Errorf(service.EInvalid, "the cursor is not one this server gave out")
 	}
 	return time.UnixMicro(micros).UTC(), id, nil
 }
 
 // DeleteSubmission deletes a submission and its reports.
-func (db *DB) DeleteSubmission(ctx context.Context, id string, sc Scope) error {
+func (db *DB) DeleteSubmission(ctx context.Context, id string, sc service.Scope) error {
 	if !uuidRE.MatchString(id) {
-		return checks.Errorf(checks.ENotFound, "submission not found")
+		return service.Errorf(service.ENotFound, "submission not found")
 	}
 	tag, err := db.Pool.Exec(ctx, `DELETE FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`, sc.OfficeID, sc.Editor, sc.KeyID, id)
 	if err != nil {
 		return dbError(err, "submission")
 	}
 	if tag.RowsAffected() == 0 {
-		return checks.Errorf(checks.ENotFound, "submission not found")
+		return service.Errorf(service.ENotFound, "submission not found")
 	}
 	return nil
 }
 
 // Rerun queues a finished submission again (after a pipeline upgrade); its
 // earlier reports are kept.
-func (db *DB) Rerun(ctx context.Context, id string, sc Scope) (*Submission, error) {
+func (db *DB) Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error) {
 	if _, err := db.Submission(ctx, id, sc); err != nil {
 		return nil, err
 	}
-	var sub *Submission
+	var sub *service.Submission
 	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
 		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'queued', error = '', updated_at = $2
 			WHERE id = $1 AND status IN ('done', 'failed')`, id, db.now())
@@ -238,7 +186,7 @@ func (db *DB) Rerun(ctx context.Context, id string, sc Scope) (*Submission, erro
 			return err
 		}
 		if tag.RowsAffected() == 0 {
-			return checks.Errorf(checks.EConflict, "the submission is still queued or running")
+			return service.Errorf(service.EConflict, "the submission is still queued or running")
 		}
 		if _, err := db.queue.InsertTx(ctx, tx, ScreenArgs{SubmissionID: id}, nil); err != nil {
 			return fmt.Errorf("queue: %w", err)

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/store"
 )
 
@@ -85,7 +86,7 @@ func runKeys(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := newFlagSet("keys", stderr, "Usage: pathvet keys create --office NAME --role editor|submitter")
 	url := fs.String("database-url", getenv("PATHVET_DATABASE_URL"), "PostgreSQL URL (PATHVET_DATABASE_URL)")
 	office := fs.String("office", "", "the editorial office the key belongs to")
-	role := fs.String("role", store.RoleSubmitter, "editor (sees all of the office's submissions) or submitter (its own)")
+	role := fs.String("role", service.RoleSubmitter, "editor (sees all of the office's submissions) or submitter (its own)")
 	pos, err := parseInterspersed(fs, args)
 	if err != nil {
 		return exitInvalid

@@ -13,8 +13,9 @@ import (
 
 	"github.com/labstack/echo/v4"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
-	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store/storetest"
 )
 
@@ -46,7 +47,7 @@ func BenchmarkServer(b *testing.B) {
 		b.Fatal(err)
 	}
 	defer m.Close()
-	token, _, err := m.DB.CreateKey(context.Background(), "Bench office", store.RoleEditor)
+	token, _, err := m.DB.CreateKey(context.Background(), "Bench office", service.RoleEditor)
 	if err != nil {
 		b.Fatal(err)
 	}
@@ -107,11 +108,11 @@ func storedReport(b *testing.B, m *Main, token string, pkg []byte) stored {
 	if err != nil {
 		b.Fatal(err)
 	}
-	s, err := checks.Load(pkg, checks.LoadOptions{})
+	s, err := load.Load(pkg, load.Options{})
 	if err != nil {
 		b.Fatal(err)
 	}
-	sub, _, err := m.DB.CreateSubmission(context.Background(), store.NewSubmission{Key: k, Package: pkg, Title: "bench", PackageSHA256: s.SHA256})
+	sub, _, err := m.DB.CreateSubmission(context.Background(), service.NewSubmission{Key: k, Package: pkg, Title: "bench", PackageSHA256: s.SHA256})
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -12,6 +12,7 @@ import (
 	"strings"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 func toolVersion() string { return checks.ToolVersion }
@@ -85,7 +86,7 @@ func screenFile(ctx context.Context, path string, alpha float64, stderr io.Write
 		return nil, exitInvalid
 	}
 	dir := filepath.Dir(path)
-	study, err := checks.Load(doc, checks.LoadOptions{
+	study, err := load.Load(doc, load.Options{
 		ReadFile: func(name string) ([]byte, error) { return readBeside(dir, name) },
 	})
 	var invalid *checks.InvalidPackageError

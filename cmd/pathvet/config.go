@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // Config is the configuration of the server and workers: built here from
@@ -22,7 +23,7 @@ type Config struct {
 	RescueAfter time.Duration
 	Migrate     bool // apply migrations at start
 	Alpha       float64
-	Limits      checks.Limits
+	Limits      load.Limits
 	Shutdown    time.Duration
 }
 
@@ -35,7 +36,7 @@ func defaultConfig(getenv func(string) string) Config {
 		JobTimeout:  2 * time.Minute,
 		RescueAfter: 5 * time.Minute,
 		Alpha:       checks.DefaultAlpha,
-		Limits:      checks.DefaultLimits,
+		Limits:      load.DefaultLimits,
 		Shutdown:    20 * time.Second,
 	}
 	if v := getenv("PATHVET_ADDR"); v != "" {

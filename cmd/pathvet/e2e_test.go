@@ -18,6 +18,7 @@ import (
 	"gopkg.in/yaml.v3"
 
 	"github.com/pathvet/pathvet/api"
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/store"
 	"github.com/pathvet/pathvet/store/storetest"
@@ -122,10 +123,10 @@ func TestServer_EndToEnd(t *testing.T) {
 	db, url := storetest.MustOpenDB(t)
 	m := startMain(t, url)
 	base := m.URL()
-	editor := apiClient{t, &base, mustKeyToken(t, db, "Office A", store.RoleEditor)}
-	submitter := apiClient{t, &base, mustKeyToken(t, db, "Office A", store.RoleSubmitter)}
-	otherSubmitter := apiClient{t, &base, mustKeyToken(t, db, "Office A", store.RoleSubmitter)}
-	otherOffice := apiClient{t, &base, mustKeyToken(t, db, "Office B", store.RoleEditor)}
+	editor := apiClient{t, &base, mustKeyToken(t, db, "Office A", service.RoleEditor)}
+	submitter := apiClient{t, &base, mustKeyToken(t, db, "Office A", service.RoleSubmitter)}
+	otherSubmitter := apiClient{t, &base, mustKeyToken(t, db, "Office A", service.RoleSubmitter)}
+	otherOffice := apiClient{t, &base, mustKeyToken(t, db, "Office B", service.RoleEditor)}
 	anonymous := apiClient{t, &base, ""}
 	badKey := apiClient{t, &base, "pv_not-a-key"}
 
@@ -137,7 +138,7 @@ func TestServer_EndToEnd(t *testing.T) {
 	}
 	t.Run("Wait", func(t *testing.T) {
 		code, v := submitter.submission(sub.Links.Self + "?wait=20s")
-		if code != http.StatusOK || v.Status != store.StatusDone || v.Score == nil || v.Band == nil {
+		if code != http.StatusOK || v.Status != service.StatusDone || v.Score == nil || v.Band == nil {
 			t.Fatalf("after waiting: %d %+v", code, v)
 		}
 	})
@@ -198,7 +199,7 @@ func TestServer_EndToEnd(t *testing.T) {
 		if json.Unmarshal(b, &v); code != http.StatusAccepted {
 			t.Fatalf("multipart: %d %s", code, b)
 		}
-		if _, done := editor.submission(v.Links.Self + "?wait=20s"); done.Status != store.StatusDone || *done.Band != checks.BandModerate {
+		if _, done := editor.submission(v.Links.Self + "?wait=20s"); done.Status != service.StatusDone || *done.Band != checks.BandModerate {
 			t.Fatalf("multipart screening: %+v", done)
 		}
 	})
@@ -255,7 +256,7 @@ func TestServer_EndToEnd(t *testing.T) {
 		if code != http.StatusAccepted {
 			t.Fatalf("rerun: %d %s", code, b)
 		}
-		if _, v := editor.submission(sub.Links.Self + "?wait=20s"); v.Status != store.StatusDone || v.Reports != 2 {
+		if _, v := editor.submission(sub.Links.Self + "?wait=20s"); v.Status != service.StatusDone || v.Reports != 2 {
 			t.Fatalf("after rerun: %+v", v)
 		}
 		if code, _, _ := otherOffice.call(http.MethodPost, sub.Links.Self+"/rerun", "", nil); code != 404 {

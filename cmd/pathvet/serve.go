@@ -12,6 +12,7 @@ import (
 
 	"github.com/pathvet/pathvet/api"
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store"
 )
 
@@ -32,7 +33,7 @@ type Main struct {
 // the pipeline on it.
 func screenFunc(cfg Config) store.ScreenFunc {
 	return func(ctx context.Context, pkg, data []byte) (*checks.Report, error) {
-		s, err := checks.Load(pkg, checks.LoadOptions{Limits: cfg.Limits, CSV: data})
+		s, err := load.Load(pkg, load.Options{Limits: cfg.Limits, CSV: data})
 		if err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}

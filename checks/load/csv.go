@@ -1,4 +1,4 @@
-package checks
+package load
 
 import (
 	"bytes"
@@ -9,12 +9,14 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"github.com/pathvet/pathvet/checks"
 )
 
 // parseCSV reads the rows: a header naming variables, then one row per
 // participant. Empty cells, NA in any case and the package's missing codes
 // are missing.
-func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
+func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset {
 	d := s.Package.Data
 	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))))
 	r.ReuseRecord = true
@@ -28,7 +30,7 @@ func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
 	if cols == nil {
 		return nil
 	}
-	ds := &Dataset{Kind: DataRows, Columns: make([][]float64, len(s.Names))}
+	ds := &checks.Dataset{Kind: checks.DataRows, Columns: make([][]float64, len(s.Names))}
 	for i, name := range header {
 		if cols[i] < 0 {
 			ds.Ignored = append(ds.Ignored, strings.TrimSpace(name))
@@ -72,7 +74,7 @@ func (s *Study) parseCSV(text []byte, lim Limits, ps *problems) *Dataset {
 
 // headerColumns maps each CSV column to a variable index, -1 for an
 // ignored column.
-func (s *Study) headerColumns(header []string, r *csv.Reader, ps *problems) []int {
+func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []int {
 	ignore := map[string]bool{}
 	for _, c := range s.Package.Data.IgnoreColumns {
 		ignore[c] = true
@@ -107,7 +109,7 @@ func (s *Study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 	return append([]int(nil), cols...)
 }
 
-func (s *Study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool, ds *Dataset, ps *problems) {
+func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool, ds *checks.Dataset, ps *problems) {
 	for i, raw := range rec {
 		j := cols[i]
 		if j < 0 {
@@ -123,7 +125,7 @@ func (s *Study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[st
 		switch {
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
 			ps.csv(line, i+1, "%q in column %q is not a number", cell, s.Names[j])
-		case s.Package.Variables[j].Scale == ScaleBinary && x != 0 && x != 1:
+		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
 			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1", cell, s.Names[j])
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
@@ -131,7 +133,7 @@ func (s *Study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[st
 }
 
 // checkColumns reports variables with no observed value.
-func (s *Study) checkColumns(ds *Dataset, ps *problems) {
+func (s *study) checkColumns(ds *checks.Dataset, ps *problems) {
 	for j, col := range ds.Columns {
 		observed := 0
 		for _, x := range col {

@@ -1,4 +1,4 @@
-package checks
+package load
 
 import (
 	"fmt"
@@ -9,6 +9,7 @@ import (
 
 	"github.com/go-playground/validator/v10"
 
+	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/dag"
 )
 
@@ -36,7 +37,7 @@ var fieldRules = sync.OnceValue(func() *validator.Validate {
 
 // checkFields runs the validator and turns each failure into a Problem
 // with the field's JSON pointer.
-func checkFields(pkg *Package, ps *problems) {
+func checkFields(pkg *checks.Package, ps *problems) {
 	err := fieldRules().Struct(pkg)
 	if err == nil {
 		return
@@ -96,7 +97,7 @@ func ruleText(fe validator.FieldError) string {
 }
 
 // checkLimits reports every count above its limit, naming the limit.
-func checkLimits(pkg *Package, lim Limits, ps *problems) {
+func checkLimits(pkg *checks.Package, lim Limits, ps *problems) {
 	over := func(ptr, what string, n, max int) {
 		if n > max {
 			ps.at(ptr, "has %d %s; the limit is %d", n, what, max)
@@ -115,7 +116,7 @@ func checkLimits(pkg *Package, lim Limits, ps *problems) {
 }
 
 // indexVariables maps names to positions and reports duplicates.
-func indexVariables(pkg *Package, ps *problems) map[string]int {
+func indexVariables(pkg *checks.Package, ps *problems) map[string]int {
 	index := map[string]int{}
 	for i, v := range pkg.Variables {
 		if j, dup := index[v.Name]; dup {
@@ -129,7 +130,7 @@ func indexVariables(pkg *Package, ps *problems) map[string]int {
 
 // graphEdges resolves a list of named edges: names declared, no
 // self-loops, no duplicates. It returns nil when any edge is bad.
-func graphEdges(base string, edges []Edge, index map[string]int, ps *problems) []dag.Edge {
+func graphEdges(base string, edges []checks.Edge, index map[string]int, ps *problems) []dag.Edge {
 	out := make([]dag.Edge, 0, len(edges))
 	seen := map[[2]int]int{}
 	bad := false
@@ -179,7 +180,7 @@ func acyclicGraph(base string, n int, edges []dag.Edge, names []string, ps *prob
 }
 
 // checkExogenous reports every edge that points into an exogenous variable.
-func checkExogenous(base string, pkg *Package, edges []Edge, index map[string]int, ps *problems) {
+func checkExogenous(base string, pkg *checks.Package, edges []checks.Edge, index map[string]int, ps *problems) {
 	for i, e := range edges {
 		if j, ok := index[e.To]; ok && pkg.Variables[j].Exogenous {
 			ps.at(base+pointer(i, "to"), "points into %q, which /variables/%d declares exogenous", e.To, j)
@@ -188,7 +189,7 @@ func checkExogenous(base string, pkg *Package, edges []Edge, index map[string]in
 }
 
 // checkClaims checks the claims' ids and the variables they name.
-func checkClaims(pkg *Package, index map[string]int, ps *problems) {
+func checkClaims(pkg *checks.Package, index map[string]int, ps *problems) {
 	ids := map[string]int{}
 	for i, c := range pkg.Claims {
 		at := pointer("claims", i)
@@ -209,7 +210,7 @@ func checkClaims(pkg *Package, index map[string]int, ps *problems) {
 	}
 }
 
-func checkAdjustFor(at string, c Claim, index map[string]int, ps *problems) {
+func checkAdjustFor(at string, c checks.Claim, index map[string]int, ps *problems) {
 	seen := map[string]bool{}
 	for k, a := range c.AdjustFor {
 		p := at + pointer("adjust_for", k)
@@ -225,7 +226,7 @@ func checkAdjustFor(at string, c Claim, index map[string]int, ps *problems) {
 	}
 }
 
-func checkReported(at string, c Claim, ps *problems) {
+func checkReported(at string, c checks.Claim, ps *problems) {
 	if len(c.CI) == 2 && c.CI[0] > c.CI[1] {
 		ps.at(at+"/ci", "lower limit %g is above upper limit %g", c.CI[0], c.CI[1])
 	}

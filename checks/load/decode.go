@@ -1,4 +1,4 @@
-package checks
+package load
 
 import (
 	"bytes"
@@ -8,31 +8,33 @@ import (
 	"reflect"
 	"sort"
 	"strings"
+
+	"github.com/pathvet/pathvet/checks"
 )
 
 // decodeStrict decodes a package document. Before decoding into the Go
 // types it walks the generic JSON value against them, so that every
 // unknown field and every value of the wrong type is reported at once, each
 // with its JSON pointer, rather than only the first one.
-func decodeStrict(doc []byte, pkg *Package) error {
+func decodeStrict(doc []byte, pkg *checks.Package) error {
 	dec := json.NewDecoder(bytes.NewReader(doc))
 	dec.UseNumber()
 	var v any
 	if err := dec.Decode(&v); err != nil {
-		return &InvalidPackageError{Problems: []Problem{{Detail: "not valid JSON: " + jsonErrorText(doc, err)}}}
+		return &checks.InvalidPackageError{Problems: []checks.Problem{{Detail: "not valid JSON: " + jsonErrorText(doc, err)}}}
 	}
 	if dec.More() {
-		return &InvalidPackageError{Problems: []Problem{{Detail: "not valid JSON: more than one value in the document"}}}
+		return &checks.InvalidPackageError{Problems: []checks.Problem{{Detail: "not valid JSON: more than one value in the document"}}}
 	}
 	var ps problems
-	walkJSON(v, reflect.TypeFor[Package](), "", &ps)
+	walkJSON(v, reflect.TypeFor[checks.Package](), "", &ps)
 	if err := ps.err(); err != nil {
 		return err
 	}
 	strict := json.NewDecoder(bytes.NewReader(doc))
 	strict.DisallowUnknownFields()
 	if err := strict.Decode(pkg); err != nil {
-		return &InvalidPackageError{Problems: []Problem{{Detail: err.Error()}}}
+		return &checks.InvalidPackageError{Problems: []checks.Problem{{Detail: err.Error()}}}
 	}
 	return nil
 }
@@ -94,7 +96,7 @@ func walkJSON(v any, t reflect.Type, ptr string, ps *problems) {
 	case reflect.Float64:
 		walkNumber(v, ptr, ps)
 	default:
-		panic("checks: no JSON rule for " + t.String())
+		panic("load: no JSON rule for " + t.String())
 	}
 }
 

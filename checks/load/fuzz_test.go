@@ -1,4 +1,4 @@
-package checks_test
+package load_test
 
 import (
 	"context"
@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // FuzzLoad feeds arbitrary documents to the package decoder: it must
@@ -17,8 +18,8 @@ import (
 // study must then screen without any check failing to run. Seeds: every
 // demo, calibration and bad package.
 func FuzzLoad(f *testing.F) {
-	paths, _ := filepath.Glob("../testdata/bad/*.json")
-	calibration, _ := filepath.Glob("../testdata/calibration/*/package.json")
+	paths, _ := filepath.Glob("../../testdata/bad/*.json")
+	calibration, _ := filepath.Glob("../../testdata/calibration/*/package.json")
 	paths = append(append(paths, demoPackages(f)...), calibration...)
 	for _, p := range paths {
 		b, err := os.ReadFile(p)
@@ -28,7 +29,7 @@ func FuzzLoad(f *testing.F) {
 		f.Add(b)
 	}
 	f.Fuzz(func(t *testing.T, doc []byte) {
-		s, err := checks.Load(doc, checks.LoadOptions{})
+		s, err := load.Load(doc, load.Options{})
 		var invalid *checks.InvalidPackageError
 		if err != nil && !errors.As(err, &invalid) {
 			t.Fatalf("error of the wrong kind: %v", err)
@@ -76,7 +77,7 @@ func FuzzCSV(f *testing.F) {
 		f.Add([]byte(seed))
 	}
 	f.Fuzz(func(t *testing.T, csv []byte) {
-		s, err := checks.Load(doc, checks.LoadOptions{CSV: csv})
+		s, err := load.Load(doc, load.Options{CSV: csv})
 		var invalid *checks.InvalidPackageError
 		if err != nil && !errors.As(err, &invalid) {
 			t.Fatalf("error of the wrong kind: %v", err)

@@ -1,0 +1,63 @@
+package service
+
+import "time"
+
+// Submission statuses.
+const (
+	StatusQueued  = "queued"
+	StatusRunning = "running"
+	StatusDone    = "done"
+	StatusFailed  = "failed"
+)
+
+// Statuses lists every submission status.
+var Statuses = []string{StatusQueued, StatusRunning, StatusDone, StatusFailed}
+
+// Finished reports whether a status is final until a rerun.
+func Finished(status string) bool { return status == StatusDone || status == StatusFailed }
+
+// Submission is one package sent for screening, without its bytes.
+type Submission struct {
+	ID             string
+	OfficeID       int64
+	SubmitterKeyID int64
+	// SubmittedBy is the label of the key that sent it.
+	SubmittedBy   string
+	ManuscriptID  string
+	Title         string
+	PackageSHA256 string
+	Status        string
+	Error         string
+	Attempts      int
+	// Score and Band are those of the newest report; Reports counts them.
+	Score     *int
+	Band      *string
+	Reports   int
+	CreatedAt time.Time
+	UpdatedAt time.Time
+}
+
+// NewSubmission is what a store keeps for a new submission.
+type NewSubmission struct {
+	Key            *Key
+	Package, Data  []byte
+	Title          string
+	ManuscriptID   string
+	PackageSHA256  string
+	IdempotencyKey string
+}
+
+// Filter selects submissions for a listing.
+type Filter struct {
+	Scope        Scope
+	ManuscriptID string
+	Status       string
+	Band         string
+	// Cursor continues a listing where an earlier page ended; Limit is the
+	// page size.
+	Cursor string
+	Limit  int
+}
+
+// MaxPage is the largest page of a listing.
+const MaxPage = 200

@@ -1,0 +1,210 @@
+package load
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// maxCSVProblems is how many data errors are listed before the rest are
+// summed up in one line.
+const maxCSVProblems = 50
+
+// Numerical tolerances for summary matrices as papers print them.
+const (
+	symmetryTol = 1e-6
+	diagonalTol = 1e-6
+)
+
+// resolveData checks the data section and fills s.Data; it returns the
+// CSV text for the package hash.
+func (s *study) resolveData(opt Options, lim Limits, ps *problems) []byte {
+	d := s.Package.Data
+	if d.Kind == checks.DataSummary {
+		for _, f := range []struct {
+			name string
+			set  bool
+		}{{"file", d.File != ""}, {"csv", d.CSV != ""}, {"missing_codes", d.MissingCodes != nil}, {"ignore_columns", d.IgnoreColumns != nil}} {
+			if f.set {
+				ps.at("/data/"+f.name, "is for data of kind rows, not summary")
+			}
+		}
+		if opt.CSV != nil {
+			ps.at("/data/kind", "is summary, but CSV data were sent beside the package")
+		}
+		s.Data = summaryData(d, s.Index, len(s.Names), ps)
+		return nil
+	}
+	for _, f := range []struct {
+		name string
+		set  bool
+	}{{"n", d.N != 0}, {"variables", d.Variables != nil}, {"correlations", d.Correlations != nil}, {"sds", d.SDs != nil}, {"means", d.Means != nil}} {
+		if f.set {
+			ps.at("/data/"+f.name, "is for data of kind summary, not rows")
+		}
+	}
+	text, ok := csvSource(d, opt, lim, ps)
+	if !ok {
+		return nil
+	}
+	s.Data = s.parseCSV(text, lim, ps)
+	return text
+}
+
+// csvSource finds the CSV bytes: inline, sent beside, or from a file.
+func csvSource(d checks.Data, opt Options, lim Limits, ps *problems) ([]byte, bool) {
+	sources := 0
+	for _, set := range []bool{d.CSV != "", d.File != "" && opt.CSV == nil, opt.CSV != nil} {
+		if set {
+			sources++
+		}
+	}
+	var text []byte
+	switch {
+	case sources > 1:
+		ps.at("/data", "gives its rows twice: use one of csv, file, or data sent beside the package")
+		return nil, false
+	case d.CSV != "":
+		text = []byte(d.CSV)
+	case opt.CSV != nil:
+		text = opt.CSV
+	case d.File != "" && opt.ReadFile == nil:
+		ps.at("/data/file", "cannot be read here: send the CSV as the multipart part named data, or inline as csv")
+		return nil, false
+	case d.File != "":
+		b, err := opt.ReadFile(d.File)
+		if err != nil {
+			ps.at("/data/file", "cannot be read: %v", err)
+			return nil, false
+		}
+		text = b
+	default:
+		ps.at("/data", "has no rows: give csv, file, or send the data beside the package")
+		return nil, false
+	}
+	if int64(len(text)) > lim.CSVBytes {
+		ps.at("/data", "the CSV data are %d bytes; the limit is %d", len(text), lim.CSVBytes)
+		return nil, false
+	}
+	return text, true
+}
+
+// summaryData checks printed summary statistics and orders them like the
+// declared variables.
+func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *checks.Dataset {
+	before := len(ps.list)
+	pos := make([]int, len(d.Variables)) // data order → variable index
+	seen := map[string]int{}
+	for i, name := range d.Variables {
+		at := pointer("data", "variables", i)
+		j, ok := index[name]
+		switch _, dup := seen[name]; {
+		case !ok:
+			ps.at(at, "%q names no declared variable", name)
+		case dup:
+			ps.at(at, "%q is listed twice", name)
+		}
+		seen[name], pos[i] = i, j
+	}
+	for name, j := range index {
+		if _, ok := seen[name]; !ok {
+			ps.at(pointer("variables", j, "name"), "%q has no entry in /data/variables", name)
+		}
+	}
+	if d.N < 3 {
+		ps.at("/data/n", "must be at least 3 for data of kind summary")
+	}
+	k := len(d.Variables)
+	r := correlationMatrix(d.Correlations, k, ps)
+	checkVector("sds", d.SDs, k, true, ps)
+	checkVector("means", d.Means, k, false, ps)
+	if len(ps.list) > before {
+		return nil
+	}
+	ds := &checks.Dataset{Kind: checks.DataSummary, N: d.N, Cor: mat.NewSymDense(p, nil)}
+	for i := range k {
+		for j := range k {
+			ds.Cor.SetSym(pos[i], pos[j], r.At(i, j))
+		}
+	}
+	ds.SD, ds.Means = reorder(d.SDs, pos), reorder(d.Means, pos)
+	return ds
+}
+
+func reorder(v []float64, pos []int) []float64 {
+	if v == nil {
+		return nil
+	}
+	out := make([]float64, len(v))
+	for i, x := range v {
+		out[pos[i]] = x
+	}
+	return out
+}
+
+func checkVector(name string, v []float64, k int, positive bool, ps *problems) {
+	if v == nil {
+		return
+	}
+	if len(v) != k {
+		ps.at("/data/"+name, "has %d entries; /data/variables has %d", len(v), k)
+		return
+	}
+	for i, x := range v {
+		if positive && x <= 0 {
+			ps.at(pointer("data", name, i), "must be greater than 0")
+		}
+	}
+}
+
+// correlationMatrix reads a full matrix or its lower triangle and checks
+// that it is symmetric, has a unit diagonal, entries in [-1, 1], and is
+// positive definite.
+func correlationMatrix(rows [][]float64, k int, ps *problems) *mat.SymDense {
+	if len(rows) != k {
+		ps.at("/data/correlations", "has %d rows; /data/variables has %d", len(rows), k)
+		return nil
+	}
+	full := k > 1 && len(rows[0]) == k
+	before := len(ps.list)
+	for i, row := range rows {
+		if want := map[bool]int{true: k, false: i + 1}[full]; len(row) != want {
+			ps.at(pointer("data", "correlations", i), "has %d entries; want %d (%s)", len(row), want,
+				map[bool]string{true: "full matrix, as row 0", false: "lower triangle: row i has i+1 entries"}[full])
+		}
+	}
+	if len(ps.list) > before {
+		return nil
+	}
+	m := mat.NewSymDense(k, nil)
+	for i, row := range rows {
+		for j := 0; j <= i; j++ {
+			x := row[j]
+			at := pointer("data", "correlations", i, j)
+			switch {
+			case i == j && math.Abs(x-1) > diagonalTol:
+				ps.at(at, "is %g; a correlation matrix has 1 on its diagonal", x)
+			case x < -1 || x > 1:
+				ps.at(at, "is %g; a correlation lies in [-1, 1]", x)
+			case full && math.Abs(x-rows[j][i]) > symmetryTol:
+				ps.at(at, "is %g, but /data/correlations/%d/%d is %g: the matrix is not symmetric", x, j, i, rows[j][i])
+			}
+			m.SetSym(i, j, x)
+		}
+	}
+	if len(ps.list) > before {
+		return nil
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(m, false) {
+		ps.at("/data/correlations", "its eigenvalues could not be computed")
+		return nil
+	}
+	if low := eig.Values(nil)[0]; low <= checks.MinEigen {
+		ps.at("/data/correlations", "is not positive definite: its smallest eigenvalue is %.6g", low)
+		return nil
+	}
+	return m
+}
