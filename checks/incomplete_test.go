@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // codingClubWith is the coding-club demo with its rows replaced by csv.
@@ -20,7 +21,7 @@ func codingClubWith(tb testing.TB, csv string) *checks.Study {
 	}
 	inline, _ := json.Marshal(csv)
 	doc = bytes.Replace(doc, []byte(`"file": "rows.csv"`), []byte(`"csv": `+string(inline)), 1)
-	s, err := checks.Load(doc, checks.LoadOptions{})
+	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -85,7 +86,7 @@ func TestRun_NothingEstimable(t *testing.T) {
 func TestRun_TooFewCasesSummary(t *testing.T) {
 	doc, _ := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
 	doc = bytes.Replace(doc, []byte(`"n": 640`), []byte(`"n": 4`), 1)
-	s, err := checks.Load(doc, checks.LoadOptions{})
+	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/load"
 )
 
 // loadEdited loads a demo with old replaced by new in its document.
@@ -24,7 +25,7 @@ func loadEdited(tb testing.TB, path, old, new string) *checks.Study {
 		tb.Fatalf("%s does not contain %q", path, old)
 	}
 	doc = bytes.Replace(doc, []byte(old), []byte(new), 1)
-	s, err := checks.Load(doc, checks.LoadOptions{ReadFile: func(name string) ([]byte, error) {
+	s, err := load.Load(doc, load.Options{ReadFile: func(name string) ([]byte, error) {
 		return os.ReadFile(filepath.Join(filepath.Dir(path), name))
 	}})
 	if err != nil {
