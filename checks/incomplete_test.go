@@ -71,6 +71,9 @@ func TestRun_NothingEstimable(t *testing.T) {
 					t.Errorf("%s declared: %q, want the cause %q", cl.ID, cl.Declared.Error, tc.cause)
 				}
 			}
+			if !strings.Contains(r.Data.Note, tc.cause) {
+				t.Errorf("data note %q, want the cause %q", r.Data.Note, tc.cause)
+			}
 			if eq := checkOf(r, "equivalence"); eq.Status == checks.StatusPass {
 				t.Errorf("equivalence passes with no claim estimated: %s", eq.Summary)
 			}

@@ -165,7 +165,7 @@ func (a *Analysis) dataReport() DataReport {
 	r.Rows, r.Estimation = d.N, "complete_cases"
 	m, err := a.moments()
 	if err != nil {
-		r.Note = err.Error()
+		r.Note = a.dataError().Error()
 		return r
 	}
 	r.CompleteCases = m.N
