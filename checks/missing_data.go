@@ -17,7 +17,7 @@ import (
 var missingDataCheck = Check{
 	ID:    "missing-data",
 	Title: "Missing data",
-	Run:   runMissingData,
+	Run:   withDataQuality(runMissingData),
 	Summaries: map[string]string{
 		StatusPass:          "No claim changes its conclusion once missing values are handled by a principled method.",
 		StatusWarn:          "The way missing values were handled or reported needs attention; see the findings.",
@@ -272,6 +272,9 @@ func completeRows(method string, res CheckResult) CheckResult {
 		return res
 	}
 	res.Status = StatusNotApplicable
+	// Said here, not left to the declared summary: withDataQuality may
+	// append to it.
+	res.Summary = "No value is missing in the data, so there is nothing to re-analyse."
 	return res
 }
 

@@ -1,6 +1,6 @@
 package checks
 
-// The submission package, format version 1 (../shared/spec/package-format.md;
+// The submission package, format version 1 (schema/package-format.md;
 // the JSON Schema is schema/package-v1.schema.json). Field names are the
 // JSON names; rules that the validator checks stand in the validate tags,
 // the rest in validate.go.
@@ -130,7 +130,7 @@ type Data struct {
 	CSV           string      `json:"csv,omitempty"`
 	MissingCodes  []string    `json:"missing_codes,omitempty" validate:"max=100,dive,max=100"`
 	IgnoreColumns []string    `json:"ignore_columns,omitempty" validate:"max=10000"`
-	N             int         `json:"n,omitempty" validate:"gte=0"`
+	N             int         `json:"n,omitempty" validate:"gte=0,lte=100000000"`
 	Variables     []string    `json:"variables,omitempty"`
 	Correlations  [][]float64 `json:"correlations,omitempty"`
 	SDs           []float64   `json:"sds,omitempty"`

@@ -7,7 +7,7 @@ import (
 	"time"
 )
 
-// The screening report, format version 1 (../shared/spec/report-format.md;
+// The screening report, format version 1 (schema/report-format.md;
 // the JSON Schema is schema/report-v1.schema.json).
 
 // ReportFormatVersion is the version of the report format.

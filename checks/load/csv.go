@@ -31,6 +31,10 @@ func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset 
 		return nil
 	}
 	ds := &checks.Dataset{Kind: checks.DataRows, Columns: make([][]float64, len(s.Names))}
+	rows := min(bytes.Count(text, []byte{'\n'}), lim.Rows+1)
+	for j := range ds.Columns {
+		ds.Columns[j] = make([]float64, 0, rows)
+	}
 	for i, name := range header {
 		if cols[i] < 0 {
 			ds.Ignored = append(ds.Ignored, strings.TrimSpace(name))
@@ -50,12 +54,10 @@ func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset 
 			ps.csv(0, 0, "further data errors are not listed")
 			return nil
 		}
-		var pe *csv.ParseError
-		if errors.As(err, &pe) && errors.Is(err, csv.ErrFieldCount) {
-			ps.csv(pe.Line, 0, "the row has %d fields; the header has %d", len(rec), len(header))
-			continue
-		}
 		if err != nil {
+			if fieldCount(err, len(rec), len(header), ps) {
+				continue
+			}
 			csvReadError(err, ps)
 			return nil
 		}
@@ -69,7 +71,26 @@ func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset 
 		ps.csv(1, 0, "the data have a header but no rows")
 	}
 	s.checkColumns(ds, ps)
+	s.findSuspects(ds)
 	return ds
+}
+
+// findSuspects lists the likely undeclared codes of every column that is
+// not binary (a binary column refuses any value but 0 and 1).
+func (s *study) findSuspects(ds *checks.Dataset) {
+	for j, col := range ds.Columns {
+		if s.Package.Variables[j].Scale != checks.ScaleBinary {
+			ds.Suspects = append(ds.Suspects, Suspects(s.Names[j], col)...)
+		}
+	}
+}
+
+// codeHint suggests declaring a cell as a missing-value code.
+func codeHint(cell string, likely bool) string {
+	if !likely {
+		return ""
+	}
+	return fmt.Sprintf("; if it marks a missing value, list %q in /data/missing_codes", cell)
 }
 
 // headerColumns maps each CSV column to a variable index, -1 for an
@@ -94,7 +115,8 @@ func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 		case ignore[name]:
 			cols[i] = -1
 		default:
-			ps.csv(line, i+1, "column %q is not a declared variable; list it in /data/ignore_columns to skip it", name)
+			ps.csv(line, i+1, "column %q is not a declared variable%s; list it in /data/ignore_columns to skip it",
+				name, didYouMean(name, s.Names))
 		}
 		seen[name] = true
 	}
@@ -109,7 +131,8 @@ func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 	return append([]int(nil), cols...)
 }
 
-func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool, ds *checks.Dataset, ps *problems) {
+func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool,
+	ds *checks.Dataset, ps *problems) {
 	for i, raw := range rec {
 		j := cols[i]
 		if j < 0 {
@@ -124,9 +147,10 @@ func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[st
 		line, _ := r.FieldPos(i)
 		switch {
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
-			ps.csv(line, i+1, "%q in column %q is not a number", cell, s.Names[j])
+			ps.csv(line, i+1, "%q in column %q is not a number%s", cell, s.Names[j], codeHint(cell, missingMark(cell)))
 		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1", cell, s.Names[j])
+			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s",
+				cell, s.Names[j], codeHint(cell, CodeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}
@@ -145,6 +169,17 @@ func (s *study) checkColumns(ds *checks.Dataset, ps *problems) {
 			ps.at(pointer("variables", j, "name"), "every value of %q in the data is missing", s.Names[j])
 		}
 	}
+}
+
+// fieldCount reports a row with the wrong number of fields, which the
+// reader can read on from.
+func fieldCount(err error, got, want int, ps *problems) bool {
+	var pe *csv.ParseError
+	if !errors.As(err, &pe) || !errors.Is(err, csv.ErrFieldCount) {
+		return false
+	}
+	ps.csv(pe.Line, 0, "the row has %d fields; the header has %d", got, want)
+	return true
 }
 
 func csvReadError(err error, ps *problems) {

@@ -22,7 +22,7 @@ const (
 // CSV text for the package hash.
 func (s *study) resolveData(opt Options, lim Limits, ps *problems) []byte {
 	d := s.Package.Data
-	if d.Kind == checks.DataSummary {
+	if dataKind(d) == checks.DataSummary {
 		for _, f := range []struct {
 			name string
 			set  bool
@@ -51,6 +51,19 @@ func (s *study) resolveData(opt Options, lim Limits, ps *problems) []byte {
 	}
 	s.Data = s.parseCSV(text, lim, ps)
 	return text
+}
+
+// dataKind is the data's kind, or, when the package names no valid kind
+// (an error reported already), the kind its fields suggest, so that their
+// own problems are found too.
+func dataKind(d checks.Data) string {
+	switch {
+	case d.Kind == checks.DataRows || d.Kind == checks.DataSummary:
+		return d.Kind
+	case d.N != 0 || d.Variables != nil || d.Correlations != nil:
+		return checks.DataSummary
+	}
+	return checks.DataRows
 }
 
 // csvSource finds the CSV bytes: inline, sent beside, or from a file.
@@ -102,7 +115,7 @@ func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *chec
 		j, ok := index[name]
 		switch _, dup := seen[name]; {
 		case !ok:
-			ps.at(at, "%q names no declared variable", name)
+			ps.at(at, "%s", unknownName(name, index))
 		case dup:
 			ps.at(at, "%q is listed twice", name)
 		}

@@ -4,40 +4,52 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"maps"
 	"math"
 	"reflect"
+	"slices"
 	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks"
 )
 
-// decodeStrict decodes a package document. Before decoding into the Go
-// types it walks the generic JSON value against them, so that every
-// unknown field and every value of the wrong type is reported at once, each
-// with its JSON pointer, rather than only the first one.
-func decodeStrict(doc []byte, pkg *checks.Package) error {
+// decode reads a package document into pkg, reporting every problem it
+// can find at once: each duplicate key, NUL character or invalid UTF-8
+// sequence, unknown field and value of the wrong type, with its JSON
+// pointer. It returns false when nothing more can be read from the
+// document (not JSON, or not an object); otherwise pkg holds every value
+// of the right type, and the later stages check it, leaving out the places
+// already reported.
+func decode(doc []byte, pkg *checks.Package, ps *problems) bool {
 	dec := json.NewDecoder(bytes.NewReader(doc))
 	dec.UseNumber()
 	var v any
 	if err := dec.Decode(&v); err != nil {
-		return &checks.InvalidPackageError{Problems: []checks.Problem{{Detail: "not valid JSON: " + jsonErrorText(doc, err)}}}
+		ps.at("", "not valid JSON: %s", jsonErrorText(doc, err))
+		return false
 	}
 	if dec.More() {
-		return &checks.InvalidPackageError{Problems: []checks.Problem{{Detail: "not valid JSON: more than one value in the document"}}}
+		ps.at("", "not valid JSON: more than one value in the document")
+		return false
 	}
-	var ps problems
-	walkJSON(v, reflect.TypeFor[checks.Package](), "", &ps)
-	if err := ps.err(); err != nil {
-		return err
+	scanTokens(doc, ps)
+	walkJSON(v, reflect.TypeFor[checks.Package](), "", ps)
+	if _, ok := v.(map[string]any); !ok {
+		return false
 	}
-	strict := json.NewDecoder(bytes.NewReader(doc))
-	strict.DisallowUnknownFields()
-	if err := strict.Decode(pkg); err != nil {
-		return &checks.InvalidPackageError{Problems: []checks.Problem{{Detail: err.Error()}}}
-	}
-	return nil
+	// Values of the wrong type are left at zero, and unknown fields are
+	// skipped: both are reported above.
+	_ = json.Unmarshal(doc, pkg)
+	ps.shadow()
+	return true
 }
+
+// Placeholder begins a string that marks a value still to be filled in,
+// as pathvet init writes them: in any field, of any type, it is refused
+// with the text that follows it.
+const Placeholder = "TODO:"
 
 // jsonErrorText adds the line and column to a syntax error.
 func jsonErrorText(doc []byte, err error) string {
@@ -71,6 +83,10 @@ func walkJSON(v any, t reflect.Type, ptr string, ps *problems) {
 		ps.at(ptr, "must not be null")
 		return
 	}
+	if str, ok := v.(string); ok && strings.HasPrefix(str, Placeholder) {
+		ps.at(ptr, "is still to be filled in (%s)", strings.TrimSpace(strings.TrimPrefix(str, Placeholder)))
+		return
+	}
 	switch t.Kind() {
 	case reflect.Struct:
 		walkObject(v, t, ptr, ps)
@@ -81,8 +97,16 @@ func walkJSON(v any, t reflect.Type, ptr string, ps *problems) {
 			return
 		}
 		for i, e := range arr {
-			walkJSON(e, t.Elem(), ptr+"/"+fmt.Sprint(i), ps)
+			walkJSON(e, t.Elem(), ptr+"/"+strconv.Itoa(i), ps)
 		}
+	default:
+		walkScalar(v, t, ptr, ps)
+	}
+}
+
+// walkScalar checks a string, a boolean or a number.
+func walkScalar(v any, t reflect.Type, ptr string, ps *problems) {
+	switch t.Kind() {
 	case reflect.String:
 		if _, ok := v.(string); !ok {
 			ps.at(ptr, "must be a string, not %s", jsonKind(v))
@@ -119,7 +143,7 @@ func walkObject(v any, t reflect.Type, ptr string, ps *problems) {
 	for _, k := range keys {
 		f, ok := fields[k]
 		if !ok {
-			ps.at(ptr+pointer(k), "unknown field %q", k)
+			ps.at(ptr+pointer(k), "unknown field %q%s", k, didYouMean(k, slices.Sorted(maps.Keys(fields))))
 			continue
 		}
 		walkJSON(obj[k], f.Type, ptr+pointer(k), ps)
@@ -133,12 +157,20 @@ func walkInt(v any, ptr string, ps *problems) {
 		return
 	}
 	if _, err := n.Int64(); err != nil {
+		if f, ferr := n.Float64(); ferr == nil && f == math.Trunc(f) {
+			ps.at(ptr, "number %s is out of range", n)
+			return
+		}
 		ps.at(ptr, "must be an integer, not %s", n)
 	}
 }
 
 func walkNumber(v any, ptr string, ps *problems) {
 	n, ok := v.(json.Number)
+	if str, isStr := v.(string); isStr {
+		ps.at(ptr, "must be a number, not a string%s", numberHint(ptr, str))
+		return
+	}
 	if !ok {
 		ps.at(ptr, "must be a number, not %s", jsonKind(v))
 		return

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -91,4 +92,22 @@ func FuzzCSV(f *testing.F) {
 			screenCleanly(t, s)
 		}
 	})
+}
+
+func ftoa(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+
+// checkOf screens s and returns the check with the id.
+func checkOf(t *testing.T, s *checks.Study, id string) checks.CheckResult {
+	t.Helper()
+	r, err := checks.Run(context.Background(), s, checks.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range r.Checks {
+		if c.ID == id {
+			return c
+		}
+	}
+	t.Fatalf("no check %s", id)
+	return checks.CheckResult{}
 }

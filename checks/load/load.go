@@ -6,9 +6,6 @@
 package load
 
 import (
-	"crypto/sha256"
-	"encoding/hex"
-	"encoding/json"
 	"fmt"
 
 	"github.com/pathvet/pathvet/checks"
@@ -65,13 +62,13 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 			Detail: fmt.Sprintf("the package is %d bytes; the limit is %d", len(doc), lim.PackageBytes)}}}
 	}
 	pkg := new(checks.Package)
-	if err := decodeStrict(doc, pkg); err != nil {
-		return nil, err
-	}
 	var ps problems
+	if !decode(doc, pkg, &ps) {
+		return nil, ps.err()
+	}
 	checkFields(pkg, &ps)
-	checkLimits(pkg, lim, &ps)
-	if len(ps.list) > 0 {
+	ps.shadow()
+	if checkLimits(pkg, lim, &ps) {
 		return nil, ps.err()
 	}
 	s := &study{&checks.Study{Package: pkg, Index: indexVariables(pkg, &ps), Printed: printedClaims(doc, len(pkg.Claims))}}
@@ -80,7 +77,10 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 	}
 	s.resolveGraphs(&ps)
 	checkClaims(pkg, s.Index, &ps)
-	csvText := s.resolveData(opt, lim, &ps)
+	var csvText []byte
+	if !ps.coveredBelow("/data", "/data/kind") {
+		csvText = s.resolveData(opt, lim, &ps)
+	}
 	if err := ps.err(); err != nil {
 		return nil, err
 	}
@@ -136,18 +136,4 @@ func (s *study) background(fixed []dag.Edge, ps *problems) {
 			s.Background = append(s.Background, dag.ExogenousArcs(s.Declared, i)...)
 		}
 	}
-}
-
-// canonicalHash hashes the package as re-encoded by this program with its
-// CSV inline, so the same study hashes alike from the CLI and the API.
-func canonicalHash(pkg *checks.Package, csvText []byte) string {
-	c := *pkg
-	c.Data.File = ""
-	c.Data.CSV = string(csvText)
-	b, err := json.Marshal(&c)
-	if err != nil {
-		panic(err) // a decoded package always encodes
-	}
-	sum := sha256.Sum256(b)
-	return hex.EncodeToString(sum[:])
 }

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -17,9 +18,10 @@ import (
 )
 
 type badCase struct {
-	File          string `json:"file"`
-	Place         string `json:"place"`
-	SchemaRejects *bool  `json:"schema_rejects"`
+	File          string   `json:"file"`
+	Place         string   `json:"place"`
+	Also          []string `json:"also"`
+	SchemaRejects *bool    `json:"schema_rejects"`
 }
 
 func badCases(tb testing.TB) []badCase {
@@ -73,12 +75,13 @@ func TestLoad_BadInputs(t *testing.T) {
 			if !errors.As(err, &invalid) {
 				t.Fatalf("want an invalid-package error, got %v", err)
 			}
-			for _, p := range invalid.Problems {
-				if strings.Contains(p.String(), tc.Place) {
-					return
+			for _, want := range append([]string{tc.Place}, tc.Also...) {
+				if !slices.ContainsFunc(invalid.Problems, func(p checks.Problem) bool {
+					return strings.Contains(p.String(), want)
+				}) {
+					t.Errorf("no problem names %q; got:\n%v", want, err)
 				}
 			}
-			t.Fatalf("no problem names %q; got:\n%v", tc.Place, err)
 		})
 	}
 }
@@ -171,22 +174,48 @@ func TestLoad_Limits(t *testing.T) {
 	}
 }
 
-// Every problem is reported at once, not only the first.
+// Every problem is reported at once, not only the first: structural
+// faults, field rules and cross-references alike, in one list.
 func TestLoad_AllProblemsAtOnce(t *testing.T) {
 	doc := []byte(`{"format_version": 1, "title": "t", "design": "cohort", "titel": 1,
 		"variables": [{"name": "a", "scale": "continuous"}, {"name": "b", "scale": "nominal"}],
-		"claims": [{"id": "C1", "text": "t", "kind": "association", "from": "a", "to": "b", "p_value": 2}],
-		"data": {"kind": "summary", "n": 10, "variables": ["a", "b"], "correlations": [[1], [0.2, 1]]}}`)
+		"graph": {"edges": [{"from": "a", "to": "bb"}]},
+		"claims": [{"id": "C1", "text": "t", "kind": "association", "from": "a", "to": "b", "p_value": 2,
+		            "ci_level": 95, "adjust_for": ["c"]}],
+		"data": {"kind": "summary", "n": 10, "variables": ["a", "b"], "correlations": [[1], [0.2]]}}`)
 	_, err := load.Load(doc, load.Options{})
-	if err == nil || !strings.Contains(err.Error(), "/titel") {
-		t.Fatalf("structural pass: %v", err)
-	}
-	doc = bytes.Replace(doc, []byte(`"titel": 1,`), nil, 1)
-	_, err = load.Load(doc, load.Options{})
-	for _, want := range []string{"/design", "/variables/1/scale", "/claims/0/p_value"} {
+	for _, want := range []string{"/titel", "/design", "/variables/1/scale", "/claims/0/p_value",
+		"/claims/0/ci_level: is 95, but the level is a proportion", "/graph/edges/0/to", "/claims/0/adjust_for/0",
+		"/data/correlations/1: has 1 entries; want 2"} {
 		if err == nil || !strings.Contains(err.Error(), want) {
 			t.Errorf("missing %s in %v", want, err)
 		}
+	}
+}
+
+// A value of the wrong type is reported once, by the decoder, not again
+// as missing by the field rules or the cross-references.
+func TestLoad_WrongTypeReportedOnce(t *testing.T) {
+	doc := []byte(`{"format_version": 1, "title": 7, "design": "observational",
+		"variables": [{"name": "a", "scale": "continuous"}, {"name": "b", "scale": "continuous"}],
+		"claims": [{"id": "C1", "text": "t", "kind": "association", "from": 3, "to": "b"}],
+		"data": {"kind": "summary", "n": "ten", "variables": ["a", "b"], "correlations": [[1], [0.2, 1]]}}`)
+	_, err := load.Load(doc, load.Options{})
+	var invalid *checks.InvalidPackageError
+	if !errors.As(err, &invalid) {
+		t.Fatal(err)
+	}
+	want := []string{
+		"/claims/0/from: must be a string, not a number",
+		"/data/n: must be an integer, not a string",
+		"/title: must be a string, not a number",
+	}
+	var got []string
+	for _, p := range invalid.Problems {
+		got = append(got, p.String())
+	}
+	if !slices.Equal(got, want) {
+		t.Errorf("got\n%s\nwant\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
 	}
 }
 
@@ -240,6 +269,31 @@ func TestPackageSchema(t *testing.T) {
 		}
 		if got := !schemaAccepts(t, sch, "../../testdata/bad/"+tc.File); got != *tc.SchemaRejects {
 			t.Errorf("%s: schema rejects = %v, want %v", tc.File, got, *tc.SchemaRejects)
+		}
+	}
+}
+
+// Text the service could not store, and keys that a generic decoder would
+// resolve silently, are refused with the pointer of the place.
+func TestLoad_TextAndDuplicateKeys(t *testing.T) {
+	base, err := os.ReadFile("../../testdata/demo/tutoring-anxiety/package.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct{ old, new, want string }{
+		{`"id": "C1"`, `"id": "C1", "id": "C9"`, `/claims/0/id: the key "id" appears more than once`},
+		{`"kind": "summary"`, `"kind": "summary", "a/b": 1, "a/b": 2`, `/data/a~1b: the key "a/b" appears more than once`},
+		{`"design": "observational"`, `"design": "observa\u0000tional"`, "/design: contains a NUL character"},
+		{`"kind": "summary"`, `"kind": "summary", "k\u0000": 1`, "/data/k\x00: contains a NUL character"},
+		{`"design": "observational"`, "\"design\": \"observ\xc3\x28tional\"", "/design: is not valid UTF-8 text"},
+	} {
+		doc := bytes.Replace(base, []byte(tc.old), []byte(tc.new), 1)
+		if bytes.Equal(doc, base) {
+			t.Fatalf("%q not in the demo", tc.old)
+		}
+		_, err := load.Load(doc, load.Options{})
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: want %q, got %v", tc.new, tc.want, err)
 		}
 	}
 }

@@ -60,6 +60,9 @@ func namespacePointer(ns string) string {
 }
 
 func ruleText(fe validator.FieldError) string {
+	if hint := proportionHint(fe); hint != "" {
+		return hint
+	}
 	p := fe.Param()
 	counted := fe.Kind() == reflect.Slice || fe.Kind() == reflect.Map
 	switch fe.Tag() {
@@ -70,6 +73,9 @@ func ruleText(fe validator.FieldError) string {
 	case "len":
 		return "must have exactly " + p + " entries"
 	case "min", "max":
+		if fe.Namespace() == "Package.claims" && fe.Tag() == "min" {
+			return "has no claims yet: add each claim the paper makes, with its id, text, kind, from and to"
+		}
 		bound := map[string]string{"min": "at least", "max": "at most"}[fe.Tag()]
 		switch {
 		case counted:
@@ -79,7 +85,7 @@ func ruleText(fe validator.FieldError) string {
 		}
 		return fmt.Sprintf("must be %s %s", bound, p)
 	case "oneof":
-		return "must be one of: " + strings.ReplaceAll(p, " ", ", ")
+		return "must be one of: " + strings.ReplaceAll(p, " ", ", ") + didYouMean(fmt.Sprint(fe.Value()), strings.Fields(p))
 	case "gt":
 		return "must be greater than " + p
 	case "gte":
@@ -87,6 +93,9 @@ func ruleText(fe validator.FieldError) string {
 	case "lt":
 		return "must be less than " + p
 	case "lte":
+		if fe.Field() == "n" {
+			return "must be at most " + p + ", the format's limit on the sample size"
+		}
 		return "must be at most " + p
 	case "varname":
 		return "must match " + varNameRE.String()
@@ -96,11 +105,27 @@ func ruleText(fe validator.FieldError) string {
 	return "fails the rule " + fe.Tag()
 }
 
-// checkLimits reports every count above its limit, naming the limit.
-func checkLimits(pkg *checks.Package, lim Limits, ps *problems) {
+// proportionHint explains a level written as a percentage: ci_level 95
+// is 0.95.
+func proportionHint(fe validator.FieldError) string {
+	v := reflect.Indirect(reflect.ValueOf(fe.Value()))
+	if fe.Field() != "ci_level" || !v.CanFloat() {
+		return ""
+	}
+	if x := v.Float(); x > 1 && x <= 100 {
+		return fmt.Sprintf("is %g, but the level is a proportion: write %g", x, x/100)
+	}
+	return ""
+}
+
+// checkLimits reports every count above its limit, naming the limit, and
+// whether there was one.
+func checkLimits(pkg *checks.Package, lim Limits, ps *problems) bool {
+	found := false
 	over := func(ptr, what string, n, max int) {
 		if n > max {
-			ps.at(ptr, "has %d %s; the limit is %d", n, what, max)
+			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf("has %d %s; the limit is %d", n, what, max)})
+			found = true
 		}
 	}
 	over("/variables", "variables", len(pkg.Variables), lim.Variables)
@@ -113,6 +138,7 @@ func checkLimits(pkg *checks.Package, lim Limits, ps *problems) {
 	for i, a := range pkg.Alternatives {
 		over(pointer("alternatives", i, "edges"), "edges", len(a.Edges), lim.Edges)
 	}
+	return found
 }
 
 // indexVariables maps names to positions and reports duplicates.
@@ -138,11 +164,14 @@ func graphEdges(base string, edges []checks.Edge, index map[string]int, ps *prob
 		at := pointer(i)
 		from, okF := index[e.From]
 		to, okT := index[e.To]
+		if !okF {
+			ps.at(base+at+"/from", "%s", unknownName(e.From, index))
+		}
+		if !okT {
+			ps.at(base+at+"/to", "%s", unknownName(e.To, index))
+		}
 		switch {
-		case !okF:
-			ps.at(base+at+"/from", "%q names no declared variable", e.From)
-		case !okT:
-			ps.at(base+at+"/to", "%q names no declared variable", e.To)
+		case !okF || !okT:
 		case from == to:
 			ps.at(base+at, "is a self-loop on %q", e.From)
 		default:
@@ -199,7 +228,7 @@ func checkClaims(pkg *checks.Package, index map[string]int, ps *problems) {
 		ids[c.ID] = i
 		for _, f := range []struct{ name, value string }{{"from", c.From}, {"to", c.To}} {
 			if _, ok := index[f.value]; !ok && f.value != "" {
-				ps.at(at+"/"+f.name, "%q names no declared variable", f.value)
+				ps.at(at+"/"+f.name, "%s", unknownName(f.value, index))
 			}
 		}
 		if c.From == c.To && c.From != "" {
@@ -216,7 +245,7 @@ func checkAdjustFor(at string, c checks.Claim, index map[string]int, ps *problem
 		p := at + pointer("adjust_for", k)
 		switch _, ok := index[a]; {
 		case !ok:
-			ps.at(p, "%q names no declared variable", a)
+			ps.at(p, "%s", unknownName(a, index))
 		case a == c.From || a == c.To:
 			ps.at(p, "%q is the claim's own from or to variable", a)
 		case seen[a]:

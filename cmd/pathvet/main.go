@@ -21,6 +21,7 @@ const (
 	usageOverview = `pathvet screens the statistics of path-model submissions.
 
 Usage:
+  pathvet init (--data ROWS.csv | --summary TABLE.csv) [--out PACKAGE.json] [--force]
   pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] PACKAGE.json
   pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate]
   pathvet work [--database-url URL] [--workers N]
@@ -52,6 +53,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	switch args[0] {
 	case "check":
 		return runCheck(ctx, args[1:], stdout, stderr)
+	case "init":
+		return runInit(args[1:], stdout, stderr)
 	case "serve", "work":
 		return runServe(ctx, args[0], args[1:], stderr)
 	case "migrate":

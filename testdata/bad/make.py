@@ -2,8 +2,10 @@
 """Write the bad-input corpus: each case is a valid package with one fault.
 
 cases.json lists, for each file, the place its error must name (a JSON
-pointer or a CSV line and column) and whether the JSON Schema alone
-rejects it. Run from this folder: python3 make.py
+pointer or a CSV line and column; "also" lists more text that must appear
+in the same list of problems, for cases with several faults that must all
+be reported at once) and whether the JSON Schema alone rejects it. Run
+from this folder: python3 make.py
 """
 import copy, json
 
@@ -30,13 +32,23 @@ rows = "a,b,c,d\n1,2.5,3.1,0.2\n0,1.5,2.2,\n1,NA,1.0,4.4\n"
 
 cases = []
 
-def case(name, place, schema, mutate=None, raw=None):
+def case(name, place, schema, mutate=None, raw=None, also=None):
     doc = copy.deepcopy(base)
     if mutate:
         mutate(doc)
-    with open(name + ".json", "w") as f:
-        f.write(raw if raw is not None else json.dumps(doc, indent=1, ensure_ascii=False))
-    cases.append({"file": name + ".json", "place": place, "schema_rejects": schema})
+    text = raw if raw is not None else json.dumps(doc, indent=1, ensure_ascii=False)
+    with open(name + ".json", "wb") as f:
+        f.write(text if isinstance(text, bytes) else text.encode())
+    c = {"file": name + ".json", "place": place, "schema_rejects": schema}
+    if also:
+        c["also"] = also
+    cases.append(c)
+
+def both(*ms):
+    def m(doc):
+        for f in ms:
+            f(doc)
+    return m
 
 def as_rows(doc, csv):
     doc["data"] = {"kind": "rows", "csv": csv}
@@ -100,6 +112,40 @@ case("csv-binary-code", "data line 2, column 1", False, lambda d: as_rows(d, row
 case("csv-missing-column", "/variables/3/name", False, lambda d: as_rows(d, "a,b,c\n1,2,3\n0,1,2\n"))
 case("csv-no-rows", "data line 1", False, lambda d: as_rows(d, "a,b,c,d\n"))
 case("csv-bad-quote", "data line 2", False, lambda d: as_rows(d, 'a,b,c,d\n1,"2.5,3,4\n'))
+
+# Several faults at once: each stage reports its own.
+case("enum-and-misspelt-edge", "/design", True, both(setp(["design"], "cohort"), setp(["graph", "edges", 2, "to"], "dd")),
+     also=['/graph/edges/2/to: "dd" names no declared variable'])
+case("claim-kind-and-short-row", "/claims/0/kind", True,
+     both(setp(["claims", 0, "kind"], "direct"), setp(["data", "correlations", 2], [0.1, 0.4])),
+     also=["/data/correlations/2: has 2 entries; want 3"])
+case("data-kind-and-short-row", '/data/kind: must be one of: rows, summary; did you mean "summary"?', True,
+     both(setp(["data", "kind"], "sumary"), setp(["data", "correlations", 2], [0.1, 0.4])),
+     also=["/data/correlations/2: has 2 entries; want 3"])
+case("type-and-cross-reference", "/variables/1/reliability", True,
+     both(setp(["variables", 1, "reliability"], "high"), setp(["claims", 0, "from"], "e"), setp(["titel"], "x")),
+     also=["/claims/0/from", "/titel"])
+case("did-you-mean-variable", '/claims/0/from: "conductivty" names no declared variable; did you mean "conductivity"?', False,
+     both(setp(["variables", 1, "name"], "conductivity"), setp(["graph", "edges", 0, "to"], "conductivity"),
+          setp(["graph", "edges", 1, "from"], "conductivity"), setp(["data", "variables", 1], "conductivity"),
+          setp(["claims", 0, "from"], "conductivty")))
+case("did-you-mean-field", '/titel: unknown field "titel"; did you mean "title"?', True,
+     lambda d: d.__setitem__("titel", d.pop("title")))
+case("p-value-string", '/claims/0/p_value: must be a number, not a string; write the relation apart from the number: "p_value": 0.001, "p_relation": "<"',
+     True, setp(["claims", 0, "p_value"], "<.001"))
+case("ci-level-percent", "/claims/0/ci_level: is 95, but the level is a proportion: write 0.95", True,
+     setp(["claims", 0, "ci_level"], 95))
+case("n-over-limit", "/data/n: must be at most 100000000", True, setp(["data", "n"], 10**12))
+case("n-out-of-range", "/data/n: number 9223372036854775808 is out of range", True, setp(["data", "n"], 2**63))
+case("csv-dot-missing", 'data line 3, column 2: "." in column "b" is not a number; if it marks a missing value, list "." in /data/missing_codes',
+     False, lambda d: as_rows(d, rows.replace("1.5", ".")))
+case("csv-binary-code-99", 'list "99" in /data/missing_codes', False, lambda d: as_rows(d, rows.replace("1,2.5", "99,2.5")))
+# Text the service must refuse rather than store.
+case("nul-in-title", "/title: contains a NUL character", False, setp(["title"], "Bad\u0000title"))
+case("duplicate-key", '/title: the key "title" appears more than once', False,
+     raw=json.dumps(base, indent=1).replace('"title":', '"title": "first",\n "title":', 1))
+case("invalid-utf8", "/claims/1/text: is not valid UTF-8 text", False,
+     raw=json.dumps(base, indent=1).replace("c goes with d", "c goes with \x00d").encode().replace(b"\x00", b"\xff"))
 
 with open("cases.json", "w") as f:
     json.dump(cases, f, indent=1, ensure_ascii=False)
