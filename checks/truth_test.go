@@ -46,6 +46,13 @@ func TestRun_StructuralZeroIsNull(t *testing.T) {
 		ct.Estimate == nil || *ct.Estimate != 0 || !strings.Contains(ct.StructuralZero, "points the other way") {
 		t.Errorf("contrast %+v", ct)
 	}
+	// The zeros count as zero in the range and as not significant in the
+	// share: C1 is negative and significant in 3 of the 6, zero in 3.
+	ae := c.AcrossEquivalents
+	if ae.Max == nil || *ae.Max != 0 || ae.Min == nil || *ae.Min >= 0 || ae.ShareSignificantSameSign == nil ||
+		*ae.ShareSignificantSameSign != 0.5 || ae.Estimates != 6 || ae.Differing != 3 {
+		t.Errorf("across %+v", ae)
+	}
 	alt := c.UnderAlternatives[0]
 	if alt.PValue != nil || alt.CI != nil || alt.StructuralZero == "" {
 		t.Errorf("alternative %+v", alt)
