@@ -296,26 +296,6 @@ func logisticEstimate(m *Moments, y int, x []int, scale string, level float64) e
 	return e
 }
 
-// pText writes a p-value the way papers print it.
-func pText(p float64) string {
-	switch {
-	case math.IsNaN(p):
-		return "p not available"
-	case p < 0.001:
-		return "p < .001"
-	}
-	return "p = " + strings.TrimPrefix(fmt.Sprintf("%.3f", p), "0")
-}
-
-// valueText writes an estimate with its p-value, or says it is zero by
-// the graph.
-func valueText(e est) string {
-	if e.method == MethodZero {
-		return "zero"
-	}
-	return fmt.Sprintf("%s (%s)", estText(e.value), pText(e.p))
-}
-
 // declaredEstimate is claim i under the declared graph (or, with none, its
 // own adjustment set), computed once.
 func (a *Analysis) declaredEstimate(i int) est {

@@ -2,6 +2,8 @@ package checks
 
 import (
 	"context"
+	"crypto/sha256"
+	"encoding/binary"
 	"fmt"
 	"math"
 	"strings"
@@ -149,4 +151,57 @@ func pooledScale(e est, n int, level float64) (q, u float64) {
 		return math.Log(e.value), se * se
 	}
 	return e.value, e.se * e.se
+}
+
+// impute makes m imputed datasets and their moments.
+func (a *Analysis) impute(ctx context.Context, em *missing.EMResult, m int) ([]*Moments, error) {
+	binary := a.binaryVariables()
+	cols := a.Study.Data.Columns
+	imps, err := missing.Impute(ctx, cols, em, missing.ImputeOptions{M: m, Seed: dataSeed(cols, binary), Binary: binary})
+	if err != nil {
+		return nil, err
+	}
+	var out []*Moments
+	for k, imp := range imps {
+		// The method names the run (k of m), so estimates cached for one
+		// set of imputations are never read for another.
+		mo, err := rowMoments(columnsMatrix(imp), fmt.Sprintf("imputation_%d_of_%d", k+1, m))
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, mo)
+	}
+	return out, nil
+}
+
+func (a *Analysis) binaryVariables() []bool {
+	binary := make([]bool, len(a.Study.Names))
+	for i, v := range a.Study.Package.Variables {
+		binary[i] = v.Scale == ScaleBinary
+	}
+	return binary
+}
+
+// dataSeed takes the randomness of the imputations from what they depend
+// on, the data and which variables are binary, and nothing else: the same
+// data give the same numbers whatever the title, texts or names say.
+func dataSeed(cols [][]float64, binaryVars []bool) uint64 {
+	h := sha256.New()
+	var b [8]byte
+	for j, col := range cols {
+		binary.BigEndian.PutUint64(b[:], uint64(len(col))<<1|uint64(boolInt(binaryVars[j])))
+		h.Write(b[:])
+		for _, v := range col {
+			binary.BigEndian.PutUint64(b[:], math.Float64bits(v))
+			h.Write(b[:])
+		}
+	}
+	return binary.BigEndian.Uint64(h.Sum(nil)[:8])
+}
+
+func boolInt(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }

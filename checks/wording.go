@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 )
 
 // count writes n with the singular or plural of a noun: "1 claim",
@@ -55,4 +56,24 @@ func sizeChange(a, b est) string {
 			math.Abs(y/x), estText(a.value), estText(b.value))
 	}
 	return ""
+}
+
+// pText writes a p-value the way papers print it.
+func pText(p float64) string {
+	switch {
+	case math.IsNaN(p):
+		return "p not available"
+	case p < 0.001:
+		return "p < .001"
+	}
+	return "p = " + strings.TrimPrefix(fmt.Sprintf("%.3f", p), "0")
+}
+
+// valueText writes an estimate with its p-value, or says it is zero by
+// the graph.
+func valueText(e est) string {
+	if e.method == MethodZero {
+		return "zero"
+	}
+	return fmt.Sprintf("%s (%s)", estText(e.value), pText(e.p))
 }
