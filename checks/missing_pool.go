@@ -59,6 +59,12 @@ func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
 	return e
 }
 
+// MaxRaiseCells bounds the data (rows × variables) for which m is raised:
+// at 100,000 × 10, MaxImputations bootstrap EM runs take about half a
+// minute on the development machine (README, Benchmarks), well within the
+// default job deadline; past it m stays and the report says so.
+const MaxRaiseCells = 1_000_000
+
 // raiseImputations raises m to MaxImputations where the Monte Carlo error
 // of some claim's pooled estimate could carry it across the significance
 // line (White, Royston & Wood 2011 advise m large enough that it cannot).
@@ -67,6 +73,11 @@ func (a *Analysis) raiseImputations(ctx context.Context, r *missingResult) {
 		return
 	}
 	if r.raised = a.claimsNearLine(r.imputed); len(r.raised) == 0 {
+		return
+	}
+	if cells := r.summary.Rows * len(a.Study.Names); cells > MaxRaiseCells {
+		r.raiseErr = fmt.Errorf("not raised: %d rows × %d variables is past the %d cells for which %d imputations fit in a job's time",
+			r.summary.Rows, len(a.Study.Names), MaxRaiseCells, MaxImputations)
 		return
 	}
 	imps, err := a.impute(ctx, r.em, MaxImputations)
@@ -100,7 +111,7 @@ func raisedFindings(r *missingResult) []Finding {
 	ids := strings.Join(r.raised, ", ")
 	if r.raiseErr != nil {
 		return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
-			"With %d imputations the Monte Carlo error could carry the pooled estimate of %s across the significance line, and raising m failed (%v): read %s as on the line.",
+			"With %d imputations the Monte Carlo error could carry the pooled estimate of %s across the significance line, and m was not raised (%v): read %s as on the line.",
 			Imputations, ids, r.raiseErr, ids)}}
 	}
 	msg := fmt.Sprintf("Multiple imputation was run with %d imputations, not %d: with %d, the Monte Carlo error could have carried the pooled estimate of %s across the significance line.",

@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"errors"
 	"math/big"
 	"strings"
 	"testing"
@@ -186,5 +187,21 @@ func TestNearLine(t *testing.T) {
 		if got := nearLine(pr, 0.05); got != tc.want {
 			t.Errorf("nearLine(%v) = %v, want %v", tc.est, got, tc.want)
 		}
+	}
+}
+
+// Where m could not be raised, the claim is read as on the line, with a
+// warning; where it was, the report says for which claims.
+func TestRaisedFindings(t *testing.T) {
+	fs := raisedFindings(&missingResult{raised: []string{"S1"}, imputed: make([]*Moments, MaxImputations)})
+	if len(fs) != 1 || fs[0].Severity != SeverityInfo || !strings.Contains(fs[0].Message, "run with 100 imputations, not 20") {
+		t.Errorf("%+v", fs)
+	}
+	fs = raisedFindings(&missingResult{raised: []string{"S1"}, raiseErr: errors.New("not raised: too large")})
+	if len(fs) != 1 || fs[0].Severity != StatusWarn || !strings.Contains(fs[0].Message, "read S1 as on the line") {
+		t.Errorf("%+v", fs)
+	}
+	if fs := raisedFindings(&missingResult{}); fs != nil {
+		t.Errorf("%+v", fs)
 	}
 }
