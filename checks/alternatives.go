@@ -44,7 +44,7 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if err != nil {
 		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: %w", a.dataError())
 	}
-	declFit, err := a.fitGraph(s.Declared, s.InGraph)
+	declFit, err := a.fitGraph(ctx, s.Declared, s.InGraph)
 	if err != nil {
 		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: the declared graph could not be fitted to the data (%w)", err)
 	}
@@ -52,7 +52,7 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	var rows []map[string]any
 	declCPDAG := a.equivalenceClass().cpdag.Key()
 	for j, alt := range s.Alternatives {
-		row, f, err := a.compareAlternative(j, alt, declFit, declCPDAG, m)
+		row, f, err := a.compareAlternative(ctx, j, alt, declFit, declCPDAG, m)
 		if err != nil {
 			return CheckResult{}, err
 		}
@@ -99,7 +99,7 @@ func alternativesSummary(status string, n int, rows []map[string]any, fs []Findi
 
 // compareAlternative fits alternative j beside the declared graph and
 // re-estimates every claim under it.
-func (a *Analysis) compareAlternative(j int, alt *dag.PDAG, declFit *modelFit, declCPDAG string, m *Moments) (map[string]any, []Finding, error) {
+func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG, declFit *modelFit, declCPDAG string, m *Moments) (map[string]any, []Finding, error) {
 	s := a.Study
 	name := s.Package.Alternatives[j].Name
 	in := graphNodes(alt)
@@ -113,7 +113,7 @@ func (a *Analysis) compareAlternative(j int, alt *dag.PDAG, declFit *modelFit, d
 		fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
 			"The alternative %q is Markov equivalent to the declared graph: it fits any data exactly as well, so the data cannot tell the two apart.", name)})
 	default:
-		af, err := a.fitGraph(alt, in)
+		af, err := a.fitGraph(ctx, alt, in)
 		if err != nil {
 			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf("The alternative %q could not be fitted to the data: %v.", name, err)})
 			break

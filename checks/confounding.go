@@ -4,8 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
-
-	"gonum.org/v1/gonum/mat"
+	"strings"
 
 	"github.com/pathvet/pathvet/checks/effects"
 )
@@ -17,7 +16,8 @@ import (
 const weakEValue = 1.5
 
 // rareOutcome is the prevalence below which an odds ratio approximates a
-// risk ratio (VanderWeele & Ding 2017).
+// risk ratio (VanderWeele & Ding 2017). The rule is about the outcome
+// being rare, so a prevalence of 0.9 is common, not rare.
 const rareOutcome = 0.15
 
 // confounding-sensitivity: how strong would unmeasured confounding have
@@ -27,8 +27,10 @@ var confoundingCheck = Check{
 	Title: "Sensitivity to unmeasured confounding",
 	Run:   runConfounding,
 	Summaries: map[string]string{
-		StatusPass:          "An unmeasured confounder would need to be strongly associated with both cause and outcome to explain the causal claims away.",
-		StatusWarn:          "Modest unmeasured confounding could explain some causal claims away, and the paper's design does not rule it out; see the E-values.",
+		StatusPass: "For each causal claim, an unmeasured confounder would need a risk-ratio association of at least 1.5 " +
+			"with both cause and outcome to move the interval to include no effect; see the E-values.",
+		StatusWarn: "Unmeasured confounding of modest strength could move some causal claims' intervals to include no " +
+			"effect, or some claims have no E-value; see the findings.",
 		StatusNotApplicable: "The paper makes no causal claim, so there is nothing to explain away.",
 	},
 }
@@ -45,10 +47,11 @@ type EValue struct {
 func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	s := a.Study
 	if s.Package.Design == "randomized" {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The design is randomized, so confounding of the randomized comparison is ruled out by design."}, nil
+		return CheckResult{Status: StatusNotApplicable, Summary: "The design is randomized, so confounding of the " +
+			"randomized comparison is ruled out by design."}, nil
 	}
 	var fs []Finding
-	computed := 0
+	computed, missing, weak := 0, 0, 0
 	for i, c := range s.Package.Claims {
 		ce := a.eValues()[i] // shared with causal-language (shared.go)
 		ev, note := ce.ev, ce.why
@@ -58,9 +61,15 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 		if ev == nil {
 			sev := map[bool]string{true: SeverityInfo, false: StatusWarn}[ce.contradicted]
 			fs = append(fs, Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)})
+			if !ce.contradicted {
+				missing++
+			}
 			continue
 		}
 		computed++
+		if *ev.CILimit < weakEValue {
+			weak++
+		}
 		a.Claims[i].EValue = ev
 		fs = append(fs, eValueFinding(c, ev))
 		if err := ctx.Err(); err != nil {
@@ -68,13 +77,49 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 		}
 	}
 	if len(fs) == 0 {
-		return CheckResult{Status: StatusNotApplicable}, nil
+		return CheckResult{Status: StatusNotApplicable, Summary: "The paper makes no causal claim, so there is " +
+			"nothing to explain away."}, nil
 	}
 	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: map[string]any{"claims_with_e_value": computed, "weak_e_value_below": weakEValue}}
-	if computed == 0 && res.Status == StatusPass { // only claims the declared graph gives no effect
+	res.Summary = confoundingSummary(computed, missing, weak)
+	if computed == 0 && missing == 0 { // only claims the declared graph gives no effect
 		res.Status, res.Summary = StatusNotApplicable, "No causal claim is left to explain away: the declared graph gives each no effect (see graph-declared)."
 	}
 	return res, nil
+}
+
+// confoundingSummary says what the E-values show, in each case only what
+// they show: weak is the number of interval-limit E-values below
+// weakEValue, missing the causal claims without an E-value.
+func confoundingSummary(computed, missing, weak int) string {
+	var parts []string
+	if weak > 0 {
+		parts = append(parts, fmt.Sprintf("For %s, an unmeasured confounder associated with both cause and outcome "+
+			"by a "+
+			"risk ratio under %.1f could move the interval to include no effect, and the design does not rule one out",
+			countNoun(weak, "causal claim", "causal claims"), weakEValue))
+	}
+	if missing > 0 {
+		parts = append(parts, fmt.Sprintf("%s no E-value, so how much confounding would explain %s away is not known",
+			countNoun(missing, "causal claim has", "causal claims have"), map[bool]string{true: "it", false: "them"}[missing == 1]))
+	}
+	if len(parts) == 0 {
+		which := fmt.Sprintf("For each of the %d causal claims", computed)
+		if computed == 1 {
+			which = "For the causal claim"
+		}
+		return fmt.Sprintf("%s, an unmeasured confounder would need a risk-ratio association of at least %.1f with "+
+			"both cause and outcome to move the interval to include no effect; see the E-values.", which, weakEValue)
+	}
+	return strings.Join(parts, "; ") + "; see the findings."
+}
+
+// countNoun writes "1 causal claim" or "3 causal claims".
+func countNoun(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }
 
 // eValue converts the claim to the risk-ratio scale and computes its
@@ -82,7 +127,7 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 // recomputed estimate.
 func (a *Analysis) eValue(i int, c Claim) (*EValue, string) {
 	if c.Estimate != nil && (c.StdError != nil || len(c.CI) == 2) {
-		if ev := a.convert(c, *c.Estimate, c.StdError, c.CI, "reported"); ev != nil {
+		if ev := a.convert(c, claimScale(c), *c.Estimate, c.StdError, c.CI, "reported"); ev != nil {
 			return ev, ""
 		}
 	}
@@ -94,67 +139,116 @@ func (a *Analysis) eValue(i int, c Claim) (*EValue, string) {
 	if !math.IsNaN(d.se) {
 		se = &d.se
 	}
-	if ev := a.convert(c, d.value, se, []float64{d.lo, d.hi}, "recomputed"); ev != nil {
+	if ev := a.convert(c, d.scale, d.value, se, []float64{d.lo, d.hi}, "recomputed"); ev != nil {
 		return ev, ""
+	}
+	if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary {
+		return nil, "the outcome is binary, and without raw rows its re-estimate is a linear coefficient, " +
+			"which has no conversion to risk ratios; report the odds ratio with its interval"
 	}
 	return nil, "its scale has no conversion to risk ratios"
 }
 
-func (a *Analysis) convert(c Claim, b float64, se *float64, ci []float64, source string) *EValue {
-	ev := &EValue{Source: source}
-	var rr, limit float64
-	switch scale := claimScale(c); scale {
-	case "odds_ratio", "log_odds":
-		or, lo, hi := b, ci[0], ci[1]
-		if scale == "log_odds" {
-			or, lo, hi = math.Exp(b), math.Exp(ci[0]), math.Exp(ci[1])
-		}
-		rare, known := a.prevalenceRare(c)
-		ev.Conversion = "odds ratio taken as a risk ratio (outcome rarer than 15%)"
-		if !rare {
-			ev.Conversion = "risk ratio ≈ sqrt(odds ratio) (outcome not rare)"
-			if !known {
-				ev.Conversion = "risk ratio ≈ sqrt(odds ratio) (outcome prevalence unknown, taken as common)"
-			}
-		}
-		rr = effects.RRFromOR(or, rare)
-		limit = effects.EValueCI(effects.RRFromOR(lo, rare), effects.RRFromOR(hi, rare))
-		ev.CILimit = finite(limit)
-	default: // standardized, correlation, unstandardized: as a standardized difference
-		d, s := b, math.NaN()
-		if se != nil {
-			s = *se
-		} else if len(ci) == 2 {
-			s = effects.SEFromCI(ci[0], ci[1], claimLevel(c))
-		}
-		if scale == "unstandardized" {
-			return nil
-		}
-		rr, limit = effects.RRFromD(d, s)
-		ev.Conversion = "standardized effect d as risk ratio exp(0.91 d), interval limit exp(0.91 d ∓ 1.78 SE)"
-		ev.CILimit = finite(effects.EValue(limit))
+// convert takes an estimate b on the given scale (the claim's for the
+// reported figures, the re-estimate's for the recomputed ones) to E-values.
+// A linear coefficient of a binary outcome has no conversion.
+func (a *Analysis) convert(c Claim, scale string, b float64, se *float64, ci []float64, source string) *EValue {
+	var ev *EValue
+	binary := a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary
+	switch {
+	case scale == "odds_ratio" || scale == "log_odds":
+		ev = a.convertOddsRatio(c, scale, b, se, ci)
+	case scale == "unstandardized" || binary:
+		return nil
+	default: // standardized or correlation: as a standardized difference
+		ev = a.convertStandardized(c, b, se, ci)
 	}
-	ev.RiskRatio, ev.Estimate = finite(rr), finite(effects.EValue(rr))
-	if ev.Estimate == nil || ev.CILimit == nil {
+	if ev == nil || ev.Estimate == nil || ev.CILimit == nil {
 		return nil
 	}
+	ev.Source = source
 	return ev
 }
 
-// prevalenceRare says whether a binary outcome is rarer than 15%, from
-// raw rows; known is false without them.
-func (a *Analysis) prevalenceRare(c Claim) (rare, known bool) {
+// convertOddsRatio takes an odds ratio (or log-odds) to the risk-ratio
+// scale by the outcome's prevalence. Its interval is the given one, or,
+// for log-odds with an SE, the Wald interval b ± z SE; an odds ratio with
+// an SE but no interval gives none (the SE's scale is not stated).
+func (a *Analysis) convertOddsRatio(c Claim, scale string, b float64, se *float64, ci []float64) *EValue {
+	var lo, hi float64
+	switch {
+	case len(ci) == 2:
+		lo, hi = ci[0], ci[1]
+	case scale == "log_odds" && se != nil:
+		z := effects.TQuantile(0.5+claimLevel(c)/2, effects.Normal)
+		lo, hi = b-z**se, b+z**se
+	default:
+		return nil
+	}
+	or := b
+	if scale == "log_odds" {
+		or, lo, hi = math.Exp(b), math.Exp(lo), math.Exp(hi)
+	}
+	prev, known := a.prevalence(c)
+	rare := known && prev < rareOutcome
+	ev := &EValue{Conversion: fmt.Sprintf("odds ratio taken as a risk ratio (outcome prevalence %.2f, rarer than "+
+		"15%%)", prev)}
+	switch {
+	case !known:
+		ev.Conversion = "risk ratio ≈ sqrt(odds ratio) (outcome prevalence unknown, taken as common)"
+	case !rare:
+		ev.Conversion = fmt.Sprintf("risk ratio ≈ sqrt(odds ratio) (outcome prevalence %.2f, not rare)", prev)
+	}
+	rr := effects.RRFromOR(or, rare)
+	ev.RiskRatio, ev.Estimate = finite(rr), finite(effects.EValue(rr))
+	ev.CILimit = finite(effects.EValueCI(effects.RRFromOR(lo, rare), effects.RRFromOR(hi, rare)))
+	return ev
+}
+
+// convertStandardized takes a standardized estimate d with its SE (or
+// interval, under the normal) to the risk-ratio scale by exp(0.91 d),
+// and the interval limit nearer the null by exp(0.91 d ∓ 1.78 SE), an
+// approximation whose conversion text says what it was made for.
+func (a *Analysis) convertStandardized(c Claim, d float64, se *float64, ci []float64) *EValue {
+	s := math.NaN()
+	if se != nil {
+		s = *se
+	} else if len(ci) == 2 {
+		s = effects.SEFromCI(ci[0], ci[1], claimLevel(c))
+	}
+	rr, limit := effects.RRFromD(d, s)
+	ev := &EValue{Conversion: "risk ratio ≈ exp(0.91 d), an approximation made for a binary exposure with d the " +
+		"difference in outcome SDs between its groups (VanderWeele & Ding 2017); " + a.exposureNote(c)}
+	ev.RiskRatio, ev.Estimate = finite(rr), finite(effects.EValue(rr))
+	ev.CILimit = finite(effects.EValue(limit))
+	return ev
+}
+
+// exposureNote says how far a claim's standardized estimate is from the d
+// the exp(0.91 d) approximation was made for.
+func (a *Analysis) exposureNote(c Claim) string {
+	if a.Study.Package.Variables[a.Study.Index[c.From]].Scale == ScaleBinary {
+		return c.From + " is binary, but a coefficient standardized on both variables is about d times its SD " +
+			"(at most d/2), so this E-value is likely too small"
+	}
+	return c.From + " is not binary, so d is taken per SD of it and the E-value is a rough guide"
+}
+
+// prevalence is a binary outcome's prevalence, the mean of its 0/1 values:
+// from the raw rows or from data.means of a summary package; known is
+// false when the outcome is not binary, no mean is given, or the mean is
+// not a proportion.
+func (a *Analysis) prevalence(c Claim) (p float64, known bool) {
+	to := a.Study.Index[c.To]
+	if a.Study.Package.Variables[to].Scale != ScaleBinary {
+		return math.NaN(), false
+	}
 	m, err := a.moments()
-	if err != nil || m.Rows == nil {
-		return false, false
+	if err != nil || m.Means == nil || to >= len(m.Means) {
+		return math.NaN(), false
 	}
-	col := mat.Col(nil, a.Study.Index[c.To], m.Rows)
-	ones := 0.0
-	for _, v := range col {
-		ones += v
-	}
-	p := ones / float64(len(col))
-	return math.Min(p, 1-p) < rareOutcome, true
+	p = m.Means[to]
+	return p, p >= 0 && p <= 1
 }
 
 func eValueFinding(c Claim, ev *EValue) Finding {
@@ -162,10 +256,12 @@ func eValueFinding(c Claim, ev *EValue) Finding {
 	if *ev.CILimit < weakEValue {
 		sev = StatusWarn
 	}
-	how := fmt.Sprintf("an unmeasured confounder associated with both %s and %s by a risk ratio of %.2f each could explain the estimate away, and one of %.2f could move its interval to include no effect",
+	how := fmt.Sprintf("an unmeasured confounder associated with both %s and %s by a risk ratio of %.2f each "+
+		"could explain the estimate away, and one of %.2f could move its interval to include no effect",
 		c.From, c.To, *ev.Estimate, *ev.CILimit)
 	if *ev.CILimit == 1 {
-		how = fmt.Sprintf("an unmeasured confounder of strength %.2f could explain the estimate away, and the interval already includes no effect", *ev.Estimate)
+		how = fmt.Sprintf("an unmeasured confounder of strength %.2f could explain the estimate away, and the "+
+			"interval already includes no effect", *ev.Estimate)
 	}
 	return Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("E-value for %s (%s figures; %s): %s.", c.ID, ev.Source, ev.Conversion, how)}
 }

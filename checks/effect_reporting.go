@@ -8,7 +8,6 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
-	"gonum.org/v1/gonum/stat/distuv"
 
 	"github.com/pathvet/pathvet/checks/effects"
 )
@@ -21,21 +20,13 @@ var effectReportingCheck = Check{
 	Title: "Effect sizes, intervals and p-values",
 	Run:   runEffectReporting,
 	Summaries: map[string]string{
-		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the estimates, and no claim of \"no effect\" goes beyond what the data show.",
-		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data do not tell; see the findings.",
-		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" where the data do not tell; ask the authors for the estimate, its interval and the equivalence test.",
+		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the " +
+			"estimates, and no claim of \"no effect\" goes beyond what the data show.",
+		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data " +
+			"do not tell; see the findings.",
+		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not " +
+			"support; ask the authors for the estimate, its interval and the equivalence test.",
 	},
-}
-
-// AbsenceTest weighs a claim that there is no effect.
-type AbsenceTest struct {
-	Margin float64 `json:"margin"` // the smallest effect of interest
-	// TOSTP is the p-value of the two one-sided tests against ±Margin;
-	// Power the power the study had to detect an effect of Margin.
-	TOSTP   *float64 `json:"tost_p_value"`
-	Power   *float64 `json:"power"`
-	Verdict string   `json:"verdict"` // excludes_meaningful_effects, does_not_tell, effect_found
-	Source  string   `json:"source"`  // recomputed or reported
 }
 
 // OddsRatioRange is a binary outcome's odds ratio per unit and between the
@@ -89,7 +80,8 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect is.", c.ID, reportedP(c))})
 	case !hasEst && !hasP:
-		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval or p-value at all."})
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval " +
+			"or p-value at all."})
 	case !hasUnc:
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s reports an estimate (%g) without an interval or standard error.", c.ID, *c.Estimate)})
@@ -117,12 +109,13 @@ func reportedP(c Claim) string {
 
 // consistency recomputes the p-value from the printed estimate and SE (or
 // interval) and flags a reported p that no rounding of those figures
-// allows, under the normal or the t distribution.
+// allows, under the claim's test distribution (testDF).
 func (a *Analysis) consistency(c Claim, pr printed, decl est) *Finding {
 	if c.PValue == nil || c.Estimate == nil {
 		return nil
 	}
-	lo, hi, ok := pRange(c, pr, decl)
+	df := testDF(c, decl)
+	lo, hi, ok := pRange(c, pr, df)
 	if !ok {
 		return nil
 	}
@@ -140,9 +133,56 @@ func (a *Analysis) consistency(c Claim, pr printed, decl est) *Finding {
 		return nil
 	}
 	return &Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %s, but its estimate and %s give p between %s and %s, allowing for the rounding of the printed figures.",
-		c.ID, reportedP(c), uncertaintyName(c), pNumber(lo), pNumber(hi)),
-		Details: map[string]any{"recomputed_p_min": num(lo), "recomputed_p_max": num(hi)}}
+		"%s reports %s, but its estimate and %s give p between %s and %s under %s, allowing for the rounding of the "+
+			"printed figures.",
+		c.ID, reportedP(c), uncertaintyName(c), pNumber(lo), pNumber(hi), distName(df)),
+		Details: map[string]any{"recomputed_p_min": num(lo), "recomputed_p_max": num(hi), "distribution": distName(df)}}
+}
+
+// testDF is the df of the distribution a claim is tested under: t on the
+// recomputed OLS fit's n − k − 1 residual df, for the interval, the p-value
+// and the equivalence test alike; the normal (effects.Normal) for odds
+// ratios and log-odds (Wald z), correlations (Fisher's z), and claims the
+// data cannot re-estimate by OLS.
+func testDF(c Claim, decl est) float64 {
+	switch claimScale(c) {
+	case "odds_ratio", "log_odds", "correlation":
+		return effects.Normal
+	}
+	if decl.ok() && decl.method == MethodOLS && decl.df > 0 {
+		return decl.df
+	}
+	return effects.Normal
+}
+
+// distribution names what an estimate's p-value and interval are taken
+// under; "" where the estimate says it in its note (pooled imputations).
+func (e est) distribution() string {
+	switch {
+	case e.method == MethodOLS && e.df > 0:
+		return distName(e.df)
+	case e.method == MethodLogit || e.method == MethodPartial:
+		return "normal"
+	}
+	return ""
+}
+
+// distName names a test distribution for a report: "normal" or "t(df)".
+func distName(df float64) string {
+	if math.IsInf(df, 1) {
+		return "normal"
+	}
+	return fmt.Sprintf("t(%g)", df)
+}
+
+// figure writes a recomputed number for a sentence: two decimals where
+// they carry it, three significant digits where two decimals would not
+// (0.0004, 123456).
+func figure(x float64) string {
+	if ax := math.Abs(x); ax == 0 || (ax >= 0.01 && ax < 1e5) {
+		return fmt.Sprintf("%.2f", x)
+	}
+	return fmt.Sprintf("%.3g", x)
 }
 
 func uncertaintyName(c Claim) string {
@@ -160,13 +200,12 @@ func pNumber(p float64) string {
 }
 
 // pRange is the range of two-sided p-values that the printed figures
-// allow: the estimate and SE each within half a unit of their last digit
-// (the SE recovered from the interval where none is given; odds ratios on
-// the log scale); the smallest under the normal, the largest under t with
-// the recomputed residual df where known.
-func pRange(c Claim, pr printed, decl est) (lo, hi float64, ok bool) {
+// allow under t on df degrees of freedom (effects.Normal for the normal):
+// the estimate and SE each within half a unit of their last digit (the SE
+// recovered from the interval under the same distribution where none is
+// given; odds ratios on the log scale).
+func pRange(c Claim, pr printed, df float64) (lo, hi float64, ok bool) {
 	b, hb := *c.Estimate, halfUnit(pr.Estimate)
-	var s, hs float64
 	logScale := c.EstimateScale == "odds_ratio"
 	if logScale {
 		if b <= 0 {
@@ -174,9 +213,22 @@ func pRange(c Claim, pr printed, decl est) (lo, hi float64, ok bool) {
 		}
 		b, hb = math.Log(b), hb/b
 	}
+	s, hs, ok := printedSE(c, pr, logScale, df)
+	if !ok || s <= 0 {
+		return 0, 0, false
+	}
+	zmin := math.Max(math.Abs(b)-hb, 0) / (s + hs)
+	zmax := (math.Abs(b) + hb) / math.Max(s-hs, s*1e-3)
+	return effects.PFromT(zmax, 1, df), effects.PFromT(zmin, 1, df), true
+}
+
+// printedSE is the SE the printed figures give, with half a unit of its
+// rounding: the reported SE, or (u − l)/(2 q) from the interval with q
+// the quantile of t on df degrees of freedom at the claim's level.
+func printedSE(c Claim, pr printed, logScale bool, df float64) (s, hs float64, ok bool) {
 	switch {
 	case c.StdError != nil && !logScale:
-		s, hs = *c.StdError, halfUnit(pr.StdError)
+		return *c.StdError, halfUnit(pr.StdError), true
 	case len(c.CI) == 2 && len(pr.CI) == 2:
 		l, u := c.CI[0], c.CI[1]
 		hl, hu := halfUnit(pr.CI[0]), halfUnit(pr.CI[1])
@@ -186,21 +238,10 @@ func pRange(c Claim, pr printed, decl est) (lo, hi float64, ok bool) {
 			}
 			l, u, hl, hu = math.Log(l), math.Log(u), hl/c.CI[0], hu/c.CI[1]
 		}
-		z := distuv.UnitNormal.Quantile(0.5 + claimLevel(c)/2)
-		s, hs = (u-l)/(2*z), (hl+hu)/(2*z)
-	default:
-		return 0, 0, false
+		q := effects.TQuantile(0.5+claimLevel(c)/2, df)
+		return (u - l) / (2 * q), (hl + hu) / (2 * q), true
 	}
-	if s <= 0 {
-		return 0, 0, false
-	}
-	zmin := math.Max(math.Abs(b)-hb, 0) / (s + hs)
-	zmax := (math.Abs(b) + hb) / math.Max(s-hs, s*1e-3)
-	lo, hi = effects.PFromZ(zmax, 1), effects.PFromZ(zmin, 1)
-	if df := float64(decl.n - len(decl.adjusted) - 2); decl.ok() && decl.n > 0 && df > 0 {
-		hi = math.Max(hi, effects.PFromT(zmin, 1, df))
-	}
-	return lo, hi, true
+	return 0, 0, false
 }
 
 // recomputedFinding sets the reported estimate beside the recomputed one
@@ -212,55 +253,14 @@ func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
 	if *c.Estimate >= decl.lo && *c.Estimate <= decl.hi {
 		return nil
 	}
+	adjustment := "the declared graph's adjustment set"
+	if a.Study.Declared == nil || !a.claimInGraph(c) || c.Kind == KindAssociation {
+		adjustment = "the claim's own adjustment set"
+	}
 	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %g, but the data give %.2f (%s, 95%% interval %.2f to %.2f) with the declared graph's adjustment set; ask how the reported figure was obtained.",
-		c.ID, *c.Estimate, decl.value, pText(decl.p), decl.lo, decl.hi)}}
-}
-
-// absenceFinding weighs a claim of no effect: the recomputed (or
-// reported) estimate against the smallest effect of interest by two
-// one-sided tests, and the power the study had.
-func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
-	delta := a.Study.SmallestEffect()
-	b, se, source := math.NaN(), math.NaN(), "recomputed"
-	switch {
-	case decl.ok() && decl.method != MethodZero && (decl.scale == "standardized" || decl.scale == "correlation") && !math.IsNaN(decl.lo):
-		b, se = decl.value, decl.se
-		if math.IsNaN(se) {
-			se = effects.SEFromCI(decl.lo, decl.hi, claimLevel(c))
-		}
-		if decl.scale == "correlation" {
-			b, se, delta = math.Atanh(b), 1/math.Sqrt(float64(decl.n-len(decl.adjusted)-3)), math.Atanh(delta)
-		}
-	case c.Estimate != nil && c.StdError != nil && claimScale(c) == "standardized":
-		b, se, source = *c.Estimate, *c.StdError, "reported"
-	default:
-		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, but neither the data nor the reported figures give a standardized estimate with its uncertainty to test that against the smallest effect of interest (%g).", c.ID, delta)}}
-	}
-	t := &AbsenceTest{Margin: a.Study.SmallestEffect(), Source: source}
-	tp, pw := effects.TOST(b, se, delta), effects.Power(delta, se, a.Alpha)
-	t.TOSTP, t.Power = finite(tp), finite(pw)
-	a.Claims[i].Absence = t
-	sig := effects.PFromZ(b, se) < a.Alpha
-	switch {
-	case sig:
-		t.Verdict = "effect_found"
-		shown := b
-		if source == "recomputed" && decl.scale == "correlation" {
-			shown = math.Tanh(b)
-		}
-		return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, but the %s estimate is %.2f (%s): the data show an effect.", c.ID, source, shown, pText(effects.PFromZ(b, se)))}}
-	case tp < a.Alpha:
-		t.Verdict = "excludes_meaningful_effects"
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, and the data exclude effects larger than %g (equivalence test %s).", c.ID, t.Margin, pText(tp))}}
-	}
-	t.Verdict = "does_not_tell"
-	return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-		"%s says there is no effect, but its interval includes effects of %g and more (equivalence test %s; the study had %.0f%% power to detect an effect of that size): the data do not tell.",
-		c.ID, t.Margin, pText(tp), 100*pw)}}
+		"%s reports %g, but the data give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
+			"obtained.",
+		c.ID, *c.Estimate, figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi), adjustment)}}
 }
 
 // oddsRatioFinding gives a binary outcome's odds ratio between the 10th

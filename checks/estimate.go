@@ -32,6 +32,7 @@ type est struct {
 	method   string
 	scale    string
 	n        int
+	df       float64 // residual df of an OLS fit, for its t tests; 0 otherwise
 	adjusted []int
 	note     string
 	// zero says why the graph makes the estimate zero (MethodZero).
@@ -75,6 +76,9 @@ type Estimate struct {
 	// multiple-imputation estimate, sqrt(B/m), on its pooling scale.
 	MonteCarloError *float64 `json:"monte_carlo_error,omitempty"`
 	Error           string   `json:"error,omitempty"`
+	// Distribution is what the p-value and interval are taken under:
+	// "t(df)" for OLS, "normal" for a logistic Wald test or Fisher's z.
+	Distribution string `json:"distribution,omitempty"`
 }
 
 // finite returns a pointer to x rounded for a report, or nil where x is
@@ -105,6 +109,7 @@ func (a *Analysis) report(e est) *Estimate {
 	if e.method == "multiple_imputation" {
 		r.MonteCarloError = finite(e.mcse)
 	}
+	r.Distribution = e.distribution()
 	if lo, hi := finite(e.lo), finite(e.hi); lo != nil && hi != nil {
 		r.CI = []float64{*lo, *hi}
 	}
@@ -249,7 +254,7 @@ func olsEstimate(cov mat.Symmetric, means []float64, n, y int, x []int, scale st
 	}
 	c := fit.Coefs[0]
 	return est{value: c.Estimate, additive: c.Estimate, se: c.StdError, lo: c.CI[0], hi: c.CI[1], p: c.P,
-		method: MethodOLS, scale: scale, n: n, note: note}
+		method: MethodOLS, scale: scale, n: n, df: float64(fit.DF), note: note}
 }
 
 func partialEstimate(m *Moments, y, focal int, adj []int, level float64) est {

@@ -45,7 +45,7 @@ type modelFit struct {
 }
 
 // fitGraph fits g over the variables marked in nodes.
-func (a *Analysis) fitGraph(g *dag.PDAG, in []bool) (*modelFit, error) {
+func (a *Analysis) fitGraph(ctx context.Context, g *dag.PDAG, in []bool) (*modelFit, error) {
 	m, err := a.moments()
 	if err != nil {
 		return nil, err
@@ -68,7 +68,7 @@ func (a *Analysis) fitGraph(g *dag.PDAG, in []bool) (*modelFit, error) {
 			parents[i] = append(parents[i], pos[p])
 		}
 	}
-	f, err := sem.FitDAG(sub, m.N, parents)
+	f, err := sem.FitDAG(ctx, sub, m.N, parents)
 	var ee *sem.EquationError
 	if errors.As(err, &ee) && errors.Is(ee.Err, linmod.ErrTooFewCases) {
 		k := len(parents[ee.Variable])
@@ -93,7 +93,7 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if err != nil {
 		return CheckResult{}, fmt.Errorf("the fit could not be computed: %w", a.dataError())
 	}
-	mf, err := a.fitGraph(s.Declared, s.InGraph)
+	mf, err := a.fitGraph(ctx, s.Declared, s.InGraph)
 	if err != nil {
 		return CheckResult{}, fmt.Errorf("the declared graph could not be fitted to the data: %w", err)
 	}

@@ -1,6 +1,6 @@
 // Package dag holds the graph core of pathvet: directed acyclic graphs and
 // partially directed graphs over nodes 0..n-1, cycles and topological order,
-// d-separation, skeletons and v-structures, the CPDAG of a DAG (Meek's
+// the basis set of implied d-separations, skeletons and v-structures, the CPDAG of a DAG (Meek's
 // rules), the exact size of a Markov equivalence class (the clique-picking
 // recursion), the part of a class that respects background knowledge, the
 // members of a class listed in a fixed order, and IDA's locally valid parent

@@ -13,48 +13,96 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
+// Normal is the df that makes the t-based functions below use the normal
+// distribution: a z test is a t test on infinitely many df.
+var Normal = math.Inf(1)
+
 // PFromZ is the two-sided p-value of z = estimate / SE under the normal.
 func PFromZ(estimate, se float64) float64 {
-	return 2 * distuv.UnitNormal.Survival(math.Abs(estimate/se))
+	return PFromT(estimate, se, Normal)
 }
 
 // PFromT is the two-sided p-value of t = estimate / SE on df degrees of
-// freedom.
+// freedom (Normal for a z test), from the complementary tail TSF so that
+// tiny p-values stay numbers.
 func PFromT(estimate, se, df float64) float64 {
-	return 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Survival(math.Abs(estimate/se))
+	return 2 * TSF(math.Abs(estimate/se), df)
+}
+
+// TQuantile is the q-quantile of Student's t on df degrees of freedom
+// (Normal for the normal): gonum's inverse incomplete beta below hillDF,
+// and from there, where that loses its digits (3.23 for the 97.5th
+// percentile at df = 1e15), the Cornish–Fisher expansion of Abramowitz &
+// Stegun 26.7.5 in 1/df to the fourth order, within 1e-12 of scipy.
+func TQuantile(q, df float64) float64 {
+	z := distuv.UnitNormal.Quantile(q)
+	switch {
+	case math.IsInf(df, 1):
+		return z
+	case df < hillDF:
+		return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Quantile(q)
+	}
+	z2 := z * z
+	g1 := (z2 + 1) * z / 4
+	g2 := ((5*z2+16)*z2 + 3) * z / 96
+	g3 := (((3*z2+19)*z2+17)*z2 - 15) * z / 384
+	g4 := ((((79*z2+776)*z2+1482)*z2-1920)*z2 - 945) * z / 92160
+	return z + (g1+(g2+(g3+g4/df)/df)/df)/df
 }
 
 // SEFromCI recovers the standard error from a symmetric interval at the
 // given level under the normal: (hi − lo) / (2 z_{(1+level)/2}).
 func SEFromCI(lo, hi, level float64) float64 {
-	return (hi - lo) / (2 * distuv.UnitNormal.Quantile(0.5+level/2))
+	return SEFromTCI(lo, hi, level, Normal)
+}
+
+// SEFromTCI recovers the standard error from a symmetric interval at the
+// given level under t on df degrees of freedom (Normal for the normal):
+// (hi − lo) / (2 t_{df,(1+level)/2}).
+func SEFromTCI(lo, hi, level, df float64) float64 {
+	return (hi - lo) / (2 * TQuantile(0.5+level/2, df))
 }
 
 // TOST is the two one-sided tests of equivalence (Schuirmann 1987) of an
 // estimate with standard error se against the margin (−delta, delta),
-// under the normal: p is the larger of the two one-sided p-values, and
-// the estimate is shown equivalent to zero at alpha when p < alpha, which
-// is when the 1 − 2α interval lies inside the margin.
-func TOST(estimate, se, delta float64) (p float64) {
-	lower := distuv.UnitNormal.Survival((estimate + delta) / se) // H0: effect ≤ −δ
-	upper := distuv.UnitNormal.CDF((estimate - delta) / se)      // H0: effect ≥ δ
+// under t on df degrees of freedom (Normal for the normal): p is the
+// larger of the two one-sided p-values, and the estimate is shown
+// equivalent to zero at alpha when p < alpha, which is when the 1 − 2α
+// interval lies inside the margin.
+func TOST(estimate, se, delta, df float64) (p float64) {
+	lower := TSF((estimate+delta)/se, df)  // H0: effect ≤ −δ
+	upper := TSF(-(estimate-delta)/se, df) // H0: effect ≥ δ
 	return math.Max(lower, upper)
 }
 
-// Power is the power of a two-sided z test at alpha to detect an effect
-// of size delta when the estimate's standard error is se:
+// Power is the power of a two-sided test at alpha on df degrees of freedom
+// (Normal for a z test) to detect an effect of size delta when the
+// estimate's standard error is se: with c = t_{df,1−α/2} and T′ noncentral
+// t with noncentrality δ/SE, P(T′ > c) + P(T′ < −c). The noncentral t is
+// taken by Abramowitz & Stegun's 26.7.10 normal approximation,
 //
-//	Φ(δ/SE − z_{1−α/2}) + Φ(−δ/SE − z_{1−α/2})
-func Power(delta, se, alpha float64) float64 {
-	z := distuv.UnitNormal.Quantile(1 - alpha/2)
-	return distuv.UnitNormal.CDF(delta/se-z) + distuv.UnitNormal.CDF(-delta/se-z)
+//	P(T′ ≤ x) ≈ Φ((x (1 − 1/(4 df)) − δ/SE) / sqrt(1 + x²/(2 df))),
+//
+// exact for the normal and within 3e-4 of scipy's nct for df ≥ 20
+// (testdata/reference/scipy, power_t).
+func Power(delta, se, alpha, df float64) float64 {
+	c := TQuantile(1-alpha/2, df)
+	return noncentralTSF(c, delta/se, df) + 1 - noncentralTSF(-c, delta/se, df)
+}
+
+// noncentralTSF is P(T′ > x) by Abramowitz & Stegun 26.7.10.
+func noncentralTSF(x, ncp, df float64) float64 {
+	if math.IsInf(df, 1) {
+		return NormalSF(x - ncp)
+	}
+	return NormalSF((x*(1-1/(4*df)) - ncp) / math.Sqrt(1+x*x/(2*df)))
 }
 
 // PowerCorrelation is the power of the two-sided Fisher-z test at alpha
 // to detect a (partial) correlation rho with n cases and k conditioning
 // variables: Power(atanh ρ, 1/sqrt(n − k − 3), α) (Cohen 1988, ch. 3).
 func PowerCorrelation(rho float64, n, k int, alpha float64) float64 {
-	return Power(math.Atanh(rho), 1/math.Sqrt(float64(n-k-3)), alpha)
+	return Power(math.Atanh(rho), 1/math.Sqrt(float64(n-k-3)), alpha, Normal)
 }
 
 // EValue is the E-value of a risk ratio (VanderWeele & Ding 2017, Ann.

@@ -54,10 +54,10 @@ func TestRRFromD(t *testing.T) {
 // = 0.0038304 (the larger), equivalence at .05. With SE 0.08: z = 1.5 and
 // −1, p = Φ(−1) = 0.158655: the data do not tell.
 func TestTOST_ByHand(t *testing.T) {
-	if p := TOST(0.02, 0.03, 0.1); !scalar.EqualWithinAbs(p, 0.0038304, 1e-7) {
+	if p := TOST(0.02, 0.03, 0.1, Normal); !scalar.EqualWithinAbs(p, 0.0038304, 1e-7) {
 		t.Errorf("p = %v", p)
 	}
-	if p := TOST(0.02, 0.08, 0.1); !scalar.EqualWithinAbs(p, 0.158655, 1e-6) {
+	if p := TOST(0.02, 0.08, 0.1, Normal); !scalar.EqualWithinAbs(p, 0.158655, 1e-6) {
 		t.Errorf("p = %v", p)
 	}
 }

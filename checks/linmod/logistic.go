@@ -5,7 +5,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/pathvet/pathvet/checks/effects"
 )
 
 // ErrSeparation is returned when a predictor (or a combination of them)
@@ -58,11 +59,11 @@ func Logistic(x *mat.Dense, y []float64, level float64) (*LogitFit, error) {
 	if err := info.InverseTo(&cov); err != nil {
 		return nil, &SingularError{Condition: info.Cond()}
 	}
-	z := distuv.UnitNormal.Quantile(0.5 + level/2)
+	z := effects.TQuantile(0.5+level/2, effects.Normal)
 	coef := func(j int) Coef {
 		est, se := beta.AtVec(j), math.Sqrt(cov.At(j, j))
 		s := est / se
-		return Coef{Estimate: est, StdError: se, Stat: s, P: 2 * distuv.UnitNormal.Survival(math.Abs(s)), CI: [2]float64{est - z*se, est + z*se}}
+		return Coef{Estimate: est, StdError: se, Stat: s, P: effects.PFromZ(est, se), CI: [2]float64{est - z*se, est + z*se}}
 	}
 	fit := &LogitFit{Intercept: coef(0), Coefs: make([]Coef, k), N: n, Iterations: iter, LRDF: k}
 	for j := range k {
@@ -73,7 +74,7 @@ func Logistic(x *mat.Dense, y []float64, level float64) (*LogitFit, error) {
 	pbar := ones / float64(n)
 	fit.NullLogLik = ones*math.Log(pbar) + (float64(n)-ones)*math.Log(1-pbar)
 	fit.LR = 2 * (fit.LogLik - fit.NullLogLik)
-	fit.LRP = distuv.ChiSquared{K: float64(k)}.Survival(fit.LR)
+	fit.LRP = effects.ChiSquaredSF(fit.LR, float64(k))
 	return fit, nil
 }
 

@@ -6,7 +6,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/pathvet/pathvet/checks/effects"
 )
 
 // MaxCondition is the largest condition number of a design (or of its
@@ -55,18 +56,16 @@ type Fit struct {
 // tInference computes t-based p-values and intervals for one fit's
 // degrees of freedom and level; the quantile is found once.
 type tInference struct {
-	dist distuv.StudentsT
-	q    float64
+	df, q float64
 }
 
 func newTInference(df int, level float64) tInference {
-	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}
-	return tInference{dist: t, q: t.Quantile(0.5 + level/2)}
+	return tInference{df: float64(df), q: effects.TQuantile(0.5+level/2, float64(df))}
 }
 
 func (ti tInference) coef(est, se float64) Coef {
 	stat := est / se
-	return Coef{Estimate: est, StdError: se, Stat: stat, P: 2 * ti.dist.Survival(math.Abs(stat)),
+	return Coef{Estimate: est, StdError: se, Stat: stat, P: effects.PFromT(est, se, ti.df),
 		CI: [2]float64{est - ti.q*se, est + ti.q*se}}
 }
 
@@ -154,61 +153,6 @@ func intercept(fit *Fit, inv *mat.SymDense, sd, means []float64, y int, x []int,
 	}
 	c := tCoef(b0, math.Sqrt(v), fit.DF, level)
 	return &c
-}
-
-// FromRows fits y on the columns of x (n × k, no intercept column) with an
-// intercept by least squares, through a QR factorization of the design
-// (Golub & Van Loan, Matrix Computations, §5.3); Cov(b) = σ̂²(RᵀR)⁻¹.
-func FromRows(x *mat.Dense, y []float64, level float64) (*Fit, error) {
-	n, k := x.Dims()
-	df := n - k - 1
-	if df < 1 {
-		return nil, ErrTooFewCases
-	}
-	d := withIntercept(x)
-	var qr mat.QR
-	qr.Factorize(d)
-	if c := qr.Cond(); c > MaxCondition*1e2 || math.IsNaN(c) {
-		return nil, &SingularError{Condition: c}
-	}
-	yv := mat.NewVecDense(n, append([]float64(nil), y...))
-	var beta mat.VecDense
-	if err := qr.SolveVecTo(&beta, false, yv); err != nil {
-		return nil, &SingularError{Condition: qr.Cond()}
-	}
-	var fitted mat.VecDense
-	fitted.MulVec(d, &beta)
-	rss, tss, mean := 0.0, 0.0, mat.Sum(yv)/float64(n)
-	for i := range n {
-		r := y[i] - fitted.AtVec(i)
-		rss += r * r
-		tss += (y[i] - mean) * (y[i] - mean)
-	}
-	if rss <= 1e-24*tss || tss == 0 {
-		return nil, ErrPerfectFit
-	}
-	var rd mat.Dense
-	qr.RTo(&rd)
-	r := mat.NewTriDense(k+1, mat.Upper, nil)
-	for i := range k + 1 {
-		for j := i; j < k+1; j++ {
-			r.SetTri(i, j, rd.At(i, j))
-		}
-	}
-	var rinv mat.TriDense
-	if err := rinv.InverseTri(r); err != nil {
-		return nil, &SingularError{Condition: math.Inf(1)}
-	}
-	var covb mat.Dense
-	covb.Mul(&rinv, rinv.T()) // (RᵀR)⁻¹ = R⁻¹R⁻ᵀ
-	sigma2 := rss / float64(df)
-	fit := &Fit{R2: 1 - rss/tss, Sigma2: sigma2, DF: df, N: n, Coefs: make([]Coef, k)}
-	c0 := tCoef(beta.AtVec(0), math.Sqrt(sigma2*covb.At(0, 0)), df, level)
-	fit.Intercept = &c0
-	for j := range k {
-		fit.Coefs[j] = tCoef(beta.AtVec(j+1), math.Sqrt(sigma2*covb.At(j+1, j+1)), df, level)
-	}
-	return fit, nil
 }
 
 // withIntercept returns the design [1 x]: a column of ones, then x.

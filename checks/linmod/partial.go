@@ -4,7 +4,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/pathvet/pathvet/checks/effects"
 )
 
 // PartialCorrelation returns the correlation of x and y given the
@@ -41,7 +42,7 @@ func PartialCorrelation(r mat.Symmetric, x, y int, given []int) (float64, error)
 // FisherZ tests a (partial) correlation r from n cases with k
 // conditioning variables against zero by Fisher's z transformation:
 //
-//	z = atanh(r) · sqrt(n − k − 3),  p = 2(1 − Φ(|z|))
+//	z = atanh(r) · sqrt(n − k − 3),  p = 2 Φ(−|z|)
 //
 // (Fisher 1924). ok is false when n − k − 3 < 1.
 func FisherZ(r float64, n, k int) (z, p float64, ok bool) {
@@ -50,5 +51,5 @@ func FisherZ(r float64, n, k int) (z, p float64, ok bool) {
 		return math.NaN(), math.NaN(), false
 	}
 	z = math.Atanh(r) * math.Sqrt(float64(m))
-	return z, 2 * distuv.UnitNormal.Survival(math.Abs(z)), true
+	return z, effects.PFromZ(z, 1), true
 }

@@ -11,7 +11,6 @@ import (
 	"gonum.org/v1/gonum/floats/scalar"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
-	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // reference holds values from Debian's python3-statsmodels and
@@ -122,8 +121,10 @@ func TestPartialCorrelation_Statsmodels(t *testing.T) {
 	}
 }
 
-// p-values from t and df and from z, and t quantiles, against scipy.
-func TestDistributions_Scipy(t *testing.T) {
+// The p-values, intervals and Fisher-z tests linmod reports, against
+// scipy's t and normal: p from t and df, the t quantile of an interval
+// (df to 1e15), and the two-sided p of Fisher's z.
+func TestInference_Scipy(t *testing.T) {
 	ref, _ := loadReference(t)
 	for _, c := range ref.TTwoSided {
 		if got := tCoef(c.T, 1, int(c.DF), 0.95).P; !scalar.EqualWithinAbsOrRel(got, c.P, 1e-14, 1e-10) {
@@ -131,18 +132,19 @@ func TestDistributions_Scipy(t *testing.T) {
 		}
 	}
 	for _, c := range ref.TQuantile {
-		if got := (distuv.StudentsT{Mu: 0, Sigma: 1, Nu: c.DF}).Quantile(c.Q); !scalar.EqualWithinRel(got, c.X, 1e-10) {
+		level := 2*c.Q - 1 // the interval whose upper quantile is q
+		if level <= 0 {
+			continue
+		}
+		if got := newTInference(int(c.DF), level).q; !scalar.EqualWithinRel(got, c.X, 1e-10) {
 			t.Errorf("t quantile %v, df %v: %v, scipy %v", c.Q, c.DF, got, c.X)
 		}
 	}
 	for _, c := range ref.ZTwoSided { // includes z = 4.125 → p = .0000371 (reference-values.md)
-		if got := 2 * distuv.UnitNormal.Survival(math.Abs(c.Z)); !scalar.EqualWithinRel(got, c.P, 1e-10) {
-			t.Errorf("z = %v: p %v, scipy %v", c.Z, got, c.P)
-		}
-	}
-	for _, c := range ref.Chi2SF {
-		if got := (distuv.ChiSquared{K: c.DF}).Survival(c.X); !scalar.EqualWithinAbsOrRel(got, c.SF, 1e-14, 1e-9) {
-			t.Errorf("chi2 sf(%v, %v) = %v, scipy %v", c.X, c.DF, got, c.SF)
+		const n = 403 // sqrt(n − 3) = 20
+		z, p, ok := FisherZ(math.Tanh(c.Z/20), n, 0)
+		if !ok || !scalar.EqualWithinAbs(z, c.Z, 1e-12) || !scalar.EqualWithinRel(p, c.P, 1e-10) {
+			t.Errorf("Fisher z = %v: p %v, scipy %v", z, p, c.P)
 		}
 	}
 }

@@ -255,7 +255,9 @@ func TestImpute_RecoversSlope(t *testing.T) {
 		}
 		var q, u []float64
 		for _, imp := range imps {
-			fit, err := linmod.FromRows(mat.NewDense(200, 1, imp[0]), imp[1], 0.95)
+			var cov mat.SymDense
+			stat.CovarianceMatrix(&cov, mat.NewDense(2, 200, append(imp[0][:200:200], imp[1]...)).T(), nil)
+			fit, err := linmod.FromMoments(&cov, nil, 200, 1, []int{0}, 0.95)
 			if err != nil {
 				t.Fatal(err)
 			}

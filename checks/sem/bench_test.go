@@ -1,6 +1,7 @@
 package sem
 
 import (
+	"context"
 	"encoding/json"
 	"fmt"
 	"math/rand/v2"
@@ -85,7 +86,7 @@ func BenchmarkFitDAG(b *testing.B) {
 		b.Run(fmt.Sprintf("p=%d", p), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if _, err := FitDAG(s, n, parents); err != nil {
+				if _, err := FitDAG(context.Background(), s, n, parents); err != nil {
 					b.Fatal(err)
 				}
 			}

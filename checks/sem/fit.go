@@ -1,13 +1,14 @@
 package sem
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
 
+	"github.com/pathvet/pathvet/checks/effects"
 	"github.com/pathvet/pathvet/checks/linmod"
 )
 
@@ -59,8 +60,9 @@ var ErrNotPositiveDefinite = errors.New("sem: the covariance matrix is not posit
 //	Σ̂ = (I − B)⁻¹ Ψ (I − B)⁻ᵀ
 //
 // and the discrepancy F_ML = ln|Σ̂| − ln|S| + tr(S Σ̂⁻¹) − p, with
-// T = (N − 1) F_ML (../shared/spec/checks.md).
-func FitDAG(s mat.Symmetric, n int, parents [][]int) (*Fit, error) {
+// T = (N − 1) F_ML (../shared/spec/checks.md). It stops with ctx's error
+// when ctx is cancelled (the RMSEA interval's root finding checks it).
+func FitDAG(ctx context.Context, s mat.Symmetric, n int, parents [][]int) (*Fit, error) {
 	p := s.SymmetricDim()
 	var chS mat.Cholesky
 	if !chS.Factorize(s) {
@@ -104,7 +106,9 @@ func FitDAG(s mat.Symmetric, n int, parents [][]int) (*Fit, error) {
 	if err := f.discrepancy(s, &chS); err != nil {
 		return nil, err
 	}
-	f.indices(s)
+	if err := f.indices(ctx, s); err != nil {
+		return nil, err
+	}
 	return f, nil
 }
 
@@ -151,13 +155,17 @@ func (f *Fit) discrepancy(s mat.Symmetric, chS *mat.Cholesky) error {
 }
 
 // indices computes p, RMSEA and its interval, CFI, TLI, SRMR, AIC, BIC.
-func (f *Fit) indices(s mat.Symmetric) {
+func (f *Fit) indices(ctx context.Context, s mat.Symmetric) error {
 	t, df, n := f.ChiSquare, float64(f.DF), float64(f.N)
 	f.P, f.TLI = math.NaN(), math.NaN()
 	if f.DF > 0 {
-		f.P = distuv.ChiSquared{K: df}.Survival(t)
+		f.P = effects.ChiSquaredSF(t, df)
 		f.RMSEA = math.Sqrt(math.Max(t-df, 0) / (df * (n - 1)))
-		f.RMSEACI = RMSEAInterval(t, f.DF, f.N)
+		ci, err := RMSEAInterval(ctx, t, f.DF, f.N)
+		if err != nil {
+			return err
+		}
+		f.RMSEACI = ci
 		tb, dfb := f.BaselineChiSquare, float64(f.BaselineDF)
 		f.TLI = (tb/dfb - t/df) / (tb/dfb - 1)
 	}
@@ -177,4 +185,5 @@ func (f *Fit) indices(s mat.Symmetric) {
 	q := float64(f.FreeParams)
 	f.AIC = t + 2*q
 	f.BIC = t + q*math.Log(n)
+	return nil
 }

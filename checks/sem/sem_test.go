@@ -1,7 +1,9 @@
 package sem
 
 import (
+	"context"
 	"encoding/json"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -10,6 +12,8 @@ import (
 	"gonum.org/v1/gonum/floats/scalar"
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
+
+	"github.com/pathvet/pathvet/checks/linmod"
 )
 
 // The worked example of ../shared/spec/reference-values.md ("Path-model
@@ -18,7 +22,7 @@ import (
 // r_XY = .3, r_MY = .4 and N = 200.
 func TestFitDAG_WorkedExample(t *testing.T) {
 	r := mat.NewSymDense(3, []float64{1, .5, .3, .5, 1, .4, .3, .4, 1}) // X, M, Y
-	f, err := FitDAG(r, 200, [][]int{nil, {0}, {1}})
+	f, err := FitDAG(context.Background(), r, 200, [][]int{nil, {0}, {1}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -70,7 +74,7 @@ func TestPartialCorrelation_ClosedForm(t *testing.T) {
 // non-adjacent pairs.
 func TestFitDAG_Saturated(t *testing.T) {
 	r := mat.NewSymDense(3, []float64{1, .5, .3, .5, 1, .4, .3, .4, 1})
-	f, err := FitDAG(r, 200, [][]int{nil, {0}, {0, 1}})
+	f, err := FitDAG(context.Background(), r, 200, [][]int{nil, {0}, {0, 1}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -79,7 +83,7 @@ func TestFitDAG_Saturated(t *testing.T) {
 	}
 	r4 := mat.NewSymDense(4, []float64{1, .3, .2, .1, .3, 1, .4, .2, .2, .4, 1, .3, .1, .2, .3, 1})
 	// a → b → c, d alone: non-adjacent pairs a–c, a–d, b–d, c–d: df 4.
-	f, err = FitDAG(r4, 100, [][]int{nil, {0}, {1}, nil})
+	f, err = FitDAG(context.Background(), r4, 100, [][]int{nil, {0}, {1}, nil})
 	if err != nil || f.DF != 4 {
 		t.Fatalf("df %d (%v), want 4", f.DF, err)
 	}
@@ -91,7 +95,7 @@ func TestFitDAG_EquivalentGraphsFitAlike(t *testing.T) {
 	r := mat.NewSymDense(3, []float64{1, .45, .1, .45, 1, .3, .1, .3, 1})
 	var ts []float64
 	for _, pa := range [][][]int{{nil, {0}, {1}}, {{1}, {2}, nil}, {{1}, nil, {1}}} {
-		f, err := FitDAG(r, 150, pa)
+		f, err := FitDAG(context.Background(), r, 150, pa)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -100,7 +104,7 @@ func TestFitDAG_EquivalentGraphsFitAlike(t *testing.T) {
 	if !scalar.EqualWithinRel(ts[0], ts[1], 1e-10) || !scalar.EqualWithinRel(ts[0], ts[2], 1e-10) {
 		t.Fatalf("χ² differ: %v", ts)
 	}
-	f, _ := FitDAG(r, 150, [][]int{nil, nil, {0, 1}}) // a → c ← b: not equivalent
+	f, _ := FitDAG(context.Background(), r, 150, [][]int{nil, nil, {0, 1}}) // a → c ← b: not equivalent
 	if scalar.EqualWithinRel(f.ChiSquare, ts[0], 1e-6) {
 		t.Fatalf("a non-equivalent graph fits alike: %v", f.ChiSquare)
 	}
@@ -145,7 +149,7 @@ func TestNoncentralChiSquared_Scipy(t *testing.T) {
 	// The quantiles, through the root-finding on the noncentrality: the λ
 	// at which scipy's ppf is the q-th quantile is the λ we started from.
 	for _, c := range ref.NCX2PPF {
-		if got := noncentrality(c.PPF, c.DF, c.Q); !scalar.EqualWithinAbsOrRel(got, c.NC, 1e-6, 1e-6) {
+		if got, _ := noncentrality(context.Background(), c.PPF, c.DF, c.Q); !scalar.EqualWithinAbsOrRel(got, c.NC, 1e-6, 1e-6) {
 			t.Errorf("noncentrality for ppf %.6g (q %v, df %v) = %.8g, want %v", c.PPF, c.Q, c.DF, got, c.NC)
 		}
 	}
@@ -169,7 +173,7 @@ func TestFitDAG_RecoversSimulatedSEM(t *testing.T) {
 	}
 	cov := mat.NewSymDense(3, nil)
 	stat.CovarianceMatrix(cov, rows, nil)
-	f, err := FitDAG(cov, n, [][]int{nil, {0}, {0, 1}})
+	f, err := FitDAG(context.Background(), cov, n, [][]int{nil, {0}, {0, 1}})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -178,8 +182,90 @@ func TestFitDAG_RecoversSimulatedSEM(t *testing.T) {
 		t.Fatalf("coefficients %v", f.Coefficients)
 	}
 	// A wrong graph (X → M → Y without X → Y) is rejected.
-	wrong, _ := FitDAG(cov, n, [][]int{nil, {0}, {1}})
+	wrong, _ := FitDAG(context.Background(), cov, n, [][]int{nil, {0}, {1}})
 	if !(wrong.P < 1e-6) {
 		t.Fatalf("the wrong graph is not rejected: p = %v", wrong.P)
+	}
+}
+
+// Both sides of the switch to Sankaran's approximation, and far past it,
+// at scipy's 5th, 50th and 95th percentiles (testdata/reference/scipy,
+// ncx2_cdf_switch); just below the switch the mixture and the
+// approximation agree as well.
+func TestNoncentralChiSquared_Switch(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/reference/scipy/reference.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		Switch []struct{ X, DF, NC, CDF float64 } `json:"ncx2_cdf_switch"`
+	}
+	if err := json.Unmarshal(b, &ref); err != nil || len(ref.Switch) == 0 {
+		t.Fatalf("reference: %v", err)
+	}
+	for _, c := range ref.Switch {
+		if got := NoncentralChiSquaredCDF(c.X, c.DF, c.NC); !scalar.EqualWithinAbs(got, c.CDF, 1e-5) {
+			t.Errorf("ncx2 cdf(%v; %v, %v) = %.8f, scipy %.8f", c.X, c.DF, c.NC, got, c.CDF)
+		}
+		if c.NC < SankaranLambda {
+			if s := sankaranCDF(c.X, c.DF, c.NC); !scalar.EqualWithinAbs(s, c.CDF, 1e-5) {
+				t.Errorf("Sankaran at λ %v: %.8f, scipy %.8f", c.NC, s, c.CDF)
+			}
+		}
+	}
+}
+
+// A fit with n = 1e15 (and at the int64 maximum) returns, with a finite or
+// NaN-handled RMSEA interval (the noncentral chi-square's cost does not
+// grow with λ); a cancelled context stops it with its error.
+func TestFitDAG_HugeNAndCancel(t *testing.T) {
+	r := mat.NewSymDense(3, []float64{1, .5, .3, .5, 1, .4, .3, .4, 1})
+	for _, n := range []int{1e12, 1e15, math.MaxInt64} {
+		f, err := FitDAG(context.Background(), r, n, [][]int{nil, {0}, {1}})
+		if err != nil {
+			t.Fatalf("n = %d: %v", n, err)
+		}
+		lo, hi := f.RMSEACI[0], f.RMSEACI[1]
+		if math.IsNaN(lo) || math.IsNaN(hi) || !(lo <= f.RMSEA && f.RMSEA <= hi) || math.IsNaN(f.P) {
+			t.Errorf("n = %d: RMSEA %v, interval [%v, %v], p %v", n, f.RMSEA, lo, hi, f.P)
+		}
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, err := FitDAG(ctx, r, 1e15, [][]int{nil, {0}, {1}}); !errors.Is(err, context.Canceled) {
+		t.Fatalf("cancelled: %v", err)
+	}
+}
+
+// Shipley's C from Fisher-z tests far in the tail (z = 8.5, 10, 12): the
+// p-values stay numbers (1 − Φ would round them to 0 and C to about
+// 4,470), so C and its p agree with scipy (testdata/reference/scipy,
+// shipley_tiny).
+func TestShipleyC_TinyP(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/reference/scipy/reference.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ref struct {
+		S struct {
+			Z    []float64
+			C, P float64
+		} `json:"shipley_tiny"`
+	}
+	if err := json.Unmarshal(b, &ref); err != nil || len(ref.S.Z) == 0 {
+		t.Fatalf("reference: %v", err)
+	}
+	const n = 403 // sqrt(n − 3) = 20
+	var ps []float64
+	for _, z := range ref.S.Z {
+		_, p, ok := linmod.FisherZ(math.Tanh(z/20), n, 0)
+		if !ok || p == 0 {
+			t.Fatalf("z = %v: p %v", z, p)
+		}
+		ps = append(ps, p)
+	}
+	c, df, p := ShipleyC(ps)
+	if !scalar.EqualWithinRel(c, ref.S.C, 1e-9) || df != 6 || !scalar.EqualWithinRel(p, ref.S.P, 1e-6) {
+		t.Fatalf("C = %v on %d, p %v; scipy C %v, p %v", c, df, p, ref.S.C, ref.S.P)
 	}
 }

@@ -10,7 +10,7 @@ trap 'rm -rf "$dir"' EXIT
 py=/usr/bin/python3
 $py testdata/bench/reference_bench.py write "$dir"
 PATHVET_BENCH_DIR=$dir PATHVET_BENCH_CSV=$dir/ols.csv \
-  go test $(ls -d ./checks/sem ./checks/linmod ./checks/missing 2>/dev/null) -run XXX -bench '^Benchmark(FitDAG|FromRows100kx30|EM)$' -benchmem 2>/dev/null \
+  go test $(ls -d ./checks/sem ./checks/linmod ./checks/missing 2>/dev/null) -run XXX -bench '^Benchmark(FitDAG|OLS100kx30|EM)$' -benchmem 2>/dev/null \
   | awk '/^Benchmark/ {name=$1; sub(/-[0-9]+$/, "", name); print name, $3 / 1e9}' > "$dir/go.txt"
 $py testdata/bench/reference_bench.py time "$dir" > "$dir/py.txt"
 echo "benchmark                      pathvet (s/op)   reference (s/op)   reference / pathvet"

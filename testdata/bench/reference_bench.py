@@ -142,7 +142,7 @@ def time_all(out):
         r = sm.OLS(y, X).fit()
         return r.params, r.bse, r.pvalues
 
-    print(f"BenchmarkFromRows100kx30 {timeit(ols):.6g}")
+    print(f"BenchmarkOLS100kx30 {timeit(ols):.6g}")
     for n_rows, p_vars in ((10_000, 10), (10_000, 30), (100_000, 10), (100_000, 30)):
         data = np.loadtxt(f"{out}/em_{n_rows}_{p_vars}.csv", delimiter=",")
         print(f"BenchmarkEM/n={n_rows}/p={p_vars} {timeit(lambda: em(data)):.6g}")

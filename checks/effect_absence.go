@@ -1,0 +1,142 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/pathvet/pathvet/checks/effects"
+)
+
+// AbsenceTest weighs a claim that there is no effect.
+type AbsenceTest struct {
+	Margin float64 `json:"margin"` // the smallest effect of interest
+	// TOSTP is the p-value of the two one-sided tests against ±Margin;
+	// Power the power the study had to detect an effect of Margin.
+	TOSTP   *float64 `json:"tost_p_value"`
+	Power   *float64 `json:"power"`
+	Verdict string   `json:"verdict"` // excludes_meaningful_effects, does_not_tell, effect_found
+	Source  string   `json:"source"`  // recomputed or reported
+	// Distribution is what the significance test, the TOST and the power
+	// are taken under: "t(df)" for an OLS estimate, "normal" for Fisher's z
+	// or a reported estimate the data cannot re-estimate by OLS.
+	Distribution string `json:"distribution"`
+}
+
+// absenceFinding weighs a claim of no effect: the recomputed (or
+// reported) estimate against the smallest effect of interest by two
+// one-sided tests, and the power the study had, all three under the
+// claim's one test distribution (testDF).
+func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
+	in, ok := a.absenceInputs(c, decl)
+	if !ok {
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: a.noAbsenceTest(c, decl)}}
+	}
+	t := &AbsenceTest{Margin: a.Study.SmallestEffect(), Source: in.source, Distribution: distName(in.df)}
+	tp, pw := effects.TOST(in.b, in.se, in.delta, in.df), effects.Power(in.delta, in.se, a.Alpha, in.df)
+	p := effects.PFromT(in.b, in.se, in.df)
+	t.TOSTP, t.Power = finite(tp), finite(pw)
+	a.Claims[i].Absence = t
+	switch {
+	case p < a.Alpha:
+		t.Verdict = "effect_found"
+		return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+			"%s says there is no effect, but the %s estimate is %.2f (%s, %s), significant at α = %g: the data do not "+
+				"support \"no effect\".",
+			c.ID, in.source, in.shown, pText(p), t.Distribution, a.Alpha)}}
+	case tp < a.Alpha:
+		t.Verdict = "excludes_meaningful_effects"
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			"%s says there is no effect, and the data exclude effects of ±%g or larger (equivalence test %s, %s).",
+			c.ID, t.Margin, pText(tp), t.Distribution)}}
+	}
+	t.Verdict = "does_not_tell"
+	return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+		"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
+			"%s; the study had %.0f%% power to detect an effect of that size): the data do not tell.",
+		c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw)}}
+}
+
+// absenceInput is what an absence claim is weighed with: the estimate
+// and SE on the scale of the margin, the margin, the test df, and the
+// estimate as the sentence shows it.
+type absenceInput struct {
+	b, se, delta, df, shown float64
+	source                  string
+}
+
+// absenceInputs gives the recomputed standardized estimate (a correlation
+// on Fisher's z scale, under the normal; an unstandardized one rescaled by
+// the SDs), else the reported one, standardized or rescaled likewise.
+func (a *Analysis) absenceInputs(c Claim, decl est) (absenceInput, bool) {
+	in := absenceInput{delta: a.Study.SmallestEffect(), df: testDF(c, decl), source: "recomputed"}
+	k, scaled := a.sdRatio(c)
+	switch {
+	case !decl.ok() || decl.method == MethodZero || math.IsNaN(decl.lo):
+	case decl.scale == "correlation":
+		in.b, in.shown = math.Atanh(decl.value), decl.value
+		in.se, in.delta, in.df = 1/math.Sqrt(float64(decl.n-len(decl.adjusted)-3)), math.Atanh(in.delta), effects.Normal
+		return in, true
+	case decl.scale == "standardized" || (decl.scale == "unstandardized" && scaled):
+		if decl.scale == "standardized" {
+			k = 1
+		}
+		in.b, in.se = decl.value*k, decl.se*k
+		if math.IsNaN(in.se) {
+			in.se = effects.SEFromTCI(decl.lo, decl.hi, claimLevel(c), in.df) * k
+		}
+		in.shown = in.b
+		return in, true
+	}
+	if c.Estimate == nil || c.StdError == nil {
+		return in, false
+	}
+	switch claimScale(c) {
+	case "unstandardized":
+		if !scaled {
+			return in, false
+		}
+	case "standardized":
+		k = 1
+	default:
+		return in, false
+	}
+	in.b, in.se, in.shown, in.source = *c.Estimate*k, *c.StdError*k, *c.Estimate*k, "reported"
+	return in, true
+}
+
+// sdRatio is SD(from)/SD(to), which turns an unstandardized coefficient
+// into a standardized one; ok is false without SDs.
+func (a *Analysis) sdRatio(c Claim) (k float64, ok bool) {
+	m, err := a.moments()
+	if err != nil || m.SD == nil {
+		return math.NaN(), false
+	}
+	from, to := a.Study.Index[c.From], a.Study.Index[c.To]
+	k = m.SD[from] / m.SD[to]
+	return k, k > 0 && !math.IsInf(k, 0) && !math.IsNaN(k)
+}
+
+// noAbsenceTest says why a claim of no effect could not be tested.
+func (a *Analysis) noAbsenceTest(c Claim, decl est) string {
+	delta := a.Study.SmallestEffect()
+	_, scaled := a.sdRatio(c)
+	switch scale := claimScale(c); {
+	case scale == "odds_ratio" || scale == "log_odds":
+		return fmt.Sprintf("%s says there is no effect, but an odds ratio cannot be set against the smallest effect "+
+			"of interest (%g, a standardized coefficient); report the interval, so that readers can see which odds "+
+			"ratios it excludes.", c.ID, delta)
+	case decl.ok() && decl.method == MethodZero:
+		return fmt.Sprintf("%s says there is no effect, and the declared graph makes it zero, so there is no "+
+			"re-estimate to test against the smallest effect of interest (%g); the graph-fit check tests the graph's "+
+			"implications.", c.ID, delta)
+	case scale == "unstandardized" && !scaled && c.StdError != nil:
+		return fmt.Sprintf("%s says there is no effect, but without the SDs of %s and %s its unstandardized "+
+			"estimate cannot be set against the smallest effect of interest (%g, standardized); report the SDs or a "+
+			"standardized estimate with its SE.", c.ID, c.From, c.To, delta)
+	case !decl.ok():
+		return fmt.Sprintf("%s says there is no effect, but the data give no estimate (%v) and the claim reports no "+
+			"standardized estimate with its SE, so nothing can be tested against the smallest effect of interest (%g).", c.ID, decl.err, delta)
+	}
+	return fmt.Sprintf("%s says there is no effect, but neither the data nor the reported figures give a "+
+		"standardized estimate with its SE to test against the smallest effect of interest (%g).", c.ID, delta)
+}
