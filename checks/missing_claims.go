@@ -100,7 +100,7 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 		ests[key] = a.estimateWith(m, c, pa)
 	}
 	if len(r.imputed) > 0 {
-		ests[MissingMultipleImputation] = a.pooled(c, pa, r.imputed)
+		ests[MissingMultipleImputation] = a.pooled(c, r.imputedEst[i], r.imputed)
 	}
 	out := map[string]*Estimate{}
 	for key, e := range ests {

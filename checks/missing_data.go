@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -47,8 +48,11 @@ type missingResult struct {
 	mcar    *missing.MCARTest
 	// moments by method key: complete_cases, maximum_likelihood, the
 	// declared single imputation; and one per imputed dataset.
-	moments     map[string]*Moments
+	moments map[string]*Moments
+	// imputed are the moments of each imputed dataset (without its rows),
+	// imputedEst[i][k] claim i's estimate in imputed dataset k.
 	imputed     []*Moments
+	imputedEst  [][]est
 	pairwiseErr string
 	err         error
 	// raised lists the claims whose pooled estimate, with Imputations,
@@ -83,9 +87,70 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	}
 	r.moments[MissingMaximumLikelihood] = emMoments(em, d.N)
 	a.declaredMethodMoments(r)
-	r.imputed, r.err = a.impute(ctx, em, Imputations)
+	if err := a.imputeClaims(ctx, r, Imputations); err != nil {
+		r.err = err
+	}
 	a.raiseImputations(ctx, r)
 	return r
+}
+
+// imputeClaims draws the imputed datasets one by one (missing.ImputeEach)
+// and keeps of each only its moments and the claims' estimates in it, so
+// that memory does not grow with the number of imputations.
+func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) error {
+	claims, binary := a.Study.Package.Claims, a.binaryVariables()
+	imputed, ests := make([]*Moments, m), make([][]est, len(claims))
+	for i := range ests {
+		ests[i] = make([]est, m)
+	}
+	var mu sync.Mutex
+	done := 0
+	opt := missing.ImputeOptions{M: m, Seed: dataSeed(a.Study.Data.Columns, binary), Binary: binary}
+	err := missing.ImputeEach(ctx, a.Study.Data.Columns, r.em, opt, func(k int, data *mat.Dense) error {
+		// The method names the run (k of m), so estimates cached for one
+		// set of imputations are never read for another.
+		mo, err := imputedMoments(data, fmt.Sprintf("imputation_%d_of_%d", k+1, m))
+		if err != nil {
+			return err
+		}
+		mu.Lock()
+		defer mu.Unlock()
+		for i, c := range claims {
+			ests[i][k] = a.estimateWith(mo, c, a.declaredParentsFor(c))
+		}
+		mo.Rows, imputed[k] = nil, mo
+		done++
+		a.reportProgress("missing data: imputations", done, m)
+		return nil
+	})
+	if err == nil {
+		r.imputed, r.imputedEst = imputed, ests
+	}
+	return err
+}
+
+// imputedMoments are the moments of an imputed dataset, as rowMoments
+// gives them, from missing.RowMoments, which does not copy the rows.
+func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
+	mean, cov := missing.RowMoments(data)
+	n, p := data.Dims()
+	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: mean, Rows: data, Method: method}
+	for j := range p {
+		if m.SD[j] = math.Sqrt(cov.At(j, j)); m.SD[j] == 0 {
+			return nil, Errorf(EInvalid, "a variable is constant in the %s", casesName(method))
+		}
+	}
+	for i := range p {
+		for j := 0; j <= i; j++ {
+			m.Cor.SetSym(i, j, cov.At(i, j)/(m.SD[i]*m.SD[j]))
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
+		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear",
+			casesName(method))
+	}
+	return m, nil
 }
 
 func emMoments(em *missing.EMResult, n int) *Moments {

@@ -21,11 +21,11 @@ import (
 // pooled estimates a claim in every imputed dataset and pools them by
 // Rubin's rules with the Barnard–Rubin degrees of freedom. Correlations
 // are pooled on Fisher's z scale, odds ratios on the log scale.
-func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
+func (a *Analysis) pooled(c Claim, ests []est, imputed []*Moments) est {
 	var q, u []float64
 	var first est
 	for k, m := range imputed {
-		e := a.estimateWith(m, c, pa)
+		e := ests[k]
 		if !e.ok() {
 			return est{err: fmt.Errorf("imputation %d: %w", k+1, e.err), scale: e.scale}
 		}
@@ -60,10 +60,11 @@ func (a *Analysis) pooled(c Claim, pa parentsFunc, imputed []*Moments) est {
 }
 
 // MaxRaiseCells bounds the data (rows × variables) for which m is raised:
-// at 100,000 × 10, MaxImputations bootstrap EM runs take about half a
-// minute on the development machine (README, Benchmarks), well within the
-// default job deadline; past it m stays and the report says so.
-const MaxRaiseCells = 1_000_000
+// the check needs about a minute per 10 million cells at m = 20 on the
+// development machine (README, Limits), so MaxImputations at 2 million
+// cells stays within the default job deadline; past it m stays and the
+// report says so.
+const MaxRaiseCells = 2_000_000
 
 // raiseImputations raises m to MaxImputations where the Monte Carlo error
 // of some claim's pooled estimate could carry it across the significance
@@ -72,7 +73,7 @@ func (a *Analysis) raiseImputations(ctx context.Context, r *missingResult) {
 	if r.err != nil || len(r.imputed) == 0 || len(r.imputed) >= MaxImputations {
 		return
 	}
-	if r.raised = a.claimsNearLine(r.imputed); len(r.raised) == 0 {
+	if r.raised = a.claimsNearLine(r); len(r.raised) == 0 {
 		return
 	}
 	if cells := r.summary.Rows * len(a.Study.Names); cells > MaxRaiseCells {
@@ -80,23 +81,22 @@ func (a *Analysis) raiseImputations(ctx context.Context, r *missingResult) {
 			r.summary.Rows, len(a.Study.Names), MaxRaiseCells, MaxImputations)
 		return
 	}
-	imps, err := a.impute(ctx, r.em, MaxImputations)
-	if err != nil {
+	if err := a.imputeClaims(ctx, r, MaxImputations); err != nil {
 		r.raiseErr = err
 		return
 	}
-	r.imputed, r.stillNear = imps, a.claimsNearLine(imps)
+	r.stillNear = a.claimsNearLine(r)
 }
 
 // claimsNearLine lists the claims whose pooled estimate lies within Monte
 // Carlo error of the significance line.
-func (a *Analysis) claimsNearLine(imputed []*Moments) []string {
+func (a *Analysis) claimsNearLine(r *missingResult) []string {
 	var ids []string
-	for _, c := range a.Study.Package.Claims {
+	for i, c := range a.Study.Package.Claims {
 		if a.graphContradiction(c) != "" {
 			continue
 		}
-		if e := a.pooled(c, a.declaredParentsFor(c), imputed); e.ok() && e.nearLine {
+		if e := a.pooled(c, r.imputedEst[i], r.imputed); e.ok() && e.nearLine {
 			ids = append(ids, c.ID)
 		}
 	}
@@ -162,27 +162,6 @@ func pooledScale(e est, n int, level float64) (q, u float64) {
 		return math.Log(e.value), se * se
 	}
 	return e.value, e.se * e.se
-}
-
-// impute makes m imputed datasets and their moments.
-func (a *Analysis) impute(ctx context.Context, em *missing.EMResult, m int) ([]*Moments, error) {
-	binary := a.binaryVariables()
-	cols := a.Study.Data.Columns
-	imps, err := missing.Impute(ctx, cols, em, missing.ImputeOptions{M: m, Seed: dataSeed(cols, binary), Binary: binary})
-	if err != nil {
-		return nil, err
-	}
-	var out []*Moments
-	for k, imp := range imps {
-		// The method names the run (k of m), so estimates cached for one
-		// set of imputations are never read for another.
-		mo, err := rowMoments(columnsMatrix(imp), fmt.Sprintf("imputation_%d_of_%d", k+1, m))
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, mo)
-	}
-	return out, nil
 }
 
 func (a *Analysis) binaryVariables() []bool {

@@ -46,6 +46,11 @@ type Options struct {
 	Now func() time.Time
 	// Checks to run; nil means Pipeline().
 	Checks []Check
+	// Progress, when set, hears how far the screening is: the stage (the
+	// check about to run, or a long step inside one, such as the
+	// imputations) and how many of its total units are done. Calls come
+	// one at a time, not always from the goroutine that called Run.
+	Progress func(stage string, done, total int)
 }
 
 // Analysis is one run of the pipeline over a study: the study, results
@@ -71,6 +76,14 @@ type Analysis struct {
 	plausibleErr error
 	miss         *missingResult
 	evs          []claimEValue
+	progress     func(stage string, done, total int)
+}
+
+// reportProgress passes progress to Options.Progress, if set.
+func (a *Analysis) reportProgress(stage string, done, total int) {
+	if a.progress != nil {
+		a.progress(stage, done, total)
+	}
 }
 
 // Run screens the study and returns its report. It stops with ctx's error
@@ -86,17 +99,18 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 	if opt.Checks == nil {
 		opt.Checks = Pipeline()
 	}
-	a := &Analysis{Study: s, Alpha: opt.Alpha, Claims: claimReports(s.Package)}
+	a := &Analysis{Study: s, Alpha: opt.Alpha, Claims: claimReports(s.Package), progress: opt.Progress}
 	rep := &Report{
 		FormatVersion: ReportFormatVersion, ToolVersion: ToolVersion, PackageSHA256: s.SHA256,
 		Title: s.Package.Title, ManuscriptID: s.Package.ManuscriptID, Design: s.Package.Design,
 		Caution: Caution, SignificanceLevel: opt.Alpha,
 	}
 	claims, graph := claimReports(s.Package), (*GraphReport)(nil)
-	for _, c := range opt.Checks {
+	for k, c := range opt.Checks {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
+		a.reportProgress("checks (now: "+c.Title+")", k, len(opt.Checks))
 		a.Claims, a.Graph = claimReports(s.Package), nil // this check's annotations only
 		res := runCheck(ctx, c, a)
 		if err := ctx.Err(); err != nil {
@@ -108,6 +122,7 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 			graph = cmp.Or(a.Graph, graph)
 		}
 	}
+	a.reportProgress("checks", len(opt.Checks), len(opt.Checks))
 	a.Claims, a.Graph = claims, graph
 	a.fillDeclared()
 	rep.Data = a.dataReport()

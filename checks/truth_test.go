@@ -171,10 +171,14 @@ func TestRun_CosmeticEditMovesNoNumber(t *testing.T) {
 
 // Where the Monte Carlo error of a pooled estimate could carry it across
 // the significance line, m is raised and the report says so
-// (sleep-attention: S1's pooled estimate with 20 imputations is within two
-// Monte Carlo errors of the line).
+// (sleep-attention at a significance level of .011: S1's pooled p with 20
+// imputations is .011, on the line).
 func TestMissingData_RaisesImputations(t *testing.T) {
-	r := mustRun(t, MustLoad(t, "../testdata/demo/sleep-attention/package.json"))
+	r, err := checks.Run(context.Background(), MustLoad(t, "../testdata/demo/sleep-attention/package.json"),
+		checks.Options{Now: fixedNow, Alpha: 0.011})
+	if err != nil {
+		t.Fatal(err)
+	}
 	c := checkOf(r, "missing-data")
 	if c.Metrics["imputations"] != checks.MaxImputations || !reflect.DeepEqual(c.Metrics["imputations_raised_for"], []string{"S1"}) {
 		t.Fatalf("imputations %v, raised for %v", c.Metrics["imputations"], c.Metrics["imputations_raised_for"])

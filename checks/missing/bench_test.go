@@ -11,6 +11,8 @@ import (
 	"path/filepath"
 	"strconv"
 	"testing"
+
+	"gonum.org/v1/gonum/mat"
 )
 
 // benchData reads the n × p data with 10% missing cells that
@@ -44,9 +46,15 @@ func readBenchCSV(tb testing.TB, path string, p int) [][]float64 {
 		tb.Fatal(err)
 	}
 	defer f.Close()
+	return readCSVColumns(tb, f, false)
+}
+
+// readCSVColumns reads numbers by columns, "nan" or empty missing, after a header
+// line when header is set.
+func readCSVColumns(tb testing.TB, f io.Reader, header bool) [][]float64 {
 	r := csv.NewReader(f)
-	cols := make([][]float64, p)
-	for {
+	var cols [][]float64
+	for line := 1; ; line++ {
 		rec, err := r.Read()
 		if err == io.EOF {
 			return cols
@@ -54,10 +62,18 @@ func readBenchCSV(tb testing.TB, path string, p int) [][]float64 {
 		if err != nil {
 			tb.Fatal(err)
 		}
+		if cols == nil {
+			cols = make([][]float64, len(rec))
+		}
+		if header && line == 1 {
+			continue
+		}
 		for j, v := range rec {
 			x := math.NaN()
-			if v != "nan" {
-				x, _ = strconv.ParseFloat(v, 64)
+			if v != "nan" && v != "" {
+				if x, err = strconv.ParseFloat(v, 64); err != nil {
+					tb.Fatalf("line %d: %v", line, err)
+				}
 			}
 			cols[j] = append(cols[j], x)
 		}
@@ -94,7 +110,7 @@ func BenchmarkMI(b *testing.B) {
 		b.Run(fmt.Sprintf("n=%d/p=%d/m=20", s.n, s.p), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if _, err := Impute(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}); err != nil {
+				if err := ImputeEach(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}, func(int, *mat.Dense) error { return nil }); err != nil {
 					b.Fatal(err)
 				}
 			}

@@ -47,13 +47,16 @@ func RegressionImpute(cols [][]float64, em *EMResult) ([][]float64, error) {
 		out[j] = append([]float64(nil), c...)
 	}
 	x := make([]float64, len(cols))
+	var c condition
 	for _, pat := range Patterns(cols) {
-		c, err := conditional(prec, pat)
-		if err != nil {
+		if err := c.set(prec, em.Mean, pat.obs, pat.mis); err != nil {
 			return nil, err
 		}
 		for _, i := range pat.Rows {
-			c.predict(cols, i, em.Mean, x)
+			for j, col := range cols {
+				x[j] = col[i]
+			}
+			c.predict(x)
 			for _, j := range c.mis {
 				out[j][i] = x[j]
 			}

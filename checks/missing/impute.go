@@ -6,12 +6,21 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"runtime"
+	"sync"
 
 	"gonum.org/v1/gonum/mat"
 )
 
 // DefaultImputations is m, the number of imputed datasets, by default.
 const DefaultImputations = 20
+
+// BootstrapTolerance is the EM tolerance of the bootstrap runs unless
+// ImputeOptions.EM says otherwise. Their estimates are draws that spread
+// by about n^(−1/2) SDs; a change of 1e−6 SDs is far below that, so
+// stopping there changes the imputations by much less than their Monte
+// Carlo error.
+const BootstrapTolerance = 1e-6
 
 // ImputeOptions tune multiple imputation.
 type ImputeOptions struct {
@@ -22,51 +31,154 @@ type ImputeOptions struct {
 	// dataset is coded as the analysis needs.
 	Binary []bool
 	EM     Options // for the EM runs on the bootstrap samples
+	// Workers is how many imputations run at once; default GOMAXPROCS.
+	// The results do not depend on it.
+	Workers int
 }
 
-// Impute returns M completed copies of cols. Each is proper (Rubin 1987):
-// the parameters are drawn by running EM on a bootstrap resample of the
-// rows (Honaker & King 2010; Efron 1994), and each missing value is then
-// drawn from its conditional normal given the observed values of its row
-// under those parameters, residual noise included. start, the EM estimate
-// on the full data, starts each bootstrap run.
+// Impute returns M completed copies of cols, drawn by ImputeEach.
 func Impute(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOptions) ([][][]float64, error) {
 	if opt.M == 0 {
 		opt.M = DefaultImputations
 	}
-	rng := rand.New(rand.NewPCG(opt.Seed, 0x9e3779b97f4a7c15))
-	ps := Patterns(cols)
 	out := make([][][]float64, opt.M)
-	for k := range opt.M {
-		theta, err := bootstrapEM(ctx, cols, start, opt.EM, rng)
-		if err != nil {
-			return nil, fmt.Errorf("missing: imputation %d: %w", k+1, err)
+	err := ImputeEach(ctx, cols, start, opt, func(k int, data *mat.Dense) error {
+		out[k] = make([][]float64, len(cols))
+		for j := range cols {
+			out[k][j] = mat.Col(nil, j, data)
 		}
-		if out[k], err = draw(cols, ps, theta, rng); err != nil {
-			return nil, fmt.Errorf("missing: imputation %d: %w", k+1, err)
-		}
-		roundBinary(out[k], cols, opt.Binary)
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return out, nil
 }
 
-// bootstrapEM runs EM on a resample of the rows, drawn with replacement;
-// a resample in which some variable is never observed is drawn again.
-func bootstrapEM(ctx context.Context, cols [][]float64, start *EMResult, opt Options, rng *rand.Rand) (*EMResult, error) {
-	n := rows(cols)
-	opt.Start = start
-	for range 20 {
-		bs := make([][]float64, len(cols))
-		for j := range cols {
-			bs[j] = make([]float64, n)
-		}
-		for i := range n {
-			r := rng.IntN(n)
-			for j, c := range cols {
-				bs[j][i] = c[r]
+// ImputeEach draws M completed datasets and hands each, as an n × p matrix
+// of rows, to use, which must neither change nor keep the matrix: it is
+// drawn over by the next imputation, so memory does not grow with M. Each dataset is proper
+// (Rubin 1987): the parameters are drawn by running EM on a bootstrap
+// resample of the rows (Honaker & King 2010; Efron 1994), a vector of
+// multinomial counts over the rows that weights their sufficient
+// statistics, and each missing value is then drawn from its conditional
+// normal given the observed values of its row under those parameters,
+// residual noise included. start, the EM estimate on the full data, starts
+// each bootstrap run.
+//
+// The imputations run on opt.Workers goroutines (default GOMAXPROCS), and
+// use is called from them, for each k in 0..M−1 once, in no fixed order.
+// Imputation k draws from its own stream, seeded by opt.Seed and k, so the
+// datasets do not depend on the number of workers.
+func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOptions,
+	use func(k int, data *mat.Dense) error) error {
+	if opt.M == 0 {
+		opt.M = DefaultImputations
+	}
+	workers := opt.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	ps := Patterns(cols)
+	jobs := make(chan int)
+	errs := make([]error, opt.M)
+	var wg sync.WaitGroup
+	for range min(workers, opt.M) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			w := newImputer(cols, ps)
+			for k := range jobs {
+				if errs[k] = w.safeImpute(ctx, k, start, opt, use); errs[k] != nil {
+					cancel()
+				}
 			}
+		}()
+	}
+	for k := range opt.M {
+		jobs <- k
+	}
+	close(jobs)
+	wg.Wait()
+	return firstError(errs)
+}
+
+// firstError returns the error of the first imputation that failed for a
+// reason of its own, before those stopped by its cancellation.
+func firstError(errs []error) error {
+	var first error
+	for _, err := range errs {
+		if err != nil && !errors.Is(err, context.Canceled) {
+			return err
 		}
-		res, err := EM(ctx, bs, opt)
+		if first == nil {
+			first = err
+		}
+	}
+	return first
+}
+
+// imputer is one worker's state: its bootstrap weights and the dataset it
+// draws into.
+type imputer struct {
+	cols [][]float64
+	ps   []Pattern
+	w    []float64
+	data *mat.Dense
+	cond condition
+}
+
+// newImputer lays the observed values out as rows once: the imputations
+// only overwrite the missing cells.
+func newImputer(cols [][]float64, ps []Pattern) *imputer {
+	return &imputer{cols: cols, ps: ps, w: make([]float64, rows(cols)), data: rowMajor(cols)}
+}
+
+// safeImpute is impute with a panic turned into an error: a panic on a
+// worker goroutine would otherwise end the program, past the recovery of
+// whoever called ImputeEach.
+func (w *imputer) safeImpute(ctx context.Context, k int, start *EMResult, opt ImputeOptions,
+	use func(int, *mat.Dense) error) (err error) {
+	defer func() {
+		if p := recover(); p != nil {
+			err = fmt.Errorf("missing: imputation %d: internal error: %v", k+1, p)
+		}
+	}()
+	return w.impute(ctx, k, start, opt, use)
+}
+
+// impute draws imputation k and hands it to use.
+func (w *imputer) impute(ctx context.Context, k int, start *EMResult, opt ImputeOptions,
+	use func(int, *mat.Dense) error) error {
+	rng := rand.New(rand.NewPCG(opt.Seed, 0x9e3779b97f4a7c15+uint64(k)))
+	theta, err := w.bootstrapEM(ctx, start, opt.EM, rng)
+	if err == nil {
+		err = w.draw(theta, rng)
+	}
+	if err != nil {
+		return fmt.Errorf("missing: imputation %d: %w", k+1, err)
+	}
+	roundBinary(w.data, w.cols, opt.Binary)
+	return use(k, w.data)
+}
+
+// bootstrapEM runs EM on a resample of the rows, drawn with replacement,
+// as counts; a resample in which some variable is observed in fewer than
+// two rows is drawn again.
+func (w *imputer) bootstrapEM(ctx context.Context, start *EMResult, opt Options, rng *rand.Rand) (*EMResult, error) {
+	n := len(w.w)
+	opt.Start = start
+	if opt.Tolerance == 0 {
+		opt.Tolerance = BootstrapTolerance
+	}
+	for range 20 {
+		clear(w.w)
+		for range n {
+			w.w[rng.IntN(n)]++
+		}
+		res, err := emWeighted(ctx, w.cols, w.data, w.ps, w.w, opt)
 		if errors.Is(err, ErrNoData) {
 			continue
 		}
@@ -75,72 +187,78 @@ func bootstrapEM(ctx context.Context, cols [][]float64, start *EMResult, opt Opt
 	return nil, errors.New("no bootstrap resample observed every variable")
 }
 
-// draw completes cols with draws from the conditional normals under theta.
-func draw(cols [][]float64, ps []Pattern, theta *EMResult, rng *rand.Rand) ([][]float64, error) {
-	p := len(cols)
-	out := make([][]float64, p)
-	for j, c := range cols {
-		out[j] = append([]float64(nil), c...)
-	}
+// draw completes the data with draws from the conditional normals under
+// theta: the conditional mean plus L z, L the Cholesky factor of the
+// conditional covariance and z standard normal.
+func (w *imputer) draw(theta *EMResult, rng *rand.Rand) error {
 	prec, err := precision(theta.Cov)
 	if err != nil {
-		return nil, err
+		return err
 	}
-	x := make([]float64, p)
-	for _, pat := range ps {
-		c, err := conditional(prec, pat)
+	for _, pat := range w.ps {
+		if err := w.cond.set(prec, theta.Mean, pat.obs, pat.mis); err != nil {
+			return err
+		}
+		l, err := w.cond.factor()
 		if err != nil {
-			return nil, err
+			return err
 		}
-		if len(c.mis) == 0 {
-			continue
-		}
-		var ch mat.Cholesky
-		if !ch.Factorize(c.cov) {
-			return nil, errors.New("a conditional covariance is not positive definite")
-		}
-		var l mat.TriDense
-		ch.LTo(&l)
-		z := make([]float64, len(c.mis))
 		for _, i := range pat.Rows {
-			c.predict(cols, i, theta.Mean, x)
-			for a := range z {
-				z[a] = rng.NormFloat64()
-			}
-			for a, j := range c.mis {
-				e := 0.0
-				for b := 0; b <= a; b++ {
-					e += l.At(a, b) * z[b]
-				}
-				out[j][i] = x[j] + e
-			}
+			x := w.data.RawRowView(i)
+			w.cond.predict(x)
+			addNoise(x, pat.mis, l, rng)
 		}
 	}
-	return out, nil
+	return nil
+}
+
+// addNoise adds L z to x[mis], z standard normal.
+func addNoise(x []float64, mis []int, l []float64, rng *rand.Rand) {
+	k := len(mis)
+	var zs [8]float64
+	z := zs[:0]
+	if k > len(zs) {
+		z = make([]float64, 0, k)
+	}
+	for range k {
+		z = append(z, rng.NormFloat64())
+	}
+	for a, j := range mis {
+		e := 0.0
+		for b := 0; b <= a; b++ {
+			e += l[a*k+b] * z[b]
+		}
+		x[j] += e
+	}
 }
 
 // roundBinary rounds the imputed values of binary variables at the
 // adaptive threshold ω = v̄ − Φ⁻¹(v̄)·sqrt(v̄(1 − v̄)) of Bernaards, Belin
 // & Schafer (2007), v̄ the mean of the variable after imputation.
-func roundBinary(done, orig [][]float64, binary []bool) {
+func roundBinary(done *mat.Dense, orig [][]float64, binary []bool) {
+	n, _ := done.Dims()
 	for j, isBin := range binary {
 		if !isBin {
 			continue
 		}
 		mean := 0.0
-		for _, v := range done[j] {
-			mean += v
+		for i := range n {
+			mean += done.At(i, j)
 		}
-		mean /= float64(len(done[j]))
+		mean /= float64(n)
 		mean = math.Min(math.Max(mean, 1e-6), 1-1e-6)
 		omega := mean - normalQuantile(mean)*math.Sqrt(mean*(1-mean))
-		for i, v := range done[j] {
-			if math.IsNaN(orig[j][i]) {
-				done[j][i] = 0
-				if v > omega {
-					done[j][i] = 1
-				}
+		for i, x := range orig[j] {
+			if math.IsNaN(x) {
+				done.Set(i, j, boolFloat(done.At(i, j) > omega))
 			}
 		}
 	}
+}
+
+func boolFloat(b bool) float64 {
+	if b {
+		return 1
+	}
+	return 0
 }

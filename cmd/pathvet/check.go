@@ -42,6 +42,7 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	out := fs.String("out", "", "write the report to this file instead of standard output")
 	failUnder := fs.Int("fail-under", 0, "exit with status 1 when the score is below this")
 	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
+	quiet := fs.Bool("quiet", false, "draw no progress line on standard error")
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, "Usage: pathvet check [flags] PACKAGE.json\n\nScreens a submission package offline and prints its report.\nExit status: 0 report made, 1 score below --fail-under, 2 invalid package.\n\nFlags:")
 		fs.PrintDefaults()
@@ -62,7 +63,7 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		fmt.Fprintln(stderr, "pathvet check: --alpha must lie strictly between 0 and 1")
 		return exitInvalid
 	}
-	rep, code := screenFile(ctx, pos[0], *alpha, stderr)
+	rep, code := screenFile(ctx, pos[0], *alpha, stderr, newProgressLine(stderr, *quiet))
 	if rep == nil {
 		return code
 	}
@@ -79,7 +80,7 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 // screenFile loads the package at path and runs the pipeline on it. On
 // failure it prints the problems and returns a nil report and the exit
 // code.
-func screenFile(ctx context.Context, path string, alpha float64, stderr io.Writer) (*checks.Report, int) {
+func screenFile(ctx context.Context, path string, alpha float64, stderr io.Writer, progress *progressLine) (*checks.Report, int) {
 	doc, err := os.ReadFile(path)
 	if err != nil {
 		fmt.Fprintln(stderr, "pathvet check:", err)
@@ -100,7 +101,8 @@ func screenFile(ctx context.Context, path string, alpha float64, stderr io.Write
 		fmt.Fprintln(stderr, "pathvet check:", err)
 		return nil, exitInternal
 	}
-	rep, err := checks.Run(ctx, study, checks.Options{Alpha: alpha})
+	rep, err := checks.Run(ctx, study, checks.Options{Alpha: alpha, Progress: progress.callback()})
+	progress.clear()
 	if err != nil {
 		fmt.Fprintln(stderr, "pathvet check:", err)
 		return nil, exitInternal

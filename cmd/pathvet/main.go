@@ -22,7 +22,7 @@ const (
 
 Usage:
   pathvet init (--data ROWS.csv | --summary TABLE.csv) [--out PACKAGE.json] [--force]
-  pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] PACKAGE.json
+  pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] [--quiet] PACKAGE.json
   pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate]
   pathvet work [--database-url URL] [--workers N]
   pathvet migrate up|status [--database-url URL]
