@@ -97,14 +97,19 @@ func reversedArcs(declared, m *dag.PDAG) []dag.Edge {
 // cannot be counted exactly are kept if they agree with the background
 // knowledge at the node.
 func (a *Analysis) localGraphs(node int) ([]alternativeGraph, error) {
-	eq := a.equivalenceClass()
-	sets, err := dag.LocalParentSets(eq.cpdag, node)
+	return a.localGraphsOf(a.equivalenceClass().cpdag, a.Study.Background, node)
+}
+
+// localGraphsOf is localGraphs for the class of the CPDAG c under the
+// background arcs bg.
+func (a *Analysis) localGraphsOf(c *dag.PDAG, bg []dag.Edge, node int) ([]alternativeGraph, error) {
+	sets, err := dag.LocalParentSets(c, node)
 	if err != nil {
 		return nil, err
 	}
 	var out []alternativeGraph
 	for _, set := range sets {
-		if len(a.Study.Background) > 0 && !a.plausibleParents(eq.cpdag, node, set) {
+		if len(bg) > 0 && !plausibleParents(c, bg, node, set) {
 			continue
 		}
 		out = append(out, alternativeGraph{parents: set, pa: func(int) []int { return set }})
@@ -112,13 +117,13 @@ func (a *Analysis) localGraphs(node int) ([]alternativeGraph, error) {
 	return out, nil
 }
 
-// plausibleParents reports whether some plausible member gives node
-// exactly the parents set.
-func (a *Analysis) plausibleParents(c *dag.PDAG, node int, set []int) bool {
-	if !respectsBackground(a.Study.Background, node, set) {
+// plausibleParents reports whether some member of the class of c that
+// respects bg gives node exactly the parents set.
+func plausibleParents(c *dag.PDAG, bg []dag.Edge, node int, set []int) bool {
+	if !respectsBackground(bg, node, set) {
 		return false
 	}
-	req := append([]dag.Edge(nil), a.Study.Background...)
+	req := append([]dag.Edge(nil), bg...)
 	for _, v := range c.Siblings(node) {
 		if slices.Contains(set, v) {
 			req = append(req, dag.Edge{From: v, To: node})

@@ -105,7 +105,7 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s could not be estimated under the declared graph (%v), so it could not be re-estimated across the equivalent graphs either.", c.ID, decl.err)})
 	}
-	across, err := a.acrossEquivalents(c, decl)
+	across, err := a.declaredAcross(i)
 	if err != nil {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})

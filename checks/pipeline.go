@@ -22,14 +22,16 @@ type Check struct {
 }
 
 // Pipeline returns the checks in pipeline order (report-format.md, "Fixed
-// check ids"). causal-language reads the E-values that
-// confounding-sensitivity computes, so it runs after it.
+// check ids", with nearby-graphs after alternatives). causal-language
+// reads the E-values that confounding-sensitivity computes, so it runs
+// after it.
 func Pipeline() []Check {
 	return []Check{
 		graphDeclaredCheck,
 		graphFitCheck,
 		equivalenceCheck,
 		alternativesCheck,
+		nearbyGraphsCheck,
 		missingDataCheck,
 		effectReportingCheck,
 		confoundingCheck,
@@ -76,6 +78,9 @@ type Analysis struct {
 	plausibleErr error
 	miss         *missingResult
 	evs          []claimEValue
+	across       []*AcrossEquivalents
+	acrossErr    []error
+	acrossDone   []bool
 	progress     func(stage string, done, total int)
 }
 
@@ -119,7 +124,7 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 		rep.Checks = append(rep.Checks, res)
 		if res.RunError == "" {
 			mergeClaims(claims, a.Claims)
-			graph = cmp.Or(a.Graph, graph)
+			graph = mergeGraph(graph, a.Graph)
 		}
 	}
 	a.reportProgress("checks", len(opt.Checks), len(opt.Checks))
@@ -219,6 +224,24 @@ func mergeClaims(dst, src []ClaimReport) {
 			}
 		}
 	}
+}
+
+// mergeGraph merges a check's graph section into the report's: fields
+// that src sets and dst leaves zero.
+func mergeGraph(dst, src *GraphReport) *GraphReport {
+	switch {
+	case src == nil:
+		return dst
+	case dst == nil:
+		return src
+	}
+	d, s := reflect.ValueOf(dst).Elem(), reflect.ValueOf(src).Elem()
+	for f := range d.NumField() {
+		if !s.Field(f).IsZero() && d.Field(f).IsZero() {
+			d.Field(f).Set(s.Field(f))
+		}
+	}
+	return dst
 }
 
 func claimReports(pkg *Package) []ClaimReport {

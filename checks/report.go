@@ -112,6 +112,11 @@ type GraphReport struct {
 	EquivalentDAGsTruncated bool          `json:"equivalent_dags_truncated"`
 	PlausibleDAGs           [][][2]string `json:"plausible_dags"`
 	PlausibleDAGsTruncated  bool          `json:"plausible_dags_truncated"`
+	// NearbyGraphs are classes of graphs one edit from the declared one,
+	// best first; SearchBest is where a greedy search from it stopped
+	// (nearby-graphs check, nearby_report.go).
+	NearbyGraphs []NearbyGraph `json:"nearby_graphs,omitempty"`
+	SearchBest   *NearbyGraph  `json:"search_best,omitempty"`
 }
 
 // EdgeSets are a partially directed graph's arcs and lines, by name.

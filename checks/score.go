@@ -16,6 +16,7 @@ var Weights = map[string]Weight{
 	"graph-fit":               {Warn: 5, Fail: 15, HeadlineFail: 15},
 	"equivalence":             {Warn: 10, Fail: 25, HeadlineFail: 35},
 	"alternatives":            {Warn: 5, Fail: 15, HeadlineFail: 25},
+	"nearby-graphs":           {Warn: 5, Fail: 15, HeadlineFail: 25},
 	"missing-data":            {Warn: 10, Fail: 20, HeadlineFail: 30},
 	"effect-reporting":        {Warn: 5, Fail: 15, HeadlineFail: 25},
 	"confounding-sensitivity": {Warn: 5, Fail: 10, HeadlineFail: 15},

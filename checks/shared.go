@@ -35,3 +35,29 @@ func (a *Analysis) eValues() []claimEValue {
 	}
 	return a.evs
 }
+
+// declaredAcross is claim i re-estimated across the plausible members of
+// the declared graph's class (nil for a claim that is not causal, not in
+// the graph, or not estimable under it), computed once: equivalence
+// reports it, nearby-graphs asks whether it is unstable.
+func (a *Analysis) declaredAcross(i int) (*AcrossEquivalents, error) {
+	n := len(a.Study.Package.Claims)
+	if a.across == nil {
+		a.across, a.acrossErr, a.acrossDone = make([]*AcrossEquivalents, n), make([]error, n), make([]bool, n)
+	}
+	if !a.acrossDone[i] {
+		c, decl := a.Study.Package.Claims[i], a.declaredEstimate(i)
+		if a.Study.Declared != nil && Causal(c.Kind) && a.claimInGraph(c) && decl.ok() {
+			a.across[i], a.acrossErr[i] = a.acrossEquivalents(c, decl)
+		}
+		a.acrossDone[i] = true
+	}
+	return a.across[i], a.acrossErr[i]
+}
+
+// unstableAmongEquivalents: claim i changes sign or significance among
+// the declared graph's own plausible equivalents.
+func (a *Analysis) unstableAmongEquivalents(i int) bool {
+	ae, err := a.declaredAcross(i)
+	return err == nil && ae != nil && ae.Unstable
+}

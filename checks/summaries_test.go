@@ -16,6 +16,7 @@ var checkStatuses = map[string][]string{
 	"graph-fit":               {checks.StatusPass, checks.StatusWarn, checks.StatusFail, checks.StatusNotApplicable},
 	"equivalence":             {checks.StatusPass, checks.StatusWarn, checks.StatusFail, checks.StatusNotApplicable},
 	"alternatives":            {checks.StatusPass, checks.StatusWarn, checks.StatusFail, checks.StatusNotApplicable},
+	"nearby-graphs":           {checks.StatusPass, checks.StatusWarn, checks.StatusFail, checks.StatusNotApplicable},
 	"missing-data":            {checks.StatusPass, checks.StatusWarn, checks.StatusFail, checks.StatusNotApplicable},
 	"effect-reporting":        {checks.StatusPass, checks.StatusWarn, checks.StatusFail},
 	"confounding-sensitivity": {checks.StatusPass, checks.StatusWarn, checks.StatusNotApplicable},

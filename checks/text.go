@@ -3,6 +3,7 @@ package checks
 import (
 	"fmt"
 	"io"
+	"math"
 	"sort"
 	"strings"
 )
@@ -36,6 +37,7 @@ func WriteText(w io.Writer, r *Report) error {
 			wrapHanging(&b, "      ", fmt.Sprintf("- %s: ", statusLabel(f.Severity)), f.Message)
 		}
 	}
+	writeNearby(&b, r.Graph)
 	b.WriteString("\nPackage sha256 " + r.PackageSHA256 + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err
@@ -90,4 +92,56 @@ func wrapHanging(b *strings.Builder, indent, lead, text string) {
 		width += n
 	}
 	b.WriteString(line + "\n")
+}
+
+// writeNearby lists graph.nearby_graphs and graph.search_best, one line
+// each: ΔBIC, Raftery's band, the edits, the class sizes, changed claims.
+func writeNearby(b *strings.Builder, g *GraphReport) {
+	if g == nil || (len(g.NearbyGraphs) == 0 && g.SearchBest == nil) {
+		return
+	}
+	b.WriteString("\nGraphs one edit away, best first (ΔBIC against the declared graph; negative fits better):\n")
+	line := func(lead string, n NearbyGraph) {
+		var edits, changed []string
+		for _, e := range n.Edits {
+			edits = append(edits, e.Op+" "+e.From+" → "+e.To)
+		}
+		for id, c := range n.Claims {
+			if c.Changed {
+				changed = append(changed, id)
+			}
+		}
+		sort.Strings(changed)
+		ev := strings.ReplaceAll(n.Evidence, "_", " ")
+		if n.Favours == "declared" || n.Favours == "nearby" {
+			ev += map[string]string{"declared": ", for the declared graph", "nearby": ", for this graph"}[n.Favours]
+		}
+		text := fmt.Sprintf("%s (%s); class of %v, %v plausible", strings.Join(edits, ", "),
+			ev, n.EquivalenceClassSize, orDash(n.PlausibleClassSize))
+		if len(changed) > 0 {
+			text += "; changed: " + strings.Join(changed, ", ")
+		}
+		wrapHanging(b, "  ", fmt.Sprintf("%-6s %+8.2f  ", lead, deref(n.DeltaBIC)), text)
+	}
+	for _, n := range g.NearbyGraphs {
+		line("", n)
+	}
+	if g.SearchBest != nil {
+		line("search", *g.SearchBest)
+		wrap(b, "  ", "(the search's end point is a hint, not a discovery)")
+	}
+}
+
+func orDash(v any) any {
+	if v == nil {
+		return "uncounted"
+	}
+	return v
+}
+
+func deref(x *float64) float64 {
+	if x == nil {
+		return math.NaN()
+	}
+	return *x
 }

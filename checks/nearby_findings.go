@@ -1,0 +1,169 @@
+package checks
+
+import (
+	"fmt"
+	"math"
+	"slices"
+	"strings"
+)
+
+// nearbyFindings word what the check found: an overview, each claim that
+// changes in a close class or the search's best, the search, classes left
+// unexamined, and the linear score's approximation for binary variables.
+func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
+	fs := []Finding{overviewFinding(run)}
+	seen := map[string]bool{}
+	for _, c := range run.listed {
+		if c.claims != nil {
+			seen[c.cpdag.Key()] = true
+			fs = append(fs, a.classFindings(c)...)
+		}
+	}
+	if run.best != nil && !seen[run.best.cpdag.Key()] {
+		fs = append(fs, a.classFindings(run.best)...)
+	}
+	fs = append(fs, a.searchFinding(run))
+	if left := run.near - run.examined; left > 0 {
+		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
+			"%d more class(es) fit within ΔBIC 2 of the declared graph beyond the %d examined; their claims were not re-estimated, so this check cannot say that every claim holds in them.",
+			left, run.examined)})
+	}
+	return append(fs, a.binaryScoreFinding()...)
+}
+
+func overviewFinding(run *nearbyRun) Finding {
+	nb := run.nb
+	if nb.DAGs == 0 {
+		return Finding{Severity: SeverityInfo, Message: "No graph lies one edit from the declared one within the background knowledge (exogenous variables, fixed arrows)."}
+	}
+	return Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
+		"%d graph(s) lie one edit from the declared graph within the background knowledge, %d of them in its own equivalence class (a reversible arrow reversed); the other %d equivalence class(es): %d within ΔBIC 2 of the declared graph, %d fitting better by 2 or more. The score is graph-fit's BIC (χ² + free parameters · ln N), refitting only the equations whose parents change.",
+		nb.DAGs, nb.Equivalent, len(nb.Classes), run.near, run.better)}
+}
+
+// classFindings: one finding per claim that changes sign or significance
+// somewhere in the class.
+func (a *Analysis) classFindings(c *nearClass) []Finding {
+	var fs []Finding
+	near := math.Abs(c.delta) < weakBIC
+	idx := make([]int, 0, len(c.claims))
+	for i := range c.claims {
+		idx = append(idx, i)
+	}
+	slices.Sort(idx)
+	for _, i := range idx {
+		ae, cl := c.claims[i], a.Study.Package.Claims[i]
+		if !ae.Unstable {
+			continue
+		}
+		sev := StatusWarn
+		switch {
+		case a.unstableAmongEquivalents(i): // shared.go, not the equivalence check's output
+			sev = SeverityInfo // the equivalence check already weighs it
+		case near && cl.Headline && c.alternative == "" && !c.approximate:
+			sev = StatusFail
+		}
+		fs = append(fs, Finding{Severity: sev, Claim: cl.ID, Message: a.changedText(c, i, ae, sev),
+			Details: map[string]any{"delta_bic": num(c.delta), "graphs": ae.Estimates,
+				"graphs_differing": ae.Differing, "method": ae.Method}})
+	}
+	return fs
+}
+
+// changedText says in one sentence how a claim fares in a nearby class.
+func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev string) string {
+	cl, decl := a.Study.Package.Claims[i], a.declaredEstimate(i)
+	other := "zero"
+	if ct := ae.Contrast; ct != nil && ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
+		p := math.NaN()
+		if ct.Estimate.PValue != nil {
+			p = *ct.Estimate.PValue
+		}
+		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
+	}
+	edits := a.editsText(c.edits)
+	graphs := fmt.Sprintf("the %d plausible graphs %s", ae.Estimates, edits)
+	switch {
+	case ae.Method == AcrossParentSets:
+		graphs = fmt.Sprintf("the %d locally valid parent sets of the graphs %s", ae.Estimates, edits)
+	case ae.Estimates == 1:
+		graphs = "the one plausible graph " + edits
+	}
+	var b strings.Builder
+	switch {
+	case ae.Estimates == 1:
+		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in %s (%s)",
+			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+	case ae.Differing == 1:
+		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)",
+			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+	default:
+		fmt.Fprintf(&b, "%s is %s under the declared graph, but its sign or significance differs in %d of %s (%s; in the one nearest zero it is %s)",
+			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)
+	}
+	if ae.Estimates > 1 {
+		fmt.Fprintf(&b, "; across them it ranges from %s to %s and is significant with the declared sign in %s of them",
+			numText(ae.Min), numText(ae.Max), shareText(ae.ShareSignificantSameSign))
+	}
+	b.WriteString(".")
+	switch {
+	case sev == SeverityInfo:
+		b.WriteString(" It already changes among the declared graph's own equivalent graphs (see the equivalence check), so the equivalence check's finding covers it.")
+	case c.alternative != "":
+		fmt.Fprintf(&b, " The authors state this graph as the alternative %q.", c.alternative)
+	case c.approximate && cl.Headline && math.Abs(c.delta) < weakBIC && c.alternative == "":
+		b.WriteString(" The edit changes the equation of a binary variable, which the linear score treats as continuous, so this ΔBIC is approximate and the finding a warning rather than a failure; the paper neither states nor discusses this graph.")
+	case sev == StatusFail:
+		b.WriteString(" The paper neither states nor discusses this graph, so the data do not decide this claim; the choice of graph does.")
+	}
+	return b.String()
+}
+
+func numText(x *float64) string {
+	if x == nil {
+		return "n/a"
+	}
+	return fmt.Sprintf("%.2f", *x)
+}
+
+func shareText(x *float64) string {
+	if x == nil {
+		return "an unknown share"
+	}
+	return fmt.Sprintf("%.0f%%", 100**x)
+}
+
+func (a *Analysis) searchFinding(run *nearbyRun) Finding {
+	sr := run.sr
+	if sr.Steps == 0 {
+		return Finding{Severity: SeverityInfo, Message: "A greedy search from the declared graph finds no single edit that lowers BIC: the declared graph is a local optimum of the score."}
+	}
+	sev := SeverityInfo
+	if sr.DeltaBIC < clearlyBetterBIC {
+		sev = StatusWarn
+	}
+	stopped := ""
+	if sr.Stopped {
+		stopped = ", stopped at its step limit"
+	}
+	return Finding{Severity: sev, Message: fmt.Sprintf(
+		"A greedy search from the declared graph (%d step(s), each the single edit that lowers BIC most%s) ends at the graphs %s (%s). A search result is a hint, not a discovery: one greedy path through many candidate edits also finds chance improvements, so it says where to look, not which graph is true.",
+		sr.Steps, stopped, a.editsText(sr.Edits), deltaText(sr.DeltaBIC))}
+}
+
+// binaryScoreFinding says where the linear score treats a binary
+// variable as continuous.
+func (a *Analysis) binaryScoreFinding() []Finding {
+	var names []string
+	for i, v := range a.Study.Package.Variables {
+		if v.Scale == ScaleBinary && a.Study.InGraph[i] {
+			names = append(names, v.Name)
+		}
+	}
+	if len(names) == 0 {
+		return nil
+	}
+	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
+		"%s: binary. The nearby graphs are scored by the same linear BIC as graph-fit's χ², which treats %s as continuous: where an edit changes a binary variable's equation its ΔBIC is approximate, and a headline claim that changes there is warned about, not failed (the claims themselves are estimated as elsewhere in the report).",
+		strings.Join(names, ", "), them(len(names)))}}
+}
