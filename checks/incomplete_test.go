@@ -60,7 +60,7 @@ func TestRun_NothingEstimable(t *testing.T) {
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			r := mustRun(t, codingClubWith(t, tc.csv))
-			for _, id := range []string{"graph-fit", "measurement"} {
+			for _, id := range []string{"graph-fit", "nearby-graphs", "measurement"} {
 				c := checkOf(r, id)
 				if c.Status != checks.StatusFail || !strings.Contains(c.RunError, tc.cause) || c.Deduction == 0 {
 					t.Errorf("%s: %s, deduction %d, run error %q; want fail with %q", id, c.Status, c.Deduction, c.RunError, tc.cause)

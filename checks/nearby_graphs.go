@@ -78,14 +78,14 @@ func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the graphs near the declared one could not be scored: %w", a.dataError())
 	}
 	declFit, err := a.fitGraph(ctx, s.Declared, s.InGraph)
 	if ctxErr := ctx.Err(); ctxErr != nil {
 		return CheckResult{}, ctxErr
 	}
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: the declared graph could not be fitted to the data (" + err.Error() + ")."}, nil
+		return CheckResult{}, fmt.Errorf("the graphs near the declared one could not be scored: the declared graph could not be fitted to the data (%w)", err)
 	}
 	run, err := a.nearbyRun(ctx, m)
 	if err != nil {
