@@ -102,7 +102,7 @@ func (s *Server) page(c echo.Context, status int, write func(*strings.Builder) e
 
 func (s *Server) nav(c echo.Context) render.Nav {
 	k := keyOf(c)
-	return render.Nav{Office: k.OfficeName, Role: k.Role, CSRF: csrfToken(c)}
+	return render.Nav{Office: k.OfficeName, Role: k.Role, Label: k.Label, CSRF: csrfToken(c)}
 }
 
 func csrfToken(c echo.Context) string {

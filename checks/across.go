@@ -21,16 +21,19 @@ const (
 // AcrossEquivalents is a causal claim's value over the plausible members
 // of the declared graph's equivalence class.
 type AcrossEquivalents struct {
-	Min    *float64 `json:"min"`
-	Max    *float64 `json:"max"`
-	Graphs int      `json:"graphs"`
-	// ShareSignificantSameSign is the share of the graphs used in which
+	Min *float64 `json:"min"`
+	Max *float64 `json:"max"`
+	// Estimates counts what the claim was estimated in: plausible members
+	// (all_plausible_members) or locally valid parent sets
+	// (local_parent_sets), which are not graphs.
+	Estimates int `json:"estimates"`
+	// ShareSignificantSameSign is the share of those estimates in which
 	// the claim is significant with the sign of its declared estimate.
 	ShareSignificantSameSign *float64 `json:"share_significant_same_sign"`
 	Method                   string   `json:"method"`
 	// Unstable: the claim's sign or significance differs in some graph.
 	Unstable  bool      `json:"unstable"`
-	Differing int       `json:"graphs_differing"`
+	Differing int       `json:"estimates_differing"`
 	Failed    int       `json:"estimates_failed,omitempty"`
 	Contrast  *Contrast `json:"contrast,omitempty"`
 }
@@ -177,7 +180,7 @@ func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGr
 			r.Failed++
 			continue
 		}
-		r.Graphs++
+		r.Estimates++
 		v := e.value
 		if e.method == MethodZero {
 			v = zeroOnScale(e.scale)
@@ -194,9 +197,9 @@ func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGr
 			}
 		}
 	}
-	if r.Graphs > 0 {
+	if r.Estimates > 0 {
 		r.Min, r.Max = finite(lo), finite(hi)
-		r.ShareSignificantSameSign = finite(float64(same) / float64(r.Graphs))
+		r.ShareSignificantSameSign = finite(float64(same) / float64(r.Estimates))
 	}
 	r.Unstable = r.Differing > 0
 	if best != nil {
@@ -215,10 +218,6 @@ func zeroOnScale(scale string) float64 {
 
 func (a *Analysis) contrast(g alternativeGraph, e est) *Contrast {
 	ct := &Contrast{Estimate: a.report(e)}
-	if e.method == MethodZero {
-		v := zeroOnScale(e.scale)
-		ct.Estimate.Estimate = &v
-	}
 	for _, r := range g.reversed {
 		ct.ReversedArrows = append(ct.ReversedArrows, [2]string{a.Study.Names[r.To], a.Study.Names[r.From]})
 	}

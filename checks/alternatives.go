@@ -19,6 +19,12 @@ var alternativesCheck = Check{
 	ID:    "alternatives",
 	Title: "Stated alternative graphs",
 	Run:   runAlternatives,
+	Summaries: map[string]string{
+		StatusPass:          "No claim changes its conclusion under a stated alternative that fits the data about as well as the declared graph.",
+		StatusWarn:          "The stated alternatives need attention; see the findings.",
+		StatusFail:          "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it.",
+		StatusNotApplicable: "No alternatives are stated, and the paper makes no causal claim.",
+	},
 }
 
 func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
@@ -30,17 +36,17 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 			Summary:  "The paper states no alternative graph for its causal claims; ask which other causal orders the authors considered and why they rejected them.",
 			Findings: []Finding{{Severity: StatusWarn, Message: "No alternative graph is stated, so nothing shows the causal claims were weighed against another causal order."}}}, nil
 	case len(s.Alternatives) == 0:
-		return CheckResult{Status: StatusNotApplicable, Summary: "No alternatives are stated, and the paper makes no causal claim."}, nil
+		return CheckResult{Status: StatusNotApplicable}, nil
 	case s.Declared == nil:
 		return CheckResult{Status: StatusNotApplicable, Summary: "Alternatives are stated but no declared graph, so there is nothing to compare them with."}, nil
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The alternatives could not be compared: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: %w", a.dataError())
 	}
 	declFit, err := a.fitGraph(ctx, s.Declared, s.InGraph)
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The alternatives could not be compared: the declared graph could not be fitted to the data (" + err.Error() + ")."}, nil
+		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: the declared graph could not be fitted to the data (%w)", err)
 	}
 	var fs []Finding
 	var rows []map[string]any
@@ -58,12 +64,37 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	res := CheckResult{Findings: fs, Metrics: map[string]any{"alternatives": len(s.Alternatives), "comparisons": rows,
 		"declared_bic": num(declFit.fit.BIC), "declared_chi_square": num(declFit.fit.ChiSquare), "declared_df": declFit.fit.DF}}
 	res.Status = statusOf(fs)
-	res.Summary = map[string]string{
-		StatusPass: fmt.Sprintf("The paper states %d alternative graph(s); every claim keeps its sign and significance under those that fit about as well as the declared graph.", len(s.Alternatives)),
-		StatusWarn: "Some claims change sign or significance under a stated alternative that fits the data about as well; the paper should say why the declared graph is preferred.",
-		StatusFail: "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it.",
-	}[res.Status]
+	res.Summary = alternativesSummary(res.Status, len(s.Alternatives), rows, fs)
 	return res, nil
+}
+
+// alternativesSummary words the check's result from its comparisons and
+// findings.
+func alternativesSummary(status string, n int, rows []map[string]any, fs []Finding) string {
+	asWell, changed := 0, 0
+	for _, r := range rows {
+		if r["fits_about_as_well"] == true {
+			asWell++
+		}
+	}
+	for _, f := range fs {
+		if f.Claim != "" && (f.Severity == StatusWarn || f.Severity == StatusFail) {
+			changed++
+		}
+	}
+	stated := "The paper states " + count(n, "alternative graph", "alternative graphs")
+	switch {
+	case status == StatusFail:
+		return "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it."
+	case changed > 0:
+		return fmt.Sprintf("%s sign or significance under a stated alternative that fits the data about as well; the paper should say why the declared graph is preferred.",
+			count(changed, "claim changes", "claims change"))
+	case status == StatusWarn:
+		return stated + "; some could not be compared with the declared graph (see the findings), and no claim changes its conclusion under those that fit about as well."
+	case asWell == 0:
+		return stated + "; none fits the data about as well as the declared graph (Markov equivalent, or ΔBIC below 2), so none challenges the claims."
+	}
+	return fmt.Sprintf("%s; under the %d that fit the data about as well as the declared graph, no claim that could be estimated changes its conclusion (the sign of a significant estimate, or its non-significance).", stated, asWell)
 }
 
 // compareAlternative fits alternative j beside the declared graph and
@@ -100,6 +131,7 @@ func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG,
 		}
 	}
 	fitsAsWell := equivalent || (same && fitted && delta < weakBIC)
+	row["fits_about_as_well"] = fitsAsWell
 	for i, c := range s.Package.Claims {
 		ae, f := a.claimUnderAlternative(i, c, name, alt, in, equivalent, fitsAsWell, delta)
 		a.Claims[i].UnderAlternatives = append(a.Claims[i].UnderAlternatives, ae)
@@ -127,10 +159,7 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	e := a.estimateClaim(c, alt.Parents)
 	r := a.report(e)
 	ae.Estimate, ae.CI, ae.PValue, ae.Method, ae.Error = r.Estimate, r.CI, r.PValue, r.Method, r.Error
-	if e.method == MethodZero {
-		v := zeroOnScale(e.scale)
-		ae.Estimate = &v
-	}
+	ae.StructuralZero = r.StructuralZero
 	if !e.ok() || !decl.ok() {
 		return ae, nil
 	}

@@ -3,35 +3,45 @@ package checks_test
 import (
 	"bytes"
 	"os"
+	"strings"
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
 )
 
-// The score's calibration, so that a later change cannot move the bands
-// silently: a clean randomized study with complete reporting scores at
-// least 85; the flawed demos and purpose-built flawed packages score below
-// 50; the coding-club demo, whose flaws do not change its conclusions, is
-// of moderate concern (its headline arrow's direction rests on an arrow the
-// data barely support, a warning: the score is approximate for its binary
-// variables), and so is a clean package whose only flaw is a headline
-// arrow the graph without it fits about as well (nearby-headline).
+// calibration are the scores the README quotes (section "Score"), held
+// exactly, so that a change that moves one must change the README too: a
+// clean randomized study with complete reporting scores 100; the flawed
+// demos and a purpose-built flawed package score below 50; the coding-club
+// demo and a clean package whose headline arrow the graph without it fits
+// about as well (nearby-headline) are of moderate concern.
+var calibration = []struct {
+	path, readme string
+	score        int
+	band         string
+}{
+	{"../testdata/calibration/clean-randomized/package.json", "`testdata/calibration/clean-randomized` scores 100", 100, checks.BandLow},
+	{"../testdata/calibration/bare-claims/package.json", "`testdata/calibration/bare-claims` (20)", 20, checks.BandHigh},
+	{"../testdata/demo/tutoring-anxiety/package.json", "tutoring-anxiety (25)", 25, checks.BandHigh},
+	{"../testdata/demo/sleep-attention/package.json", "sleep-attention (35)", 35, checks.BandHigh},
+	{"../testdata/demo/coding-club/package.json", "coding-club demo scores 55 (moderate concern)", 55, checks.BandModerate},
+	{"../testdata/calibration/nearby-headline/package.json", "within ΔBIC 2 (75, moderate concern)", 75, checks.BandModerate},
+}
+
 func TestScore_Calibration(t *testing.T) {
-	for _, tc := range []struct {
-		path     string
-		min, max int
-	}{
-		{"../testdata/calibration/clean-randomized/package.json", 85, 100},
-		{"../testdata/calibration/bare-claims/package.json", 0, 49},
-		{"../testdata/demo/tutoring-anxiety/package.json", 0, 49},
-		{"../testdata/demo/sleep-attention/package.json", 0, 49},
-		{"../testdata/demo/coding-club/package.json", 50, 79},
-		{"../testdata/calibration/nearby-headline/package.json", 50, 79},
-	} {
+	readme, err := os.ReadFile("../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := strings.Join(strings.Fields(string(readme)), " ")
+	for _, tc := range calibration {
 		r := mustRun(t, MustLoad(t, tc.path))
-		if r.Score < tc.min || r.Score > tc.max {
-			t.Errorf("%s scores %d (%s), want %d–%d", tc.path, r.Score, r.Band, tc.min, tc.max)
+		if r.Score != tc.score || r.Band != tc.band {
+			t.Errorf("%s scores %d (%s), want %d (%s)", tc.path, r.Score, r.Band, tc.score, tc.band)
+		}
+		if !strings.Contains(text, tc.readme) {
+			t.Errorf("the README does not quote %q", tc.readme)
 		}
 	}
 }

@@ -28,6 +28,12 @@ var causalLanguageCheck = Check{
 	ID:    "causal-language",
 	Title: "Causal language and the target trial",
 	Run:   runCausalLanguage,
+	Summaries: map[string]string{
+		StatusPass:          "Causal wording is backed by what the package supplies; see the findings.",
+		StatusWarn:          "Causal wording from a non-randomized design is not fully backed by what the package supplies; see the findings.",
+		StatusFail:          "A claim is worded causally without the support a non-randomized design needs; see the findings.",
+		StatusNotApplicable: "No claim is causal or worded causally.",
+	},
 }
 
 func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
@@ -58,16 +64,24 @@ func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
 			res.Status, res.Summary = StatusNotApplicable, "The design is randomized and no claim uses causal wording."
 		}
 	case !causal:
-		res.Status, res.Summary = StatusNotApplicable, "No claim is causal or worded causally."
+		res.Status = StatusNotApplicable
 	default:
 		res.Status = statusOf(fs)
-		res.Summary = map[string]string{
-			StatusPass: "Causal wording is backed by a declared graph, a discussion of equivalent graphs, a sensitivity analysis and a described target trial.",
-			StatusWarn: "Causal wording from a non-randomized design is not fully backed by what the package supplies; see the findings.",
-			StatusFail: "A claim is worded causally without the support a non-randomized design needs; see the findings.",
-		}[res.Status]
+		res.Summary = languageSummary(res.Status, worded)
 	}
 	return res, nil
+}
+
+func languageSummary(status string, worded int) string {
+	switch {
+	case worded == 0 && status == StatusPass:
+		return "No claim is worded causally, and the target trial behind the causal claims is described in all five parts."
+	case worded == 0:
+		return "No claim is worded causally, but the target trial behind the causal claims is not fully described; see the findings."
+	case status == StatusPass:
+		return "Causal wording is backed by a declared graph, a discussion of equivalent graphs, E-values where a claim needs them, and a described target trial."
+	}
+	return "" // the declared summary
 }
 
 func hasCausalClaim(p *Package) bool {
@@ -107,12 +121,12 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	} else if !a.Study.Package.Graph.EquivalentsDiscussed {
 		lacks = append(lacks, "a discussion of the equivalent graphs")
 	}
-	if ev := a.claimEValue(c); ev == nil {
-		lacks = append(lacks, "a sensitivity analysis")
+	if ce := a.claimEValue(c); ce.ev == nil && ce.why != "" && !ce.contradicted {
+		lacks = append(lacks, "figures from which an E-value can be computed (an estimate with its SE or interval)")
 	}
 	if len(lacks) == 0 {
 		return Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs and E-values.", c.ID, quoted)}
+			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs%s.", c.ID, quoted, a.eValueBacking(c))}
 	}
 	sev := StatusWarn
 	if a.Study.Declared == nil {
@@ -122,14 +136,23 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 		"%s is worded causally (%s) from a non-randomized design without %s.", c.ID, quoted, strings.Join(lacks, " or "))}
 }
 
+// eValueBacking names the E-value among a claim's backing, where it has
+// one.
+func (a *Analysis) eValueBacking(c Claim) string {
+	if a.claimEValue(c).ev != nil {
+		return " and E-values"
+	}
+	return ""
+}
+
 // claimEValue finds the E-value computed for a claim, if any.
-func (a *Analysis) claimEValue(c Claim) *EValue {
+func (a *Analysis) claimEValue(c Claim) claimEValue {
 	for i, cc := range a.Study.Package.Claims {
 		if cc.ID == c.ID {
-			return a.Claims[i].EValue
+			return a.eValues()[i]
 		}
 	}
-	return nil
+	return claimEValue{}
 }
 
 // targetTrialFinding lists the missing parts of the target trial

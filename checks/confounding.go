@@ -26,6 +26,13 @@ var confoundingCheck = Check{
 	ID:    "confounding-sensitivity",
 	Title: "Sensitivity to unmeasured confounding",
 	Run:   runConfounding,
+	Summaries: map[string]string{
+		StatusPass: "For each causal claim, an unmeasured confounder would need a risk-ratio association of at least 1.5 " +
+			"with both cause and outcome to move the interval to include no effect; see the E-values.",
+		StatusWarn: "Unmeasured confounding of modest strength could move some causal claims' intervals to include no " +
+			"effect, or some claims have no E-value; see the findings.",
+		StatusNotApplicable: "The paper makes no causal claim, so there is nothing to explain away.",
+	},
 }
 
 // EValue is a causal claim's E-values (VanderWeele & Ding 2017).
@@ -46,13 +53,17 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	var fs []Finding
 	computed, missing, weak := 0, 0, 0
 	for i, c := range s.Package.Claims {
-		if !Causal(c.Kind) || c.AssertsAbsence {
+		ce := a.eValues()[i] // shared with causal-language (shared.go)
+		ev, note := ce.ev, ce.why
+		if ev == nil && note == "" {
 			continue // an association, or a claim of no effect, has nothing to explain away
 		}
-		ev, note := a.eValue(i, c)
 		if ev == nil {
-			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)})
-			missing++
+			sev := map[bool]string{true: SeverityInfo, false: StatusWarn}[ce.contradicted]
+			fs = append(fs, Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)})
+			if !ce.contradicted {
+				missing++
+			}
 			continue
 		}
 		computed++
@@ -71,6 +82,9 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: map[string]any{"claims_with_e_value": computed, "weak_e_value_below": weakEValue}}
 	res.Summary = confoundingSummary(computed, missing, weak)
+	if computed == 0 && missing == 0 { // only claims the declared graph gives no effect
+		res.Status, res.Summary = StatusNotApplicable, "No causal claim is left to explain away: the declared graph gives each no effect (see graph-declared)."
+	}
 	return res, nil
 }
 

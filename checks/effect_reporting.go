@@ -19,6 +19,14 @@ var effectReportingCheck = Check{
 	ID:    "effect-reporting",
 	Title: "Effect sizes, intervals and p-values",
 	Run:   runEffectReporting,
+	Summaries: map[string]string{
+		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the " +
+			"estimates, and no claim of \"no effect\" goes beyond what the data show.",
+		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data " +
+			"do not tell; see the findings.",
+		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not " +
+			"support; ask the authors for the estimate, its interval and the equivalence test.",
+	},
 }
 
 // OddsRatioRange is a binary outcome's odds ratio per unit and between the
@@ -53,14 +61,6 @@ func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
 		"claims": len(a.Study.Package.Claims), "claims_fully_reported": complete, "claims_inconsistent": inconsistent,
 		"smallest_effect_of_interest": a.Study.SmallestEffect(),
 	}}
-	res.Summary = map[string]string{
-		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the " +
-			"estimates, and no claim of \"no effect\" goes beyond what the data show.",
-		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data " +
-			"do not tell; see the findings.",
-		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not " +
-			"support; ask the authors for the estimate, its interval and the equivalence test.",
-	}[res.Status]
 	return res, nil
 }
 

@@ -3,9 +3,7 @@ package checks
 import (
 	"context"
 	"fmt"
-	"math"
 	"math/big"
-	"strings"
 
 	"github.com/pathvet/pathvet/checks/dag"
 )
@@ -20,6 +18,12 @@ var equivalenceCheck = Check{
 	ID:    "equivalence",
 	Title: "Equivalent graphs",
 	Run:   runEquivalence,
+	Summaries: map[string]string{
+		StatusPass:          "No claim changes sign or significance among the graphs that fit the data exactly as well as the declared one.",
+		StatusWarn:          "Some claims or the equivalent graphs need attention; see the findings.",
+		StatusFail:          "A headline claim depends on a choice among equivalent graphs that the paper does not discuss; see the findings.",
+		StatusNotApplicable: "No causal graph is declared, so there is no equivalence class to report.",
+	},
 }
 
 // equivalenceResult is the declared graph's class, shared by the checks.
@@ -47,7 +51,7 @@ func (a *Analysis) equivalenceClass() *equivalenceResult {
 func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 	s := a.Study
 	if s.Declared == nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "No causal graph is declared, so there is no equivalence class to report."}, nil
+		return CheckResult{Status: StatusNotApplicable}, nil
 	}
 	eq := a.equivalenceClass()
 	graph, err := graphReport(s, eq)
@@ -88,7 +92,7 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 	fs = append(fs, discussionFinding(s, eq)...)
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: equivalenceMetrics(eq, reversible)}
 	res.Metrics["claims_unstable"] = unstable
-	res.Summary = equivalenceSummary(s, eq, res.Status, unstable)
+	res.Summary = equivalenceSummary(s, eq, res.Status, equivalenceTally{unstable: unstable, reversible: reversible, claimWarnings: claimWarnings(fs)})
 	return res, nil
 }
 
@@ -98,12 +102,18 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEquivalents, []Finding) {
 	decl := a.declaredEstimate(i)
 	if !decl.ok() {
-		return nil, structural
+		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be estimated under the declared graph (%v), so it could not be re-estimated across the equivalent graphs either.", c.ID, decl.err)})
 	}
-	across, err := a.acrossEquivalents(c, decl)
+	across, err := a.declaredAcross(i)
 	if err != nil {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})
+	}
+	if across.Failed > 0 && !across.Unstable {
+		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be estimated in %d of the %s it was tried in, so whether its conclusion holds in all of them is not known.",
+			c.ID, across.Failed, acrossNoun(across.Method, across.Failed+across.Estimates))})
 	}
 	if !across.Unstable {
 		if len(structural) > 0 && structural[0].Severity != SeverityInfo {
@@ -118,43 +128,27 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 		sev = StatusFail
 	}
 	return across, []Finding{{Severity: sev, Claim: c.ID, Message: a.unstableText(c, decl, across),
-		Details: map[string]any{"graphs": across.Graphs, "graphs_differing": across.Differing, "method": across.Method}}}
+		Details: map[string]any{"estimates": across.Estimates, "estimates_differing": across.Differing, "method": across.Method}}}
 }
 
-// unstableText says in one sentence how a claim depends on the choice
-// among equivalent graphs.
-func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) string {
-	eq := a.equivalenceClass()
-	ct := across.Contrast
-	other := "zero"
-	if ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
-		p := math.NaN()
-		if ct.Estimate.PValue != nil {
-			p = *ct.Estimate.PValue
-		}
-		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
+// acrossNoun counts what claims were estimated in: plausible graphs, or
+// locally valid parent sets.
+func acrossNoun(method string, n int) string {
+	if method == AcrossParentSets {
+		return count(n, "locally valid parent set", "locally valid parent sets")
 	}
-	where := ""
-	switch {
-	case len(ct.ReversedArrows) > 0:
-		parts := make([]string, 0, 3)
-		for _, r := range ct.ReversedArrows[:min(3, len(ct.ReversedArrows))] {
-			parts = append(parts, r[0]+" → "+r[1])
+	return count(n, "plausible graph", "plausible graphs")
+}
+
+// claimWarnings counts the claims with a warning or failure.
+func claimWarnings(fs []Finding) int {
+	seen := map[string]bool{}
+	for _, f := range fs {
+		if f.Claim != "" && (f.Severity == StatusWarn || f.Severity == StatusFail) {
+			seen[f.Claim] = true
 		}
-		where = ", for instance if " + strings.Join(parts, " and ")
-	case ct.ParentSet != nil:
-		node := c.To
-		if c.Kind == KindTotal {
-			node = c.From
-		}
-		where = fmt.Sprintf(", for instance if the parents of %s are {%s}", node, strings.Join(ct.ParentSet, ", "))
 	}
-	scope := fmt.Sprintf("in %d of the %s plausible equivalent graphs", across.Differing, countText(eq.plausible))
-	if across.Method == AcrossParentSets {
-		scope = fmt.Sprintf("under %d of the %d locally valid parent sets (the class is too large to list)", across.Differing, across.Graphs)
-	}
-	return fmt.Sprintf("%s is %s under the declared graph but %s %s%s; the data fit those graphs exactly as well, so the data do not decide this claim, the choice of graph does.",
-		c.ID, valueText(decl), other, scope, where)
+	return len(seen)
 }
 
 func equivalenceMetrics(eq *equivalenceResult, reversible int) map[string]any {
@@ -209,55 +203,8 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 		sev = StatusFail
 	}
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
-		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible equivalent graphs it does, those graphs fit the data exactly as well, and in them the direct effect of %s on %s is zero.",
+		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible members of the declared graph's class it does, those graphs fit the data exactly as well, and in them the direct effect of %s on %s is zero.",
 		c.From, c.To, c.ID, n, countText(eq.plausible), c.From, c.To)}}, rev, nil
-}
-
-// verb picks the singular or plural form for a count.
-func verb(n *big.Int, one, many string) string {
-	if n != nil && n.Cmp(big.NewInt(1)) == 0 {
-		return one
-	}
-	return many
-}
-
-func countText(n *big.Int) string {
-	if n == nil {
-		return "(uncounted)"
-	}
-	return n.String()
-}
-
-func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
-	if eq.size.Cmp(big.NewInt(1)) <= 0 {
-		return nil
-	}
-	if s.Package.Graph.EquivalentsDiscussed {
-		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
-			"The authors say they discussed the graphs equivalent to theirs (%s in the whole class).", eq.size)}}
-	}
-	return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
-		"%s graphs fit any data exactly as well as the declared one (%s of them %s the stated background knowledge), and the authors do not discuss them.",
-		eq.size, countText(eq.plausible), verb(eq.plausible, "respects", "respect"))}}
-}
-
-func equivalenceSummary(s *Study, eq *equivalenceResult, status string, unstable int) string {
-	switch {
-	case status == StatusFail && unstable > 0:
-		return fmt.Sprintf("A headline claim changes sign or significance among the %s plausible graphs that fit the data exactly as well, and the paper does not discuss them; ask the authors to justify the arrows it rests on or to report it under every equivalent graph.", countText(eq.plausible))
-	case status == StatusFail:
-		return fmt.Sprintf("A headline claim rests on an arrow the data cannot orient, among %s plausible equivalent graphs the paper does not discuss; ask the authors to justify its direction or report the claim under every equivalent graph.", countText(eq.plausible))
-	case unstable > 0:
-		return fmt.Sprintf("%d claim(s) change sign or significance among the equivalent graphs; the paper should justify the arrows they rest on or show them under every equivalent graph.", unstable)
-	case eq.size.Cmp(big.NewInt(1)) == 0:
-		return "The declared graph is the only member of its equivalence class: the data could in principle tell it from every other graph on its skeleton."
-	case status == StatusWarn:
-		return fmt.Sprintf("The declared graph has %s equivalent graphs that fit equally well, which the paper does not discuss, though no claimed arrow depends on them.", eq.size)
-	}
-	if eq.plausible != nil && eq.plausible.Cmp(big.NewInt(1)) == 0 {
-		return fmt.Sprintf("The declared graph has %s equivalent graphs, and the stated background knowledge rules out all but the declared one.", eq.size)
-	}
-	return fmt.Sprintf("The declared graph has %s equivalent graphs; no claim changes sign or significance among the %s plausible ones.", eq.size, countText(eq.plausible))
 }
 
 // graphReport fills the report's graph section: the CPDAG, both class

@@ -35,6 +35,12 @@ type est struct {
 	df       float64 // residual df of an OLS fit, for its t tests; 0 otherwise
 	adjusted []int
 	note     string
+	// zero says why the graph makes the estimate zero (MethodZero).
+	zero string
+	// mcse is the Monte Carlo error of a pooled estimate, on its pooling
+	// scale; nearLine that it could carry it across the significance line.
+	mcse     float64
+	nearLine bool
 	err      error
 }
 
@@ -63,7 +69,13 @@ type Estimate struct {
 	N           int       `json:"n,omitempty"`
 	AdjustedFor []string  `json:"adjusted_for"`
 	Note        string    `json:"note,omitempty"`
-	Error       string    `json:"error,omitempty"`
+	// StructuralZero says why the graph itself makes the estimate "no
+	// effect"; its SE, interval and p-value are then null, not 0.
+	StructuralZero string `json:"structural_zero,omitempty"`
+	// MonteCarloError is the Monte Carlo error of a pooled
+	// multiple-imputation estimate, sqrt(B/m), on its pooling scale.
+	MonteCarloError *float64 `json:"monte_carlo_error,omitempty"`
+	Error           string   `json:"error,omitempty"`
 	// Distribution is what the p-value and interval are taken under:
 	// "t(df)" for OLS, "normal" for a logistic Wald test or Fisher's z.
 	Distribution string `json:"distribution,omitempty"`
@@ -88,7 +100,15 @@ func (a *Analysis) report(e est) *Estimate {
 		r.Error = e.err.Error()
 		return r
 	}
+	if e.method == MethodZero {
+		v := zeroOnScale(e.scale)
+		r.Estimate, r.StructuralZero = &v, e.zero
+		return r
+	}
 	r.Estimate, r.StdError, r.PValue = finite(e.value), finite(e.se), finite(e.p)
+	if e.method == "multiple_imputation" {
+		r.MonteCarloError = finite(e.mcse)
+	}
 	r.Distribution = e.distribution()
 	if lo, hi := finite(e.lo), finite(e.hi); lo != nil && hi != nil {
 		r.CI = []float64{*lo, *hi}
@@ -109,7 +129,7 @@ type parentsFunc func(v int) []int
 func (a *Analysis) estimateClaim(c Claim, pa parentsFunc) est {
 	m, err := a.moments()
 	if err != nil {
-		return est{err: err, scale: claimScale(c)}
+		return est{err: a.dataError(), scale: claimScale(c)}
 	}
 	return a.estimateWith(m, c, pa)
 }
@@ -124,13 +144,14 @@ func (a *Analysis) estimateWith(m *Moments, c Claim, pa parentsFunc) est {
 	case c.Kind == KindDirect:
 		parents := pa(to)
 		if !slices.Contains(parents, from) {
-			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
+			return structuralZero(c, parents, directZeroWhy(c, pa(from), to, "this graph"))
 		}
 		return a.regress(m, c, to, from, parents)
 	case c.Kind == KindTotal:
 		parents := pa(from)
 		if slices.Contains(parents, to) {
-			return est{method: MethodZero, scale: claimScale(c), adjusted: parents}
+			return structuralZero(c, parents, fmt.Sprintf(
+				"no directed path from %s to %s in this graph (%s is a parent of %s)", c.From, c.To, c.To, c.From))
 		}
 		return a.regress(m, c, to, from, parents)
 	}
@@ -139,6 +160,19 @@ func (a *Analysis) estimateWith(m *Moments, c Claim, pa parentsFunc) est {
 		adj = append(adj, s.Index[v])
 	}
 	return a.regress(m, c, to, from, adj)
+}
+
+func structuralZero(c Claim, adjusted []int, why string) est {
+	return est{method: MethodZero, scale: claimScale(c), adjusted: adjusted, zero: why}
+}
+
+// directZeroWhy says why a graph gives a direct effect of c.From on c.To
+// no arrow: it points the other way, or there is none.
+func directZeroWhy(c Claim, parentsOfFrom []int, to int, graph string) string {
+	if slices.Contains(parentsOfFrom, to) {
+		return fmt.Sprintf("the arrow points the other way (%s → %s) in %s", c.To, c.From, graph)
+	}
+	return fmt.Sprintf("no arrow %s → %s in %s", c.From, c.To, graph)
 }
 
 func claimScale(c Claim) string {
@@ -211,6 +245,10 @@ func needs(scale string) string {
 
 func olsEstimate(cov mat.Symmetric, means []float64, n, y int, x []int, scale string, level float64, note string) est {
 	fit, err := linmod.FromMoments(cov, means, n, y, x, level)
+	if errors.Is(err, linmod.ErrTooFewCases) {
+		err = fmt.Errorf("%s for a regression with %d parameters besides its intercept: it needs at least %d (%w)",
+			count(n, "case", "cases"), len(x), len(x)+2, err)
+	}
 	if err != nil {
 		return est{err: err, scale: scale, method: MethodOLS, n: n}
 	}
@@ -263,26 +301,6 @@ func logisticEstimate(m *Moments, y int, x []int, scale string, level float64) e
 	return e
 }
 
-// pText writes a p-value the way papers print it.
-func pText(p float64) string {
-	switch {
-	case math.IsNaN(p):
-		return "p not available"
-	case p < 0.001:
-		return "p < .001"
-	}
-	return "p = " + strings.TrimPrefix(fmt.Sprintf("%.3f", p), "0")
-}
-
-// valueText writes an estimate with its p-value, or says it is zero by
-// the graph.
-func valueText(e est) string {
-	if e.method == MethodZero {
-		return "zero"
-	}
-	return fmt.Sprintf("%.2f (%s)", e.value, pText(e.p))
-}
-
 // declaredEstimate is claim i under the declared graph (or, with none, its
 // own adjustment set), computed once.
 func (a *Analysis) declaredEstimate(i int) est {
@@ -294,7 +312,11 @@ func (a *Analysis) declaredEstimate(i int) est {
 		if a.Study.Declared != nil && a.claimInGraph(a.Study.Package.Claims[i]) {
 			pa = a.Study.Declared.Parents
 		}
-		e := a.estimateClaim(a.Study.Package.Claims[i], pa)
+		c := a.Study.Package.Claims[i]
+		e := a.estimateClaim(c, pa)
+		if why := a.graphContradiction(c); why != "" && e.ok() {
+			e = structuralZero(c, e.adjusted, why) // a total effect with no directed path, too
+		}
 		a.declared[i] = &e
 	}
 	return *a.declared[i]

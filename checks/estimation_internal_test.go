@@ -160,7 +160,7 @@ func TestAcrossEquivalents_LargeClassUsesLocalParentSets(t *testing.T) {
 	}
 	r := runDoc(t, summaryPackage(vars, edges, lower, 300))
 	ae := r.Claims[0].AcrossEquivalents
-	if ae == nil || ae.Method != AcrossParentSets || ae.Graphs != 1<<6 {
+	if ae == nil || ae.Method != AcrossParentSets || ae.Estimates != 1<<6 {
 		t.Fatalf("across equivalents %+v; want local parent sets over the 64 subsets of X's six neighbours", ae)
 	}
 	if r.Graph.EquivalenceClassSize != int64(5040) {
@@ -178,7 +178,7 @@ func TestAlternatives_EquivalentAndDistinguishable(t *testing.T) {
 	if len(c1.UnderAlternatives) != 2 || !c1.UnderAlternatives[0].Changed || *c1.UnderAlternatives[0].Estimate != 0 {
 		t.Fatalf("C1 under alternatives %+v", c1.UnderAlternatives)
 	}
-	if c1.AcrossEquivalents == nil || !c1.AcrossEquivalents.Unstable || c1.AcrossEquivalents.Graphs != 6 {
+	if c1.AcrossEquivalents == nil || !c1.AcrossEquivalents.Unstable || c1.AcrossEquivalents.Estimates != 6 {
 		t.Fatalf("C1 across equivalents %+v", c1.AcrossEquivalents)
 	}
 }

@@ -14,6 +14,12 @@ var graphDeclaredCheck = Check{
 	ID:    "graph-declared",
 	Title: "Declared causal graph",
 	Run:   runGraphDeclared,
+	Summaries: map[string]string{
+		StatusPass:          "A causal graph is declared, it is acyclic, it respects the stated background knowledge, and every claim's variables are in it.",
+		StatusWarn:          "A causal graph is declared and acyclic, but it does not fully carry some claims; see the findings.",
+		StatusFail:          "Causal claims are made without a declared graph, or are not arrows or paths of it; see the findings.",
+		StatusNotApplicable: "No causal graph is declared, and none is needed: every claim is an association.",
+	},
 }
 
 func runGraphDeclared(_ context.Context, a *Analysis) (CheckResult, error) {
@@ -40,11 +46,9 @@ func runGraphDeclared(_ context.Context, a *Analysis) (CheckResult, error) {
 		fs = append(fs, Finding{Severity: SeverityInfo, Message: "Data columns skipped as the package asks: " + strings.Join(ign, ", ") + "."})
 	}
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: graphMetrics(s, outside)}
-	res.Summary = map[string]string{
-		StatusPass: "A causal graph is declared, it is acyclic, it respects the stated background knowledge, and every claim's variables are in it.",
-		StatusWarn: "A causal graph is declared and acyclic, but it does not fully carry some claims; see the findings.",
-		StatusFail: "A causal graph is declared, but some causal claims are not arrows or paths of it; see the findings.",
-	}[res.Status]
+	if res.Status == StatusFail {
+		res.Summary = "A causal graph is declared, but some causal claims are not arrows or paths of it; see the findings."
+	}
 	return res, nil
 }
 
@@ -73,11 +77,10 @@ func noGraph(s *Study) CheckResult {
 	}
 	metrics := map[string]any{"graph_declared": false}
 	if len(fs) == 0 {
-		return CheckResult{Status: StatusNotApplicable, Metrics: metrics,
-			Summary: "No causal graph is declared, and none is needed: every claim is an association."}
+		return CheckResult{Status: StatusNotApplicable, Metrics: metrics}
 	}
 	return CheckResult{Status: StatusFail, Findings: fs, Metrics: metrics,
-		Summary: fmt.Sprintf("The paper makes %d causal claim(s) without declaring a causal graph; ask the authors for the graph their analysis assumes.", len(fs))}
+		Summary: fmt.Sprintf("The paper makes %s without declaring a causal graph; ask the authors for the graph their analysis assumes.", count(len(fs), "causal claim", "causal claims"))}
 }
 
 func kindText(kind string) string {
@@ -113,6 +116,25 @@ func claimAgainstGraph(s *Study, c Claim) []Finding {
 		}
 	}
 	return nil
+}
+
+// graphContradiction says why the declared graph itself gives a causal
+// claim no effect (a direct effect that is no arrow of it, a total effect
+// without a directed path), or "" when it does not. Such a claim fails
+// graph-declared; the other checks do not weigh it as if it held.
+func (a *Analysis) graphContradiction(c Claim) string {
+	s := a.Study
+	if !Causal(c.Kind) || !a.claimInGraph(c) {
+		return ""
+	}
+	from, to := s.Index[c.From], s.Index[c.To]
+	switch {
+	case c.Kind == KindDirect && !s.Declared.HasArc(from, to):
+		return directZeroWhy(c, s.Declared.Parents(from), to, "the declared graph")
+	case c.Kind == KindTotal && !dag.HasDirectedPath(s.Declared, from, to):
+		return fmt.Sprintf("no directed path from %s to %s in the declared graph", c.From, c.To)
+	}
+	return ""
 }
 
 func directAgainstGraph(g *dag.PDAG, c Claim, from, to int) []Finding {

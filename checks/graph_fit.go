@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"github.com/pathvet/pathvet/checks/dag"
+	"github.com/pathvet/pathvet/checks/linmod"
 	"github.com/pathvet/pathvet/checks/sem"
 )
 
@@ -29,6 +30,12 @@ var graphFitCheck = Check{
 	ID:    "graph-fit",
 	Title: "Fit of the declared graph",
 	Run:   runGraphFit,
+	Summaries: map[string]string{
+		StatusPass:          "The data do not contradict the declared graph's testable implications.",
+		StatusWarn:          "The declared graph fits the data only loosely; see the findings.",
+		StatusFail:          "The data reject independences the declared graph implies; see the findings.",
+		StatusNotApplicable: "No causal graph is declared, so there is nothing to test against the data.",
+	},
 }
 
 // modelFit is a graph's fit over the nodes of the declared graph.
@@ -63,6 +70,11 @@ func (a *Analysis) fitGraph(ctx context.Context, g *dag.PDAG, in []bool) (*model
 	}
 	f, err := sem.FitDAG(ctx, sub, m.N, parents)
 	var ee *sem.EquationError
+	if errors.As(err, &ee) && errors.Is(ee.Err, linmod.ErrTooFewCases) {
+		k := len(parents[ee.Variable])
+		return nil, fmt.Errorf("the equation of %s has %s and the data %s; it needs at least %d (%w)",
+			a.Study.Names[nodes[ee.Variable]], count(k, "parent", "parents"), count(m.N, "case", "cases"), k+2, ee.Err)
+	}
 	if errors.As(err, &ee) {
 		return nil, fmt.Errorf("the equation of %s: %w", a.Study.Names[nodes[ee.Variable]], ee.Err)
 	}
@@ -75,15 +87,15 @@ func (a *Analysis) fitGraph(ctx context.Context, g *dag.PDAG, in []bool) (*model
 func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 	s := a.Study
 	if s.Declared == nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "No causal graph is declared, so there is nothing to test against the data."}, nil
+		return CheckResult{Status: StatusNotApplicable}, nil
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The fit could not be computed: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the fit could not be computed: %w", a.dataError())
 	}
 	mf, err := a.fitGraph(ctx, s.Declared, s.InGraph)
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The declared graph could not be fitted to the data: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the declared graph could not be fitted to the data: %w", err)
 	}
 	tests := a.implicationTests(m)
 	if err := ctx.Err(); err != nil {
@@ -99,7 +111,7 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 		res.Summary = "The declared graph is saturated (every pair of its variables is joined): it implies no independence and fits any data perfectly, so fit says nothing about it."
 		return res, nil
 	}
-	res.Summary = fitSummary(res.Status, mf.fit, tests)
+	res.Summary = fitSummary(res.Status, mf.fit, tests, a.Alpha)
 	return res, nil
 }
 
@@ -260,14 +272,36 @@ func (a *Analysis) fitMetrics(f *sem.Fit, tests []implicationTest, m *Moments) m
 	}
 }
 
-func fitSummary(status string, f *sem.Fit, tests []implicationTest) string {
-	base := fmt.Sprintf("χ² = %.2f on %d df (%s), RMSEA %.3f, CFI %.3f, SRMR %.3f; %d implied independences tested.",
-		f.ChiSquare, f.DF, pText(f.P), f.RMSEA, f.CFI, f.SRMR, len(tests))
+func fitSummary(status string, f *sem.Fit, tests []implicationTest, alpha float64) string {
+	base := fmt.Sprintf("χ² = %.2f on %d df (%s), RMSEA %.3f, CFI %.3f, SRMR %.3f; %s tested.",
+		f.ChiSquare, f.DF, pText(f.P), f.RMSEA, f.CFI, f.SRMR, count(len(tests), "implied independence", "implied independences"))
 	switch status {
 	case StatusFail:
-		return "The data contradict independences the declared graph implies, so the graph is wrong somewhere: " + base
+		rejected := 0
+		for _, t := range tests {
+			if t.pHolm < alpha {
+				rejected++
+			}
+		}
+		which := fmt.Sprintf("%d of the %d independences", rejected, len(tests))
+		if len(tests) == 1 {
+			which = "the one independence"
+		}
+		return fmt.Sprintf("The data reject %s the declared graph implies (Holm-adjusted, family-wise level %g; %s): "+
+			"the graph may lack an arrow or a common cause there, or those assumptions may not hold. ",
+			which, alpha, testAssumptions(tests)) + base
 	case StatusWarn:
 		return "The declared graph fits the data only loosely: " + base
 	}
 	return "The data do not contradict the declared graph's testable implications: " + base
+}
+
+// testAssumptions names what the implication tests assume.
+func testAssumptions(tests []implicationTest) string {
+	for _, t := range tests {
+		if t.method == "logistic_wald" {
+			return "tests that assume linear relations and normal errors, and logistic ones for binary variables"
+		}
+	}
+	return "tests that assume linear relations and normal errors"
 }

@@ -21,6 +21,12 @@ var measurementCheck = Check{
 	ID:    "measurement",
 	Title: "Measurement error",
 	Run:   runMeasurement,
+	Summaries: map[string]string{
+		StatusPass:          "Correcting for measurement error changes the conclusion of no claim it could re-estimate.",
+		StatusWarn:          "Measurement error needs attention; see the findings.",
+		StatusFail:          "Correcting for measurement error changes the sign or significance of a headline claim.",
+		StatusNotApplicable: "Nothing here is open to a correction for measurement error.",
+	},
 }
 
 // MeasurementResult is a claim re-estimated on the correlation matrix
@@ -60,25 +66,37 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The correction for measurement error needs the data's correlations: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the correction for measurement error needs the data's correlations: %w", a.dataError())
 	}
 	corrected, problem := correctedMoments(m, rel)
 	metrics := map[string]any{"variables_without_reliability": len(missingRel), "variables_low_reliability": len(low)}
 	if problem != "" {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: "Corrected for attenuation (Spearman 1904), the correlation matrix " + problem + ", so the claims are not re-estimated on it; the reliabilities and the correlations cannot all be right."})
 	} else {
-		fs = append(fs, a.correctedClaims(corrected)...)
+		var cf []Finding
+		cf, metrics["claims_corrected"] = a.correctedClaims(corrected)
+		fs = append(fs, cf...)
 	}
 	if err := ctx.Err(); err != nil {
 		return CheckResult{}, err
 	}
 	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: metrics}
-	res.Summary = map[string]string{
-		StatusPass: "Reliabilities are reported for the claims' variables, and correcting for measurement error changes no claim's sign or significance.",
-		StatusWarn: "Measurement error needs attention: reliabilities are missing, or correcting for them changes some claims; see the findings.",
-		StatusFail: "Correcting for measurement error changes the sign or significance of a headline claim.",
-	}[res.Status]
+	res.Summary = measurementSummary(res.Status, metrics, len(s.Package.Claims), problem != "")
 	return res, nil
+}
+
+func measurementSummary(status string, metrics map[string]any, claims int, impossible bool) string {
+	switch {
+	case status == StatusFail:
+		return "" // the declared summary
+	case impossible:
+		return "Corrected for the reported reliabilities, the correlations are impossible, so the claims could not be re-estimated; the reliabilities or the correlations need checking."
+	case status == StatusWarn:
+		return "Measurement error needs attention: reliabilities are missing for some claims' variables, or correcting for them changes some claims; see the findings."
+	}
+	n, _ := metrics["claims_corrected"].(int)
+	return fmt.Sprintf("Reliabilities are reported for the claims' variables; correcting for measurement error changes the conclusion of none of the %s re-estimated on the corrected correlations (of %d).",
+		count(n, "claim", "claims"), claims)
 }
 
 // claimVariables marks the variables that some claim names.
@@ -118,12 +136,12 @@ func correctedMoments(m *Moments, rel []float64) (*Moments, string) {
 }
 
 // correctedClaims re-estimates every claim on the corrected matrix, on
-// the standardized scale, and reports the change.
-func (a *Analysis) correctedClaims(cm *Moments) []Finding {
-	var fs []Finding
+// the standardized scale, and reports the change; n counts the claims
+// re-estimated.
+func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 	for i, c := range a.Study.Package.Claims {
-		if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary {
-			continue // no attenuation correction for a binary outcome's logistic model
+		if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary || a.graphContradiction(c) != "" {
+			continue // no attenuation correction for a logistic model; a claim the graph gives no effect
 		}
 		std := c
 		if std.EstimateScale != "correlation" {
@@ -131,9 +149,15 @@ func (a *Analysis) correctedClaims(cm *Moments) []Finding {
 		}
 		decl := a.estimateWith(a.mustMoments(), std, a.declaredParentsFor(c))
 		corr := a.estimateWith(cm, std, a.declaredParentsFor(c))
-		if !decl.ok() || !corr.ok() || corr.method == MethodZero {
+		if bad := firstErr(decl, corr); bad != nil {
+			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+				"%s could not be estimated with and without the correction (%v), so what measurement error does to it is not known.", c.ID, bad)})
 			continue
 		}
+		if corr.method == MethodZero {
+			continue
+		}
+		n++
 		r := &MeasurementResult{Corrected: a.report(corr), Change: finite(corr.value - decl.value)}
 		r.Changed = corr.category(a.Alpha) != decl.category(a.Alpha)
 		a.Claims[i].Measurement = r
@@ -143,10 +167,21 @@ func (a *Analysis) correctedClaims(cm *Moments) []Finding {
 				c.ID, valueText(decl), valueText(corr))})
 		} else if math.Abs(corr.value-decl.value) >= 0.05 {
 			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-				"%s moves from %.2f to %.2f (standardized) when corrected for measurement error; its sign and significance stay.", c.ID, decl.value, corr.value)})
+				"%s moves from %s to %s (standardized) when corrected for measurement error; it %s.", c.ID, estText(decl.value), estText(corr.value),
+				agreement(decl, corr, a.Alpha))})
 		}
 	}
-	return fs
+	return fs, n
+}
+
+// firstErr is the error of the first estimate that has one.
+func firstErr(es ...est) error {
+	for _, e := range es {
+		if e.err != nil {
+			return e.err
+		}
+	}
+	return nil
 }
 
 func (a *Analysis) mustMoments() *Moments {

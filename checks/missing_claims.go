@@ -3,17 +3,14 @@ package checks
 import (
 	"fmt"
 	"math"
-
-	"github.com/pathvet/pathvet/checks/effects"
-	"github.com/pathvet/pathvet/checks/missing"
 )
 
 // methodFindings judge the declared method against the missingness.
-func methodFindings(method string, r *missingResult) []Finding {
+func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 	share := 100 * float64(r.summary.MissingCells) / float64(r.summary.Rows*len(r.summary.MissingByVariable))
 	fs := []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
-		"%d of %d rows are complete; %.1f%% of the data cells are missing, in %d patterns.",
-		r.summary.CompleteRows, r.summary.Rows, share, r.summary.Patterns)}}
+		"%d of %d rows are complete; %.1f%% of the data cells are missing, in %s.",
+		r.summary.CompleteRows, r.summary.Rows, share, count(r.summary.Patterns, "pattern", "patterns"))}}
 	switch name, bad := unsoundMethods[method]; {
 	case method == "":
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
@@ -23,13 +20,17 @@ func methodFindings(method string, r *missingResult) []Finding {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
 			"The package says no values are missing, but %.1f%% of the data cells are (%d of %d rows are complete).", share, r.summary.CompleteRows, r.summary.Rows)})
 	case bad:
-		fs = append(fs, Finding{Severity: StatusWarn, Message: name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data); the claims are re-estimated below by maximum likelihood and multiple imputation."})
+		tail := "; the claims could not be re-estimated by a principled method (see below)."
+		if p := principledDone(r); p != "" {
+			tail = "; the claims are re-estimated below by " + p + "."
+		}
+		fs = append(fs, Finding{Severity: StatusWarn, Message: name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data)" + tail})
 	case method == MissingAvailableCases && r.pairwiseErr != "":
 		fs = append(fs, Finding{Severity: StatusWarn, Message: "Available-case analysis: " + r.pairwiseErr + "."})
 	}
 	if r.mcar != nil && !math.IsNaN(r.mcar.P) {
 		sev, tail := SeverityInfo, ""
-		rejected := r.mcar.P < 0.05
+		rejected := r.mcar.P < alpha
 		if rejected && (method == MissingCompleteCases || method == MissingAvailableCases || method == "") {
 			sev, tail = StatusWarn, " An analysis of complete or available cases is then unbiased only under assumptions the data argue against."
 		}
@@ -38,19 +39,55 @@ func methodFindings(method string, r *missingResult) []Finding {
 			verdict = "rejects"
 		}
 		fs = append(fs, Finding{Severity: sev, Message: fmt.Sprintf(
-			"Little's test %s that values are missing completely at random (χ² = %.2f on %d df, %s).%s", verdict, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
+			"Little's test %s at the %g level that values are missing completely at random (χ² = %.2f on %d df, %s).%s", verdict, alpha, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
 	}
 	return fs
 }
 
+// principledDone names the principled methods the claims were re-estimated
+// by: maximum likelihood, multiple imputation, both or neither ("").
+func principledDone(r *missingResult) string {
+	_, ml := r.moments[MissingMaximumLikelihood]
+	switch mi := len(r.imputed) > 0; {
+	case ml && mi:
+		return "maximum likelihood and multiple imputation"
+	case ml:
+		return "maximum likelihood"
+	case mi:
+		return "multiple imputation"
+	}
+	return ""
+}
+
+// principledMissing names the principled methods that could not be run.
+func principledMissing(r *missingResult) string {
+	_, ml := r.moments[MissingMaximumLikelihood]
+	switch mi := len(r.imputed) > 0; {
+	case !ml && !mi:
+		return "maximum likelihood and multiple imputation"
+	case !ml:
+		return "maximum likelihood"
+	case !mi:
+		return "multiple imputation"
+	}
+	return ""
+}
+
 // methodLabel names the missing-data methods in sentences.
 var methodLabel = map[string]string{
-	MissingCompleteCases:      "complete cases",
-	MissingAvailableCases:     "available cases",
-	MissingMeanSubstitution:   "mean substitution",
-	MissingSingleRegression:   "single regression imputation",
-	MissingMaximumLikelihood:  "maximum likelihood (EM)",
-	MissingMultipleImputation: fmt.Sprintf("multiple imputation with %d imputations", Imputations),
+	MissingCompleteCases:     "complete cases",
+	MissingAvailableCases:    "available cases",
+	MissingMeanSubstitution:  "mean substitution",
+	MissingSingleRegression:  "single regression imputation",
+	MissingMaximumLikelihood: "maximum likelihood (EM)",
+}
+
+// label names a method in sentences; multiple imputation with the m it ran.
+func (r *missingResult) label(key string) string {
+	if key == MissingMultipleImputation {
+		return fmt.Sprintf("multiple imputation with %d imputations", max(len(r.imputed), Imputations))
+	}
+	return methodLabel[key]
 }
 
 // claimMissing estimates a claim by every method, fills
@@ -63,30 +100,55 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 		ests[key] = a.estimateWith(m, c, pa)
 	}
 	if len(r.imputed) > 0 {
-		ests[MissingMultipleImputation] = pooled(c, r.imputedEst[i], r.imputed)
+		ests[MissingMultipleImputation] = a.pooled(c, r.imputedEst[i], r.imputed)
 	}
 	out := map[string]*Estimate{}
 	for key, e := range ests {
 		out[key] = a.report(e)
 	}
 	a.Claims[i].MissingData = out
+	if why := a.graphContradiction(c); why != "" {
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			"%s is not weighed here: the declared graph itself gives it no effect, %s (see graph-declared).", c.ID, why)}}, false
+	}
 	declaredKey, principledKey := comparison(method, ests)
-	d, okD := ests[declaredKey]
-	p, okP := ests[principledKey]
-	if !okD || !okP || !d.ok() || !p.ok() {
-		return nil, false
+	d, p := ests[declaredKey], ests[principledKey]
+	if f := r.uncompared(c, ests, declaredKey, principledKey); f != nil {
+		return f, false
 	}
 	if d.category(a.Alpha) == p.category(a.Alpha) {
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s keeps its sign and significance: %s by %s, %s by %s.", c.ID, valueText(d), methodLabel[declaredKey], valueText(p), methodLabel[principledKey])}}, false
+			"%s %s: %s by %s, %s by %s.", c.ID, agreement(d, p, a.Alpha),
+			valueText(d), r.label(declaredKey), valueText(p), r.label(principledKey))}}, false
 	}
 	sev := StatusWarn
 	if c.Headline {
 		sev = StatusFail
 	}
+	level := claimLevel(c)
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
 		"%s is %s by %s (%s) but %s by %s (%s): the conclusion depends on how missing values were handled.",
-		c.ID, valueText(d), methodLabel[declaredKey], ciText(d), valueText(p), methodLabel[principledKey], ciText(p))}}, true
+		c.ID, valueText(d), r.label(declaredKey), ciText(d, level), valueText(p), r.label(principledKey), ciText(p, level))}}, true
+}
+
+// uncompared is the warning for a claim whose declared-method or
+// principled estimate could not be made, with the reason; nil when both
+// were made.
+func (r *missingResult) uncompared(c Claim, ests map[string]est, declaredKey, principledKey string) []Finding {
+	for _, key := range []string{declaredKey, principledKey} {
+		e, ok := ests[key]
+		why := "that method could not be run on these data"
+		if ok && e.ok() {
+			continue
+		}
+		if ok {
+			why = e.err.Error()
+		}
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be estimated by %s (%s), so whether its conclusion depends on how missing values were handled is not known.",
+			c.ID, r.label(key), why)}}
+	}
+	return nil
 }
 
 // comparison picks the declared method's estimate and the principled one
@@ -104,11 +166,11 @@ func comparison(method string, ests map[string]est) (declared, principled string
 	return declared, principled
 }
 
-func ciText(e est) string {
-	if math.IsNaN(e.lo) || math.IsNaN(e.hi) {
+func ciText(e est, level float64) string {
+	if e.method == MethodZero || math.IsNaN(e.lo) || math.IsNaN(e.hi) {
 		return "no interval"
 	}
-	return fmt.Sprintf("95%% interval %.2f to %.2f", e.lo, e.hi)
+	return fmt.Sprintf("%g%% interval %s to %s", 100*level, estText(e.lo), estText(e.hi))
 }
 
 // declaredParentsFor is the graph the declared estimate uses.
@@ -119,66 +181,27 @@ func (a *Analysis) declaredParentsFor(c Claim) parentsFunc {
 	return nil
 }
 
-// pooled pools a claim's estimates in the imputed datasets by Rubin's
-// rules with the Barnard–Rubin degrees of freedom. Correlations are pooled
-// on Fisher's z scale, odds ratios on the log scale.
-func pooled(c Claim, ests []est, imputed []*Moments) est {
-	var q, u []float64
-	var first est
-	for k, m := range imputed {
-		e := ests[k]
-		if !e.ok() {
-			return est{err: fmt.Errorf("imputation %d: %w", k+1, e.err), scale: e.scale}
-		}
-		if e.method == MethodZero {
-			return e
-		}
-		if k == 0 {
-			first = e
-		}
-		qk, uk := pooledScale(e, m.N, claimLevel(c))
-		q, u = append(q, qk), append(u, uk)
+func missingSummary(status string, changed, uncompared int, method string, r *missingResult) string {
+	has := map[string]est{}
+	for k := range r.moments {
+		has[k] = est{}
 	}
-	dfCom := float64(first.n - len(first.adjusted) - 2)
-	level := claimLevel(c)
-	pr, err := missing.Pool(q, u, dfCom, level)
-	if err != nil {
-		return est{err: err, scale: first.scale}
+	if len(r.imputed) > 0 {
+		has[MissingMultipleImputation] = est{}
 	}
-	e := est{method: "multiple_imputation", scale: first.scale, n: first.n, adjusted: first.adjusted, p: pr.P,
-		value: pr.Estimate, additive: pr.Estimate, se: pr.StdError, lo: pr.CI[0], hi: pr.CI[1],
-		note: fmt.Sprintf("%d imputations pooled by Rubin's rules; Barnard–Rubin df %.1f; fraction of missing information %.2f", pr.M, pr.DF, pr.FMI)}
-	switch {
-	case first.method == MethodPartial:
-		e.value, e.lo, e.hi, e.se = math.Tanh(pr.Estimate), math.Tanh(pr.CI[0]), math.Tanh(pr.CI[1]), math.NaN()
-		e.additive = e.value
-	case first.scale == "odds_ratio":
-		e.value, e.lo, e.hi, e.se = math.Exp(pr.Estimate), math.Exp(pr.CI[0]), math.Exp(pr.CI[1]), math.NaN()
-	}
-	return e
-}
-
-// pooledScale gives an estimate and its variance on the scale Rubin's
-// rules pool it on.
-func pooledScale(e est, n int, level float64) (q, u float64) {
-	switch {
-	case e.method == MethodPartial:
-		return math.Atanh(e.value), 1 / float64(n-len(e.adjusted)-3)
-	case e.scale == "odds_ratio":
-		se := effects.SEFromCI(math.Log(e.lo), math.Log(e.hi), level)
-		return math.Log(e.value), se * se
-	}
-	return e.value, e.se * e.se
-}
-
-func missingSummary(status string, changed int, r *missingResult) string {
+	dk, pk := comparison(method, has)
 	switch {
 	case changed > 0 && status == StatusFail:
 		return "A headline claim changes sign or significance once missing values are handled by a principled method; the conclusion rests on the missing-data method, not on the data."
 	case changed > 0:
-		return fmt.Sprintf("%d claim(s) change sign or significance once missing values are handled by a principled method; the paper should report the analysis by multiple imputation or maximum likelihood.", changed)
+		return fmt.Sprintf("%s %s sign or significance once missing values are handled by a principled method; the paper should report the analysis by multiple imputation or maximum likelihood.",
+			count(changed, "claim", "claims"), map[bool]string{true: "changes", false: "change"}[changed == 1])
+	case uncompared > 0:
+		return fmt.Sprintf("%s could not be compared between %s and %s, so the screen of missing data is incomplete; see the findings.",
+			count(uncompared, "claim", "claims"), r.label(dk), r.label(pk))
 	case status == StatusWarn:
-		return "Every claim keeps its sign and significance under maximum likelihood and multiple imputation, but the way missing values were handled or reported needs attention; see the findings."
+		return fmt.Sprintf("No claim changes its conclusion between %s and %s, but the way missing values were handled or reported needs attention; see the findings.", r.label(dk), r.label(pk))
 	}
-	return fmt.Sprintf("Every claim keeps its sign and significance under complete cases, maximum likelihood and multiple imputation (%d of %d rows complete).", r.summary.CompleteRows, r.summary.Rows)
+	return fmt.Sprintf("No claim changes its conclusion (the sign of a significant estimate, or its non-significance) between %s and %s (%d of %d rows complete).",
+		r.label(dk), r.label(pk), r.summary.CompleteRows, r.summary.Rows)
 }

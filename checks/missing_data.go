@@ -2,8 +2,6 @@ package checks
 
 import (
 	"context"
-	"encoding/binary"
-	"encoding/hex"
 	"fmt"
 	"math"
 	"sync"
@@ -19,10 +17,21 @@ var missingDataCheck = Check{
 	ID:    "missing-data",
 	Title: "Missing data",
 	Run:   withDataQuality(runMissingData),
+	Summaries: map[string]string{
+		StatusPass:          "No claim changes its conclusion once missing values are handled by a principled method.",
+		StatusWarn:          "The way missing values were handled or reported needs attention; see the findings.",
+		StatusFail:          "A headline claim changes sign or significance once missing values are handled by a principled method; the conclusion rests on the missing-data method, not on the data.",
+		StatusNotApplicable: "No value is missing in the data, so there is nothing to re-analyse.",
+	},
 }
 
-// Imputations is m, the number of imputed datasets.
-const Imputations = missing.DefaultImputations
+// Imputations is m, the number of imputed datasets; MaxImputations the m
+// it is raised to where the Monte Carlo error of a pooled estimate could
+// move it across the significance line.
+const (
+	Imputations    = missing.DefaultImputations
+	MaxImputations = 100
+)
 
 // unsoundMethods bias coefficients and understate uncertainty (Little &
 // Rubin, Statistical Analysis with Missing Data, ch. 4).
@@ -46,6 +55,12 @@ type missingResult struct {
 	imputedEst  [][]est
 	pairwiseErr string
 	err         error
+	// raised lists the claims whose pooled estimate, with Imputations,
+	// lay within Monte Carlo error of the significance line, so that m
+	// was raised to MaxImputations; stillNear those for which it still
+	// does; raiseErr why raising failed.
+	raised, stillNear []string
+	raiseErr          error
 }
 
 func (a *Analysis) missingData(ctx context.Context) *missingResult {
@@ -72,41 +87,40 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	}
 	r.moments[MissingMaximumLikelihood] = emMoments(em, d.N)
 	a.declaredMethodMoments(r)
-	binary := make([]bool, len(a.Study.Names))
-	for i, v := range a.Study.Package.Variables {
-		binary[i] = v.Scale == ScaleBinary
-	}
-	if err := a.imputeClaims(ctx, r, binary); err != nil {
+	if err := a.imputeClaims(ctx, r, Imputations); err != nil {
 		r.err = err
 	}
+	a.raiseImputations(ctx, r)
 	return r
 }
 
 // imputeClaims draws the imputed datasets one by one (missing.ImputeEach)
 // and keeps of each only its moments and the claims' estimates in it, so
 // that memory does not grow with the number of imputations.
-func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, binary []bool) error {
-	claims := a.Study.Package.Claims
-	imputed, ests := make([]*Moments, Imputations), make([][]est, len(claims))
+func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) error {
+	claims, binary := a.Study.Package.Claims, a.binaryVariables()
+	imputed, ests := make([]*Moments, m), make([][]est, len(claims))
 	for i := range ests {
-		ests[i] = make([]est, Imputations)
+		ests[i] = make([]est, m)
 	}
 	var mu sync.Mutex
 	done := 0
-	opt := missing.ImputeOptions{M: Imputations, Seed: seedOf(a.Study.SHA256), Binary: binary}
+	opt := missing.ImputeOptions{M: m, Seed: dataSeed(a.Study.Data.Columns, binary), Binary: binary}
 	err := missing.ImputeEach(ctx, a.Study.Data.Columns, r.em, opt, func(k int, data *mat.Dense) error {
-		m, err := imputedMoments(data, fmt.Sprintf("imputation_%d", k+1))
+		// The method names the run (k of m), so estimates cached for one
+		// set of imputations are never read for another.
+		mo, err := imputedMoments(data, fmt.Sprintf("imputation_%d_of_%d", k+1, m))
 		if err != nil {
 			return err
 		}
 		mu.Lock()
 		defer mu.Unlock()
 		for i, c := range claims {
-			ests[i][k] = a.estimateWith(m, c, a.declaredParentsFor(c))
+			ests[i][k] = a.estimateWith(mo, c, a.declaredParentsFor(c))
 		}
-		m.Rows, imputed[k] = nil, m
+		mo.Rows, imputed[k] = nil, mo
 		done++
-		a.reportProgress("missing data: imputations", done, Imputations)
+		a.reportProgress("missing data: imputations", done, m)
 		return nil
 	})
 	if err == nil {
@@ -137,16 +151,6 @@ func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
 			casesName(method))
 	}
 	return m, nil
-}
-
-// seedOf takes the randomness of a report from its package's hash, so the
-// same package always gives the same report.
-func seedOf(sha string) uint64 {
-	b, err := hex.DecodeString(sha)
-	if err != nil || len(b) < 8 {
-		return 1
-	}
-	return binary.BigEndian.Uint64(b[:8])
 }
 
 func emMoments(em *missing.EMResult, n int) *Moments {
@@ -229,21 +233,25 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 	if r.summary.MissingCells == 0 {
 		return completeRows(method, res), nil
 	}
-	res.Findings = methodFindings(method, r)
+	res.Findings = append(methodFindings(method, r, a.Alpha), raisedFindings(r)...)
 	if r.err != nil {
-		res.Findings = append(res.Findings, Finding{Severity: StatusWarn, Message: "The claims could not be re-estimated by maximum likelihood and multiple imputation: " + r.err.Error() + "."})
+		res.Findings = append(res.Findings, Finding{Severity: StatusWarn, Message: "The claims could not be re-estimated by " + principledMissing(r) + ": " + r.err.Error() + "."})
 	}
-	changed := 0
+	changed, uncompared := 0, 0
 	for i, c := range s.Package.Claims {
 		f, ch := a.claimMissing(i, c, method, r)
 		res.Findings = append(res.Findings, f...)
 		if ch {
 			changed++
 		}
+		if len(f) > 0 && f[0].Severity == StatusWarn && !ch {
+			uncompared++
+		}
 	}
 	res.Metrics["claims_changed"] = changed
+	res.Metrics["claims_not_compared"] = uncompared
 	res.Status = statusOf(res.Findings)
-	res.Summary = missingSummary(res.Status, changed, r)
+	res.Summary = missingSummary(res.Status, changed, uncompared, method, r)
 	return res, nil
 }
 
@@ -274,6 +282,8 @@ func completeRows(method string, res CheckResult) CheckResult {
 		return res
 	}
 	res.Status = StatusNotApplicable
+	// Said here, not left to the declared summary: withDataQuality may
+	// append to it.
 	res.Summary = "No value is missing in the data, so there is nothing to re-analyse."
 	return res
 }
@@ -303,6 +313,9 @@ func (a *Analysis) missingMetrics(r *missingResult) map[string]any {
 	if r.em != nil {
 		m["em_iterations"], m["em_converged"], m["em_tolerance"] = r.em.Iterations, r.em.Converged, r.em.Tolerance
 		m["em_max_iterations"] = missing.DefaultMaxIter
+	}
+	if len(r.raised) > 0 {
+		m["imputations_raised_for"] = r.raised
 	}
 	if len(r.imputed) > 0 {
 		m["imputations"] = len(r.imputed)

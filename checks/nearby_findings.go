@@ -58,13 +58,13 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 		}
 		sev := StatusWarn
 		switch {
-		case a.Claims[i].AcrossEquivalents != nil && a.Claims[i].AcrossEquivalents.Unstable:
+		case a.unstableAmongEquivalents(i): // shared.go, not the equivalence check's output
 			sev = SeverityInfo // the equivalence check already weighs it
 		case near && cl.Headline && c.alternative == "" && !c.approximate:
 			sev = StatusFail
 		}
 		fs = append(fs, Finding{Severity: sev, Claim: cl.ID, Message: a.changedText(c, i, ae, sev),
-			Details: map[string]any{"delta_bic": num(c.delta), "graphs": ae.Graphs,
+			Details: map[string]any{"delta_bic": num(c.delta), "graphs": ae.Estimates,
 				"graphs_differing": ae.Differing, "method": ae.Method}})
 	}
 	return fs
@@ -82,16 +82,16 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
 	}
 	edits := a.editsText(c.edits)
-	graphs := fmt.Sprintf("the %d plausible graphs %s", ae.Graphs, edits)
+	graphs := fmt.Sprintf("the %d plausible graphs %s", ae.Estimates, edits)
 	switch {
 	case ae.Method == AcrossParentSets:
-		graphs = fmt.Sprintf("the %d locally valid parent sets of the graphs %s", ae.Graphs, edits)
-	case ae.Graphs == 1:
+		graphs = fmt.Sprintf("the %d locally valid parent sets of the graphs %s", ae.Estimates, edits)
+	case ae.Estimates == 1:
 		graphs = "the one plausible graph " + edits
 	}
 	var b strings.Builder
 	switch {
-	case ae.Graphs == 1:
+	case ae.Estimates == 1:
 		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in %s (%s)",
 			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
 	case ae.Differing == 1:
@@ -101,7 +101,7 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 		fmt.Fprintf(&b, "%s is %s under the declared graph, but its sign or significance differs in %d of %s (%s; in the one nearest zero it is %s)",
 			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)
 	}
-	if ae.Graphs > 1 {
+	if ae.Estimates > 1 {
 		fmt.Fprintf(&b, "; across them it ranges from %s to %s and is significant with the declared sign in %s of them",
 			numText(ae.Min), numText(ae.Max), shareText(ae.ShareSignificantSameSign))
 	}

@@ -53,6 +53,12 @@ var nearbyGraphsCheck = Check{
 	ID:    "nearby-graphs",
 	Title: "Graphs one edit away",
 	Run:   runNearbyGraphs,
+	Summaries: map[string]string{
+		StatusPass:          "No graph one edit from the declared one that fits the data about as well changes a claim's sign or significance.",
+		StatusWarn:          "The graphs near the declared one need a look; see the findings.",
+		StatusFail:          "A headline claim changes sign or significance in a graph one edit from the declared one that fits the data about as well; see the findings.",
+		StatusNotApplicable: "There are no graphs near the declared one to weigh.",
+	},
 }
 
 // nearbyRun is what the check found, for its findings and metrics.
@@ -72,14 +78,14 @@ func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: " + err.Error() + "."}, nil
+		return CheckResult{}, fmt.Errorf("the graphs near the declared one could not be scored: %w", a.dataError())
 	}
 	declFit, err := a.fitGraph(ctx, s.Declared, s.InGraph)
 	if ctxErr := ctx.Err(); ctxErr != nil {
 		return CheckResult{}, ctxErr
 	}
 	if err != nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The graphs near the declared one could not be scored: the declared graph could not be fitted to the data (" + err.Error() + ")."}, nil
+		return CheckResult{}, fmt.Errorf("the graphs near the declared one could not be scored: the declared graph could not be fitted to the data (%w)", err)
 	}
 	run, err := a.nearbyRun(ctx, m)
 	if err != nil {
@@ -130,7 +136,7 @@ func (a *Analysis) nearbyRun(ctx context.Context, m *Moments) (*nearbyRun, error
 
 func (a *Analysis) fillNearbyReport(run *nearbyRun) {
 	if a.Graph == nil {
-		return
+		a.Graph = &GraphReport{} // this check's part; the pipeline merges it with equivalence's
 	}
 	for _, c := range run.listed {
 		a.Graph.NearbyGraphs = append(a.Graph.NearbyGraphs, a.nearbyReport(c))

@@ -1,9 +1,11 @@
 package checks
 
 import (
+	"cmp"
 	"context"
 	"encoding/json"
 	"fmt"
+	"reflect"
 	"time"
 )
 
@@ -12,6 +14,11 @@ type Check struct {
 	ID    string
 	Title string
 	Run   func(ctx context.Context, a *Analysis) (CheckResult, error)
+	// Summaries has the summary sentence of every status the check can
+	// end with. Run may return a sentence more specific to the package,
+	// which replaces it; a status without a summary here is an internal
+	// error, reported as such.
+	Summaries map[string]string
 }
 
 // Pipeline returns the checks in pipeline order (report-format.md, "Fixed
@@ -49,8 +56,12 @@ type Options struct {
 }
 
 // Analysis is one run of the pipeline over a study: the study, results
-// that several checks share, computed once on first use, and the report's
-// graph and claim sections, which the checks fill in.
+// that several checks share, computed once on first use (never by one
+// check for another), and the graph and claim sections a check annotates.
+// Each check gets sections of its own, empty when it starts; the pipeline
+// merges them into the report after it returns, so no check can read
+// another's annotations, and the checks give the same results in any
+// order or subset.
 type Analysis struct {
 	Study  *Study
 	Alpha  float64
@@ -60,11 +71,16 @@ type Analysis struct {
 	equivalence  *equivalenceResult
 	mom          *Moments
 	momErr       error
+	dataErr      error
 	fits         map[string]est
 	declared     []*est
 	plausible    []alternativeGraph
 	plausibleErr error
 	miss         *missingResult
+	evs          []claimEValue
+	across       []*AcrossEquivalents
+	acrossErr    []error
+	acrossDone   []bool
 	progress     func(stage string, done, total int)
 }
 
@@ -94,18 +110,25 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 		Title: s.Package.Title, ManuscriptID: s.Package.ManuscriptID, Design: s.Package.Design,
 		Caution: Caution, SignificanceLevel: opt.Alpha,
 	}
+	claims, graph := claimReports(s.Package), (*GraphReport)(nil)
 	for k, c := range opt.Checks {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
 		a.reportProgress("checks (now: "+c.Title+")", k, len(opt.Checks))
+		a.Claims, a.Graph = claimReports(s.Package), nil // this check's annotations only
 		res := runCheck(ctx, c, a)
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
 		rep.Checks = append(rep.Checks, res)
+		if res.RunError == "" {
+			mergeClaims(claims, a.Claims)
+			graph = mergeGraph(graph, a.Graph)
+		}
 	}
 	a.reportProgress("checks", len(opt.Checks), len(opt.Checks))
+	a.Claims, a.Graph = claims, graph
 	a.fillDeclared()
 	rep.Data = a.dataReport()
 	rep.Graph, rep.Claims = a.Graph, a.Claims
@@ -126,6 +149,11 @@ func runCheck(ctx context.Context, c Check, a *Analysis) (res CheckResult) {
 	if err != nil {
 		return failedToRun(c, err.Error())
 	}
+	declared, ok := c.Summaries[res.Status]
+	if !ok {
+		return failedToRun(c, fmt.Sprintf("internal error: the check ended with status %q, for which it declares no summary", res.Status))
+	}
+	res.Summary = cmp.Or(res.Summary, declared)
 	res.ID, res.Title = c.ID, c.Title
 	if res.Findings == nil {
 		res.Findings = []Finding{}
@@ -157,7 +185,7 @@ func (a *Analysis) dataReport() DataReport {
 	r.Rows, r.Estimation = d.N, "complete_cases"
 	m, err := a.moments()
 	if err != nil {
-		r.Note = err.Error()
+		r.Note = a.dataError().Error()
 		return r
 	}
 	r.CompleteCases = m.N
@@ -183,6 +211,37 @@ func (a *Analysis) safeDeclared(i int) (r *Estimate) {
 		}
 	}()
 	return a.report(a.declaredEstimate(i))
+}
+
+// mergeClaims copies into dst every annotation that a check set in src
+// (a field of src that is not its zero value and is zero in dst).
+func mergeClaims(dst, src []ClaimReport) {
+	for i := range dst {
+		d, s := reflect.ValueOf(&dst[i]).Elem(), reflect.ValueOf(src[i])
+		for f := range d.NumField() {
+			if !s.Field(f).IsZero() && d.Field(f).IsZero() {
+				d.Field(f).Set(s.Field(f))
+			}
+		}
+	}
+}
+
+// mergeGraph merges a check's graph section into the report's: fields
+// that src sets and dst leaves zero.
+func mergeGraph(dst, src *GraphReport) *GraphReport {
+	switch {
+	case src == nil:
+		return dst
+	case dst == nil:
+		return src
+	}
+	d, s := reflect.ValueOf(dst).Elem(), reflect.ValueOf(src).Elem()
+	for f := range d.NumField() {
+		if !s.Field(f).IsZero() && d.Field(f).IsZero() {
+			d.Field(f).Set(s.Field(f))
+		}
+	}
+	return dst
 }
 
 func claimReports(pkg *Package) []ClaimReport {

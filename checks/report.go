@@ -174,7 +174,9 @@ type AlternativeEstimate struct {
 	Method     string    `json:"method"`
 	Equivalent bool      `json:"equivalent"`
 	Changed    bool      `json:"changed"`
-	Error      string    `json:"error,omitempty"`
+	// StructuralZero: as in Estimate, why the graph makes it zero.
+	StructuralZero string `json:"structural_zero,omitempty"`
+	Error          string `json:"error,omitempty"`
 }
 
 // Reported are the figures the package reports for a claim.

@@ -31,12 +31,11 @@ func (db *DB) OpenSession(ctx context.Context, k *service.Key, ttl time.Duration
 // SessionKey returns the key of a live session: not ended, not expired,
 // its key not revoked; else a not-found error.
 func (db *DB) SessionKey(ctx context.Context, id string) (*service.Key, error) {
-	k := &service.Key{}
-	err := db.Pool.QueryRow(ctx, `
-		SELECT k.id, k.office_id, o.name, k.role, k.created_at
+	k, err := scanKey(db.Pool.QueryRow(ctx, `
+		SELECT `+keyColumns+`
 		FROM web_sessions w JOIN api_keys k ON k.id = w.key_id JOIN offices o ON o.id = k.office_id
 		WHERE w.id_sha256 = $1 AND w.ended_at IS NULL AND w.expires_at > $2 AND k.revoked_at IS NULL`,
-		hashToken(id), db.now()).Scan(&k.ID, &k.OfficeID, &k.OfficeName, &k.Role, &k.CreatedAt)
+		hashToken(id), db.now()))
 	return k, dbError(err, "session")
 }
 

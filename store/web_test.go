@@ -23,7 +23,7 @@ func TestSessions(t *testing.T) {
 		t.Fatalf("the session id is stored as is, or not at all: %v", err)
 	}
 	got, err := db.SessionKey(ctx, id)
-	if err != nil || got.ID != k.ID || got.OfficeID != k.OfficeID || got.Role != service.RoleEditor {
+	if err != nil || got.ID != k.ID || got.OfficeID != k.OfficeID || got.Role != service.RoleEditor || got.Label != k.Label {
 		t.Fatalf("session key: %+v, %v", got, err)
 	}
 	if _, err := db.SessionKey(ctx, id+"x"); service.ErrorCode(err) != service.ENotFound {

@@ -7,31 +7,45 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"strconv"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks"
 )
 
-// parseCSV reads the rows: a header naming variables, then one row per
-// participant. Empty cells, NA in any case and the package's missing codes
-// are missing.
+// parseCSV reads the rows in one pass, straight into the columns: a
+// header naming variables, then one row per participant. Empty cells, NA
+// in any case and the package's missing codes are missing.
 func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset {
-	d := s.Package.Data
-	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))))
-	r.ReuseRecord = true
-	header, err := r.Read()
+	sc := &scanner{text: bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))}
+	head, err := sc.next()
 	if err != nil {
 		csvReadError(err, ps)
 		return nil
 	}
-	header = append([]string(nil), header...)
-	cols := s.headerColumns(header, r, ps)
+	header := make([]string, len(head))
+	for i, c := range head {
+		header[i] = string(c.b)
+	}
+	cols := s.headerColumns(header, head, ps)
 	if cols == nil {
 		return nil
 	}
+	ds := s.newDataset(header, cols, min(bytes.Count(text, []byte{'\n'}), lim.Rows+1))
+	if !s.readRows(sc, newCells(s, cols), ds, lim, ps) {
+		return nil
+	}
+	if ds.N == 0 {
+		ps.csv(1, 0, "the data have a header but no rows")
+	}
+	s.checkColumns(ds, ps)
+	s.findSuspects(ds)
+	return ds
+}
+
+// newDataset makes the columns, with room for rows values each, and lists
+// the ignored columns.
+func (s *study) newDataset(header []string, cols []int, rows int) *checks.Dataset {
 	ds := &checks.Dataset{Kind: checks.DataRows, Columns: make([][]float64, len(s.Names))}
-	rows := min(bytes.Count(text, []byte{'\n'}), lim.Rows+1)
 	for j := range ds.Columns {
 		ds.Columns[j] = make([]float64, 0, rows)
 	}
@@ -40,39 +54,36 @@ func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset 
 			ds.Ignored = append(ds.Ignored, strings.TrimSpace(name))
 		}
 	}
-	missing := map[string]bool{}
-	for _, c := range d.MissingCodes {
-		missing[strings.TrimSpace(c)] = true
-	}
+	return ds
+}
+
+// readRows reads the data rows after the header into ds; false means the
+// data are rejected. Load takes no context, so this loop watches none: its
+// length is bounded by Limits.CSVBytes instead.
+func (s *study) readRows(sc *scanner, cr *cellReader, ds *checks.Dataset, lim Limits, ps *problems) bool {
 	reported := len(ps.list)
 	for {
-		rec, err := r.Read()
+		rec, err := sc.next()
 		if err == io.EOF {
-			break
+			return true
 		}
 		if len(ps.list)-reported >= maxCSVProblems {
 			ps.csv(0, 0, "further data errors are not listed")
-			return nil
+			return false
 		}
 		if err != nil {
-			if fieldCount(err, len(rec), len(header), ps) {
+			if fieldCount(err, len(rec), sc.fields, ps) {
 				continue
 			}
 			csvReadError(err, ps)
-			return nil
+			return false
 		}
 		if ds.N++; ds.N > lim.Rows {
 			ps.at("/data", "has more than %d rows; the limit is %d", lim.Rows, lim.Rows)
-			return nil
+			return false
 		}
-		s.parseRow(rec, r, cols, missing, ds, ps)
+		cr.row(rec, ds, ps)
 	}
-	if ds.N == 0 {
-		ps.csv(1, 0, "the data have a header but no rows")
-	}
-	s.checkColumns(ds, ps)
-	s.findSuspects(ds)
-	return ds
 }
 
 // findSuspects lists the likely undeclared codes of every column that is
@@ -95,7 +106,7 @@ func codeHint(cell string, likely bool) string {
 
 // headerColumns maps each CSV column to a variable index, -1 for an
 // ignored column.
-func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []int {
+func (s *study) headerColumns(header []string, head []cell, ps *problems) []int {
 	ignore := map[string]bool{}
 	for _, c := range s.Package.Data.IgnoreColumns {
 		ignore[c] = true
@@ -105,7 +116,7 @@ func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 	before := len(ps.list)
 	for i, h := range header {
 		name := strings.TrimSpace(h)
-		line, _ := r.FieldPos(i)
+		line := head[i].line
 		j, ok := s.Index[name]
 		switch {
 		case seen[name]:
@@ -129,31 +140,6 @@ func (s *study) headerColumns(header []string, r *csv.Reader, ps *problems) []in
 		return nil
 	}
 	return append([]int(nil), cols...)
-}
-
-func (s *study) parseRow(rec []string, r *csv.Reader, cols []int, missing map[string]bool,
-	ds *checks.Dataset, ps *problems) {
-	for i, raw := range rec {
-		j := cols[i]
-		if j < 0 {
-			continue
-		}
-		cell := strings.TrimSpace(raw)
-		if cell == "" || strings.EqualFold(cell, "NA") || missing[cell] {
-			ds.Columns[j] = append(ds.Columns[j], math.NaN())
-			continue
-		}
-		x, err := strconv.ParseFloat(cell, 64)
-		line, _ := r.FieldPos(i)
-		switch {
-		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
-			ps.csv(line, i+1, "%q in column %q is not a number%s", cell, s.Names[j], codeHint(cell, missingMark(cell)))
-		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s",
-				cell, s.Names[j], codeHint(cell, CodeLike(x)))
-		}
-		ds.Columns[j] = append(ds.Columns[j], x)
-	}
 }
 
 // checkColumns reports variables with no observed value.

@@ -80,11 +80,22 @@ func writeJSONString(w io.Writer, text []byte) {
 // writes unchanged, or a newline, carriage return or tab.
 func plainText(text []byte) bool {
 	for _, c := range text {
-		switch {
-		case c == '\n' || c == '\r' || c == '\t':
-		case c < 0x20 || c > 0x7e, c == '"', c == '\\', c == '<', c == '>', c == '&':
+		if !plainByte[c] {
 			return false
 		}
 	}
 	return true
 }
+
+// plainByte tells the bytes plainText accepts: printable ASCII but " \ < >
+// &, and newline, carriage return and tab.
+var plainByte = func() (t [256]bool) {
+	for c := 0x20; c <= 0x7e; c++ {
+		t[c] = true
+	}
+	for _, c := range []byte("\"\\<>&") {
+		t[c] = false
+	}
+	t['\n'], t['\r'], t['\t'] = true, true, true
+	return t
+}()

@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
+	"strings"
 	"testing"
 
 	"github.com/pathvet/pathvet/checks"
@@ -28,6 +29,16 @@ func TestCanonicalHash_StreamsTheSameBytes(t *testing.T) {
 	} {
 		if got, want := canonicalHash(pkg, []byte(csv)), fullHash(pkg, []byte(csv)); got != want {
 			t.Errorf("%q: streamed %s, whole %s", csv, got, want)
+		}
+	}
+}
+
+// TestPlainText checks the byte table against the rule it stands for.
+func TestPlainText(t *testing.T) {
+	for c := range 256 {
+		want := c == '\n' || c == '\r' || c == '\t' || c >= 0x20 && c <= 0x7e && !strings.ContainsRune(`"\<>&`, rune(c))
+		if got := plainText([]byte{'a', byte(c)}); got != want {
+			t.Errorf("plainText(%q) = %v, want %v", []byte{'a', byte(c)}, got, want)
 		}
 	}
 }

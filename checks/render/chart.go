@@ -36,14 +36,14 @@ func stabilityRows(c checks.ClaimReport, alpha float64) []chartRow {
 	ref := fromEstimate(c.Declared)
 	rows := []chartRow{{Label: "declared graph", P: ref}}
 	if a := c.AcrossEquivalents; a != nil {
-		r := chartRow{Label: fmt.Sprintf("equivalent graphs, lowest to highest (%d graphs)", a.Graphs), Lo: a.Min, Hi: a.Max}
+		r := chartRow{Label: "equivalents, lowest to highest (" + acrossWhat(a) + ")", Lo: a.Min, Hi: a.Max}
 		if a.Unstable {
 			r.Shift = fmt.Sprintf("differs in %d", a.Differing)
 		}
 		rows = append(rows, r)
 	}
 	for _, a := range c.UnderAlternatives {
-		p := point{Est: a.Estimate, CI: a.CI, P: a.PValue, Zero: a.Method == zeroByGraph}
+		p := altPoint(a)
 		rows = append(rows, chartRow{Label: "alternative " + a.Name, P: p, Shift: altShift(ref, p, a, alpha)})
 	}
 	for _, m := range methodOrder(c.MissingData) {

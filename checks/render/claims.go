@@ -100,9 +100,9 @@ func equivalentsCell(a *checks.AcrossEquivalents) Cell {
 	if a == nil {
 		return Cell{Lines: []Line{{Text: "not applicable"}}}
 	}
-	l := Line{Text: fmt.Sprintf("%s to %s over %d graphs", numPtr(a.Min, 2), numPtr(a.Max, 2), a.Graphs)}
+	l := Line{Text: fmt.Sprintf("%s to %s over %s", numPtr(a.Min, 2), numPtr(a.Max, 2), acrossWhat(a))}
 	if a.Unstable {
-		l.Mark = fmt.Sprintf("sign or significance differs in %d of %d", a.Differing, a.Graphs)
+		l.Mark = fmt.Sprintf("sign or significance differs in %d of %d", a.Differing, a.Estimates)
 	}
 	return Cell{Lines: []Line{l}}
 }
@@ -110,11 +110,13 @@ func equivalentsCell(a *checks.AcrossEquivalents) Cell {
 func alternativesCell(c checks.ClaimReport, ref point, alpha float64) Cell {
 	var ls []Line
 	for _, a := range c.UnderAlternatives {
-		p := point{Est: a.Estimate, CI: a.CI, P: a.PValue, Zero: a.Method == zeroByGraph}
+		p := altPoint(a)
 		text := a.Name + ": " + estimateLine(a.Estimate, a.CI, a.PValue, "")
 		switch {
 		case a.Error != "":
 			text = a.Name + ": " + notAvailable + " (" + a.Error + ")"
+		case p.Zero && a.StructuralZero != "":
+			text = a.Name + ": 0, because " + a.StructuralZero
 		case p.Zero:
 			text = a.Name + ": 0, no path for the effect in this graph"
 		}

@@ -1,6 +1,10 @@
 package render
 
-import "github.com/pathvet/pathvet/checks"
+import (
+	"fmt"
+
+	"github.com/pathvet/pathvet/checks"
+)
 
 // point is one estimate of a claim: a value, its interval and p-value.
 type point struct {
@@ -12,14 +16,31 @@ type point struct {
 	Zero bool
 }
 
-// zeroByGraph is the method of an estimate that a graph makes zero.
-const zeroByGraph = "zero_by_graph"
+// acrossWhat says what a claim was estimated over across the equivalents:
+// plausible graphs, or locally valid adjustment sets (which are not graphs).
+func acrossWhat(a *checks.AcrossEquivalents) string {
+	if a.Method == "local_parent_sets" {
+		return plural(a.Estimates, "adjustment set", "adjustment sets")
+	}
+	return plural(a.Estimates, "plausible graph", "plausible graphs")
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
+func altPoint(a checks.AlternativeEstimate) point {
+	return point{Est: a.Estimate, CI: a.CI, P: a.PValue, Zero: a.StructuralZero != "" || a.Method == checks.MethodZero}
+}
 
 func fromEstimate(e *checks.Estimate) point {
 	if e == nil {
 		return point{}
 	}
-	return point{Est: e.Estimate, CI: e.CI, P: e.PValue, Zero: e.Method == zeroByGraph}
+	return point{Est: e.Estimate, CI: e.CI, P: e.PValue, Zero: e.StructuralZero != "" || e.Method == checks.MethodZero}
 }
 
 // shift says, in words, how p differs from the reference ref: its sign

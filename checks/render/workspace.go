@@ -14,7 +14,7 @@ import (
 
 // Nav is the workspace's navigation bar.
 type Nav struct {
-	Office, Role, CSRF string
+	Office, Role, Label, CSRF string
 }
 
 // SignIn is the sign-in page.

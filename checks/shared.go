@@ -1,0 +1,63 @@
+package checks
+
+// Results that several checks read are computed here, lazily and once per
+// Analysis, never by one check for another: a check sees the same values
+// whether it runs alone, first or last (Options.Checks).
+
+// claimEValue is the E-value of one claim, or why there is none.
+type claimEValue struct {
+	ev *EValue
+	// why there is no E-value; "" with ev nil means none is wanted (an
+	// association, a claim of no effect).
+	why string
+	// contradicted: the declared graph itself gives the claim no effect.
+	contradicted bool
+}
+
+// eValues returns every claim's E-value (confounding-sensitivity writes
+// them into the report; causal-language weighs them), computed once.
+func (a *Analysis) eValues() []claimEValue {
+	if a.evs != nil {
+		return a.evs
+	}
+	a.evs = make([]claimEValue, len(a.Study.Package.Claims))
+	for i, c := range a.Study.Package.Claims {
+		switch {
+		case !Causal(c.Kind) || c.AssertsAbsence:
+			continue // nothing to explain away
+		case a.graphContradiction(c) != "":
+			a.evs[i] = claimEValue{contradicted: true, why: "the declared graph itself gives it no effect: " +
+				a.graphContradiction(c) + " (see graph-declared)"}
+		default:
+			ev, why := a.eValue(i, c)
+			a.evs[i] = claimEValue{ev: ev, why: why}
+		}
+	}
+	return a.evs
+}
+
+// declaredAcross is claim i re-estimated across the plausible members of
+// the declared graph's class (nil for a claim that is not causal, not in
+// the graph, or not estimable under it), computed once: equivalence
+// reports it, nearby-graphs asks whether it is unstable.
+func (a *Analysis) declaredAcross(i int) (*AcrossEquivalents, error) {
+	n := len(a.Study.Package.Claims)
+	if a.across == nil {
+		a.across, a.acrossErr, a.acrossDone = make([]*AcrossEquivalents, n), make([]error, n), make([]bool, n)
+	}
+	if !a.acrossDone[i] {
+		c, decl := a.Study.Package.Claims[i], a.declaredEstimate(i)
+		if a.Study.Declared != nil && Causal(c.Kind) && a.claimInGraph(c) && decl.ok() {
+			a.across[i], a.acrossErr[i] = a.acrossEquivalents(c, decl)
+		}
+		a.acrossDone[i] = true
+	}
+	return a.across[i], a.acrossErr[i]
+}
+
+// unstableAmongEquivalents: claim i changes sign or significance among
+// the declared graph's own plausible equivalents.
+func (a *Analysis) unstableAmongEquivalents(i int) bool {
+	ae, err := a.declaredAcross(i)
+	return err == nil && ae != nil && ae.Unstable
+}
