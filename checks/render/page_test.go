@@ -4,6 +4,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/pathvet/pathvet/checks"
 )
 
 var (
@@ -84,6 +86,29 @@ func TestNearbyRows(t *testing.T) {
 		}
 		if !strings.HasPrefix(rows[i].DeltaBIC, "+") && !strings.HasPrefix(rows[i].DeltaBIC, Minus) {
 			t.Errorf("row %d: ΔBIC %q without its sign", i, rows[i].DeltaBIC)
+		}
+	}
+}
+
+// TestPageOfSparseReports: a report without a graph, estimates or checks
+// still makes a page, and says what is missing instead of drawing it.
+func TestPageOfSparseReports(t *testing.T) {
+	empty := &checks.Report{Title: "Nothing", Caution: checks.Caution}
+	noGraph := loadGolden(t, "coding-club")
+	noGraph.Graph = nil
+	for i := range noGraph.Claims {
+		noGraph.Claims[i].Declared, noGraph.Claims[i].AcrossEquivalents, noGraph.Claims[i].MissingData = nil, nil, nil
+	}
+	for name, r := range map[string]*checks.Report{"empty": empty, "no graph": noGraph} {
+		var b strings.Builder
+		if err := WritePage(&b, r, PageOptions{}); err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		if !strings.Contains(b.String(), "No causal graph was declared.") {
+			t.Errorf("%s: the page does not say the graph is missing", name)
+		}
+		if name == "no graph" && !strings.Contains(b.String(), "not computed") {
+			t.Errorf("%s: missing estimates are not said to be missing", name)
 		}
 	}
 }
