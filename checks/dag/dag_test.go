@@ -135,7 +135,8 @@ func TestClassSize_ClosedForms(t *testing.T) {
 			{"triangle plus tree", undirected(p, triangleTree), int64(2 * p)},
 			{"complete", complete(p), factorial(p)},
 			{"complete minus one edge", complete(p, [2]int{0, 1}), 2*factorial(p-1) - factorial(p-2)},
-			{"complete minus two edges at a node", complete(p, [2]int{0, 1}, [2]int{0, 2}), int64(p*p-p-4) * factorial(p-3)},
+			{"complete minus two edges at a node", complete(p, [2]int{0, 1}, [2]int{0, 2}),
+				int64(p*p-p-4) * factorial(p-3)},
 		}
 		for _, tc := range cases {
 			got := ClassSize(tc.g)
@@ -166,7 +167,7 @@ func bruteMembers(c *PDAG, required []Edge) map[string]*PDAG {
 	var edges [][2]int
 	adj := make([]uint16, n)
 	for u := range n {
-		for _, v := range c.Neighbours(u) {
+		for _, v := range c.neighbours(u) {
 			adj[u] |= 1 << v
 			if u < v {
 				edges = append(edges, [2]int{u, v})
@@ -577,7 +578,7 @@ func TestCloseUnderMeek_BackgroundKnowledge(t *testing.T) {
 		m.CloseUnderMeek()
 		plausible := bruteMembers(c, req)
 		for u := range n {
-			for _, v := range c.Neighbours(u) {
+			for _, v := range c.neighbours(u) {
 				always := true
 				for _, p := range plausible {
 					if !p.HasArc(u, v) {

@@ -249,7 +249,7 @@ func TestImpute_RecoversSlope(t *testing.T) {
 		}
 		ml += em.Cov.At(0, 1) / em.Cov.At(0, 0)
 		meanSub += slopeMeanSubstituted(cols)
-		imps, err := Impute(context.Background(), cols, em, ImputeOptions{M: 20, Seed: uint64(rep)})
+		imps, err := impute(context.Background(), cols, em, ImputeOptions{M: 20, Seed: uint64(rep)})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -274,7 +274,8 @@ func TestImpute_RecoversSlope(t *testing.T) {
 	}
 	meanSub, ml, mi = meanSub/reps, ml/reps, mi/reps
 	if meanSub > 0.45 || math.Abs(ml-0.5) > 0.02 || math.Abs(mi-0.5) > 0.02 {
-		t.Fatalf("average slopes: mean substitution %.3f (want < .45), ML %.3f, MI %.3f (want .5 ± .02)", meanSub, ml, mi)
+		t.Fatalf("average slopes: mean substitution %.3f (want < .45), ML %.3f, MI %.3f (want .5 ± .02)",
+			meanSub, ml, mi)
 	}
 	if rate := float64(covered) / reps; math.Abs(rate-0.95) > 0.05 {
 		t.Fatalf("MI interval coverage %.3f", rate)
@@ -308,11 +309,11 @@ func slopeMeanSubstituted(cols [][]float64) float64 {
 func TestImpute_Deterministic(t *testing.T) {
 	aq := airquality(t)
 	em, _ := EM(context.Background(), aq, Options{})
-	a, err := Impute(context.Background(), aq, em, ImputeOptions{M: 3, Seed: 42})
+	a, err := impute(context.Background(), aq, em, ImputeOptions{M: 3, Seed: 42})
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, _ := Impute(context.Background(), aq, em, ImputeOptions{M: 3, Seed: 42})
+	b, _ := impute(context.Background(), aq, em, ImputeOptions{M: 3, Seed: 42})
 	for k := range a {
 		for j := range a[k] {
 			for i := range a[k][j] {
@@ -335,7 +336,7 @@ func TestEM_Cancelled(t *testing.T) {
 		t.Fatalf("EM: %v", err)
 	}
 	em, _ := EM(context.Background(), aq, Options{})
-	if _, err := Impute(ctx, aq, em, ImputeOptions{M: 2}); !errors.Is(err, context.Canceled) {
+	if _, err := impute(ctx, aq, em, ImputeOptions{M: 2}); !errors.Is(err, context.Canceled) {
 		t.Fatalf("Impute: %v", err)
 	}
 }
