@@ -1,8 +1,3 @@
-// Package load turns a package document and its data into the study the
-// pipeline screens: strict JSON decoding, field rules, cross-references,
-// graphs, CSV rows or printed summary statistics (package-format.md).
-// Every problem found is reported at once, each with its JSON pointer or
-// CSV line and column.
 package load
 
 import (
@@ -71,7 +66,11 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 	if checkLimits(pkg, lim, &ps) {
 		return nil, ps.err()
 	}
-	s := &study{&checks.Study{Package: pkg, Index: indexVariables(pkg, &ps), Printed: printedClaims(doc, len(pkg.Claims))}}
+	s := &study{&checks.Study{
+		Package: pkg,
+		Index:   indexVariables(pkg, &ps),
+		Printed: printedClaims(doc, len(pkg.Claims)),
+	}}
 	for _, v := range pkg.Variables {
 		s.Names = append(s.Names, v.Name)
 	}
@@ -121,12 +120,15 @@ func (s *study) resolveGraphs(ps *problems) {
 	}
 }
 
+// fixedNotEdge reports a fixed edge (from, to) missing from the graph.
+const fixedNotEdge = "%s → %s is not an edge of /graph/edges"
+
 // background collects the required arcs and checks that each fixed edge
 // is an edge of the declared graph.
 func (s *study) background(fixed []dag.Edge, ps *problems) {
 	for i, e := range fixed {
 		if !s.Declared.HasArc(e.From, e.To) {
-			ps.at(pointer("graph", "fixed_edges", i), "%s → %s is not an edge of /graph/edges", s.Names[e.From], s.Names[e.To])
+			ps.at(pointer("graph", "fixed_edges", i), fixedNotEdge, s.Names[e.From], s.Names[e.To])
 			continue
 		}
 		s.Background = append(s.Background, e)
