@@ -12,7 +12,8 @@ import (
 // ErrSeparation is returned when a predictor (or a combination of them)
 // separates the outcome's zeros from its ones, so the maximum likelihood
 // estimate does not exist.
-var ErrSeparation = errors.New("linmod: the outcome is (quasi-)completely separated: the odds ratio cannot be estimated")
+var ErrSeparation = errors.New("linmod: the outcome is (quasi-)completely separated: " +
+	"the odds ratio cannot be estimated")
 
 // ErrNotConverged is returned when IRLS does not settle.
 var ErrNotConverged = errors.New("linmod: the logistic regression did not converge")
@@ -62,8 +63,8 @@ func Logistic(x *mat.Dense, y []float64, level float64) (*LogitFit, error) {
 	z := effects.TQuantile(0.5+level/2, effects.Normal)
 	coef := func(j int) Coef {
 		est, se := beta.AtVec(j), math.Sqrt(cov.At(j, j))
-		s := est / se
-		return Coef{Estimate: est, StdError: se, Stat: s, P: effects.PFromZ(est, se), CI: [2]float64{est - z*se, est + z*se}}
+		ci := [2]float64{est - z*se, est + z*se}
+		return Coef{Estimate: est, StdError: se, Stat: est / se, P: effects.PFromZ(est, se), CI: ci}
 	}
 	fit := &LogitFit{Intercept: coef(0), Coefs: make([]Coef, k), N: n, Iterations: iter, LRDF: k}
 	for j := range k {

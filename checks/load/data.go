@@ -18,33 +18,45 @@ const (
 	diagonalTol = 1e-6
 )
 
+// setField is a field of the data section and whether the package set it.
+type setField struct {
+	name string
+	set  bool
+}
+
+// misplaced reports each set field of fs, which the data kind does not use.
+func misplaced(ps *problems, detail string, fs []setField) {
+	for _, f := range fs {
+		if f.set {
+			ps.at("/data/"+f.name, "%s", detail)
+		}
+	}
+}
+
 // resolveData checks the data section and fills s.Data; it returns the
 // CSV text for the package hash.
 func (s *study) resolveData(opt Options, lim Limits, ps *problems) []byte {
 	d := s.Package.Data
 	if dataKind(d) == checks.DataSummary {
-		for _, f := range []struct {
-			name string
-			set  bool
-		}{{"file", d.File != ""}, {"csv", d.CSV != ""}, {"missing_codes", d.MissingCodes != nil}, {"ignore_columns", d.IgnoreColumns != nil}} {
-			if f.set {
-				ps.at("/data/"+f.name, "is for data of kind rows, not summary")
-			}
-		}
+		misplaced(ps, "is for data of kind rows, not summary", []setField{
+			{"file", d.File != ""},
+			{"csv", d.CSV != ""},
+			{"missing_codes", d.MissingCodes != nil},
+			{"ignore_columns", d.IgnoreColumns != nil},
+		})
 		if opt.CSV != nil {
 			ps.at("/data/kind", "is summary, but CSV data were sent beside the package")
 		}
 		s.Data = summaryData(d, s.Index, len(s.Names), ps)
 		return nil
 	}
-	for _, f := range []struct {
-		name string
-		set  bool
-	}{{"n", d.N != 0}, {"variables", d.Variables != nil}, {"correlations", d.Correlations != nil}, {"sds", d.SDs != nil}, {"means", d.Means != nil}} {
-		if f.set {
-			ps.at("/data/"+f.name, "is for data of kind summary, not rows")
-		}
-	}
+	misplaced(ps, "is for data of kind summary, not rows", []setField{
+		{"n", d.N != 0},
+		{"variables", d.Variables != nil},
+		{"correlations", d.Correlations != nil},
+		{"sds", d.SDs != nil},
+		{"means", d.Means != nil},
+	})
 	text, ok := csvSource(d, opt, lim, ps)
 	if !ok {
 		return nil

@@ -282,7 +282,8 @@ func TestLoad_TextAndDuplicateKeys(t *testing.T) {
 	}
 	for _, tc := range []struct{ old, new, want string }{
 		{`"id": "C1"`, `"id": "C1", "id": "C9"`, `/claims/0/id: the key "id" appears more than once`},
-		{`"kind": "summary"`, `"kind": "summary", "a/b": 1, "a/b": 2`, `/data/a~1b: the key "a/b" appears more than once`},
+		{`"kind": "summary"`, `"kind": "summary", "a/b": 1, "a/b": 2`,
+			`/data/a~1b: the key "a/b" appears more than once`},
 		{`"design": "observational"`, `"design": "observa\u0000tional"`, "/design: contains a NUL character"},
 		{`"kind": "summary"`, `"kind": "summary", "k\u0000": 1`, "/data/k\x00: contains a NUL character"},
 		{`"design": "observational"`, "\"design\": \"observ\xc3\x28tional\"", "/design: is not valid UTF-8 text"},

@@ -86,11 +86,13 @@ func TestLoad_UndeclaredMissingCode(t *testing.T) {
 	}
 	c := checkOf(t, s, "missing-data")
 	reportValid(t, s)
-	if c.Status != checks.StatusWarn || !strings.Contains(c.Findings[0].Message, `Column "y" has the value -999 in 4 rows`) ||
+	if c.Status != checks.StatusWarn ||
+		!strings.Contains(c.Findings[0].Message, `Column "y" has the value -999 in 4 rows`) ||
 		!strings.Contains(c.Findings[0].Message, "/data/missing_codes") {
 		t.Errorf("missing-data: %s %+v", c.Status, c.Findings)
 	}
-	s, err = load.Load([]byte(strings.Replace(doc, "CODES", `, "missing_codes": ["-999"]`, 1)), load.Options{CSV: []byte(b.String())})
+	coded := strings.Replace(doc, "CODES", `, "missing_codes": ["-999"]`, 1)
+	s, err = load.Load([]byte(coded), load.Options{CSV: []byte(b.String())})
 	if err != nil {
 		t.Fatal(err)
 	}

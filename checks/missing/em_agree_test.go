@@ -163,7 +163,8 @@ func TestImputeEach_PanicAndError(t *testing.T) {
 		t.Fatalf("got %v", err)
 	}
 	stop := errors.New("stop")
-	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 1}, func(int, *mat.Dense) error { return stop })
+	fail := func(int, *mat.Dense) error { return stop }
+	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 1}, fail)
 	if !errors.Is(err, stop) {
 		t.Fatalf("got %v", err)
 	}

@@ -99,7 +99,8 @@ func oracle(t *testing.T, s mat.Symmetric, n int, pa [][]int, k nearby.Knowledge
 				if dag.FindCycle(g) != nil || !respects(npa, pa, k) {
 					continue
 				}
-				out = append(out, oracleNeighbour{e: e, pa: npa, delta: wholeBIC(t, s, n, npa) - base, key: dag.CPDAG(g).Key()})
+				delta := wholeBIC(t, s, n, npa) - base
+				out = append(out, oracleNeighbour{e: e, pa: npa, delta: delta, key: dag.CPDAG(g).Key()})
 			}
 		}
 	}
@@ -188,7 +189,8 @@ func compareOracle(t *testing.T, trial int, pa [][]int, want []oracleNeighbour, 
 		classes[o.key] = append(classes[o.key], o)
 	}
 	if got.Equivalent != equivalent || len(got.Classes) != len(classes) {
-		t.Fatalf("trial %d: %d classes and %d equivalent, oracle %d and %d", trial, len(got.Classes), got.Equivalent, len(classes), equivalent)
+		t.Fatalf("trial %d: %d classes and %d equivalent, oracle %d and %d",
+			trial, len(got.Classes), got.Equivalent, len(classes), equivalent)
 	}
 	for i, c := range got.Classes {
 		if i > 0 && c.DeltaBIC < got.Classes[i-1].DeltaBIC-1e-7 {
