@@ -62,7 +62,8 @@ func TestClassSize_AllDAGs(t *testing.T) {
 				members[k]++
 			})
 			if dags != tc.dags || len(members) != tc.classes {
-				t.Fatalf("got %d DAGs in %d classes, want %d in %d", dags, len(members), tc.dags, tc.classes)
+				t.Fatalf("got %d DAGs in %d classes, want %d in %d",
+					dags, len(members), tc.dags, tc.classes)
 			}
 			sum := new(big.Int)
 			for _, c := range reps {
@@ -338,11 +339,13 @@ func TestClassSize_RandomAgainstBruteForce(t *testing.T) {
 			t.Fatal(err)
 		}
 		if got.Int64() != int64(len(plausible)) {
-			t.Fatalf("graph %d (%s) with %v: counted %v, brute force %d", i, g.Key(), req, got, len(plausible))
+			t.Fatalf("graph %d (%s) with %v: counted %v, brute force %d",
+				i, g.Key(), req, got, len(plausible))
 		}
 		listed, truncated, err := Members(c, req, len(plausible)+1)
 		if err != nil || truncated || len(listed) != len(plausible) {
-			t.Fatalf("graph %d: listed %d (truncated %v, %v), want %d", i, len(listed), truncated, err, len(plausible))
+			t.Fatalf("graph %d: listed %d (truncated %v, %v), want %d",
+				i, len(listed), truncated, err, len(plausible))
 		}
 		for _, m := range listed {
 			if _, ok := plausible[m.Key()]; !ok {
@@ -586,8 +589,9 @@ func TestCloseUnderMeek_BackgroundKnowledge(t *testing.T) {
 					}
 				}
 				if always != m.HasArc(u, v) {
-					t.Fatalf("graph %d (%s) with %v: edge %d→%d is in every plausible member %v, closure says %v (%s)",
-						i, g.Key(), req, u, v, always, m.HasArc(u, v), m.Key())
+					const format = "graph %d (%s) with %v: edge %d→%d is in every plausible " +
+						"member %v, closure says %v (%s)"
+					t.Fatalf(format, i, g.Key(), req, u, v, always, m.HasArc(u, v), m.Key())
 				}
 			}
 		}

@@ -28,7 +28,8 @@ func TestEValue_PaperExamples(t *testing.T) {
 	// The closed form: E = RR + sqrt(RR(RR − 1)), reciprocal below 1.
 	for _, rr := range []float64{1, 1.2, 2.5, 10} {
 		want := rr + math.Sqrt(rr*(rr-1))
-		if !scalar.EqualWithinRel(EValue(rr), want, 1e-15) || !scalar.EqualWithinRel(EValue(1/rr), want, 1e-12) {
+		if !scalar.EqualWithinRel(EValue(rr), want, 1e-15) ||
+			!scalar.EqualWithinRel(EValue(1/rr), want, 1e-12) {
 			t.Errorf("E(%v)", rr)
 		}
 	}

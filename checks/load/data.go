@@ -18,6 +18,10 @@ const (
 	diagonalTol = 1e-6
 )
 
+// fileUnreadable is the problem of a data file named where no file can be
+// read.
+const fileUnreadable = "cannot be read here: send the CSV as the multipart part named data, or inline as csv"
+
 // setField is a field of the data section and whether the package set it.
 type setField struct {
 	name string
@@ -96,7 +100,7 @@ func csvSource(d checks.Data, opt Options, lim Limits, ps *problems) ([]byte, bo
 	case opt.CSV != nil:
 		text = opt.CSV
 	case d.File != "" && opt.ReadFile == nil:
-		ps.at("/data/file", "cannot be read here: send the CSV as the multipart part named data, or inline as csv")
+		ps.at("/data/file", "%s", fileUnreadable)
 		return nil, false
 	case d.File != "":
 		b, err := opt.ReadFile(d.File)

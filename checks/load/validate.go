@@ -130,13 +130,16 @@ func proportionHint(fe validator.FieldError) string {
 	return ""
 }
 
+// overLimit reports a count, what it counts, and its limit.
+const overLimit = "has %d %s; the limit is %d"
+
 // checkLimits reports every count above its limit, naming the limit, and
 // whether there was one.
 func checkLimits(pkg *checks.Package, lim Limits, ps *problems) bool {
 	found := false
 	over := func(ptr, what string, n, max int) {
 		if n > max {
-			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf("has %d %s; the limit is %d", n, what, max)})
+			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf(overLimit, n, what, max)})
 			found = true
 		}
 	}

@@ -73,7 +73,8 @@ func TestEM_CompleteData(t *testing.T) {
 			t.Errorf("mean %d", i)
 		}
 		for j := range 3 {
-			if want := cov.At(i, j) * float64(n-1) / float64(n); !scalar.EqualWithinAbs(em.Cov.At(i, j), want, 1e-12) {
+			want := cov.At(i, j) * float64(n-1) / float64(n)
+			if !scalar.EqualWithinAbs(em.Cov.At(i, j), want, 1e-12) {
 				t.Errorf("cov %d,%d = %v, want %v", i, j, em.Cov.At(i, j), want)
 			}
 		}
@@ -156,7 +157,8 @@ func TestLittleMCAR_Airquality(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !scalar.EqualWithinAbs(lt.ChiSquare, 35.106, 5e-4) || lt.DF != 14 || !scalar.EqualWithinAbs(lt.P, .00142, 5e-6) {
+	if !scalar.EqualWithinAbs(lt.ChiSquare, 35.106, 5e-4) || lt.DF != 14 ||
+		!scalar.EqualWithinAbs(lt.P, .00142, 5e-6) {
 		t.Fatalf("d² = %.4f on %d df, p = %.5f", lt.ChiSquare, lt.DF, lt.P)
 	}
 	if s := Summarize(aq); s.Patterns != 4 || s.Rows != 153 || s.CompleteRows != 111 || s.MissingCells != 44 ||

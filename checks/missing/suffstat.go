@@ -202,7 +202,8 @@ func (d *emData) addRows(sums blas64.Symmetric, g *group, r int) int {
 			row[j] *= sw
 		}
 		if r++; r == blockRows {
-			blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: d.buf}, 1, sums)
+			block := blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: d.buf}
+			blas64.Syrk(blas.Trans, 1, block, 1, sums)
 			r = 0
 		}
 	}

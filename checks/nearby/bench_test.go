@@ -67,7 +67,8 @@ func BenchmarkNeighbours(b *testing.B) {
 		b.Run(fmt.Sprint(p), func(b *testing.B) {
 			for b.Loop() {
 				m := nearby.Model{S: s, N: 1000}
-				if _, err := nearby.Neighbours(context.Background(), m, pa, nearby.Knowledge{}); err != nil {
+				_, err := nearby.Neighbours(context.Background(), m, pa, nearby.Knowledge{})
+				if err != nil {
 					b.Fatal(err)
 				}
 			}
@@ -81,7 +82,8 @@ func BenchmarkSearch(b *testing.B) {
 		b.Run(fmt.Sprint(p), func(b *testing.B) {
 			for b.Loop() {
 				m := nearby.Model{S: s, N: 1000}
-				if _, err := nearby.Search(context.Background(), m, pa, nearby.Knowledge{}); err != nil {
+				_, err := nearby.Search(context.Background(), m, pa, nearby.Knowledge{})
+				if err != nil {
 					b.Fatal(err)
 				}
 			}

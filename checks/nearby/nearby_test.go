@@ -198,14 +198,16 @@ func compareOracle(t *testing.T, trial int, pa [][]int, want []oracleNeighbour, 
 		}
 		members := classes[dag.CPDAG(toPDAG(nearby.Apply(pa, c.Edits[0]))).Key()]
 		if len(members) != len(c.Edits) {
-			t.Fatalf("trial %d: class of %v has %d edits, oracle %d", trial, c.Edits[0], len(c.Edits), len(members))
+			t.Fatalf("trial %d: class of %v has %d edits, oracle %d",
+				trial, c.Edits[0], len(c.Edits), len(members))
 		}
 		for j, o := range members {
 			if o.e != c.Edits[j] {
 				t.Errorf("trial %d: edit %d of the class is %v, oracle %v", trial, j, c.Edits[j], o.e)
 			}
 			if !scalar.EqualWithinAbsOrRel(c.DeltaBIC, o.delta, 1e-10, 1e-10) {
-				t.Errorf("trial %d: %v ΔBIC %.12g, whole-model difference %.12g", trial, o.e, c.DeltaBIC, o.delta)
+				t.Errorf("trial %d: %v ΔBIC %.12g, whole-model difference %.12g",
+					trial, o.e, c.DeltaBIC, o.delta)
 			}
 		}
 	}
@@ -231,7 +233,8 @@ func TestNeighbours_ClosedFormRemoval(t *testing.T) {
 				if e.Op != nearby.Remove {
 					continue
 				}
-				others := slices.DeleteFunc(slices.Clone(pa[e.To]), func(u int) bool { return u == e.From })
+				isFrom := func(u int) bool { return u == e.From }
+				others := slices.DeleteFunc(slices.Clone(pa[e.To]), isFrom)
 				pr, err := linmod.PartialCorrelation(s, e.To, e.From, others)
 				if err != nil {
 					t.Fatal(err)

@@ -143,7 +143,8 @@ func TestNoncentralChiSquared_Scipy(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, c := range ref.NCX2 {
-		if got := NoncentralChiSquaredCDF(c.X, c.DF, c.NC); !scalar.EqualWithinAbsOrRel(got, c.CDF, 1e-9, 1e-8) {
+		got := NoncentralChiSquaredCDF(c.X, c.DF, c.NC)
+		if !scalar.EqualWithinAbsOrRel(got, c.CDF, 1e-9, 1e-8) {
 			t.Errorf("ncx2 cdf(%v; %v, %v) = %.12g, scipy %.12g", c.X, c.DF, c.NC, got, c.CDF)
 		}
 	}
@@ -152,7 +153,8 @@ func TestNoncentralChiSquared_Scipy(t *testing.T) {
 	for _, c := range ref.NCX2PPF {
 		got, _ := noncentrality(context.Background(), c.PPF, c.DF, c.Q)
 		if !scalar.EqualWithinAbsOrRel(got, c.NC, 1e-6, 1e-6) {
-			t.Errorf("noncentrality for ppf %.6g (q %v, df %v) = %.8g, want %v", c.PPF, c.Q, c.DF, got, c.NC)
+			t.Errorf("noncentrality for ppf %.6g (q %v, df %v) = %.8g, want %v",
+				c.PPF, c.Q, c.DF, got, c.NC)
 		}
 	}
 }
