@@ -36,23 +36,16 @@ func parseInterspersed(fs *flag.FlagSet, args []string) ([]string, error) {
 // runCheck is `pathvet check`: screen a package offline and print the
 // report.
 func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("check", flag.ContinueOnError)
-	fs.SetOutput(stderr)
+	fs := newCommand("check", checkUsage, stdout, stderr)
 	format := fs.String("format", "text", "report format: text or json")
 	out := fs.String("out", "", "write the report to this file instead of standard output")
 	failUnder := fs.Int("fail-under", 0, "exit with status 1 when the score is below this")
 	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
 	quiet := fs.Bool("quiet", false, "draw no progress line on standard error")
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, "Usage: pathvet check [flags] PACKAGE.json\n\nScreens a submission package offline and prints its report.\nExit status: 0 report made, 1 score below --fail-under, 2 invalid package.\n\nFlags:")
-		fs.PrintDefaults()
-	}
-	pos, err := parseInterspersed(fs, args)
+	pos, code, ok := fs.parse(args)
 	switch {
-	case errors.Is(err, flag.ErrHelp):
-		return exitOK
-	case err != nil:
-		return exitInvalid
+	case !ok:
+		return code
 	case len(pos) != 1:
 		fmt.Fprintln(stderr, "pathvet check: give exactly one package file")
 		return exitInvalid
