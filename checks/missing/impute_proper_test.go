@@ -37,7 +37,7 @@ func TestImpute_ProperBetweenVariance(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		imps, err := Impute(context.Background(), [][]float64{y}, em, ImputeOptions{M: m, Seed: uint64(d)})
+		imps, err := impute(context.Background(), [][]float64{y}, em, ImputeOptions{M: m, Seed: uint64(d)})
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -94,7 +94,7 @@ func TestImpute_BinaryKeepsPrevalence(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	imps, err := Impute(context.Background(), cols, em, ImputeOptions{M: m, Seed: 11, Binary: []bool{true}})
+	imps, err := impute(context.Background(), cols, em, ImputeOptions{M: m, Seed: 11, Binary: []bool{true}})
 	if err != nil {
 		t.Fatal(err)
 	}
