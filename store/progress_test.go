@@ -51,7 +51,8 @@ func TestWorkers_ProgressWhileRunning(t *testing.T) {
 	close(release)
 	done := waitStatus(t, db, s.ID, k.Scope(), service.StatusDone)
 	var stage *string
-	if err := db.Pool.QueryRow(ctx, `SELECT progress_stage FROM submissions WHERE id = $1`, s.ID).Scan(&stage); err != nil {
+	err = db.Pool.QueryRow(ctx, `SELECT progress_stage FROM submissions WHERE id = $1`, s.ID).Scan(&stage)
+	if err != nil {
 		t.Fatal(err)
 	}
 	if done.Progress != nil || stage != nil {
@@ -81,7 +82,8 @@ func waitProgress(t *testing.T, db *store.DB, id string, sc service.Scope, done 
 func TestDB_SetProgressOnlyWhileRunning(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	k, _ := mustKey(t, db, "Office Q", service.RoleEditor)
-	s, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: []byte(`{}`), Title: "t", PackageSHA256: "h"})
+	s, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: []byte(`{}`), Title: "t",
+		PackageSHA256: "h"})
 	if err != nil {
 		t.Fatal(err)
 	}
