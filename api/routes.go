@@ -37,6 +37,25 @@ func (s *Server) routes() {
 	v1.GET("/webhook", s.getWebhook, auth, editorOnly)
 	v1.DELETE("/webhook", s.deleteWebhook, auth, editorOnly)
 	v1.GET("/webhook/deliveries", s.listDeliveries, auth, editorOnly)
+
+	if s.cfg.Web != nil {
+		s.webRoutes()
+	}
+}
+
+// webRoutes registers the web workspace: pages for a browser with a
+// session (sign-in at /), every form behind a CSRF token.
+func (s *Server) webRoutes() {
+	e := s.echo
+	page := []echo.MiddlewareFunc{s.webPage, middleware.BodyLimit("64K"), tokenOnly, s.csrf(), s.withSession}
+	signedIn := append(page[:len(page):len(page)], requireSession)
+	e.GET("/", s.home, page...)
+	e.POST("/session", s.signIn, page...)
+	e.POST("/session/end", s.signOut, page...)
+	e.GET("/submissions/:id", s.webSubmission, signedIn...)
+	e.GET("/submissions/:id/letter.md", s.webLetter, signedIn...)
+	e.POST("/submissions/:id/rerun", s.webRerun, signedIn...)
+	e.POST("/submissions/:id/delete", s.webDelete, signedIn...)
 }
 
 func (s *Server) healthz(c echo.Context) error {

@@ -43,6 +43,13 @@ type Config struct {
 	// PollInterval is how often a long poll looks at the submission.
 	PollInterval time.Duration
 	Metrics      *Metrics
+	// Web is the web workspace's storage; without it the workspace's
+	// routes are not served. TLSProxy: the server sits behind a
+	// TLS-terminating proxy (Secure cookies; the client address from
+	// X-Forwarded-For). SessionTTL is how long a sign-in lasts.
+	Web        WebStore
+	TLSProxy   bool
+	SessionTTL time.Duration
 	// LargeIngests is how many uploads of LargeIngestBytes or more may be
 	// read at once (default 1); each can hold several times its size in
 	// memory while it is read, checked and stored.
@@ -83,6 +90,9 @@ func New(cfg Config) *Server {
 	}
 	if cfg.PollInterval == 0 {
 		cfg.PollInterval = 200 * time.Millisecond
+	}
+	if cfg.SessionTTL == 0 {
+		cfg.SessionTTL = 12 * time.Hour
 	}
 	if cfg.LargeIngests <= 0 {
 		cfg.LargeIngests = 1

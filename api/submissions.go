@@ -13,6 +13,7 @@ import (
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 // SubmissionView is a submission as the API shows it.
@@ -233,7 +234,7 @@ func (s *Server) getReport(c echo.Context) error {
 	write, ok := map[string]struct {
 		ctype string
 		fn    func(io.Writer, *checks.Report) error
-	}{"text": {echo.MIMETextPlainCharsetUTF8, checks.WriteText}, "html": {echo.MIMETextHTMLCharsetUTF8, writeHTML}}[format]
+	}{"text": {echo.MIMETextPlainCharsetUTF8, render.WriteText}, "html": {echo.MIMETextHTMLCharsetUTF8, writeHTML}}[format]
 	if !ok {
 		return problemError(http.StatusBadRequest, "format must be json, text or html.")
 	}

@@ -13,6 +13,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 func toolVersion() string { return checks.ToolVersion }
@@ -37,7 +38,7 @@ func parseInterspersed(fs *flag.FlagSet, args []string) ([]string, error) {
 // report.
 func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := newCommand("check", checkUsage, stdout, stderr)
-	format := fs.String("format", "text", "report format: text or json")
+	format := fs.String("format", "text", "report format: text, json or html (one self-contained page)")
 	out := fs.String("out", "", "write the report to this file instead of standard output")
 	failUnder := fs.Int("fail-under", 0, "exit with status 1 when the score is below this")
 	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
@@ -49,8 +50,8 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	case len(pos) != 1:
 		fmt.Fprintln(stderr, "pathvet check: give exactly one package file")
 		return exitInvalid
-	case *format != "text" && *format != "json":
-		fmt.Fprintf(stderr, "pathvet check: --format is text or json, not %q\n", *format)
+	case *format != "text" && *format != "json" && *format != "html":
+		fmt.Fprintf(stderr, "pathvet check: --format is text, json or html, not %q\n", *format)
 		return exitInvalid
 	case *alpha <= 0 || *alpha >= 1:
 		fmt.Fprintln(stderr, "pathvet check: --alpha must lie strictly between 0 and 1")
@@ -113,14 +114,18 @@ func readBeside(dir, name string) ([]byte, error) {
 
 func writeReport(rep *checks.Report, format, out string, stdout io.Writer) error {
 	var b strings.Builder
-	if format == "json" {
+	if format == "html" {
+		if err := render.WritePage(&b, rep, render.PageOptions{}); err != nil {
+			return err
+		}
+	} else if format == "json" {
 		enc := json.NewEncoder(&b)
 		enc.SetIndent("", "  ")
 		enc.SetEscapeHTML(false)
 		if err := enc.Encode(rep); err != nil {
 			return err
 		}
-	} else if err := checks.WriteText(&b, rep); err != nil {
+	} else if err := render.WriteText(&b, rep); err != nil {
 		return err
 	}
 	if out == "" {

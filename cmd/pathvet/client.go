@@ -143,9 +143,10 @@ Sends a package (and the CSV file its data.file names) for screening and
 prints the submission's id and status, or with --wait its report.
 The API key comes from PATHVET_TOKEN.`
 
-const reportUsage = `Usage: pathvet report [--server URL] [--format text|json] ID
+const reportUsage = `Usage: pathvet report [--server URL] [--format text|json] [--letter] ID
 
-Prints the newest report of a submission. The API key comes from PATHVET_TOKEN.`
+Prints the newest report of a submission, or with --letter its questions for
+the authors as Markdown. The API key comes from PATHVET_TOKEN.`
 
 // runSubmit is `pathvet submit --server URL PACKAGE.json [--wait]`.
 func runSubmit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -222,9 +223,13 @@ func runReport(ctx context.Context, args []string, stdout, stderr io.Writer) int
 	fs := newCommand("report", reportUsage, stdout, stderr)
 	server := serverFlag(fs)
 	format := fs.String("format", "text", "text or json")
+	letter := fs.Bool("letter", false, "print the questions for the authors as Markdown instead")
 	c, pos, code := clientArgs(fs, args, server)
 	if c == nil {
 		return code
+	}
+	if *letter {
+		return printLetter(ctx, c, pos[0], stdout, stderr)
 	}
 	return printReport(ctx, c, pos[0], *format, stdout, stderr)
 }

@@ -57,6 +57,11 @@ func TestCommands_KeysSubmitReport(t *testing.T) {
 	if code != exitOK || json.Unmarshal([]byte(out), &rep) != nil || rep["band"] == nil {
 		t.Fatalf("report: %d %.200q", code, out)
 	}
+	code, out, _ = runCLI("report", "--server", m.URL(), "--letter", id)
+	if code != exitOK || !strings.HasPrefix(out, "# Questions for the authors") || !strings.Contains(out, "1. ") ||
+		!strings.Contains(out, rep["package_sha256"].(string)) {
+		t.Fatalf("report --letter: %d %.300q", code, out)
+	}
 	code, _, errOut = runCLI("submit", "--server", m.URL(), "../../testdata/bad/cycle.json")
 	if code != exitInvalid || !strings.Contains(errOut, "/graph/edges: has a cycle") {
 		t.Fatalf("invalid package: %d %q", code, errOut)

@@ -34,6 +34,8 @@ type Config struct {
 	// large uploads the API reads at once.
 	JobMemoryMiB int64
 	LargeIngests int
+	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
+	TLSProxy bool
 	// checks replaces the pipeline the workers run (tests only).
 	checks []checks.Check
 }
@@ -56,6 +58,7 @@ func defaultConfig(getenv func(string) string) Config {
 		JobMemoryMiB: 900,
 		LargeIngests: 1,
 	}
+	c.TLSProxy = getenv("PATHVET_BEHIND_TLS") == "true"
 	if v := getenv("PATHVET_ADDR"); v != "" {
 		c.Addr = v
 	}
@@ -88,6 +91,8 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 	if serve {
 		fs.StringVar(&c.Addr, "addr", c.Addr, "listen address (PATHVET_ADDR)")
 		fs.IntVar(&c.LargeIngests, "large-ingests", c.LargeIngests, "uploads of 8 MiB or more read at once; more get 503")
+		fs.BoolVar(&c.TLSProxy, "behind-tls", c.TLSProxy,
+			"served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)")
 	}
 	fs.Int64Var(&c.JobMemoryMiB, "job-memory-mib", c.JobMemoryMiB,
 		"memory one screening job may use; larger raw data is refused with the estimate (PATHVET_JOB_MEMORY_MIB)")
@@ -112,9 +117,9 @@ var serveUsage = map[string]string{
 	"serve": `Usage: pathvet serve [--database-url URL] [--addr HOST:PORT] [--workers N] [--job-timeout D]
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
        [--large-ingests N] [--job-memory-mib N]
-       [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N]
+       [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N] [--behind-tls]
 
-Serves the HTTP API and, unless --workers 0, screens submissions in-process.
+Serves the HTTP API and the web workspace and, unless --workers 0, screens submissions in-process.
 SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
 one stops it at once.`,
 	"work": `Usage: pathvet work [--database-url URL] [--workers N] [--job-timeout D]

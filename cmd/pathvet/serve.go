@@ -79,7 +79,7 @@ func (m *Main) Run(ctx context.Context) error {
 	if !m.serve {
 		return nil
 	}
-	srv := api.New(api.Config{Store: db, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics,
+	srv := api.New(api.Config{Store: db, Web: db, TLSProxy: m.Config.TLSProxy, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics,
 		LargeIngests: m.Config.LargeIngests, JobMemory: m.Config.JobMemoryMiB << 20})
 	m.API = srv
 	m.ln, err = net.Listen("tcp", m.Config.Addr)
