@@ -31,7 +31,20 @@ type SubmissionView struct {
 	Reports       int       `json:"reports"`
 	CreatedAt     time.Time `json:"created_at"`
 	UpdatedAt     time.Time `json:"updated_at"`
-	Links         Links     `json:"links"`
+	// Progress is shown while the submission runs and its worker has
+	// written how far it is.
+	Progress *ProgressView `json:"progress,omitempty"`
+	Links    Links         `json:"links"`
+}
+
+// ProgressView is how far a running screening is: its stage (the check
+// about to run, or a long step inside one), the units of that stage done
+// and in all, and when the worker last wrote it.
+type ProgressView struct {
+	Stage     string    `json:"stage"`
+	Done      int       `json:"done"`
+	Total     int       `json:"total"`
+	UpdatedAt time.Time `json:"updated_at"`
 }
 
 // Links point to a submission and its report.
@@ -46,7 +59,24 @@ func view(s *service.Submission) SubmissionView {
 		SubmittedBy:   s.SubmittedBy,
 		PackageSHA256: s.PackageSHA256, Score: s.Score, Band: s.Band, Error: s.Error, Attempts: s.Attempts,
 		Reports: s.Reports, CreatedAt: s.CreatedAt, UpdatedAt: s.UpdatedAt,
-		Links: Links{Self: self, Report: self + "/report"}}
+		Progress: progressView(s), Links: Links{Self: self, Report: self + "/report"}}
+}
+
+func progressView(s *service.Submission) *ProgressView {
+	p := s.Progress
+	if p == nil || s.Status != service.StatusRunning {
+		return nil
+	}
+	return &ProgressView{Stage: p.Stage, Done: p.Done, Total: p.Total, UpdatedAt: p.UpdatedAt}
+}
+
+// cells counts a study's raw data cells, rows × columns (0 for summary
+// statistics), which scale its job's deadline.
+func cells(s *checks.Study) int64 {
+	if s.Data == nil || s.Data.Kind != checks.DataRows {
+		return 0
+	}
+	return int64(s.Data.N) * int64(len(s.Data.Columns))
 }
 
 func mustJSON(v any) []byte {
@@ -79,6 +109,7 @@ func (s *Server) createSubmission(c echo.Context) error {
 	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), service.NewSubmission{
 		Key: keyOf(c), Package: doc, Data: data, Title: study.Package.Title,
 		ManuscriptID: study.Package.ManuscriptID, PackageSHA256: study.SHA256, IdempotencyKey: idem,
+		Cells: cells(study),
 	})
 	if err != nil {
 		return err

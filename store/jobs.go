@@ -21,6 +21,9 @@ import (
 // ScreenArgs is the job that screens one submission.
 type ScreenArgs struct {
 	SubmissionID string `json:"submission_id"`
+	// Cells counts the package's raw data cells; the deadline grows with
+	// it (WorkerConfig.JobTimeout).
+	Cells int64 `json:"cells,omitempty"`
 }
 
 // Kind names the job kind in the queue.
@@ -30,8 +33,14 @@ func (ScreenArgs) Kind() string { return "screen_submission" }
 // them.
 func (ScreenArgs) InsertOpts() river.InsertOpts { return river.InsertOpts{MaxAttempts: 4} }
 
-// ScreenFunc runs the pipeline on a stored package and its data.
-type ScreenFunc func(ctx context.Context, pkg, data []byte) (*checks.Report, error)
+// ScreenFunc runs the pipeline on a stored package and its data, telling
+// progress how far it is (a checks.Options.Progress: calls come one at a
+// time, from any goroutine, and return at once).
+type ScreenFunc func(ctx context.Context, pkg, data []byte, progress ProgressFunc) (*checks.Report, error)
+
+// ProgressFunc hears a screening's stage and how many of its units are
+// done.
+type ProgressFunc func(stage string, done, total int)
 
 // ErrPermanent marks a screening error that no retry can mend (an invalid
 // package, say).
@@ -40,9 +49,15 @@ var ErrPermanent = errors.New("permanent")
 // WorkerConfig configures the queue's workers.
 type WorkerConfig struct {
 	Workers int           // concurrent jobs in this process
-	Timeout time.Duration // per job
+	Timeout time.Duration // per job, before the term for its size
+	// PerTenMillionCells is added to a job's deadline per 10 million data
+	// cells, counted up to MaxCells (the most a package can have under the
+	// limits; 0 counts none).
+	PerTenMillionCells time.Duration
+	MaxCells           int64
 	// RescueAfter is how long a job may stay running before it counts as
-	// stuck (its worker died) and is retried.
+	// stuck (its worker died) and is retried; StartWorkers raises it past
+	// the largest deadline.
 	RescueAfter time.Duration
 	Logger      *slog.Logger
 	Screen      ScreenFunc
@@ -63,7 +78,10 @@ type screenWorker struct {
 	gate *gate
 }
 
-func (w *screenWorker) Timeout(*river.Job[ScreenArgs]) time.Duration { return w.cfg.Timeout }
+// Timeout is the job's deadline: the base and the term for its size.
+func (w *screenWorker) Timeout(job *river.Job[ScreenArgs]) time.Duration {
+	return w.cfg.JobTimeout(job.Args.Cells)
+}
 
 // Work screens the submission and stores the report. A submission deleted
 // meanwhile ends the job quietly; the last failed attempt marks the
@@ -81,7 +99,7 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 	if err != nil {
 		return err
 	}
-	rep, err := w.cfg.Screen(ctx, pkg, data)
+	rep, err := w.screen(ctx, id, pkg, data)
 	if err == nil {
 		err = w.db.SaveReport(ctx, id, rep, time.Since(start))
 	}
@@ -178,9 +196,10 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 	every := cmp.Or(cfg.ReconcileEvery, reconcileEvery)
 	periodic := river.NewPeriodicJob(river.PeriodicInterval(every),
 		func() (river.JobArgs, *river.InsertOpts) { return ReconcileArgs{}, nil }, &river.PeriodicJobOpts{RunOnStart: true})
-	rescue := cfg.RescueAfter
-	if rescue < cfg.Timeout {
-		rescue = cfg.Timeout + time.Minute
+	rescue := cfg.rescueAfter()
+	if cfg.RescueAfter > 0 && rescue != cfg.RescueAfter {
+		cmp.Or(cfg.Logger, slog.Default()).Info("rescue-after raised past the largest job deadline",
+			"rescue_after", rescue.String(), "largest_deadline", cfg.JobTimeout(cfg.MaxCells).String())
 	}
 	client, err := river.NewClient(riverpgxv5.New(db.Pool), &river.Config{
 		Queues:               map[string]river.QueueConfig{river.QueueDefault: {MaxWorkers: max(cfg.Workers, 1)}},

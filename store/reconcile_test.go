@@ -89,7 +89,7 @@ func TestWorkers_ShutdownReleasesUnspent(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	k, _ := mustKey(t, db, "Office U", service.RoleEditor)
 	started := make(chan struct{}, 1)
-	block := func(ctx context.Context, _, _ []byte) (*checks.Report, error) {
+	block := func(ctx context.Context, _, _ []byte, _ store.ProgressFunc) (*checks.Report, error) {
 		started <- struct{}{}
 		<-ctx.Done()
 		return nil, ctx.Err()

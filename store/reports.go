@@ -15,8 +15,8 @@ import (
 // Claim marks a submission running for one more attempt and returns its
 // package and data. A submission deleted meanwhile is not found.
 func (db *DB) Claim(ctx context.Context, id string) (pkg, data []byte, err error) {
-	err = db.Pool.QueryRow(ctx, `UPDATE submissions SET status = 'running', attempts = attempts + 1, updated_at = $2
-		WHERE id = $1 RETURNING package, data`, id, db.now()).Scan(&pkg, &data)
+	err = db.Pool.QueryRow(ctx, `UPDATE submissions SET status = 'running', attempts = attempts + 1, updated_at = $2,
+		`+clearProgress+` WHERE id = $1 RETURNING package, data`, id, db.now()).Scan(&pkg, &data)
 	return pkg, data, dbError(err, "submission")
 }
 
@@ -33,7 +33,7 @@ func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, too
 			id, string(b), rep.Score, rep.Band, rep.ToolVersion, took.Milliseconds(), now); err != nil {
 			return err
 		}
-		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2,
+		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2, `+clearProgress+`,
 			latest_score = $3, latest_band = $4, report_count = report_count + 1 WHERE id = $1`, id, now, rep.Score, rep.Band)
 		if err != nil {
 			return err
@@ -53,7 +53,7 @@ func (db *DB) MarkFailed(ctx context.Context, id, reason string) error {
 // office's webhook, in one transaction.
 func (db *DB) fail(ctx context.Context, id, reason, cond string) error {
 	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
-		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3
+		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3, `+clearProgress+`
 			WHERE id = $1 AND `+cond, id, reason, db.now())
 		if err != nil || tag.RowsAffected() == 0 {
 			return err
@@ -66,7 +66,7 @@ func (db *DB) fail(ctx context.Context, id, reason, cond string) error {
 // NoteAttemptError records the error of an attempt that will be retried;
 // the submission goes back to queued.
 func (db *DB) NoteAttemptError(ctx context.Context, id, reason string) error {
-	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'queued', error = $2, updated_at = $3
+	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'queued', error = $2, updated_at = $3, `+clearProgress+`
 		WHERE id = $1 AND status = 'running'`, id, reason, db.now())
 	return dbError(err, "submission")
 }

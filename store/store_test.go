@@ -251,13 +251,13 @@ func TestWorkers(t *testing.T) {
 	t.Run("KilledWorkerJobIsRetried", func(t *testing.T) {
 		var calls atomic.Int32
 		started := make(chan struct{}, 1)
-		stuck := func(ctx context.Context, pkg, data []byte) (*checks.Report, error) {
+		stuck := func(ctx context.Context, pkg, data []byte, _ store.ProgressFunc) (*checks.Report, error) {
 			if calls.Add(1) == 1 {
 				started <- struct{}{}
 				<-ctx.Done() // the first worker is killed mid-job
 				return nil, ctx.Err()
 			}
-			return screen(ctx, pkg, data)
+			return screen(ctx, pkg, data, nil)
 		}
 		first, err := db.StartWorkers(ctx, store.WorkerConfig{Workers: 1, Timeout: time.Minute, Screen: stuck})
 		if err != nil {
@@ -281,10 +281,10 @@ func TestWorkers(t *testing.T) {
 }
 
 // screenDemo is the workers' job in these tests: load and screen.
-func screenDemo(ctx context.Context, pkg, _ []byte) (*checks.Report, error) {
+func screenDemo(ctx context.Context, pkg, _ []byte, progress store.ProgressFunc) (*checks.Report, error) {
 	s, err := load.Load(pkg, load.Options{})
 	if err != nil {
 		return nil, errors.Join(store.ErrPermanent, err)
 	}
-	return checks.Run(ctx, s, checks.Options{})
+	return checks.Run(ctx, s, checks.Options{Progress: progress})
 }

@@ -18,17 +18,37 @@ import (
 var uuidRE = regexp.MustCompile(`^[0-9a-fA-F]{8}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{12}$`)
 
 const submissionColumns = `s.id, s.office_id, s.submitter_key_id, sk.label, s.manuscript_id, s.title, s.package_sha256,
-	s.status, s.error, s.attempts, s.latest_score, s.latest_band, s.report_count, s.created_at, s.updated_at`
+	s.status, s.error, s.attempts, s.latest_score, s.latest_band, s.report_count, s.created_at, s.updated_at,
+	s.progress_stage, s.progress_done, s.progress_total, s.progress_at`
 
 // submissionFrom joins the key that sent each submission, for its label.
 const submissionFrom = ` FROM submissions s JOIN api_keys sk ON sk.id = s.submitter_key_id`
 
 func scanSubmission(row pgx.Row) (*service.Submission, error) {
 	s := &service.Submission{}
+	var stage *string
+	var done, total *int
+	var at *time.Time
 	err := row.Scan(&s.ID, &s.OfficeID, &s.SubmitterKeyID, &s.SubmittedBy, &s.ManuscriptID, &s.Title, &s.PackageSHA256,
-		&s.Status, &s.Error, &s.Attempts, &s.Score, &s.Band, &s.Reports, &s.CreatedAt, &s.UpdatedAt)
+		&s.Status, &s.Error, &s.Attempts, &s.Score, &s.Band, &s.Reports, &s.CreatedAt, &s.UpdatedAt,
+		&stage, &done, &total, &at)
+	if err == nil && stage != nil && done != nil && total != nil && at != nil && s.Status == service.StatusRunning {
+		s.Progress = &service.Progress{Stage: *stage, Done: *done, Total: *total, UpdatedAt: at.UTC()}
+	}
 	return s, err
 }
+
+// SetProgress records how far a running screening is; it does nothing
+// once the submission is no longer running.
+func (db *DB) SetProgress(ctx context.Context, id, stage string, done, total int) error {
+	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET progress_stage = $2, progress_done = $3, progress_total = $4,
+		progress_at = $5 WHERE id = $1 AND status = 'running'`, id, stage, done, total, db.now())
+	return dbError(err, "submission")
+}
+
+// clearProgress is the SET clause that forgets a screening's progress,
+// for the statements that end an attempt.
+const clearProgress = `progress_stage = NULL, progress_done = NULL, progress_total = NULL, progress_at = NULL`
 
 // CreateSubmission stores a submission and queues its screening in one
 // transaction. With an idempotency key already used by the same API key it
@@ -45,11 +65,11 @@ func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (
 		var id string
 		err := tx.QueryRow(ctx, `
 			INSERT INTO submissions (id, office_id, submitter_key_id, manuscript_id, title, package, data,
-				package_sha256, status, idempotency_key, created_at, updated_at)
-			VALUES (gen_random_uuid(), $1, $2, $3, $4, $5, $6, $7, 'queued', $8, $9, $9)
+				package_sha256, status, idempotency_key, created_at, updated_at, cells)
+			VALUES (gen_random_uuid(), $1, $2, $3, $4, $5, $6, $7, 'queued', $8, $9, $9, $10)
 			ON CONFLICT (submitter_key_id, idempotency_key) DO NOTHING
 			RETURNING id`, n.Key.OfficeID, n.Key.ID, n.ManuscriptID, n.Title, n.Package, n.Data,
-			n.PackageSHA256, idem, now).Scan(&id)
+			n.PackageSHA256, idem, now, n.Cells).Scan(&id)
 		if errors.Is(err, pgx.ErrNoRows) {
 			replayed = true
 			sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
@@ -63,7 +83,7 @@ func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (
 		if err != nil {
 			return err
 		}
-		if _, err := db.queue.InsertTx(ctx, tx, ScreenArgs{SubmissionID: id}, nil); err != nil {
+		if _, err := db.queue.InsertTx(ctx, tx, ScreenArgs{SubmissionID: id, Cells: n.Cells}, nil); err != nil {
 			return fmt.Errorf("queue: %w", err)
 		}
 		sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+` WHERE s.id = $1`, id))
@@ -189,15 +209,16 @@ func (db *DB) Rerun(ctx context.Context, id string, sc service.Scope) (*service.
 	}
 	var sub *service.Submission
 	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
-		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'queued', error = '', updated_at = $2
-			WHERE id = $1 AND status IN ('done', 'failed')`, id, db.now())
+		var cells int64
+		err := tx.QueryRow(ctx, `UPDATE submissions SET status = 'queued', error = '', updated_at = $2
+			WHERE id = $1 AND status IN ('done', 'failed') RETURNING cells`, id, db.now()).Scan(&cells)
+		if errors.Is(err, pgx.ErrNoRows) {
+			return service.Errorf(service.EConflict, "the submission is still queued or running")
+		}
 		if err != nil {
 			return err
 		}
-		if tag.RowsAffected() == 0 {
-			return service.Errorf(service.EConflict, "the submission is still queued or running")
-		}
-		if _, err := db.queue.InsertTx(ctx, tx, ScreenArgs{SubmissionID: id}, nil); err != nil {
+		if _, err := db.queue.InsertTx(ctx, tx, ScreenArgs{SubmissionID: id, Cells: cells}, nil); err != nil {
 			return fmt.Errorf("queue: %w", err)
 		}
 		sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+` WHERE s.id = $1`, id))

@@ -44,3 +44,7 @@ func CheckMemory(csv []byte, budget int64) error {
 		"the workers are given %d MiB: send fewer rows or columns, or raise the workers' memory",
 		rows, cols, need>>20, budget>>20)
 }
+
+// MaxCells is the most CSV cells whose screening fits a budget of bytes
+// (the inverse of WorkingMemory), 0 when it holds not even the base.
+func MaxCells(budget int64) int64 { return max(budget-memoryBase, 0) / bytesPerCell }

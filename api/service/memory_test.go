@@ -42,3 +42,17 @@ func TestCheckMemory(t *testing.T) {
 		t.Fatalf("over budget: %v", err)
 	}
 }
+
+// MaxCells inverts WorkingMemory: the cells it allows fit the budget, one
+// more does not.
+func TestMaxCells(t *testing.T) {
+	for _, budget := range []int64{900 << 20, 2 << 30, memoryBase + 399, memoryBase + 400} {
+		n := MaxCells(budget)
+		if WorkingMemory(1, int(n)) > budget || WorkingMemory(1, int(n+1)) <= budget {
+			t.Errorf("budget %d: MaxCells %d does not invert WorkingMemory", budget, n)
+		}
+	}
+	if n := MaxCells(1 << 20); n != 0 {
+		t.Errorf("a budget below the base allows %d cells, want 0", n)
+	}
+}

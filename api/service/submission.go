@@ -35,6 +35,18 @@ type Submission struct {
 	Reports   int
 	CreatedAt time.Time
 	UpdatedAt time.Time
+	// Progress is how far a running screening is; nil when it is not
+	// running or has not yet reported.
+	Progress *Progress
+}
+
+// Progress is how far a running screening is: its stage (the check about
+// to run, or a long step inside one) and how many of the stage's units
+// are done, as the worker last wrote it.
+type Progress struct {
+	Stage       string
+	Done, Total int
+	UpdatedAt   time.Time
 }
 
 // NewSubmission is what a store keeps for a new submission.
@@ -45,6 +57,9 @@ type NewSubmission struct {
 	ManuscriptID   string
 	PackageSHA256  string
 	IdempotencyKey string
+	// Cells counts the raw data's cells (rows × columns; 0 for summary
+	// statistics): a job's deadline grows with it.
+	Cells int64
 }
 
 // Filter selects submissions for a listing.

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"time"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
 )
@@ -18,13 +19,16 @@ type Config struct {
 	Addr        string
 	// Workers is the number of screening jobs run at once in this process
 	// (serve runs them in-process unless it is 0).
-	Workers     int
-	JobTimeout  time.Duration
-	RescueAfter time.Duration
-	Migrate     bool // apply migrations at start
-	Alpha       float64
-	Limits      load.Limits
-	Shutdown    time.Duration
+	Workers    int
+	JobTimeout time.Duration
+	// JobTimePer10MCells is added to a job's deadline per 10 million raw
+	// data cells (rows × columns).
+	JobTimePer10MCells time.Duration
+	RescueAfter        time.Duration
+	Migrate            bool // apply migrations at start
+	Alpha              float64
+	Limits             load.Limits
+	Shutdown           time.Duration
 	// JobMemoryMiB is the memory one screening job may use (the worker's
 	// memory divided among its workers, less headroom); LargeIngests the
 	// large uploads the API reads at once.
@@ -32,6 +36,8 @@ type Config struct {
 	LargeIngests int
 	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
 	TLSProxy bool
+	// checks replaces the pipeline the workers run (tests only).
+	checks []checks.Check
 }
 
 // defaultConfig reads PATHVET_* variables over the defaults.
@@ -41,10 +47,13 @@ func defaultConfig(getenv func(string) string) Config {
 		Addr:        "127.0.0.1:8080",
 		Workers:     2,
 		JobTimeout:  2 * time.Minute,
-		RescueAfter: 5 * time.Minute,
-		Alpha:       checks.DefaultAlpha,
-		Limits:      load.DefaultLimits,
-		Shutdown:    20 * time.Second,
+		// The missing-data check's cost on this machine, measured (README,
+		// Limits): over a minute of CPU per 10 million cells.
+		JobTimePer10MCells: time.Minute,
+		RescueAfter:        5 * time.Minute,
+		Alpha:              checks.DefaultAlpha,
+		Limits:             load.DefaultLimits,
+		Shutdown:           20 * time.Second,
 		// The worker manifest's 2 GiB, 2 workers, 10% headroom.
 		JobMemoryMiB: 900,
 		LargeIngests: 1,
@@ -58,6 +67,9 @@ func defaultConfig(getenv func(string) string) Config {
 	}
 	if v, err := time.ParseDuration(getenv("PATHVET_JOB_TIMEOUT")); err == nil {
 		c.JobTimeout = v
+	}
+	if v, err := time.ParseDuration(getenv("PATHVET_JOB_TIME_PER_10M_CELLS")); err == nil {
+		c.JobTimePer10MCells = v
 	}
 	if v, err := time.ParseDuration(getenv("PATHVET_SHUTDOWN_GRACE")); err == nil {
 		c.Shutdown = v
@@ -85,9 +97,12 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 	fs.Int64Var(&c.JobMemoryMiB, "job-memory-mib", c.JobMemoryMiB,
 		"memory one screening job may use; larger raw data is refused with the estimate (PATHVET_JOB_MEMORY_MIB)")
 	fs.IntVar(&c.Workers, "workers", c.Workers, "screening jobs at once in this process; 0 for none (PATHVET_WORKERS)")
-	fs.DurationVar(&c.JobTimeout, "job-timeout", c.JobTimeout, "deadline of one screening job (PATHVET_JOB_TIMEOUT)")
+	fs.DurationVar(&c.JobTimeout, "job-timeout", c.JobTimeout,
+		"deadline of one screening job, before the term for its size (PATHVET_JOB_TIMEOUT)")
+	fs.DurationVar(&c.JobTimePer10MCells, "job-time-per-10m-cells", c.JobTimePer10MCells,
+		"added to a job's deadline per 10 million data cells (PATHVET_JOB_TIME_PER_10M_CELLS)")
 	fs.DurationVar(&c.RescueAfter, "rescue-after", c.RescueAfter,
-		"retry a job still running after this long (its worker died)")
+		"retry a job still running after this long (its worker died); raised past the largest deadline")
 	fs.DurationVar(&c.Shutdown, "shutdown-grace", c.Shutdown,
 		"on SIGTERM, how long running jobs and requests may take to finish (PATHVET_SHUTDOWN_GRACE)")
 	fs.BoolVar(&c.Migrate, "migrate", c.Migrate, "apply the database migrations before starting")
@@ -100,14 +115,16 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 // serveUsage is the usage of serve and work; it names every flag.
 var serveUsage = map[string]string{
 	"serve": `Usage: pathvet serve [--database-url URL] [--addr HOST:PORT] [--workers N] [--job-timeout D]
-       [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A] [--large-ingests N] [--job-memory-mib N]
+       [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
+       [--large-ingests N] [--job-memory-mib N]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N] [--behind-tls]
 
 Serves the HTTP API and the web workspace and, unless --workers 0, screens submissions in-process.
 SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
 one stops it at once.`,
 	"work": `Usage: pathvet work [--database-url URL] [--workers N] [--job-timeout D]
-       [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A] [--job-memory-mib N]
+       [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
+       [--job-memory-mib N]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N]
 
 Screens queued submissions (no HTTP API), for scaling workers out.
@@ -123,8 +140,21 @@ func (c Config) validate() error {
 		return fmt.Errorf("--alpha must lie strictly between 0 and 1")
 	case c.JobTimeout <= 0:
 		return fmt.Errorf("--job-timeout must be positive")
+	case c.JobTimePer10MCells < 0:
+		return fmt.Errorf("--job-time-per-10m-cells must not be negative")
 	}
 	return nil
+}
+
+// maxCells is the most raw data cells a package can have under the
+// limits: rows × variables, the CSV bytes (every cell takes at least its
+// separator) and, when set, the job memory.
+func (c Config) maxCells() int64 {
+	n := min(int64(c.Limits.Rows)*int64(c.Limits.Variables), c.Limits.CSVBytes)
+	if c.JobMemoryMiB > 0 {
+		n = min(n, service.MaxCells(c.JobMemoryMiB<<20))
+	}
+	return max(n, 0)
 }
 
 var getenv = os.Getenv

@@ -35,9 +35,9 @@ type Main struct {
 }
 
 // screenFunc is the job the workers run: load the stored package and run
-// the pipeline on it.
+// the pipeline on it, passing its progress on.
 func screenFunc(cfg Config) store.ScreenFunc {
-	return func(ctx context.Context, pkg, data []byte) (*checks.Report, error) {
+	return func(ctx context.Context, pkg, data []byte, progress store.ProgressFunc) (*checks.Report, error) {
 		if err := service.CheckMemory(data, cfg.JobMemoryMiB<<20); err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}
@@ -45,7 +45,7 @@ func screenFunc(cfg Config) store.ScreenFunc {
 		if err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}
-		return checks.Run(ctx, s, checks.Options{Alpha: cfg.Alpha})
+		return checks.Run(ctx, s, checks.Options{Alpha: cfg.Alpha, Checks: cfg.checks, Progress: progress})
 	}
 }
 
@@ -69,6 +69,7 @@ func (m *Main) Run(ctx context.Context) error {
 	if m.Config.Workers > 0 {
 		m.Workers, err = db.StartWorkers(context.WithoutCancel(ctx), store.WorkerConfig{
 			Workers: m.Config.Workers, Timeout: m.Config.JobTimeout, RescueAfter: m.Config.RescueAfter,
+			PerTenMillionCells: m.Config.JobTimePer10MCells, MaxCells: m.Config.maxCells(),
 			Logger: m.Logger, Screen: screenFunc(m.Config), OnDone: metrics.JobDone,
 		})
 		if err != nil {
