@@ -156,11 +156,15 @@ func testDF(c Claim, decl est) float64 {
 }
 
 // distribution names what an estimate's p-value and interval are taken
-// under; "" where the estimate says it in its note (pooled imputations).
+// under: t on its OLS df, or for pooled imputations t on the
+// Barnard–Rubin df (to one decimal, as the note prints it; on the pooling
+// scale for correlations and odds ratios).
 func (e est) distribution() string {
 	switch {
 	case e.method == MethodOLS && e.df > 0:
 		return distName(e.df)
+	case e.method == "multiple_imputation" && e.df > 0:
+		return distName(math.Round(e.df*10) / 10)
 	case e.method == MethodLogit || e.method == MethodPartial:
 		return "normal"
 	}

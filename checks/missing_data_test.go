@@ -135,3 +135,16 @@ func TestEffectReporting_OddsRatioRange(t *testing.T) {
 		t.Fatalf("per-unit odds ratio %v vs declared %v", *cl.OddsRatio.PerUnit, *cl.Declared.Estimate)
 	}
 }
+
+// A pooled estimate names its distribution, t on the Barnard–Rubin df
+// its note prints (report-format.md).
+func TestMissingData_PooledDistribution(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/sleep-attention/package.json"))
+	for _, c := range r.Claims {
+		mi := c.MissingData["multiple_imputation"]
+		df := strings.TrimSuffix(strings.TrimPrefix(mi.Distribution, "t("), ")")
+		if df == "" || !strings.HasPrefix(mi.Distribution, "t(") || !strings.Contains(mi.Note, "Barnard–Rubin df "+df+";") {
+			t.Errorf("%s: distribution %q, note %q", c.ID, mi.Distribution, mi.Note)
+		}
+	}
+}

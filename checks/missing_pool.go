@@ -48,7 +48,7 @@ func (a *Analysis) pooled(c Claim, ests []est, imputed []*Moments) est {
 		value: pr.Estimate, additive: pr.Estimate, se: pr.StdError, lo: pr.CI[0], hi: pr.CI[1],
 		note: fmt.Sprintf("%d imputations pooled by Rubin's rules; Barnard–Rubin df %.1f; fraction of missing information %.2f; "+
 			"Monte Carlo error of the pooled estimate %.2g%s", pr.M, pr.DF, pr.FMI, monteCarloError(pr), poolScaleNote(first))}
-	e.mcse, e.nearLine = monteCarloError(pr), nearLine(pr, a.Alpha)
+	e.mcse, e.nearLine, e.df = monteCarloError(pr), nearLine(pr, a.Alpha), pr.DF
 	switch {
 	case first.method == MethodPartial:
 		e.value, e.lo, e.hi, e.se = math.Tanh(pr.Estimate), math.Tanh(pr.CI[0]), math.Tanh(pr.CI[1]), math.NaN()
