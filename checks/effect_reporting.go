@@ -296,7 +296,7 @@ func (a *Analysis) oddsRatioFinding(i int, c Claim, decl est) []Finding {
 	}
 	ci := ""
 	if r.RangeCI != nil {
-		ci = fmt.Sprintf(" (95%% interval %.2f to %.2f)", r.RangeCI[0], r.RangeCI[1])
+		ci = fmt.Sprintf(" (%g%% interval %.2f to %.2f)", 100*claimLevel(c), r.RangeCI[0], r.RangeCI[1])
 	}
 	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
 		"For %s: from the 10th to the 90th percentile of %s (%g to %g), the odds of %s change by a factor of %.2f%s.",
