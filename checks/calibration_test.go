@@ -25,7 +25,7 @@ var calibration = []struct {
 	{"../testdata/calibration/bare-claims/package.json", "`testdata/calibration/bare-claims` (20)", 20, checks.BandHigh},
 	{"../testdata/demo/tutoring-anxiety/package.json", "tutoring-anxiety (25)", 25, checks.BandHigh},
 	{"../testdata/demo/sleep-attention/package.json", "sleep-attention (35)", 35, checks.BandHigh},
-	{"../testdata/demo/coding-club/package.json", "coding-club demo scores 55 (moderate concern)", 55, checks.BandModerate},
+	{"../testdata/demo/coding-club/package.json", "coding-club demo scores 65 (moderate concern)", 65, checks.BandModerate},
 	{"../testdata/calibration/nearby-headline/package.json", "within ΔBIC 2 (75, moderate concern)", 75, checks.BandModerate},
 }
 

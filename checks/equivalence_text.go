@@ -69,10 +69,19 @@ func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
 		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
 			"The authors say they discussed the graphs equivalent to theirs (the class has %s members, the declared graph among them).", eq.size)}}
 	}
+	if onlyDeclared(eq) { // nothing plausible to discuss: a warning would ask for nothing
+		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(ruledOutFormat, otherGraphs(eq.size))}}
+	}
 	return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
 		"%s fit any data exactly as well as the declared one (%s), and the authors do not discuss them.",
 		otherGraphs(eq.size), plausibleOthers(eq.plausible))}}
 }
+
+// ruledOutFormat: the class has other members, but the background
+// knowledge rules every one out, so the directions rest on that knowledge.
+const ruledOutFormat = "%s fit any data exactly as well as the declared one, and the authors do not discuss them; " +
+	"the stated background knowledge (exogenous variables, fixed arrows) rules them all out, so the arrows it orients " +
+	"rest on that knowledge, not on the data."
 
 // otherGraphs counts the members of a class besides the declared graph.
 func otherGraphs(size *big.Int) string {

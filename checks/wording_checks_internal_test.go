@@ -1,6 +1,7 @@
 package checks
 
 import (
+	"math/big"
 	"strings"
 	"testing"
 
@@ -33,6 +34,25 @@ func TestConvertStandardized_Correlation(t *testing.T) {
 		}
 		if got := strings.Contains(ev.Conversion, "2r/√(1 − r²)"); got != tc.converted {
 			t.Errorf("%s: conversion %q", tc.scale, ev.Conversion)
+		}
+	}
+}
+
+// An undiscussed class that background knowledge narrows to the declared
+// graph alone asks the authors for nothing: it is noted, not warned about;
+// one with other plausible members is warned about.
+func TestDiscussionFinding_OnlyDeclaredPlausible(t *testing.T) {
+	s := &Study{Package: &Package{Graph: &Graph{}}}
+	for _, tc := range []struct {
+		size, plausible int64
+		want            string
+	}{
+		{3, 1, SeverityInfo}, {3, 2, StatusWarn},
+	} {
+		eq := &equivalenceResult{size: big.NewInt(tc.size), plausible: big.NewInt(tc.plausible)}
+		fs := discussionFinding(s, eq)
+		if len(fs) != 1 || fs[0].Severity != tc.want {
+			t.Errorf("class %d, plausible %d: %+v, want one %s finding", tc.size, tc.plausible, fs, tc.want)
 		}
 	}
 }
