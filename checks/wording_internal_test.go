@@ -75,6 +75,24 @@ func TestPrincipledDone_NamesWhatRan(t *testing.T) {
 	}
 }
 
+// The methods said to be re-run are named apart from the one each claim is
+// held against below (the findings compare one; missing_data has all).
+func TestReestimatedText_NamesTheComparison(t *testing.T) {
+	r := &missingResult{moments: map[string]*Moments{MissingMaximumLikelihood: {}, MissingMeanSubstitution: {}},
+		imputed: []*Moments{{}}}
+	got := reestimatedText(MissingMeanSubstitution, r)
+	want := "; the claims are re-estimated by maximum likelihood and multiple imputation, and below each claim's " +
+		"mean substitution estimate is held against its estimate by multiple imputation with"
+	if !strings.HasPrefix(got, want) {
+		t.Errorf("%q\nwant prefix %q", got, want)
+	}
+	r.imputed = nil // MI did not run: no comparison to name
+	got = reestimatedText(MissingMeanSubstitution, r)
+	if got != "; the claims are re-estimated by maximum likelihood (see below)." {
+		t.Errorf("without imputations: %q", got)
+	}
+}
+
 // One Holm-adjusted rejection under linear-normal tests is not "the graph
 // is wrong": the summary counts it and names the assumptions.
 func TestFitSummary_OneRejection(t *testing.T) {
