@@ -113,6 +113,14 @@ func TestEffectReporting_Absence(t *testing.T) {
 	if a := r.Claims[2].Absence; a == nil || a.Verdict != "excludes_meaningful_effects" || a.Power == nil || *a.Power <= 0 || *a.Power >= 1 {
 		t.Fatalf("coding-club H3: %+v", a)
 	}
+	// the package sets no margin, so the sentence says it is the default
+	found := false
+	for _, f := range checkOf(r, "effect-reporting").Findings {
+		found = found || f.Claim == "H3" && strings.Contains(f.Message, "±0.1, standardized, is the default smallest effect")
+	}
+	if !found {
+		t.Errorf("H3's equivalence finding does not say its margin is the default: %+v", checkOf(r, "effect-reporting").Findings)
+	}
 }
 
 // E-values for the causal claims of a non-randomized design, none for a
