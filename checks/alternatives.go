@@ -85,16 +85,35 @@ func alternativesSummary(status string, n int, rows []map[string]any, fs []Findi
 	stated := "The paper states " + count(n, "alternative graph", "alternative graphs")
 	switch {
 	case status == StatusFail:
-		return "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it."
+		return "A headline claim changes sign or significance under a stated alternative that fits the data " +
+			"about as well or better; the data do not support choosing the declared graph over it."
 	case changed > 0:
-		return fmt.Sprintf("%s sign or significance under a stated alternative that fits the data about as well; the paper should say why the declared graph is preferred.",
+		return fmt.Sprintf("%s sign or significance under a stated alternative that fits the data about as well "+
+			"or better; the paper should say why the declared graph is preferred.",
 			count(changed, "claim changes", "claims change"))
 	case status == StatusWarn:
-		return stated + "; some could not be compared with the declared graph (see the findings), and no claim changes its conclusion under those that fit about as well."
+		return stated + "; some could not be compared with the declared graph (see the findings), and no claim " +
+			"changes its conclusion under those that fit about as well or better."
 	case asWell == 0:
-		return stated + "; none fits the data about as well as the declared graph (Markov equivalent, or ΔBIC below 2), so none challenges the claims."
+		return stated + "; none fits the data about as well as the declared graph or better (Markov equivalent, " +
+			"or ΔBIC below 2), so none challenges the claims."
 	}
-	return fmt.Sprintf("%s; under the %d that fit the data about as well as the declared graph, no claim that could be estimated changes its conclusion (the sign of a significant estimate, or its non-significance).", stated, asWell)
+	return fmt.Sprintf("%s; under %s the data about as well as the declared graph or better, no claim that "+
+		"could be estimated changes its conclusion (the sign of a significant estimate, or its non-significance).",
+		stated, map[bool]string{true: "the one that fits", false: fmt.Sprintf("the %d that fit", asWell)}[asWell == 1])
+}
+
+// fitWord says how an alternative fits beside the declared graph by
+// ΔBIC (alternative − declared): better by 2 or more, about as well within
+// 2, else worse.
+func fitWord(delta float64) string {
+	switch {
+	case delta <= -weakBIC:
+		return "better"
+	case delta < weakBIC:
+		return "about as well"
+	}
+	return "worse"
 }
 
 // compareAlternative fits alternative j beside the declared graph and
@@ -169,7 +188,7 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	}
 	how := "which the data cannot tell from it"
 	if !equivalent {
-		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", map[bool]string{true: "about as well", false: "worse"}[fitsAsWell], delta)
+		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", fitWord(delta), delta)
 	}
 	sev := SeverityInfo
 	if fitsAsWell {

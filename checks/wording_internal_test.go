@@ -139,6 +139,19 @@ func TestEquivalenceSummary_Branches(t *testing.T) {
 	}
 }
 
+// An alternative that fits better by 2 or more is not said to fit "about
+// as well".
+func TestFitWord(t *testing.T) {
+	for _, tc := range []struct {
+		delta float64
+		want  string
+	}{{-5.8, "better"}, {-2, "better"}, {-1.9, "about as well"}, {1.9, "about as well"}, {2, "worse"}} {
+		if got := fitWord(tc.delta); got != tc.want {
+			t.Errorf("fitWord(%g) = %q, want %q", tc.delta, got, tc.want)
+		}
+	}
+}
+
 func TestAlternativesSummary_Branches(t *testing.T) {
 	asWell := []map[string]any{{"fits_about_as_well": true}, {"fits_about_as_well": false}}
 	claimWarn := []Finding{{Severity: StatusWarn, Claim: "C1"}}
@@ -151,7 +164,8 @@ func TestAlternativesSummary_Branches(t *testing.T) {
 		want   string
 	}{
 		{StatusPass, 1, asWell[1:], nil, "states 1 alternative graph; none fits the data about as well"},
-		{StatusPass, 2, asWell, nil, "under the 1 that fit"},
+		{StatusPass, 2, asWell, nil, "under the one that fits the data about as well as the declared graph or better"},
+		{StatusPass, 2, append(asWell[:1:1], asWell[0]), nil, "under the 2 that fit the data"},
 		{StatusWarn, 2, asWell, claimWarn, "1 claim changes sign"},
 		{StatusWarn, 2, asWell, otherWarn, "could not be compared"},
 	} {
