@@ -95,8 +95,24 @@ func measurementSummary(status string, metrics map[string]any, claims int, impos
 		return "Measurement error needs attention: reliabilities are missing for some claims' variables, or correcting for them changes some claims; see the findings."
 	}
 	n, _ := metrics["claims_corrected"].(int)
-	return fmt.Sprintf("Reliabilities are reported for the claims' variables; correcting for measurement error changes the conclusion of none of the %s re-estimated on the corrected correlations (of %d).",
-		count(n, "claim", "claims"), claims)
+	return measurementPassText(n, claims)
+}
+
+// measurementPassText says how many claims were re-estimated on the
+// corrected correlations, and of how many, without a bare "(of n)".
+func measurementPassText(n, claims int) string {
+	const head = "Reliabilities are reported for the claims' variables; "
+	switch {
+	case n == 0:
+		return head + "no claim could be re-estimated on the corrected correlations."
+	case n == 1 && claims == 1:
+		return head + "the claim, re-estimated on the corrected correlations, keeps its conclusion."
+	case n == claims:
+		return fmt.Sprintf("%scorrecting for measurement error changes the conclusion of none of the %d claims, "+
+			"each re-estimated on the corrected correlations.", head, n)
+	}
+	return fmt.Sprintf("%s%d of the %d claims %s re-estimated on the corrected correlations, and correcting for "+
+		"measurement error changes the conclusion of none of them.", head, n, claims, plural(n, "was", "were"))
 }
 
 // claimVariables marks the variables that some claim names.

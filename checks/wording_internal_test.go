@@ -139,6 +139,24 @@ func TestEquivalenceSummary_Branches(t *testing.T) {
 	}
 }
 
+// The measurement pass summary counts what was re-estimated without a
+// bare "(of n)", in the singular for one claim.
+func TestMeasurementPassText(t *testing.T) {
+	for _, tc := range []struct {
+		n, claims int
+		want      string
+	}{
+		{4, 4, "changes the conclusion of none of the 4 claims, each re-estimated on the corrected correlations."},
+		{1, 1, "the claim, re-estimated on the corrected correlations, keeps its conclusion."},
+		{1, 3, "1 of the 3 claims was re-estimated on the corrected correlations, and correcting"},
+		{0, 2, "no claim could be re-estimated on the corrected correlations."},
+	} {
+		if got := measurementPassText(tc.n, tc.claims); !strings.HasSuffix(got, tc.want) && !strings.Contains(got, tc.want) {
+			t.Errorf("%d of %d: %q lacks %q", tc.n, tc.claims, got, tc.want)
+		}
+	}
+}
+
 // An alternative that fits better by 2 or more is not said to fit "about
 // as well".
 func TestFitWord(t *testing.T) {
