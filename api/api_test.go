@@ -44,6 +44,15 @@ func (f *fakeStore) LatestReport(context.Context, string, service.Scope) ([]byte
 	return nil, f.err
 }
 
+func (f *fakeStore) SetWebhook(context.Context, int64, string) (*service.Webhook, error) {
+	return nil, f.err
+}
+func (f *fakeStore) Webhook(context.Context, int64) (*service.Webhook, error) { return nil, f.err }
+func (f *fakeStore) DeleteWebhook(context.Context, int64) error               { return f.err }
+func (f *fakeStore) Deliveries(context.Context, int64, int) ([]*service.Delivery, error) {
+	return nil, f.err
+}
+
 func serve(t *testing.T, fs *fakeStore, method, path, token string) (*httptest.ResponseRecorder, api.Problem) {
 	t.Helper()
 	srv := api.New(api.Config{Store: fs})

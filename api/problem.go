@@ -26,16 +26,17 @@ const ProblemContentType = "application/problem+json"
 
 // problemTypes name the kinds of problem this API reports.
 var problemTypes = map[int]string{
-	http.StatusBadRequest:            "https://pathvet.example/problems/bad-request",
-	http.StatusUnauthorized:          "https://pathvet.example/problems/unauthorized",
-	http.StatusNotFound:              "https://pathvet.example/problems/not-found",
-	http.StatusMethodNotAllowed:      "https://pathvet.example/problems/method-not-allowed",
-	http.StatusConflict:              "https://pathvet.example/problems/conflict",
-	http.StatusUnsupportedMediaType:  "https://pathvet.example/problems/unsupported-media-type",
-	http.StatusRequestEntityTooLarge: "https://pathvet.example/problems/too-large",
-	http.StatusUnprocessableEntity:   "https://pathvet.example/problems/invalid-package",
-	http.StatusServiceUnavailable:    "https://pathvet.example/problems/unavailable",
-	http.StatusGatewayTimeout:        "https://pathvet.example/problems/timeout",
+	http.StatusBadRequest:                  "https://pathvet.example/problems/bad-request",
+	http.StatusUnauthorized:                "https://pathvet.example/problems/unauthorized",
+	http.StatusNotFound:                    "https://pathvet.example/problems/not-found",
+	http.StatusMethodNotAllowed:            "https://pathvet.example/problems/method-not-allowed",
+	http.StatusConflict:                    "https://pathvet.example/problems/conflict",
+	http.StatusUnsupportedMediaType:        "https://pathvet.example/problems/unsupported-media-type",
+	http.StatusRequestEntityTooLarge:       "https://pathvet.example/problems/too-large",
+	http.StatusUnprocessableEntity:         "https://pathvet.example/problems/invalid-package",
+	http.StatusRequestHeaderFieldsTooLarge: "https://pathvet.example/problems/headers-too-large",
+	http.StatusServiceUnavailable:          "https://pathvet.example/problems/unavailable",
+	http.StatusGatewayTimeout:              "https://pathvet.example/problems/timeout",
 }
 
 // problemError is an error with the HTTP status and detail to show.
@@ -52,7 +53,8 @@ var codeStatus = map[string]int{
 	service.EUnavailable: http.StatusServiceUnavailable,
 }
 
-const invalidPackageDetail = "The package is not valid; every problem is listed with its JSON pointer or CSV line and column."
+const invalidPackageDetail = "The package is not valid; every problem is listed with its JSON pointer " +
+	"or CSV line and column."
 
 // problemFor maps an error to its problem: the one place where error
 // codes become HTTP statuses. An internal error shows only "internal
@@ -91,12 +93,35 @@ func (s *Server) handleError(err error, c echo.Context) {
 	if c.Response().Committed {
 		return
 	}
+	p := s.problem(err, c)
+	h := c.Response().Header()
+	switch p.Status {
+	case http.StatusUnauthorized:
+		h.Set("WWW-Authenticate", `Bearer realm="pathvet"`)
+	case http.StatusServiceUnavailable:
+		h.Set("Retry-After", retryAfter)
+	}
+	h.Set(echo.HeaderContentType, ProblemContentType)
+	c.Response().WriteHeader(p.Status)
+	if c.Request().Method == http.MethodHead {
+		return
+	}
+	_ = c.JSONBlob(0, mustJSON(p))
+}
+
+// problem fills in the problem for err on this request; an internal
+// error is logged with its request id.
+func (s *Server) problem(err error, c echo.Context) Problem {
 	p, internal := problemFor(err)
-	if he := (*echo.HTTPError)(nil); errors.As(err, &he) && he == echo.ErrStatusRequestEntityTooLarge {
+	if internal {
+		s.cfg.Logger.Error("internal error", "error", err, "path", c.Path(),
+			"request_id", c.Response().Header().Get(echo.HeaderXRequestID))
+	}
+	if errors.Is(err, echo.ErrStatusRequestEntityTooLarge) {
 		p.Detail = fmt.Sprintf("The request body is larger than the limit of %d bytes.", s.bodyLimit())
 	}
-	if internal {
-		s.cfg.Logger.Error("internal error", "error", err, "path", c.Path(), "request_id", c.Response().Header().Get(echo.HeaderXRequestID))
+	if allow := c.Response().Header().Get(echo.HeaderAllow); p.Status == http.StatusMethodNotAllowed && allow != "" {
+		p.Detail = fmt.Sprintf("%s is not a method of this path; it answers %s.", c.Request().Method, allow)
 	}
 	p.Type = problemTypes[p.Status]
 	if p.Type == "" {
@@ -104,16 +129,5 @@ func (s *Server) handleError(err error, c echo.Context) {
 	}
 	p.Title = http.StatusText(p.Status)
 	p.Instance = c.Request().URL.Path
-	switch p.Status {
-	case http.StatusUnauthorized:
-		c.Response().Header().Set("WWW-Authenticate", `Bearer realm="pathvet"`)
-	case http.StatusServiceUnavailable:
-		c.Response().Header().Set("Retry-After", retryAfter)
-	}
-	c.Response().Header().Set(echo.HeaderContentType, ProblemContentType)
-	c.Response().WriteHeader(p.Status)
-	if c.Request().Method == http.MethodHead {
-		return
-	}
-	_ = c.JSONBlob(0, mustJSON(p))
+	return p
 }

@@ -10,24 +10,52 @@ import (
 // routes registers every route of the API, in one place.
 func (s *Server) routes() {
 	e := s.echo
+	e.Pre(headAsGet)
 	e.Use(middleware.RequestID())
 	e.Use(s.logRequests())
 	e.Use(middleware.RecoverWithConfig(middleware.RecoverConfig{DisableStackAll: true}))
 	e.Use(s.cfg.Metrics.middleware())
 	e.Use(middleware.ContextTimeout(s.cfg.RequestTimeout))
+	e.Use(s.checkRequest)
 
 	e.GET("/healthz", s.healthz)
 	e.GET("/readyz", s.readyz)
 	e.GET("/metrics", echo.WrapHandler(s.cfg.Metrics.Handler()))
 	e.GET("/v1/openapi.yaml", s.openapi)
 
-	v1 := e.Group("/v1", s.authenticate)
-	v1.POST("/submissions", s.createSubmission, middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
-	v1.GET("/submissions", s.listSubmissions)
-	v1.GET("/submissions/:id", s.getSubmission)
-	v1.DELETE("/submissions/:id", s.deleteSubmission)
-	v1.POST("/submissions/:id/rerun", s.rerunSubmission)
-	v1.GET("/submissions/:id/report", s.getReport)
+	// Authentication is per route, not on the group: a group's middleware
+	// would catch every path under /v1 and hide 405 behind 404.
+	v1, auth := e.Group("/v1"), s.authenticate
+	v1.POST("/submissions", s.createSubmission, auth, s.limitLargeIngests,
+		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
+	v1.GET("/submissions", s.listSubmissions, auth)
+	v1.GET("/submissions/:id", s.getSubmission, auth)
+	v1.DELETE("/submissions/:id", s.deleteSubmission, auth)
+	v1.POST("/submissions/:id/rerun", s.rerunSubmission, auth)
+	v1.GET("/submissions/:id/report", s.getReport, auth)
+	v1.PUT("/webhook", s.putWebhook, auth, editorOnly)
+	v1.GET("/webhook", s.getWebhook, auth, editorOnly)
+	v1.DELETE("/webhook", s.deleteWebhook, auth, editorOnly)
+	v1.GET("/webhook/deliveries", s.listDeliveries, auth, editorOnly)
+
+	if s.cfg.Web != nil {
+		s.webRoutes()
+	}
+}
+
+// webRoutes registers the web workspace: pages for a browser with a
+// session (sign-in at /), every form behind a CSRF token.
+func (s *Server) webRoutes() {
+	e := s.echo
+	page := []echo.MiddlewareFunc{s.webPage, middleware.BodyLimit("64K"), tokenOnly, s.csrf(), s.withSession}
+	signedIn := append(page[:len(page):len(page)], requireSession)
+	e.GET("/", s.home, page...)
+	e.POST("/session", s.signIn, page...)
+	e.POST("/session/end", s.signOut, page...)
+	e.GET("/submissions/:id", s.webSubmission, signedIn...)
+	e.GET("/submissions/:id/letter.md", s.webLetter, signedIn...)
+	e.POST("/submissions/:id/rerun", s.webRerun, signedIn...)
+	e.POST("/submissions/:id/delete", s.webDelete, signedIn...)
 }
 
 func (s *Server) healthz(c echo.Context) error {
@@ -41,3 +69,23 @@ func (s *Server) readyz(c echo.Context) error {
 	}
 	return c.JSON(http.StatusOK, map[string]string{"status": "ready"})
 }
+
+// headAsGet answers HEAD on every GET route (RFC 9110, section 9.3.2):
+// routing and the handler see a GET, and the body is dropped.
+func headAsGet(next echo.HandlerFunc) echo.HandlerFunc {
+	return func(c echo.Context) error {
+		req := c.Request()
+		if req.Method != http.MethodHead {
+			return next(c)
+		}
+		req.Method = http.MethodGet // Echo routes by this very request
+		defer func() { req.Method = http.MethodHead }()
+		c.Response().Writer = headWriter{c.Response().Writer}
+		return next(c)
+	}
+}
+
+// headWriter drops a response's body.
+type headWriter struct{ http.ResponseWriter }
+
+func (w headWriter) Write(b []byte) (int, error) { return len(b), nil }

@@ -6,6 +6,7 @@ package api
 import (
 	"context"
 	"log/slog"
+	"sync"
 	"time"
 
 	"github.com/labstack/echo/v4"
@@ -24,6 +25,10 @@ type Store interface {
 	DeleteSubmission(ctx context.Context, id string, sc service.Scope) error
 	Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
 	LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error)
+	SetWebhook(ctx context.Context, officeID int64, url string) (*service.Webhook, error)
+	Webhook(ctx context.Context, officeID int64) (*service.Webhook, error)
+	DeleteWebhook(ctx context.Context, officeID int64) error
+	Deliveries(ctx context.Context, officeID int64, limit int) ([]*service.Delivery, error)
 }
 
 // Config configures the API.
@@ -38,13 +43,36 @@ type Config struct {
 	// PollInterval is how often a long poll looks at the submission.
 	PollInterval time.Duration
 	Metrics      *Metrics
+	// Web is the web workspace's storage; without it the workspace's
+	// routes are not served. TLSProxy: the server sits behind a
+	// TLS-terminating proxy (Secure cookies; the client address from
+	// X-Forwarded-For). SessionTTL is how long a sign-in lasts.
+	Web        WebStore
+	TLSProxy   bool
+	SessionTTL time.Duration
+	// LargeIngests is how many uploads of LargeIngestBytes or more may be
+	// read at once (default 1); each can hold several times its size in
+	// memory while it is read, checked and stored.
+	LargeIngests int
+	// JobMemory is the memory one screening job may use on a worker; raw
+	// data whose estimated working memory is larger is refused (422) at
+	// ingest. 0 checks nothing.
+	JobMemory int64
 }
 
 // Server holds the handlers.
 type Server struct {
 	cfg  Config
 	echo *echo.Echo
+	// draining is closed by Drain: long polls answer at once.
+	draining  chan struct{}
+	drainOnce sync.Once
+	large     chan struct{} // the large-upload semaphore
 }
+
+// Drain makes every open and later long poll answer at once with the
+// submission's current status, before the HTTP server shuts down.
+func (s *Server) Drain() { s.drainOnce.Do(func() { close(s.draining) }) }
 
 // New returns the API's HTTP handler with every route registered.
 func New(cfg Config) *Server {
@@ -63,10 +91,17 @@ func New(cfg Config) *Server {
 	if cfg.PollInterval == 0 {
 		cfg.PollInterval = 200 * time.Millisecond
 	}
+	if cfg.SessionTTL == 0 {
+		cfg.SessionTTL = 12 * time.Hour
+	}
+	if cfg.LargeIngests <= 0 {
+		cfg.LargeIngests = 1
+	}
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()
 	}
-	s := &Server{cfg: cfg, echo: echo.New()}
+	s := &Server{cfg: cfg, echo: echo.New(), draining: make(chan struct{}),
+		large: make(chan struct{}, cfg.LargeIngests)}
 	s.echo.HideBanner, s.echo.HidePort = true, true
 	s.echo.HTTPErrorHandler = s.handleError
 	s.routes()

@@ -2,10 +2,8 @@ package api
 
 import (
 	"encoding/json"
-	"errors"
 	"fmt"
 	"io"
-	"mime"
 	"net/http"
 	"strconv"
 	"time"
@@ -15,6 +13,7 @@ import (
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 // SubmissionView is a submission as the API shows it.
@@ -23,6 +22,7 @@ type SubmissionView struct {
 	Status        string    `json:"status"`
 	Title         string    `json:"title"`
 	ManuscriptID  string    `json:"manuscript_id,omitempty"`
+	SubmittedBy   string    `json:"submitted_by"`
 	PackageSHA256 string    `json:"package_sha256"`
 	Score         *int      `json:"score"`
 	Band          *string   `json:"band"`
@@ -43,6 +43,7 @@ type Links struct {
 func view(s *service.Submission) SubmissionView {
 	self := "/v1/submissions/" + s.ID
 	return SubmissionView{ID: s.ID, Status: s.Status, Title: s.Title, ManuscriptID: s.ManuscriptID,
+		SubmittedBy:   s.SubmittedBy,
 		PackageSHA256: s.PackageSHA256, Score: s.Score, Band: s.Band, Error: s.Error, Attempts: s.Attempts,
 		Reports: s.Reports, CreatedAt: s.CreatedAt, UpdatedAt: s.UpdatedAt,
 		Links: Links{Self: self, Report: self + "/report"}}
@@ -64,13 +65,16 @@ func (s *Server) createSubmission(c echo.Context) error {
 	if err != nil {
 		return err
 	}
+	if err := s.checkMemory(doc, data); err != nil {
+		return err
+	}
 	study, err := load.Load(doc, load.Options{Limits: s.cfg.Limits, CSV: data})
 	if err != nil {
 		return err
 	}
-	idem := c.Request().Header.Get("Idempotency-Key")
-	if len(idem) > 200 {
-		return problemError(http.StatusBadRequest, "The Idempotency-Key header is longer than 200 characters.")
+	idem, err := idempotencyKey(c)
+	if err != nil {
+		return err
 	}
 	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), service.NewSubmission{
 		Key: keyOf(c), Package: doc, Data: data, Title: study.Package.Title,
@@ -87,74 +91,6 @@ func (s *Server) createSubmission(c echo.Context) error {
 	return c.JSON(http.StatusAccepted, v)
 }
 
-// readPackage reads the request body: the package JSON, and the CSV data
-// when they come as a multipart part.
-func (s *Server) readPackage(c echo.Context) (doc, data []byte, err error) {
-	req := c.Request()
-	mt, _, perr := mime.ParseMediaType(req.Header.Get(echo.HeaderContentType))
-	switch {
-	case perr == nil && mt == echo.MIMEMultipartForm:
-		return s.readMultipart(c)
-	case perr == nil && (mt == echo.MIMEApplicationJSON || mt == "application/vnd.pathvet.package+json"):
-		doc, err = readLimited(req.Body, s.cfg.Limits.PackageBytes, "package")
-		return doc, nil, err
-	}
-	return nil, nil, problemError(http.StatusUnsupportedMediaType, "Send the package as application/json, or as multipart/form-data with parts named package and data.")
-}
-
-func (s *Server) readMultipart(c echo.Context) (doc, data []byte, err error) {
-	mr, err := c.Request().MultipartReader()
-	if err != nil {
-		return nil, nil, problemError(http.StatusBadRequest, "The multipart body cannot be read: "+err.Error())
-	}
-	for {
-		part, err := mr.NextPart()
-		if errors.Is(err, io.EOF) {
-			break
-		}
-		if err != nil {
-			return nil, nil, bodyError(err)
-		}
-		switch part.FormName() {
-		case "package":
-			doc, err = readLimited(part, s.cfg.Limits.PackageBytes, "package")
-		case "data":
-			data, err = readLimited(part, s.cfg.Limits.CSVBytes, "data")
-		default:
-			err = problemError(http.StatusBadRequest, fmt.Sprintf("Unknown multipart part %q: the parts are package and data.", part.FormName()))
-		}
-		if err != nil {
-			return nil, nil, err
-		}
-	}
-	if doc == nil {
-		return nil, nil, problemError(http.StatusBadRequest, "The multipart body has no part named package.")
-	}
-	return doc, data, nil
-}
-
-// readLimited reads at most limit bytes; more is 413 naming the limit.
-func readLimited(r io.Reader, limit int64, what string) ([]byte, error) {
-	b, err := io.ReadAll(io.LimitReader(r, limit+1))
-	if err != nil {
-		return nil, bodyError(err)
-	}
-	if int64(len(b)) > limit {
-		return nil, problemError(http.StatusRequestEntityTooLarge, fmt.Sprintf("The %s is larger than the limit of %d bytes.", what, limit))
-	}
-	return b, nil
-}
-
-// bodyError turns a failed read of the body into 413 when the body limit
-// cut it, 400 otherwise.
-func bodyError(err error) error {
-	var he *echo.HTTPError
-	if errors.As(err, &he) {
-		return he
-	}
-	return problemError(http.StatusBadRequest, "The request body cannot be read: "+err.Error())
-}
-
 func (s *Server) getSubmission(c echo.Context) error {
 	ctx := c.Request().Context()
 	wait, err := s.waitParam(c)
@@ -167,12 +103,13 @@ func (s *Server) getSubmission(c echo.Context) error {
 		if err != nil {
 			return err
 		}
-		finished := sub.Status == service.StatusDone || sub.Status == service.StatusFailed
-		if finished || !time.Now().Add(s.cfg.PollInterval).Before(deadline) {
+		if service.Finished(sub.Status) || !time.Now().Add(s.cfg.PollInterval).Before(deadline) {
 			return c.JSON(http.StatusOK, view(sub))
 		}
 		select {
 		case <-ctx.Done():
+			return c.JSON(http.StatusOK, view(sub))
+		case <-s.draining:
 			return c.JSON(http.StatusOK, view(sub))
 		case <-time.After(s.cfg.PollInterval):
 		}
@@ -205,7 +142,8 @@ type SubmissionList struct {
 	NextCursor  string           `json:"next_cursor,omitempty"`
 }
 
-var validStatus = map[string]bool{"": true, service.StatusQueued: true, service.StatusRunning: true, service.StatusDone: true, service.StatusFailed: true}
+var validStatus = map[string]bool{"": true, service.StatusQueued: true, service.StatusRunning: true,
+	service.StatusDone: true, service.StatusFailed: true}
 var validBand = map[string]bool{"": true, checks.BandLow: true, checks.BandModerate: true, checks.BandHigh: true}
 
 func (s *Server) listSubmissions(c echo.Context) error {
@@ -220,7 +158,8 @@ func (s *Server) listSubmissions(c echo.Context) error {
 	if l := c.QueryParam("limit"); l != "" {
 		n, err := strconv.Atoi(l)
 		if err != nil || n < 1 || n > service.MaxPage {
-			return problemError(http.StatusBadRequest, fmt.Sprintf("limit must be a whole number from 1 to %d.", service.MaxPage))
+			return problemError(http.StatusBadRequest,
+				fmt.Sprintf("limit must be a whole number from 1 to %d.", service.MaxPage))
 		}
 		f.Limit = n
 	}
@@ -264,7 +203,7 @@ func (s *Server) getReport(c echo.Context) error {
 	write, ok := map[string]struct {
 		ctype string
 		fn    func(io.Writer, *checks.Report) error
-	}{"text": {echo.MIMETextPlainCharsetUTF8, checks.WriteText}, "html": {echo.MIMETextHTMLCharsetUTF8, writeHTML}}[format]
+	}{"text": {echo.MIMETextPlainCharsetUTF8, render.WriteText}, "html": {echo.MIMETextHTMLCharsetUTF8, writeHTML}}[format]
 	if !ok {
 		return problemError(http.StatusBadRequest, "format must be json, text or html.")
 	}

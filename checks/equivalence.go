@@ -216,6 +216,8 @@ func graphReport(s *Study, eq *equivalenceResult) (*GraphReport, error) {
 			g.Nodes = append(g.Nodes, s.Names[i])
 		}
 	}
+	g.Declared = namedArcs(s, s.Declared.Arcs())
+	g.Background, g.Exogenous = backgroundNames(s)
 	g.CPDAG = edgeSets(s, eq.cpdag)
 	if eq.plausible != nil && eq.plausible.Sign() > 0 {
 		m := eq.cpdag.Clone()
@@ -249,6 +251,18 @@ func edgeSets(s *Study, g *dag.PDAG) EdgeSets {
 		es.Undirected = append(es.Undirected, [2]string{s.Names[l[0]], s.Names[l[1]]})
 	}
 	return es
+}
+
+// backgroundNames returns the background arcs and the exogenous variables
+// of the declared graph by name.
+func backgroundNames(s *Study) ([][2]string, []string) {
+	var exo []string
+	for i, v := range s.Package.Variables {
+		if v.Exogenous && s.InGraph[i] {
+			exo = append(exo, v.Name)
+		}
+	}
+	return namedArcs(s, s.Background), exo
 }
 
 func listMembers(s *Study, c *dag.PDAG, required []dag.Edge) ([][][2]string, bool, error) {

@@ -11,6 +11,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 // The case the nearby-graphs check exists for: a clean randomized package
@@ -54,7 +55,7 @@ func TestNearbyGraphs_HeadlineArrowWithinTwo(t *testing.T) {
 		t.Errorf("no fail finding naming the edit and the ΔBIC: %+v", c.Findings)
 	}
 	var text bytes.Buffer
-	if err := checks.WriteText(&text, r); err != nil {
+	if err := render.WriteText(&text, r); err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(text.String(), "+0.72  remove offered → wellbeing (indistinguishable); class of 3, 1 plausible; changed:") {

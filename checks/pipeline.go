@@ -248,7 +248,7 @@ func claimReports(pkg *Package) []ClaimReport {
 	out := make([]ClaimReport, len(pkg.Claims))
 	for i, c := range pkg.Claims {
 		out[i] = ClaimReport{
-			ID: c.ID, Kind: c.Kind, From: c.From, To: c.To, Headline: c.Headline,
+			ID: c.ID, Text: c.Text, Kind: c.Kind, From: c.From, To: c.To, Headline: c.Headline,
 			Reported: Reported{
 				Estimate: c.Estimate, EstimateScale: c.EstimateScale, StdError: c.StdError,
 				CI: c.CI, CILevel: c.CILevel, PValue: c.PValue, PRelation: c.PRelation,

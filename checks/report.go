@@ -96,7 +96,13 @@ type GraphReport struct {
 	Acyclic bool `json:"acyclic"`
 	// Nodes are the variables that some edge of the declared graph names.
 	Nodes []string `json:"nodes"`
-	CPDAG EdgeSets `json:"cpdag"`
+	// Declared are the declared graph's arcs; Background the arcs that
+	// background knowledge fixes (fixed edges, and every arc out of an
+	// exogenous variable); Exogenous the variables declared exogenous.
+	Declared   [][2]string `json:"declared,omitempty"`
+	Background [][2]string `json:"background_arcs,omitempty"`
+	Exogenous  []string    `json:"exogenous,omitempty"`
+	CPDAG      EdgeSets    `json:"cpdag"`
 	// PlausibleCPDAG is the CPDAG with the background knowledge's arcs
 	// oriented and closed under Meek's rules R1–R4: its arcs are exactly
 	// the edges every plausible member orients alike (Meek 1995). Absent
@@ -128,6 +134,7 @@ type EdgeSets struct {
 // ClaimReport gathers what the checks found about one claim.
 type ClaimReport struct {
 	ID       string   `json:"id"`
+	Text     string   `json:"text,omitempty"`
 	Kind     string   `json:"kind"`
 	From     string   `json:"from"`
 	To       string   `json:"to"`

@@ -18,5 +18,6 @@ fi
 go build -o bin/pathvet ./cmd/pathvet
 bin/pathvet migrate up >/dev/null
 echo "dev-server: demo editor token (keep it; it is shown once):" >&2
-bin/pathvet keys create --office "Demo office" --role editor
+bin/pathvet offices list | grep -q "Demo office" || bin/pathvet offices create "Demo office" >/dev/null
+bin/pathvet keys create --office "Demo office" --role editor --label "Demo editor"
 bin/pathvet serve "$@"

@@ -5,12 +5,10 @@ package store
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"time"
 
 	"github.com/jackc/pgx/v5"
-	"github.com/jackc/pgx/v5/pgconn"
 	"github.com/jackc/pgx/v5/pgxpool"
 	"github.com/jackc/pgx/v5/stdlib"
 	"github.com/pressly/goose/v3"
@@ -18,7 +16,6 @@ import (
 	"github.com/riverqueue/river/riverdriver/riverpgxv5"
 	"github.com/riverqueue/river/rivermigrate"
 
-	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/migrations"
 )
 
@@ -73,8 +70,32 @@ func (db *DB) goose() (*goose.Provider, error) {
 	return goose.NewProvider(goose.DialectPostgres, stdlib.OpenDBFromPool(db.Pool), migrations.FS)
 }
 
-// Migrate applies pathvet's migrations and the job queue's.
+// migrateLock is the key of the advisory lock that migrations hold
+// ("pathvet migrate" in ASCII, folded to 63 bits).
+const migrateLock int64 = 0x70617468766574
+
+// Migrate applies pathvet's migrations and the job queue's, under a
+// session advisory lock, so that any number of processes may migrate at
+// once: one applies, the others wait and find nothing left to do.
 func (db *DB) Migrate(ctx context.Context) error {
+	conn, err := db.Pool.Acquire(ctx)
+	if err != nil {
+		return fmt.Errorf("store: migrate: %w", dbError(err, "migration lock"))
+	}
+	defer conn.Release()
+	if _, err := conn.Exec(ctx, `SELECT pg_advisory_lock($1)`, migrateLock); err != nil {
+		return fmt.Errorf("store: migration lock: %w", err)
+	}
+	defer func() {
+		bg := context.WithoutCancel(ctx)
+		if _, err := conn.Exec(bg, `SELECT pg_advisory_unlock($1)`, migrateLock); err != nil {
+			_ = conn.Conn().Close(bg) // ending the session ends its lock
+		}
+	}()
+	return db.migrate(ctx)
+}
+
+func (db *DB) migrate(ctx context.Context) error {
 	p, err := db.goose()
 	if err != nil {
 		return fmt.Errorf("store: migrations: %w", err)
@@ -107,22 +128,4 @@ func (db *DB) MigrationStatus(ctx context.Context) ([]MigrationStep, error) {
 		out[i] = MigrationStep{Source: s.Source.Path, Applied: s.State == goose.StateApplied, At: s.AppliedAt}
 	}
 	return out, nil
-}
-
-// dbError maps pgx's errors to the core's codes: no rows is not found, a
-// unique violation is a conflict; a coded error passes through.
-func dbError(err error, what string) error {
-	var pe *pgconn.PgError
-	var ce *service.Error
-	switch {
-	case err == nil:
-		return nil
-	case errors.As(err, &ce):
-		return err // already a coded error of the core
-	case errors.Is(err, pgx.ErrNoRows):
-		return service.Errorf(service.ENotFound, "%s not found", what)
-	case errors.As(err, &pe) && pe.Code == "23505":
-		return service.Errorf(service.EConflict, "%s already exists", what)
-	}
-	return fmt.Errorf("store: %s: %w", what, err)
 }

@@ -1,6 +1,7 @@
 package store
 
 import (
+	"cmp"
 	"context"
 	"encoding/json"
 	"errors"
@@ -45,6 +46,10 @@ type WorkerConfig struct {
 	RescueAfter time.Duration
 	Logger      *slog.Logger
 	Screen      ScreenFunc
+	// ReconcileEvery is how often a submission whose job the queue gave up
+	// on (discarded after its last attempt, or cancelled) is marked failed;
+	// default one minute.
+	ReconcileEvery time.Duration
 	// OnDone, when set, is called after each job ends (for metrics).
 	OnDone func(status string, took time.Duration)
 }
@@ -53,6 +58,9 @@ type screenWorker struct {
 	river.WorkerDefaults[ScreenArgs]
 	db  *DB
 	cfg WorkerConfig
+	// gate closes when Stop begins: a job fetched after it is handed back
+	// to the queue unstarted.
+	gate *gate
 }
 
 func (w *screenWorker) Timeout(*river.Job[ScreenArgs]) time.Duration { return w.cfg.Timeout }
@@ -63,6 +71,9 @@ func (w *screenWorker) Timeout(*river.Job[ScreenArgs]) time.Duration { return w.
 func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) error {
 	start := time.Now()
 	id := job.Args.SubmissionID
+	if !w.gate.enter(id, job.Attempt) {
+		return river.JobSnooze(time.Second)
+	}
 	pkg, data, err := w.db.Claim(ctx, id)
 	if service.ErrorCode(err) == service.ENotFound {
 		return nil
@@ -78,18 +89,40 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 		w.done(service.StatusDone, start)
 		return nil
 	}
-	final := errors.Is(err, ErrPermanent) || job.Attempt >= job.MaxAttempts
+	return w.failed(ctx, job, err, start)
+}
+
+// failed records a failed attempt: released unspent when the workers are
+// stopping (JobSnooze does not count an attempt), failed for good on a
+// permanent error or the last attempt, queued again otherwise.
+func (w *screenWorker) failed(ctx context.Context, job *river.Job[ScreenArgs], err error, start time.Time) error {
+	id, bg := job.Args.SubmissionID, context.WithoutCancel(ctx)
+	if ctx.Err() != nil && w.gate.isClosed() {
+		const released = "the worker stopped for a shutdown; the job went back to the queue"
+		if nerr := w.db.NoteAttemptError(bg, id, released); nerr != nil {
+			w.logger().Error("releasing a job at shutdown", "submission_id", id, "error", nerr)
+		}
+		return river.JobSnooze(0)
+	}
 	reason := fmt.Sprintf("attempt %d of %d: %v", job.Attempt, job.MaxAttempts, err)
-	bg := context.WithoutCancel(ctx)
-	if final {
+	if errors.Is(err, ErrPermanent) || job.Attempt >= job.MaxAttempts {
 		if ferr := w.db.MarkFailed(bg, id, reason); ferr != nil {
 			return ferr
 		}
 		w.done(service.StatusFailed, start)
 		return river.JobCancel(err)
 	}
-	_ = w.db.NoteAttemptError(bg, id, reason)
+	if nerr := w.db.NoteAttemptError(bg, id, reason); nerr != nil {
+		w.logger().Error("recording a failed attempt", "submission_id", id, "attempt", job.Attempt, "error", nerr)
+	}
 	return err
+}
+
+func (w *screenWorker) logger() *slog.Logger {
+	if w.cfg.Logger != nil {
+		return w.cfg.Logger
+	}
+	return slog.Default()
 }
 
 func (w *screenWorker) done(status string, start time.Time) {
@@ -100,16 +133,23 @@ func (w *screenWorker) done(status string, start time.Time) {
 
 // panicHandler turns a worker panic on its last attempt into a failed
 // submission, as an error would.
-type panicHandler struct{ db *DB }
+type panicHandler struct {
+	db     *DB
+	logger *slog.Logger
+}
 
 func (h panicHandler) HandleError(context.Context, *rivertype.JobRow, error) *river.ErrorHandlerResult {
 	return nil
 }
 
-func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v any, trace string) *river.ErrorHandlerResult {
+func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v any,
+	trace string) *river.ErrorHandlerResult {
 	var args ScreenArgs
 	if err := unmarshalArgs(job, &args); err == nil && job.Attempt >= job.MaxAttempts {
-		_ = h.db.MarkFailed(context.WithoutCancel(ctx), args.SubmissionID, fmt.Sprintf("internal error: %v", v))
+		reason := fmt.Sprintf("internal error: %v", v)
+		if err := h.db.MarkFailed(context.WithoutCancel(ctx), args.SubmissionID, reason); err != nil {
+			h.logger.Error("marking a submission failed after a panic", "submission_id", args.SubmissionID, "error", err)
+		}
 	}
 	return nil
 }
@@ -117,14 +157,27 @@ func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v 
 func unmarshalArgs(job *rivertype.JobRow, v any) error { return json.Unmarshal(job.EncodedArgs, v) }
 
 // Workers is a running set of queue workers.
-type Workers struct{ client *river.Client[pgx.Tx] }
+type Workers struct {
+	client *river.Client[pgx.Tx]
+	gate   *gate
+}
 
 // StartWorkers starts workers that screen queued submissions.
 func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, error) {
 	ws := river.NewWorkers()
-	if err := river.AddWorkerSafely(ws, &screenWorker{db: db, cfg: cfg}); err != nil {
+	g := &gate{logger: cmp.Or(cfg.Logger, slog.Default())}
+	if err := river.AddWorkerSafely(ws, &screenWorker{db: db, cfg: cfg, gate: g}); err != nil {
 		return nil, err
 	}
+	if err := river.AddWorkerSafely(ws, &reconcileWorker{db: db}); err != nil {
+		return nil, err
+	}
+	if err := river.AddWorkerSafely(ws, &deliverWorker{db: db, client: webhookClient()}); err != nil {
+		return nil, err
+	}
+	every := cmp.Or(cfg.ReconcileEvery, reconcileEvery)
+	periodic := river.NewPeriodicJob(river.PeriodicInterval(every),
+		func() (river.JobArgs, *river.InsertOpts) { return ReconcileArgs{}, nil }, &river.PeriodicJobOpts{RunOnStart: true})
 	rescue := cfg.RescueAfter
 	if rescue < cfg.Timeout {
 		rescue = cfg.Timeout + time.Minute
@@ -134,7 +187,8 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 		Workers:              ws,
 		JobTimeout:           cfg.Timeout,
 		RescueStuckJobsAfter: rescue,
-		ErrorHandler:         panicHandler{db: db},
+		ErrorHandler:         panicHandler{db: db, logger: cmp.Or(cfg.Logger, slog.Default())},
+		PeriodicJobs:         []*river.PeriodicJob{periodic},
 		Logger:               cfg.Logger,
 		FetchCooldown:        50 * time.Millisecond,
 		FetchPollInterval:    500 * time.Millisecond,
@@ -145,19 +199,30 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 	if err := client.Start(ctx); err != nil {
 		return nil, fmt.Errorf("store: start workers: %w", err)
 	}
-	return &Workers{client: client}, nil
+	return &Workers{client: client, gate: g}, nil
 }
 
-// Stop lets running jobs finish, up to ctx's deadline, then cancels them
-// (they are retried by another worker).
+// Stop stops fetching jobs at once (a job fetched meanwhile goes back to
+// the queue unstarted), lets running jobs finish up to ctx's deadline,
+// then cancels them: they are released to be retried by another worker.
 func (w *Workers) Stop(ctx context.Context) error {
+	w.gate.close()
 	err := w.client.Stop(ctx)
 	if errors.Is(err, context.DeadlineExceeded) || errors.Is(err, context.Canceled) {
-		return w.client.StopAndCancel(context.Background())
+		release, cancel := context.WithTimeout(context.Background(), releaseTime)
+		defer cancel()
+		return w.client.StopAndCancel(release)
 	}
 	return err
 }
 
+// releaseTime bounds how long cancelled jobs may take to hand their work
+// back when Stop's deadline has passed.
+const releaseTime = 5 * time.Second
+
 // Kill cancels running jobs at once, as a crash would leave them to be
 // retried; for tests and for a second interrupt.
-func (w *Workers) Kill(ctx context.Context) error { return w.client.StopAndCancel(ctx) }
+func (w *Workers) Kill(ctx context.Context) error {
+	w.gate.close()
+	return w.client.StopAndCancel(ctx)
+}

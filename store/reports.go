@@ -28,12 +28,17 @@ func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, too
 	}
 	now := db.now()
 	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
-		if _, err := tx.Exec(ctx, `INSERT INTO reports (submission_id, report, score, band, tool_version, duration_ms, created_at)
-			VALUES ($1, $2, $3, $4, $5, $6, $7)`, id, string(b), rep.Score, rep.Band, rep.ToolVersion, took.Milliseconds(), now); err != nil {
+		if _, err := tx.Exec(ctx, `INSERT INTO reports (submission_id, report, score, band, tool_version,
+			duration_ms, created_at) VALUES ($1, $2, $3, $4, $5, $6, $7)`,
+			id, string(b), rep.Score, rep.Band, rep.ToolVersion, took.Milliseconds(), now); err != nil {
 			return err
 		}
-		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2 WHERE id = $1`, id, now)
-		return err
+		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2,
+			latest_score = $3, latest_band = $4, report_count = report_count + 1 WHERE id = $1`, id, now, rep.Score, rep.Band)
+		if err != nil {
+			return err
+		}
+		return db.notify(ctx, tx, id)
 	})
 	return dbError(err, "report")
 }
@@ -41,14 +46,28 @@ func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, too
 // MarkFailed records that screening a submission failed for good, with
 // the reason the client will see.
 func (db *DB) MarkFailed(ctx context.Context, id, reason string) error {
-	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3 WHERE id = $1`, id, reason, db.now())
+	return db.fail(ctx, id, reason, `status <> 'failed'`)
+}
+
+// fail marks a submission failed where cond holds, and notifies its
+// office's webhook, in one transaction.
+func (db *DB) fail(ctx context.Context, id, reason, cond string) error {
+	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
+		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3
+			WHERE id = $1 AND `+cond, id, reason, db.now())
+		if err != nil || tag.RowsAffected() == 0 {
+			return err
+		}
+		return db.notify(ctx, tx, id)
+	})
 	return dbError(err, "submission")
 }
 
 // NoteAttemptError records the error of an attempt that will be retried;
 // the submission goes back to queued.
 func (db *DB) NoteAttemptError(ctx context.Context, id, reason string) error {
-	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'queued', error = $2, updated_at = $3 WHERE id = $1 AND status = 'running'`, id, reason, db.now())
+	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'queued', error = $2, updated_at = $3
+		WHERE id = $1 AND status = 'running'`, id, reason, db.now())
 	return dbError(err, "submission")
 }
 
@@ -58,7 +77,8 @@ func (db *DB) LatestReport(ctx context.Context, id string, sc service.Scope) ([]
 		return nil, err
 	}
 	var b string
-	err := db.Pool.QueryRow(ctx, `SELECT report FROM reports WHERE submission_id = $1 ORDER BY id DESC LIMIT 1`, id).Scan(&b)
+	err := db.Pool.QueryRow(ctx, `SELECT report FROM reports WHERE submission_id = $1
+		ORDER BY id DESC LIMIT 1`, id).Scan(&b)
 	if errors.Is(err, pgx.ErrNoRows) {
 		return nil, service.Errorf(service.ENotFound, "no report yet: the submission has not been screened")
 	}

@@ -19,10 +19,7 @@ var ctx = context.Background()
 
 func mustKey(t *testing.T, db *store.DB, office, role string) (*service.Key, string) {
 	t.Helper()
-	token, k, err := db.CreateKey(ctx, office, role)
-	if err != nil {
-		t.Fatal(err)
-	}
+	token, k := storetest.MustKey(t, db, office, role)
 	return k, token
 }
 
@@ -47,8 +44,32 @@ func TestKeys(t *testing.T) {
 			t.Fatalf("bad token: %v", err)
 		}
 	})
+	t.Run("UnknownOfficeNotFound", func(t *testing.T) {
+		_, _, err := db.CreateKey(ctx, service.NewKey{Office: "Journal of Invented Studis", Role: service.RoleEditor})
+		if service.ErrorCode(err) != service.ENotFound {
+			t.Fatalf("a typo in the office: %v", err)
+		}
+		if offices, _ := db.Offices(ctx); len(offices) != 1 {
+			t.Fatalf("%d offices, want 1", len(offices))
+		}
+	})
+	t.Run("ListAndRevoke", func(t *testing.T) {
+		keys, err := db.Keys(ctx, "Journal of Invented Studies")
+		if err != nil || len(keys) != 2 || keys[0].LastUsedAt == nil || keys[1].LastUsedAt != nil || keys[0].Label == "" {
+			t.Fatalf("keys %+v, %v: want two, the first used", keys, err)
+		}
+		if err := db.RevokeKey(ctx, k.ID); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := db.KeyByToken(ctx, token); service.ErrorCode(err) != service.ENotFound {
+			t.Fatalf("revoked key still works: %v", err)
+		}
+		if err := db.RevokeKey(ctx, k.ID); service.ErrorCode(err) != service.ENotFound {
+			t.Fatalf("revoking twice: %v", err)
+		}
+	})
 	t.Run("ErrInvalid", func(t *testing.T) {
-		if _, _, err := db.CreateKey(ctx, "x", "admin"); service.ErrorCode(err) != service.EInvalid {
+		if _, _, err := db.CreateKey(ctx, service.NewKey{Office: "x", Role: "admin"}); service.ErrorCode(err) != service.EInvalid {
 			t.Fatalf("bad role: %v", err)
 		}
 	})
@@ -66,7 +87,7 @@ func TestSubmissionStore(t *testing.T) {
 	other, _ := mustKey(t, db, "Office B", service.RoleEditor)
 
 	s, replayed, err := db.CreateSubmission(ctx, newSub(sub1, "h1", "k1"))
-	if err != nil || replayed || s.Status != service.StatusQueued {
+	if err != nil || replayed || s.Status != service.StatusQueued || s.SubmittedBy != "submitter of Office A" {
 		t.Fatalf("create: %+v, %v, %v", s, replayed, err)
 	}
 	var jobs int

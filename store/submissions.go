@@ -17,16 +17,15 @@ import (
 
 var uuidRE = regexp.MustCompile(`^[0-9a-fA-F]{8}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{4}-[0-9a-fA-F]{12}$`)
 
-const submissionColumns = `s.id, s.office_id, s.submitter_key_id, s.manuscript_id, s.title, s.package_sha256,
-	s.status, s.error, s.attempts, r.score, r.band, (SELECT count(*) FROM reports WHERE submission_id = s.id),
-	s.created_at, s.updated_at`
+const submissionColumns = `s.id, s.office_id, s.submitter_key_id, sk.label, s.manuscript_id, s.title, s.package_sha256,
+	s.status, s.error, s.attempts, s.latest_score, s.latest_band, s.report_count, s.created_at, s.updated_at`
 
-const submissionFrom = ` FROM submissions s LEFT JOIN LATERAL (
-	SELECT score, band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1) r ON true`
+// submissionFrom joins the key that sent each submission, for its label.
+const submissionFrom = ` FROM submissions s JOIN api_keys sk ON sk.id = s.submitter_key_id`
 
 func scanSubmission(row pgx.Row) (*service.Submission, error) {
 	s := &service.Submission{}
-	err := row.Scan(&s.ID, &s.OfficeID, &s.SubmitterKeyID, &s.ManuscriptID, &s.Title, &s.PackageSHA256,
+	err := row.Scan(&s.ID, &s.OfficeID, &s.SubmitterKeyID, &s.SubmittedBy, &s.ManuscriptID, &s.Title, &s.PackageSHA256,
 		&s.Status, &s.Error, &s.Attempts, &s.Score, &s.Band, &s.Reports, &s.CreatedAt, &s.UpdatedAt)
 	return s, err
 }
@@ -35,7 +34,8 @@ func scanSubmission(row pgx.Row) (*service.Submission, error) {
 // transaction. With an idempotency key already used by the same API key it
 // returns the earlier submission and replayed = true, or a conflict when
 // the package differs.
-func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (sub *service.Submission, replayed bool, err error) {
+func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (
+	sub *service.Submission, replayed bool, err error) {
 	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
 		var idem *string
 		if n.IdempotencyKey != "" {
@@ -55,7 +55,8 @@ func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (su
 			sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
 				WHERE s.submitter_key_id = $1 AND s.idempotency_key = $2`, n.Key.ID, n.IdempotencyKey))
 			if err == nil && sub.PackageSHA256 != n.PackageSHA256 {
-				return service.Errorf(service.EConflict, "the Idempotency-Key %q was used for a different package", n.IdempotencyKey)
+				return service.Errorf(service.EConflict,
+					"the Idempotency-Key %q was used for a different package", n.IdempotencyKey)
 			}
 			return err
 		}
@@ -107,7 +108,7 @@ func (db *DB) Submissions(ctx context.Context, f service.Filter) ([]*service.Sub
 		add("s.status = $%d", f.Status)
 	}
 	if f.Band != "" {
-		add("r.band = $%d", f.Band)
+		add("s.latest_band = $%d", f.Band)
 	}
 	if f.Cursor != "" {
 		at, id, err := decodeCursor(f.Cursor)
@@ -147,11 +148,15 @@ func encodeCursor(at time.Time, id string) string {
 	return base64.RawURLEncoding.EncodeToString([]byte(strconv.FormatInt(at.UnixMicro(), 10) + "/" + id))
 }
 
+// maxCursorMicros is the end of the year 9999: a cursor past it was not
+// given out by this server (and PostgreSQL could not compare it).
+var maxCursorMicros = time.Date(9999, 12, 31, 23, 59, 59, 0, time.UTC).UnixMicro()
+
 func decodeCursor(c string) (time.Time, string, error) {
 	b, err := base64.RawURLEncoding.DecodeString(c)
 	at, id, ok := strings.Cut(string(b), "/")
 	micros, perr := strconv.ParseInt(at, 10, 64)
-	if err != nil || !ok || perr != nil || !uuidRE.MatchString(id) {
+	if err != nil || !ok || perr != nil || !uuidRE.MatchString(id) || micros < 0 || micros > maxCursorMicros {
 		return time.Time{}, "", service.Errorf(service.EInvalid, "the cursor is not one this server gave out")
 	}
 	return time.UnixMicro(micros).UTC(), id, nil
@@ -162,7 +167,8 @@ func (db *DB) DeleteSubmission(ctx context.Context, id string, sc service.Scope)
 	if !uuidRE.MatchString(id) {
 		return service.Errorf(service.ENotFound, "submission not found")
 	}
-	tag, err := db.Pool.Exec(ctx, `DELETE FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`, sc.OfficeID, sc.Editor, sc.KeyID, id)
+	tag, err := db.Pool.Exec(ctx, `DELETE FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`,
+		sc.OfficeID, sc.Editor, sc.KeyID, id)
 	if err != nil {
 		return dbError(err, "submission")
 	}
@@ -176,6 +182,9 @@ func (db *DB) DeleteSubmission(ctx context.Context, id string, sc service.Scope)
 // earlier reports are kept.
 func (db *DB) Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error) {
 	if _, err := db.Submission(ctx, id, sc); err != nil {
+		return nil, err
+	}
+	if _, err := db.Reconcile(ctx, id); err != nil { // a job the queue gave up on ends failed first
 		return nil, err
 	}
 	var sub *service.Submission

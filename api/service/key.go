@@ -39,3 +39,11 @@ type Scope struct {
 	KeyID    int64
 	Editor   bool
 }
+
+// NewKey is what a store needs to make a key: an existing office by name,
+// a role and a label.
+type NewKey struct {
+	Office string
+	Role   string
+	Label  string
+}

@@ -47,10 +47,7 @@ func BenchmarkServer(b *testing.B) {
 		b.Fatal(err)
 	}
 	defer m.Close()
-	token, _, err := m.DB.CreateKey(context.Background(), "Bench office", service.RoleEditor)
-	if err != nil {
-		b.Fatal(err)
-	}
+	token, _ := storetest.MustKey(b, m.DB, "Bench office", service.RoleEditor)
 	pkg, err := os.ReadFile("../../testdata/demo/tutoring-anxiety/package.json")
 	if err != nil {
 		b.Fatal(err)

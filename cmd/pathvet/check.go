@@ -13,6 +13,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 func toolVersion() string { return checks.ToolVersion }
@@ -36,28 +37,21 @@ func parseInterspersed(fs *flag.FlagSet, args []string) ([]string, error) {
 // runCheck is `pathvet check`: screen a package offline and print the
 // report.
 func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := flag.NewFlagSet("check", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	format := fs.String("format", "text", "report format: text or json")
+	fs := newCommand("check", checkUsage, stdout, stderr)
+	format := fs.String("format", "text", "report format: text, json or html (one self-contained page)")
 	out := fs.String("out", "", "write the report to this file instead of standard output")
 	failUnder := fs.Int("fail-under", 0, "exit with status 1 when the score is below this")
 	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
 	quiet := fs.Bool("quiet", false, "draw no progress line on standard error")
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, "Usage: pathvet check [flags] PACKAGE.json\n\nScreens a submission package offline and prints its report.\nExit status: 0 report made, 1 score below --fail-under, 2 invalid package.\n\nFlags:")
-		fs.PrintDefaults()
-	}
-	pos, err := parseInterspersed(fs, args)
+	pos, code, ok := fs.parse(args)
 	switch {
-	case errors.Is(err, flag.ErrHelp):
-		return exitOK
-	case err != nil:
-		return exitInvalid
+	case !ok:
+		return code
 	case len(pos) != 1:
 		fmt.Fprintln(stderr, "pathvet check: give exactly one package file")
 		return exitInvalid
-	case *format != "text" && *format != "json":
-		fmt.Fprintf(stderr, "pathvet check: --format is text or json, not %q\n", *format)
+	case *format != "text" && *format != "json" && *format != "html":
+		fmt.Fprintf(stderr, "pathvet check: --format is text, json or html, not %q\n", *format)
 		return exitInvalid
 	case *alpha <= 0 || *alpha >= 1:
 		fmt.Fprintln(stderr, "pathvet check: --alpha must lie strictly between 0 and 1")
@@ -120,14 +114,18 @@ func readBeside(dir, name string) ([]byte, error) {
 
 func writeReport(rep *checks.Report, format, out string, stdout io.Writer) error {
 	var b strings.Builder
-	if format == "json" {
+	if format == "html" {
+		if err := render.WritePage(&b, rep, render.PageOptions{}); err != nil {
+			return err
+		}
+	} else if format == "json" {
 		enc := json.NewEncoder(&b)
 		enc.SetIndent("", "  ")
 		enc.SetEscapeHTML(false)
 		if err := enc.Encode(rep); err != nil {
 			return err
 		}
-	} else if err := checks.WriteText(&b, rep); err != nil {
+	} else if err := render.WriteText(&b, rep); err != nil {
 		return err
 	}
 	if out == "" {

@@ -60,6 +60,31 @@ func TestCheck_FailUnderAndOut(t *testing.T) {
 	}
 }
 
+// The offline page is one self-contained file: inline style and SVG,
+// nothing fetched.
+func TestCheck_HTMLPage(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "report.html")
+	pkg := "../../testdata/demo/coding-club/package.json"
+	if code, _, errOut := runCLI("check", "--format", "html", "--out", out, pkg); code != exitOK {
+		t.Fatalf("--format html: exit %d %q", code, errOut)
+	}
+	b, err := os.ReadFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := string(b)
+	for _, want := range []string{"<!DOCTYPE html>", "<style>", `<svg class="graph" id="declared-graph"`, `<table class="claims">`} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the page lacks %q", want)
+		}
+	}
+	for _, bad := range []string{"<link", "<script", "src=", "http://", "https://"} {
+		if strings.Contains(page, bad) {
+			t.Errorf("the page is not self-contained: it has %q", bad)
+		}
+	}
+}
+
 func TestCheck_Usage(t *testing.T) {
 	for _, args := range [][]string{{}, {"check"}, {"check", "a.json", "b.json"}, {"check", "--format", "xml", "a.json"}, {"nope"}} {
 		if code, _, _ := runCLI(args...); code != exitInvalid {

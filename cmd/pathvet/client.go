@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"flag"
 	"fmt"
 	"io"
 	"mime/multipart"
@@ -138,14 +137,25 @@ func packageBody(path string) (contentType string, body []byte, err error) {
 	return mw.FormDataContentType(), buf.Bytes(), nil
 }
 
+const submitUsage = `Usage: pathvet submit [--server URL] [--wait] [--format text|json] [--idempotency-key K] PACKAGE.json
+
+Sends a package (and the CSV file its data.file names) for screening and
+prints the submission's id and status, or with --wait its report.
+The API key comes from PATHVET_TOKEN.`
+
+const reportUsage = `Usage: pathvet report [--server URL] [--format text|json] [--letter] ID
+
+Prints the newest report of a submission, or with --letter its questions for
+the authors as Markdown. The API key comes from PATHVET_TOKEN.`
+
 // runSubmit is `pathvet submit --server URL PACKAGE.json [--wait]`.
 func runSubmit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := newFlagSet("submit", stderr, "Usage: pathvet submit --server URL [--wait] [--idempotency-key K] PACKAGE.json\n\nThe token comes from PATHVET_TOKEN.")
+	fs := newCommand("submit", submitUsage, stdout, stderr)
 	server := serverFlag(fs)
 	wait := fs.Bool("wait", false, "wait for the report and print it")
 	idem := fs.String("idempotency-key", "", "send this Idempotency-Key, so that a retry cannot submit twice")
 	format := fs.String("format", "text", "with --wait: the report as text or json")
-	c, pos, code := clientArgs(fs, args, server, stderr)
+	c, pos, code := clientArgs(fs, args, server)
 	if c == nil {
 		return code
 	}
@@ -210,35 +220,38 @@ func printReport(ctx context.Context, c *client, id, format string, stdout, stde
 
 // runReport is `pathvet report --server URL ID [--format json|text]`.
 func runReport(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	fs := newFlagSet("report", stderr, "Usage: pathvet report --server URL [--format text|json] ID\n\nThe token comes from PATHVET_TOKEN.")
+	fs := newCommand("report", reportUsage, stdout, stderr)
 	server := serverFlag(fs)
 	format := fs.String("format", "text", "text or json")
-	c, pos, code := clientArgs(fs, args, server, stderr)
+	letter := fs.Bool("letter", false, "print the questions for the authors as Markdown instead")
+	c, pos, code := clientArgs(fs, args, server)
 	if c == nil {
 		return code
+	}
+	if *letter {
+		return printLetter(ctx, c, pos[0], stdout, stderr)
 	}
 	return printReport(ctx, c, pos[0], *format, stdout, stderr)
 }
 
-func serverFlag(fs *flag.FlagSet) *string {
+func serverFlag(fs *command) *string {
 	return fs.String("server", "http://127.0.0.1:8080", "the pathvet server")
 }
 
 // clientArgs parses a client command's flags and its one positional
 // argument and makes the client; on failure c is nil and code the exit
 // status.
-func clientArgs(fs *flag.FlagSet, args []string, server *string, stderr io.Writer) (c *client, pos []string, code int) {
-	pos, err := parseInterspersed(fs, args)
-	if err != nil || len(pos) != 1 {
-		if err == nil {
-			fs.Usage()
-		}
-		return nil, nil, exitInvalid
+func clientArgs(fs *command, args []string, server *string) (c *client, pos []string, code int) {
+	pos, code, ok := fs.parse(args)
+	switch {
+	case !ok:
+		return nil, nil, code
+	case len(pos) != 1:
+		return nil, nil, fs.misuse("give exactly one argument")
 	}
-	c, err = newClient(*server, getenv("PATHVET_TOKEN"))
+	c, err := newClient(*server, getenv("PATHVET_TOKEN"))
 	if err != nil {
-		fmt.Fprintf(stderr, "pathvet %s: %v\n", fs.Name(), err)
-		return nil, nil, exitInvalid
+		return nil, nil, fs.fail(exitInvalid, err)
 	}
 	return c, pos, 0
 }

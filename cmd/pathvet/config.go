@@ -25,6 +25,13 @@ type Config struct {
 	Alpha       float64
 	Limits      load.Limits
 	Shutdown    time.Duration
+	// JobMemoryMiB is the memory one screening job may use (the worker's
+	// memory divided among its workers, less headroom); LargeIngests the
+	// large uploads the API reads at once.
+	JobMemoryMiB int64
+	LargeIngests int
+	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
+	TLSProxy bool
 }
 
 // defaultConfig reads PATHVET_* variables over the defaults.
@@ -38,7 +45,11 @@ func defaultConfig(getenv func(string) string) Config {
 		Alpha:       checks.DefaultAlpha,
 		Limits:      load.DefaultLimits,
 		Shutdown:    20 * time.Second,
+		// The worker manifest's 2 GiB, 2 workers, 10% headroom.
+		JobMemoryMiB: 900,
+		LargeIngests: 1,
 	}
+	c.TLSProxy = getenv("PATHVET_BEHIND_TLS") == "true"
 	if v := getenv("PATHVET_ADDR"); v != "" {
 		c.Addr = v
 	}
@@ -48,21 +59,60 @@ func defaultConfig(getenv func(string) string) Config {
 	if v, err := time.ParseDuration(getenv("PATHVET_JOB_TIMEOUT")); err == nil {
 		c.JobTimeout = v
 	}
+	if v, err := time.ParseDuration(getenv("PATHVET_SHUTDOWN_GRACE")); err == nil {
+		c.Shutdown = v
+	}
+	if v, err := strconv.ParseInt(getenv("PATHVET_JOB_MEMORY_MIB"), 10, 64); err == nil {
+		c.JobMemoryMiB = v
+	}
 	return c
 }
 
-// bindServerFlags lets flags override the configuration.
-func (c *Config) bindServerFlags(fs *flag.FlagSet) {
-	fs.StringVar(&c.DatabaseURL, "database-url", c.DatabaseURL, "PostgreSQL URL (PATHVET_DATABASE_URL)")
-	fs.StringVar(&c.Addr, "addr", c.Addr, "listen address (PATHVET_ADDR)")
+// bindServerFlags lets flags override the configuration; --addr only
+// for serve, which listens. The database URL's default is not shown, so
+// that help never prints its password.
+func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
+	fs.Func("database-url", "PostgreSQL URL (default $PATHVET_DATABASE_URL)", func(v string) error {
+		c.DatabaseURL = v
+		return nil
+	})
+	if serve {
+		fs.StringVar(&c.Addr, "addr", c.Addr, "listen address (PATHVET_ADDR)")
+		fs.IntVar(&c.LargeIngests, "large-ingests", c.LargeIngests, "uploads of 8 MiB or more read at once; more get 503")
+		fs.BoolVar(&c.TLSProxy, "behind-tls", c.TLSProxy,
+			"served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)")
+	}
+	fs.Int64Var(&c.JobMemoryMiB, "job-memory-mib", c.JobMemoryMiB,
+		"memory one screening job may use; larger raw data is refused with the estimate (PATHVET_JOB_MEMORY_MIB)")
 	fs.IntVar(&c.Workers, "workers", c.Workers, "screening jobs at once in this process; 0 for none (PATHVET_WORKERS)")
 	fs.DurationVar(&c.JobTimeout, "job-timeout", c.JobTimeout, "deadline of one screening job (PATHVET_JOB_TIMEOUT)")
-	fs.DurationVar(&c.RescueAfter, "rescue-after", c.RescueAfter, "retry a job still running after this long (its worker died)")
+	fs.DurationVar(&c.RescueAfter, "rescue-after", c.RescueAfter,
+		"retry a job still running after this long (its worker died)")
+	fs.DurationVar(&c.Shutdown, "shutdown-grace", c.Shutdown,
+		"on SIGTERM, how long running jobs and requests may take to finish (PATHVET_SHUTDOWN_GRACE)")
 	fs.BoolVar(&c.Migrate, "migrate", c.Migrate, "apply the database migrations before starting")
 	fs.Float64Var(&c.Alpha, "alpha", c.Alpha, "significance level")
 	fs.Int64Var(&c.Limits.PackageBytes, "max-package-bytes", c.Limits.PackageBytes, "largest package JSON")
 	fs.Int64Var(&c.Limits.CSVBytes, "max-csv-bytes", c.Limits.CSVBytes, "largest CSV data")
 	fs.IntVar(&c.Limits.Rows, "max-rows", c.Limits.Rows, "most data rows")
+}
+
+// serveUsage is the usage of serve and work; it names every flag.
+var serveUsage = map[string]string{
+	"serve": `Usage: pathvet serve [--database-url URL] [--addr HOST:PORT] [--workers N] [--job-timeout D]
+       [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A] [--large-ingests N] [--job-memory-mib N]
+       [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N] [--behind-tls]
+
+Serves the HTTP API and the web workspace and, unless --workers 0, screens submissions in-process.
+SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
+one stops it at once.`,
+	"work": `Usage: pathvet work [--database-url URL] [--workers N] [--job-timeout D]
+       [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A] [--job-memory-mib N]
+       [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N]
+
+Screens queued submissions (no HTTP API), for scaling workers out.
+SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
+one stops it at once.`,
 }
 
 func (c Config) validate() error {

@@ -100,10 +100,7 @@ func (c apiClient) submission(path string) (int, api.SubmissionView) {
 
 func mustKeyToken(t *testing.T, db *store.DB, office, role string) string {
 	t.Helper()
-	token, _, err := db.CreateKey(context.Background(), office, role)
-	if err != nil {
-		t.Fatal(err)
-	}
+	token, _ := storetest.MustKey(t, db, office, role)
 	return token
 }
 

@@ -23,12 +23,15 @@ const (
 Usage:
   pathvet init (--data ROWS.csv | --summary TABLE.csv) [--out PACKAGE.json] [--force]
   pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] [--quiet] PACKAGE.json
-  pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate]
-  pathvet work [--database-url URL] [--workers N]
+  pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate] [flags]
+  pathvet work [--database-url URL] [--workers N] [flags]
   pathvet migrate up|status [--database-url URL]
-  pathvet keys create --office NAME --role editor|submitter
-  pathvet submit --server URL [--wait] PACKAGE.json
-  pathvet report --server URL [--format text|json] ID
+  pathvet offices create NAME | offices list
+  pathvet keys create --office NAME --role editor|submitter --label TEXT
+  pathvet keys list [--office NAME] | keys revoke ID
+  pathvet submit [--server URL] [--wait] [flags] PACKAGE.json
+  pathvet report [--server URL] [--format text|json] ID
+  pathvet version
 
 The server reads PATHVET_DATABASE_URL and PATHVET_ADDR (default 127.0.0.1:8080);
 the clients read PATHVET_TOKEN.
@@ -56,11 +59,13 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	case "init":
 		return runInit(args[1:], stdout, stderr)
 	case "serve", "work":
-		return runServe(ctx, args[0], args[1:], stderr)
+		return runServe(ctx, args[0], args[1:], stdout, stderr)
 	case "migrate":
 		return runMigrate(ctx, args[1:], stdout, stderr)
 	case "keys":
 		return runKeys(ctx, args[1:], stdout, stderr)
+	case "offices":
+		return runOffices(ctx, args[1:], stdout, stderr)
 	case "submit":
 		return runSubmit(ctx, args[1:], stdout, stderr)
 	case "report":
@@ -69,6 +74,10 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprint(stdout, usageOverview)
 		return exitOK
 	case "version", "--version":
+		if len(args) > 1 && (args[1] == "--help" || args[1] == "-h") {
+			fmt.Fprintln(stdout, "Usage: pathvet version\n\nPrints the version of pathvet and of its checks.")
+			return exitOK
+		}
 		fmt.Fprintln(stdout, "pathvet", toolVersion())
 		return exitOK
 	}

@@ -8,9 +8,13 @@ import (
 	"log/slog"
 	"net"
 	"net/http"
+	"os"
+	"os/signal"
+	"syscall"
 	"time"
 
 	"github.com/pathvet/pathvet/api"
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
 	"github.com/pathvet/pathvet/store"
@@ -24,6 +28,7 @@ type Main struct {
 	DB      *store.DB
 	Workers *store.Workers
 	HTTP    *http.Server
+	API     *api.Server
 	ln      net.Listener
 	serve   bool // run the HTTP API
 	done    chan error
@@ -33,6 +38,9 @@ type Main struct {
 // the pipeline on it.
 func screenFunc(cfg Config) store.ScreenFunc {
 	return func(ctx context.Context, pkg, data []byte) (*checks.Report, error) {
+		if err := service.CheckMemory(data, cfg.JobMemoryMiB<<20); err != nil {
+			return nil, errors.Join(store.ErrPermanent, err)
+		}
 		s, err := load.Load(pkg, load.Options{Limits: cfg.Limits, CSV: data})
 		if err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
@@ -70,13 +78,16 @@ func (m *Main) Run(ctx context.Context) error {
 	if !m.serve {
 		return nil
 	}
-	srv := api.New(api.Config{Store: db, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics})
+	srv := api.New(api.Config{Store: db, Web: db, TLSProxy: m.Config.TLSProxy, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics,
+		LargeIngests: m.Config.LargeIngests, JobMemory: m.Config.JobMemoryMiB << 20})
+	m.API = srv
 	m.ln, err = net.Listen("tcp", m.Config.Addr)
 	if err != nil {
 		return fmt.Errorf("listen on %s: %w", m.Config.Addr, err)
 	}
 	m.HTTP = &http.Server{Handler: srv.Echo(), ReadHeaderTimeout: 10 * time.Second,
-		ReadTimeout: 5 * time.Minute, WriteTimeout: 2 * time.Minute, IdleTimeout: 2 * time.Minute}
+		MaxHeaderBytes: api.HTTPServerMaxHeaderBytes,
+		ReadTimeout:    5 * time.Minute, WriteTimeout: 2 * time.Minute, IdleTimeout: 2 * time.Minute}
 	m.done = make(chan error, 1)
 	go func() { m.done <- m.HTTP.Serve(m.ln) }()
 	m.Logger.Info("serving", "addr", m.ln.Addr().String(), "workers", m.Config.Workers)
@@ -86,21 +97,29 @@ func (m *Main) Run(ctx context.Context) error {
 // URL is the server's base URL.
 func (m *Main) URL() string { return "http://" + m.ln.Addr().String() }
 
-// Close shuts down gracefully: no new requests, running requests and jobs
-// finish (up to the shutdown timeout; unfinished jobs are retried by
-// another worker), then the database closes.
+// Close shuts down cleanly within the configured grace: the workers stop
+// fetching at once and running jobs get most of the grace to finish (any
+// still running are cancelled and released to another worker); then open
+// long polls answer with the current status, the HTTP server finishes
+// its requests and stops, and the database closes.
 func (m *Main) Close() error {
-	ctx, cancel := context.WithTimeout(context.Background(), m.Config.Shutdown)
+	grace := m.Config.Shutdown
+	ctx, cancel := context.WithTimeout(context.Background(), grace)
 	defer cancel()
 	var errs []error
+	if m.Workers != nil {
+		jobs, cancelJobs := context.WithTimeout(ctx, grace-httpReserve(grace))
+		errs = append(errs, m.Workers.Stop(jobs))
+		cancelJobs()
+	}
 	if m.HTTP != nil {
-		errs = append(errs, m.HTTP.Shutdown(ctx))
+		m.API.Drain()
+		if err := m.HTTP.Shutdown(ctx); err != nil {
+			errs = append(errs, err, m.HTTP.Close())
+		}
 		if err := <-m.done; !errors.Is(err, http.ErrServerClosed) {
 			errs = append(errs, err)
 		}
-	}
-	if m.Workers != nil {
-		errs = append(errs, m.Workers.Stop(ctx))
 	}
 	if m.DB != nil {
 		m.DB.Close()
@@ -108,16 +127,37 @@ func (m *Main) Close() error {
 	return errors.Join(errs...)
 }
 
+// Kill stops at once: requests are cut and running jobs cancelled, to be
+// retried elsewhere (a second signal).
+func (m *Main) Kill() {
+	if m.HTTP != nil {
+		_ = m.HTTP.Close()
+	}
+	if m.Workers != nil {
+		ctx, cancel := context.WithTimeout(context.Background(), time.Second)
+		defer cancel()
+		_ = m.Workers.Kill(ctx)
+	}
+}
+
+// httpReserve is the part of the grace kept for the HTTP server after the
+// jobs: a quarter, at most 5 s.
+func httpReserve(grace time.Duration) time.Duration { return min(grace/4, 5*time.Second) }
+
 func newLogger(w io.Writer) *slog.Logger { return slog.New(slog.NewJSONHandler(w, nil)) }
 
 // runServe is `pathvet serve` (API and in-process workers) and
 // `pathvet work` (workers only).
-func runServe(ctx context.Context, name string, args []string, stderr io.Writer) int {
+func runServe(ctx context.Context, name string, args []string, stdout, stderr io.Writer) int {
 	cfg := defaultConfig(getenv)
-	fs := newFlagSet(name, stderr, "Usage: pathvet "+name+" [flags]")
-	cfg.bindServerFlags(fs)
-	if code, ok := parseFlags(fs, args); !ok {
+	fs := newCommand(name, serveUsage[name], stdout, stderr)
+	cfg.bindServerFlags(fs.FlagSet, name == "serve")
+	pos, code, ok := fs.parse(args)
+	switch {
+	case !ok:
 		return code
+	case len(pos) > 0:
+		return fs.misuse("takes no arguments, not %q", pos[0])
 	}
 	m := &Main{Config: cfg, Logger: newLogger(stderr), serve: name == "serve"}
 	if !m.serve && m.Config.Workers == 0 {
@@ -129,10 +169,29 @@ func runServe(ctx context.Context, name string, args []string, stderr io.Writer)
 		return exitInternal
 	}
 	<-ctx.Done()
-	m.Logger.Info("shutting down")
-	if err := m.Close(); err != nil {
-		fmt.Fprintf(stderr, "pathvet %s: shutdown: %v\n", name, err)
+	return shutdown(m, name, stderr)
+}
+
+// shutdown closes m after the first signal; a second signal stops at
+// once, with exit status 3.
+func shutdown(m *Main, name string, stderr io.Writer) int {
+	again := make(chan os.Signal, 1)
+	signal.Notify(again, os.Interrupt, syscall.SIGTERM)
+	defer signal.Stop(again)
+	m.Logger.Info("shutting down", "grace", m.Config.Shutdown.String())
+	closed := make(chan error, 1)
+	go func() { closed <- m.Close() }()
+	select {
+	case err := <-closed:
+		if err != nil {
+			fmt.Fprintf(stderr, "pathvet %s: shutdown: %v\n", name, err)
+			return exitInternal
+		}
+		m.Logger.Info("stopped")
+		return exitOK
+	case <-again:
+		m.Logger.Warn("second signal: stopping at once")
+		m.Kill()
 		return exitInternal
 	}
-	return exitOK
 }

@@ -1,4 +1,7 @@
-package checks
+// Package render draws a screening report for people: the text view, the
+// HTML page with its SVG graph and chart, and the letter of questions.
+// Its only input is the report (package checks, types only).
+package render
 
 import (
 	"fmt"
@@ -6,6 +9,8 @@ import (
 	"math"
 	"sort"
 	"strings"
+
+	"github.com/pathvet/pathvet/checks"
 )
 
 // TextWidth is the width the text report is wrapped to.
@@ -13,7 +18,7 @@ const TextWidth = 100
 
 // WriteText writes the report as plain text for a terminal or an e-mail:
 // the score and band first, then one block per check, worst first.
-func WriteText(w io.Writer, r *Report) error {
+func WriteText(w io.Writer, r *checks.Report) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Score %d/100: %s\n", r.Score, r.Band)
 	wrap(&b, "", r.Title)
@@ -45,7 +50,7 @@ func WriteText(w io.Writer, r *Report) error {
 
 func statusLabel(s string) string {
 	switch s {
-	case StatusNotApplicable:
+	case checks.StatusNotApplicable:
 		return "n/a"
 	}
 	return strings.ToUpper(s)
@@ -54,8 +59,8 @@ func statusLabel(s string) string {
 // ByConcern returns the checks worst first (fail, warn, pass, not
 // applicable), keeping pipeline order among equals, each with its
 // findings worst first.
-func ByConcern(cs []CheckResult) []CheckResult {
-	out := append([]CheckResult(nil), cs...)
+func ByConcern(cs []checks.CheckResult) []checks.CheckResult {
+	out := append([]checks.CheckResult(nil), cs...)
 	sort.SliceStable(out, func(i, j int) bool { return rank(out[i].Status) > rank(out[j].Status) })
 	for i := range out {
 		out[i].Findings = byConcernFindings(out[i].Findings)
@@ -63,10 +68,25 @@ func ByConcern(cs []CheckResult) []CheckResult {
 	return out
 }
 
-func byConcernFindings(fs []Finding) []Finding {
-	out := append([]Finding(nil), fs...)
+func byConcernFindings(fs []checks.Finding) []checks.Finding {
+	out := append([]checks.Finding(nil), fs...)
 	sort.SliceStable(out, func(i, j int) bool { return rank(out[i].Severity) > rank(out[j].Severity) })
 	return out
+}
+
+// rank orders statuses and severities by concern.
+func rank(s string) int {
+	switch s {
+	case checks.StatusFail:
+		return 4
+	case checks.StatusWarn:
+		return 3
+	case checks.StatusPass:
+		return 2
+	case checks.SeverityInfo:
+		return 1
+	}
+	return 0
 }
 
 func wrap(b *strings.Builder, indent, text string) { wrapHanging(b, indent, "", text) }
@@ -96,12 +116,12 @@ func wrapHanging(b *strings.Builder, indent, lead, text string) {
 
 // writeNearby lists graph.nearby_graphs and graph.search_best, one line
 // each: ΔBIC, Raftery's band, the edits, the class sizes, changed claims.
-func writeNearby(b *strings.Builder, g *GraphReport) {
+func writeNearby(b *strings.Builder, g *checks.GraphReport) {
 	if g == nil || (len(g.NearbyGraphs) == 0 && g.SearchBest == nil) {
 		return
 	}
 	b.WriteString("\nGraphs one edit away, best first (ΔBIC against the declared graph; negative fits better):\n")
-	line := func(lead string, n NearbyGraph) {
+	line := func(lead string, n checks.NearbyGraph) {
 		var edits, changed []string
 		for _, e := range n.Edits {
 			edits = append(edits, e.Op+" "+e.From+" → "+e.To)

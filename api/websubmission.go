@@ -1,0 +1,153 @@
+package api
+
+import (
+	"encoding/json"
+	"fmt"
+	"net/http"
+	"strconv"
+	"strings"
+
+	"github.com/labstack/echo/v4"
+
+	"github.com/pathvet/pathvet/api/service"
+	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/render"
+)
+
+// webSubmission is GET /submissions/{id}: the report (the newest, or the
+// earlier one named by ?report=), its history, and what changed since
+// the manuscript's previous version.
+func (s *Server) webSubmission(c echo.Context) error {
+	ctx, sc := c.Request().Context(), keyOf(c).Scope()
+	sub, err := s.cfg.Store.Submission(ctx, c.Param("id"), sc)
+	if err != nil {
+		return err
+	}
+	hist, err := s.cfg.Web.ReportHistory(ctx, sub.ID, sc)
+	if err != nil {
+		return err
+	}
+	if len(hist) == 0 {
+		return s.notice(c, http.StatusOK, sub.Title, fmt.Sprintf("This submission is %s and has no report yet; "+
+			"reload the page in a little while.", sub.Status))
+	}
+	rep, ws, err := s.workspace(c, sub, hist)
+	if err != nil {
+		return err
+	}
+	return s.page(c, http.StatusOK, func(b *strings.Builder) error { return render.WriteSubmission(b, rep, ws) })
+}
+
+// workspace picks the report to show and gathers what the page adds to it.
+func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []service.ReportEntry) (
+	*checks.Report, render.Workspace, error) {
+	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Error: sub.Error}
+	shown, err := pickReport(hist, c.QueryParam("report"))
+	if err != nil {
+		return nil, ws, err
+	}
+	rep, err := decodeReport(hist[shown].Report)
+	if err != nil {
+		return nil, ws, err
+	}
+	ws.History = historyEntries(sub.ID, hist, shown)
+	if shown > 0 {
+		ws.Earlier = fmt.Sprintf("This is an earlier report, number %d of %d.", len(hist)-shown, len(hist))
+	}
+	ws.Previous, err = s.previous(c, sub, rep)
+	return rep, ws, err
+}
+
+// pickReport finds the report named by ?report= (its id), else the newest.
+func pickReport(hist []service.ReportEntry, param string) (int, error) {
+	if param == "" {
+		return 0, nil
+	}
+	for i, h := range hist {
+		if strconv.FormatInt(h.ID, 10) == param {
+			return i, nil
+		}
+	}
+	return 0, service.Errorf(service.ENotFound, "no such report")
+}
+
+func decodeReport(b []byte) (*checks.Report, error) {
+	var r checks.Report
+	if err := json.Unmarshal(b, &r); err != nil {
+		return nil, fmt.Errorf("api: a stored report does not decode: %w", err)
+	}
+	return &r, nil
+}
+
+// historyEntries numbers the reports oldest first, as they were made.
+func historyEntries(id string, hist []service.ReportEntry, shown int) []render.HistoryEntry {
+	out := make([]render.HistoryEntry, len(hist))
+	for i, h := range hist {
+		out[i] = render.HistoryEntry{N: len(hist) - i, When: h.CreatedAt.UTC().Format(timeFormat), Tool: h.ToolVersion,
+			Band: render.Words(h.Band), Score: h.Score, Current: i == shown,
+			Link: fmt.Sprintf("/submissions/%s?report=%d", id, h.ID)}
+	}
+	return out
+}
+
+func (s *Server) previous(c echo.Context, sub *service.Submission, rep *checks.Report) (*render.Previous, error) {
+	prev, b, err := s.cfg.Web.PreviousVersion(c.Request().Context(), sub, keyOf(c).Scope())
+	if service.ErrorCode(err) == service.ENotFound {
+		return nil, nil
+	}
+	if err != nil {
+		return nil, err
+	}
+	p := &render.Previous{ID: prev.ID, Received: prev.CreatedAt.UTC().Format(timeFormat)}
+	if b != nil {
+		old, err := decodeReport(b)
+		if err != nil {
+			return nil, err
+		}
+		ch := render.Changes(old, rep)
+		p.Change = &ch
+	}
+	return p, nil
+}
+
+// webLetter is GET /submissions/{id}/letter.md: the questions for the
+// authors of the newest report, as Markdown.
+func (s *Server) webLetter(c echo.Context) error {
+	b, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
+	if err != nil {
+		return err
+	}
+	rep, err := decodeReport(b)
+	if err != nil {
+		return err
+	}
+	var out strings.Builder
+	if err := render.WriteLetter(&out, rep); err != nil {
+		return err
+	}
+	h := c.Response().Header()
+	h.Set("Content-Disposition", fmt.Sprintf(`inline; filename="questions-%s.md"`, c.Param("id")))
+	h.Set("Cache-Control", "no-store")
+	return c.Blob(http.StatusOK, "text/markdown; charset=utf-8", []byte(out.String()))
+}
+
+// webRerun is POST /submissions/{id}/rerun from the page's form.
+func (s *Server) webRerun(c echo.Context) error {
+	sub, err := s.cfg.Store.Rerun(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
+	if service.ErrorCode(err) == service.EConflict {
+		return s.notice(c, http.StatusConflict, "Already being screened",
+			"This submission is queued or running; it can be screened again once it is done.")
+	}
+	if err != nil {
+		return err
+	}
+	return c.Redirect(http.StatusSeeOther, "/submissions/"+sub.ID)
+}
+
+// webDelete is POST /submissions/{id}/delete from the page's form.
+func (s *Server) webDelete(c echo.Context) error {
+	if err := s.cfg.Store.DeleteSubmission(c.Request().Context(), c.Param("id"), keyOf(c).Scope()); err != nil {
+		return err
+	}
+	return c.Redirect(http.StatusSeeOther, "/")
+}

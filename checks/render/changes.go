@@ -1,0 +1,88 @@
+package render
+
+import (
+	"math"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// Change is what changed from one version of a manuscript to the next.
+type Change struct {
+	ScoreFrom, ScoreTo int
+	BandFrom, BandTo   string
+	// Resolved are the previous version's fail and warn findings with no
+	// counterpart now, New the current ones with none before; findings
+	// are matched by check, claim and severity (their numbers may differ).
+	Resolved, New []string
+	Moved         []ClaimMove
+}
+
+// ClaimMove is a claim whose estimate under the declared graph moved.
+type ClaimMove struct {
+	ID, From, To, Note string
+}
+
+// movedBy is the least change of a declared estimate that counts as a
+// move: one unit of the second decimal the page prints.
+const movedBy = 0.01
+
+// Changes compares the report of a previous version with the current one.
+func Changes(prev, cur *checks.Report) Change {
+	ch := Change{ScoreFrom: prev.Score, ScoreTo: cur.Score, BandFrom: bandWords(prev.Band), BandTo: bandWords(cur.Band)}
+	ch.Resolved = unmatched(prev, cur)
+	ch.New = unmatched(cur, prev)
+	before := map[string]checks.ClaimReport{}
+	for _, c := range prev.Claims {
+		before[c.ID] = c
+	}
+	for _, c := range cur.Claims {
+		if m, ok := claimMove(before, c, cur.SignificanceLevel); ok {
+			ch.Moved = append(ch.Moved, m)
+		}
+	}
+	return ch
+}
+
+func claimMove(before map[string]checks.ClaimReport, c checks.ClaimReport, alpha float64) (ClaimMove, bool) {
+	old, ok := before[c.ID]
+	if !ok {
+		return ClaimMove{ID: c.ID, From: "not in the previous version", To: numPtr(estOf(c.Declared), 2)}, true
+	}
+	a, b := fromEstimate(old.Declared), fromEstimate(c.Declared)
+	m := ClaimMove{ID: c.ID, From: numPtr(a.Est, 2), To: numPtr(b.Est, 2), Note: shift(a, b, alpha)}
+	moved := a.Est != nil && b.Est != nil && math.Abs(*a.Est-*b.Est) >= movedBy
+	return m, moved || m.Note != "" || (a.Est == nil) != (b.Est == nil)
+}
+
+func estOf(e *checks.Estimate) *float64 {
+	if e == nil {
+		return nil
+	}
+	return e.Estimate
+}
+
+// unmatched lists a's fail and warn findings that b has no counterpart
+// for, counting repeats.
+func unmatched(a, b *checks.Report) []string {
+	have := map[[3]string]int{}
+	for _, c := range b.Checks {
+		for _, f := range c.Findings {
+			have[[3]string{c.ID, f.Claim, f.Severity}]++
+		}
+	}
+	var out []string
+	for _, c := range a.Checks {
+		for _, f := range c.Findings {
+			if f.Severity != checks.StatusFail && f.Severity != checks.StatusWarn {
+				continue
+			}
+			k := [3]string{c.ID, f.Claim, f.Severity}
+			if have[k] > 0 {
+				have[k]--
+				continue
+			}
+			out = append(out, c.Title+": "+Prose(f.Message))
+		}
+	}
+	return out
+}

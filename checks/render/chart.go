@@ -1,0 +1,192 @@
+package render
+
+import (
+	"fmt"
+	"html/template"
+	"math"
+	"slices"
+	"strings"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// Sizes of the stability chart, in SVG user units: narrow enough that its
+// labels stay readable on a 390-pixel screen.
+const (
+	chartW    = 380.0
+	chartPad  = 14.0
+	rowH      = 38.0
+	axisH     = 34.0
+	dotR      = 5.0
+	chartTick = 5
+)
+
+// chartRow is one line of a claim's chart.
+type chartRow struct {
+	Label  string
+	P      point
+	Lo, Hi *float64 // a range (the equivalents) instead of a point
+	Shift  string
+}
+
+// stabilityRows are a claim's estimates: under the declared graph, across
+// the plausible equivalents, under each alternative and by each
+// missing-data method.
+func stabilityRows(c checks.ClaimReport, alpha float64) []chartRow {
+	ref := fromEstimate(c.Declared)
+	rows := []chartRow{{Label: "declared graph", P: ref}}
+	if a := c.AcrossEquivalents; a != nil {
+		r := chartRow{Label: "equivalents, lowest to highest (" + acrossWhat(a) + ")", Lo: a.Min, Hi: a.Max}
+		if a.Unstable {
+			r.Shift = fmt.Sprintf("differs in %d", a.Differing)
+		}
+		rows = append(rows, r)
+	}
+	for _, a := range c.UnderAlternatives {
+		p := altPoint(a)
+		rows = append(rows, chartRow{Label: "alternative " + a.Name, P: p, Shift: altShift(ref, p, a, alpha)})
+	}
+	for _, m := range methodOrder(c.MissingData) {
+		p := fromEstimate(c.MissingData[m])
+		rows = append(rows, chartRow{Label: Words(m), P: p, Shift: shift(ref, p, alpha)})
+	}
+	return rows
+}
+
+// altShift is the shift under an alternative; the report's own verdict
+// stands when the numbers alone do not say how it changed.
+func altShift(ref, p point, a checks.AlternativeEstimate, alpha float64) string {
+	if s := shift(ref, p, alpha); s != "" || !a.Changed {
+		return s
+	}
+	return "changes"
+}
+
+// chartValues are every number the chart must show.
+func chartValues(rows []chartRow) []float64 {
+	var vs []float64
+	add := func(p *float64) {
+		if p != nil {
+			vs = append(vs, *p)
+		}
+	}
+	for _, r := range rows {
+		add(r.P.Est)
+		add(r.Lo)
+		add(r.Hi)
+		vs = append(vs, r.P.CI...)
+	}
+	return vs
+}
+
+// nullValue is the value of no effect on a claim's scale.
+func nullValue(c checks.ClaimReport) float64 {
+	if c.Declared != nil && c.Declared.Scale == "odds_ratio" {
+		return 1
+	}
+	return 0
+}
+
+// StabilityChart draws one claim's estimates as dots and intervals on a
+// common axis with the no-effect line: a filled dot is significant at
+// alpha, a hollow one is not; a range bar spans the equivalent graphs.
+func StabilityChart(c checks.ClaimReport, alpha float64) template.HTML {
+	rows := stabilityRows(c, alpha)
+	null := nullValue(c)
+	sc, ticks := NiceScale(chartValues(rows), null, chartPad, chartW-chartPad, chartTick)
+	h := float64(len(rows))*rowH + axisH
+	var b strings.Builder
+	id := "chart-" + c.ID
+	fmt.Fprintf(&b, `<svg class="chart" viewBox="0 0 %.0f %.0f" role="img" aria-labelledby="%[3]s-t %[3]s-d">`,
+		chartW, h, esc(id))
+	fmt.Fprintf(&b, `<title id="%[1]s-t">Claim %[2]s across graphs and missing-data methods</title>`+
+		`<desc id="%[1]s-d">%[3]s</desc>`,
+		esc(id), esc(c.ID), esc(chartWords(rows)))
+	x0 := sc.At(null)
+	fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="4" x2="%.1f" y2="%.1f"/>`, x0, x0, h-axisH+4)
+	for i, r := range rows {
+		drawRow(&b, sc, r, float64(i)*rowH, alpha)
+	}
+	drawAxis(&b, sc, ticks, h-axisH)
+	b.WriteString(`</svg>`)
+	return template.HTML(b.String())
+}
+
+func drawRow(b *strings.Builder, sc Scale, r chartRow, y, alpha float64) {
+	label := r.Label
+	if r.Shift != "" {
+		label += " — " + r.Shift
+	}
+	class := "row"
+	if r.Shift != "" {
+		class += " shifted"
+	}
+	fmt.Fprintf(b, `<g class="%s"><text class="rowlabel" x="%.0f" y="%.1f">%s</text>`, class, chartPad, y+13, esc(label))
+	ym := y + 27
+	switch {
+	case r.Lo != nil && r.Hi != nil:
+		x1, x2 := sc.At(*r.Lo), sc.At(*r.Hi)
+		fmt.Fprintf(b, `<rect class="range" x="%.1f" y="%.1f" width="%.1f" height="8"/>`, x1, ym-4, math.Max(x2-x1, 2))
+	case r.P.Est != nil:
+		drawPoint(b, sc, r.P, ym, alpha)
+	default:
+		fmt.Fprintf(b, `<text class="na" x="%.0f" y="%.1f">not computed</text>`, chartPad, ym+4)
+	}
+	b.WriteString(`</g>`)
+}
+
+func drawPoint(b *strings.Builder, sc Scale, p point, y, alpha float64) {
+	if len(p.CI) == 2 {
+		x1, x2 := sc.At(p.CI[0]), sc.At(p.CI[1])
+		fmt.Fprintf(b, `<path class="ci" d="M%.1f,%.1f V%.1f M%.1f,%.1f H%.1f M%.1f,%.1f V%.1f"/>`,
+			x1, y-5, y+5, x1, y, x2, x2, y-5, y+5)
+	}
+	if p.Zero {
+		x := sc.At(*p.Est)
+		fmt.Fprintf(b, `<path class="zero" d="M%.1f,%.1f l10,10 m0,-10 l-10,10"/>`, x-5, y-5)
+		return
+	}
+	class := "dot sig"
+	if p.P == nil || *p.P >= alpha {
+		class = "dot nonsig"
+	}
+	fmt.Fprintf(b, `<circle class="%s" cx="%.1f" cy="%.1f" r="%.0f"/>`, class, sc.At(*p.Est), y, dotR)
+}
+
+func drawAxis(b *strings.Builder, sc Scale, ticks []float64, y float64) {
+	fmt.Fprintf(b, `<line class="axis" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`, sc.R0, y+8, sc.R1, y+8)
+	for _, t := range ticks {
+		x := sc.At(t)
+		fmt.Fprintf(b, `<line class="tick" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`, x, y+8, x, y+13)
+		fmt.Fprintf(b, `<text class="ticklabel" x="%.1f" y="%.1f">%s</text>`, x, y+27, tickText(t))
+	}
+}
+
+// tickText prints a tick with as few decimals as its step needs.
+func tickText(t float64) string {
+	for d := 0; d < 6; d++ {
+		if math.Abs(t*math.Pow(10, float64(d))-math.Round(t*math.Pow(10, float64(d)))) < 1e-9 {
+			return Num(t, d)
+		}
+	}
+	return Num(t, 6)
+}
+
+// chartWords says the chart's rows in words.
+func chartWords(rows []chartRow) string {
+	out := make([]string, len(rows))
+	for i, r := range rows {
+		switch {
+		case r.Lo != nil && r.Hi != nil:
+			out[i] = fmt.Sprintf("%s: %s to %s", r.Label, Num(*r.Lo, 2), Num(*r.Hi, 2))
+		default:
+			out[i] = r.Label + ": " + numPtr(r.P.Est, 2)
+		}
+		if r.Shift != "" {
+			out[i] += " (" + r.Shift + ")"
+		}
+	}
+	return strings.Join(out, "; ")
+}
+
+func sortStrings(s []string) { slices.Sort(s) }

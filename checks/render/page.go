@@ -1,0 +1,122 @@
+package render
+
+import (
+	"embed"
+	"fmt"
+	"html/template"
+	"io"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+//go:embed page.html workspace.html
+var pageFiles embed.FS
+
+//go:embed style.css
+var styleCSS string
+
+var pageTmpl = template.Must(template.New("page").Funcs(template.FuncMap{
+	"css": CSS, "sub0": func(i int) int { return -i }, "words": Words, "head": head,
+	"list": func(s ...string) []string { return s },
+}).ParseFS(pageFiles, "*.html"))
+
+// PageOptions are the parts of the workspace around a report; all are
+// empty for the offline page.
+type PageOptions struct {
+	Nav     template.HTML // navigation, at the top
+	Actions template.HTML // forms acting on the submission
+	History template.HTML // the report history section
+}
+
+// pageView is what the page template reads.
+type pageView struct {
+	R         *checks.Report
+	Opts      PageOptions
+	Generated string
+	Design    string
+	Band      string
+	Questions []Question
+	Claims    []ClaimRow
+	Graph     *GraphView
+	Nearby    []NearbyRow
+	Charts    []chartView
+	Ledger    Ledger
+	Checks    []checkView
+}
+
+type chartView struct {
+	ID, Arrow, Kind string
+	SVG             template.HTML
+}
+
+type checkView struct {
+	checks.CheckResult
+	StatusWords string
+	Findings    []findingView
+}
+
+type findingView struct {
+	checks.Finding
+	SeverityWords string
+}
+
+// WritePage writes the submission page of a report: the score, band and
+// caution first, the questions for the authors, the claims table, the
+// drawn graph, the stability charts, the score ledger and the checks in
+// detail; one self-contained HTML document (inline CSS and SVG, no
+// script).
+func WritePage(w io.Writer, r *checks.Report, o PageOptions) error {
+	v, err := newPageView(r, o)
+	if err != nil {
+		return err
+	}
+	return pageTmpl.ExecuteTemplate(w, "report", v)
+}
+
+func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
+	g, err := graphView(r)
+	if err != nil {
+		return nil, fmt.Errorf("render: drawing the graph: %w", err)
+	}
+	v := &pageView{R: r, Opts: o, Generated: r.GeneratedAt.UTC().Format("2 January 2006, 15:04 UTC"),
+		Design: Words(r.Design), Band: bandWords(r.Band), Questions: Questions(r), Claims: claimRows(r),
+		Graph: g, Nearby: nearbyRows(r.Graph), Ledger: ledger(r)}
+	for _, c := range r.Claims {
+		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
+			SVG: StabilityChart(c, r.SignificanceLevel)})
+	}
+	for _, c := range ByConcern(r.Checks) {
+		c.Summary, c.RunError = Prose(c.Summary), Prose(c.RunError)
+		cv := checkView{CheckResult: c, StatusWords: statusWords(c.Status)}
+		for _, f := range c.Findings {
+			f.Message = Prose(f.Message)
+			cv.Findings = append(cv.Findings, findingView{Finding: f, SeverityWords: statusWords(f.Severity)})
+		}
+		v.Checks = append(v.Checks, cv)
+	}
+	return v, nil
+}
+
+// shellView is a page of the workspace in the project's frame.
+type shellView struct {
+	Title string
+	Nav   template.HTML
+	Body  template.HTML
+}
+
+// WriteShell writes a workspace page: the document frame with the shared
+// stylesheet around body.
+func WriteShell(w io.Writer, title string, nav, body template.HTML) error {
+	return pageTmpl.ExecuteTemplate(w, "shell", shellView{Title: title, Nav: nav, Body: body})
+}
+
+// CSS is the stylesheet every page carries inline.
+func CSS() template.CSS { return template.CSS(styleCSS) }
+
+// headData is what the document head shows.
+type headData struct {
+	Title   string
+	Refresh bool
+}
+
+func head(title string, refresh bool) headData { return headData{title, refresh} }

@@ -1,0 +1,67 @@
+package render
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// TestTally over the three demos; the expected counts are read off the
+// golden reports' statuses by hand (tutoring: equivalence and
+// alternatives fail; coding club: six warnings; sleep: missing data and
+// effect reporting fail).
+func TestTally(t *testing.T) {
+	var reps []*checks.Report
+	for _, d := range []string{"tutoring-anxiety", "coding-club", "sleep-attention"} {
+		reps = append(reps, loadGolden(t, d))
+	}
+	got := Tally(reps)
+	if got.Reports != 3 || len(got.Checks) != len(checks.Pipeline()) {
+		t.Fatalf("%d reports, %d checks", got.Reports, len(got.Checks))
+	}
+	first := got.Checks[0]
+	if first.ID != "alternatives" || first.Fail != 1 || first.Warn != 2 || first.Of != 3 {
+		t.Errorf("most frequent check %+v, want alternatives with 1 fail and 2 warnings of 3", first)
+	}
+	kinds := map[string]KindTally{}
+	for _, k := range got.Kinds {
+		kinds[k.Kind] = k
+	}
+	// Direct effects: C1, C2 unstable across graphs; H1, H2, S1, S2 not.
+	if d := kinds["direct effect"]; d.Claims != 6 || d.AcrossGraphs != 2 {
+		t.Errorf("direct effects %+v, want 6 claims, 2 unstable across graphs", d)
+	}
+	if a := kinds["association"]; a.Claims != 2 || a.AcrossGraphs != 0 {
+		t.Errorf("associations %+v", a)
+	}
+}
+
+// TestChanges: a version that fixes the effect-reporting warnings and
+// moves claim C1 shows both, and the score it gained.
+func TestChanges(t *testing.T) {
+	prev, cur := loadGolden(t, "tutoring-anxiety"), loadGolden(t, "tutoring-anxiety")
+	for i := range cur.Checks {
+		if cur.Checks[i].ID == "effect-reporting" {
+			cur.Checks[i].Findings = nil
+		}
+	}
+	moved := *cur.Claims[0].Declared
+	v := -0.1
+	moved.Estimate = &v
+	cur.Claims[0].Declared = &moved
+	cur.Score = prev.Score + 5
+	ch := Changes(prev, cur)
+	if ch.ScoreFrom != prev.Score || ch.ScoreTo != prev.Score+5 || len(ch.New) != 0 {
+		t.Errorf("change %+v", ch)
+	}
+	if len(ch.Resolved) != 2 || !strings.HasPrefix(ch.Resolved[0], "Effect sizes") {
+		t.Errorf("resolved %q, want the two effect-reporting warnings", ch.Resolved)
+	}
+	if len(ch.Moved) != 1 || ch.Moved[0].ID != "C1" || ch.Moved[0].To != Minus+"0.10" {
+		t.Errorf("moved %+v, want C1 to −0.10", ch.Moved)
+	}
+	if same := Changes(prev, prev); len(same.Moved)+len(same.New)+len(same.Resolved) != 0 {
+		t.Errorf("a report against itself: %+v", same)
+	}
+}

@@ -1,0 +1,101 @@
+package render
+
+import (
+	"fmt"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// point is one estimate of a claim: a value, its interval and p-value.
+type point struct {
+	Est *float64
+	CI  []float64
+	P   *float64
+	// Zero: the graph has no path for the effect, so it is zero by
+	// construction and its p-value means nothing.
+	Zero bool
+}
+
+// acrossWhat says what a claim was estimated over across the equivalents:
+// plausible graphs, or locally valid adjustment sets (which are not graphs).
+func acrossWhat(a *checks.AcrossEquivalents) string {
+	if a.Method == "local_parent_sets" {
+		return plural(a.Estimates, "adjustment set", "adjustment sets")
+	}
+	return plural(a.Estimates, "plausible graph", "plausible graphs")
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
+}
+
+func altPoint(a checks.AlternativeEstimate) point {
+	return point{Est: a.Estimate, CI: a.CI, P: a.PValue, Zero: a.StructuralZero != "" || a.Method == checks.MethodZero}
+}
+
+func fromEstimate(e *checks.Estimate) point {
+	if e == nil {
+		return point{}
+	}
+	return point{Est: e.Estimate, CI: e.CI, P: e.PValue, Zero: e.StructuralZero != "" || e.Method == checks.MethodZero}
+}
+
+// shift says, in words, how p differs from the reference ref: its sign
+// (including a value of exactly zero, as when a graph has no path) or
+// whether it is significant at alpha. It is empty when neither differs or
+// either is missing.
+func shift(ref, p point, alpha float64) string {
+	if ref.Est == nil || p.Est == nil {
+		return ""
+	}
+	switch sr, sp := sign(*ref.Est), sign(*p.Est); {
+	case sr != 0 && sp == 0:
+		return "zero here"
+	case sr*sp < 0:
+		return "sign flips"
+	}
+	if ref.P == nil || p.P == nil {
+		return ""
+	}
+	switch rs, ps := *ref.P < alpha, *p.P < alpha; {
+	case rs && !ps:
+		return "significance lost"
+	case !rs && ps:
+		return "becomes significant"
+	}
+	return ""
+}
+
+func sign(x float64) int {
+	switch {
+	case x > 0:
+		return 1
+	case x < 0:
+		return -1
+	}
+	return 0
+}
+
+// methodOrder lists the missing-data methods as the page shows them:
+// complete cases, maximum likelihood and multiple imputation first, then
+// the rest by name.
+func methodOrder(m map[string]*checks.Estimate) []string {
+	first := []string{checks.MissingCompleteCases, checks.MissingMaximumLikelihood, checks.MissingMultipleImputation}
+	var out []string
+	for _, k := range first {
+		if _, ok := m[k]; ok {
+			out = append(out, k)
+		}
+	}
+	var rest []string
+	for k := range m {
+		if k != first[0] && k != first[1] && k != first[2] {
+			rest = append(rest, k)
+		}
+	}
+	sortStrings(rest)
+	return append(out, rest...)
+}

@@ -1,0 +1,126 @@
+package render
+
+import (
+	"bytes"
+	"html/template"
+	"io"
+
+	"github.com/pathvet/pathvet/checks"
+)
+
+// The pages of the web workspace around a report: sign-in, the office's
+// dashboard, the workspace parts of a submission page, and notices. Their
+// input is plain values; the service fills them from its store.
+
+// Nav is the workspace's navigation bar.
+type Nav struct {
+	Office, Role, Label, CSRF string
+}
+
+// SignIn is the sign-in page.
+type SignIn struct {
+	CSRF    string
+	Message string // why the last attempt failed, in plain words
+}
+
+// Row is one submission on the dashboard.
+type Row struct {
+	ID, Title, ManuscriptID, Received, KeyLabel string
+	Status, Progress                            string
+	Score                                       *int
+	Band                                        string // a report token, or ""
+	Version                                     string // "version 2 of 3", or ""
+}
+
+// Group is the listed versions of one manuscript (or one submission
+// without a manuscript ID).
+type Group struct {
+	ManuscriptID string
+	Rows         []Row
+}
+
+// BandCount is how many submissions a band has.
+type BandCount struct {
+	Band, Words string
+	N           int
+}
+
+// Filter is the dashboard's filter and period.
+type Filter struct {
+	Band, Status, Manuscript, Period string
+}
+
+// Dashboard is the office's dashboard.
+type Dashboard struct {
+	Nav        Nav
+	Filter     Filter
+	Groups     []Group
+	Counts     []BandCount
+	Unscreened int
+	Recurring  Recurring
+	Truncated  bool // the recurring findings cover only the newest reports
+	Periods    []string
+	Next       string // the URL of the next page, or ""
+	Refresh    bool   // some listed submission is queued or running
+}
+
+// HistoryEntry is one earlier report of a submission.
+type HistoryEntry struct {
+	N                int
+	When, Tool, Band string
+	Score            int
+	Link             string
+	Current          bool
+}
+
+// Workspace is what a submission page adds to its report.
+type Workspace struct {
+	Nav      Nav
+	ID       string
+	Status   string
+	Error    string
+	History  []HistoryEntry
+	Previous *Previous
+	// Earlier says which earlier report the page shows ("" for the newest).
+	Earlier string
+}
+
+// Previous is the earlier version of the manuscript and what changed.
+type Previous struct {
+	ID, Received string
+	Change       *Change // nil when the earlier version has no report
+}
+
+// WriteSignIn writes the sign-in page.
+func WriteSignIn(w io.Writer, s SignIn) error { return pageTmpl.ExecuteTemplate(w, "signin", s) }
+
+// WriteDashboard writes the office's dashboard.
+func WriteDashboard(w io.Writer, d Dashboard) error {
+	return pageTmpl.ExecuteTemplate(w, "dashboard", d)
+}
+
+// WriteNotice writes a short page: not found, not yet screened, refused.
+func WriteNotice(w io.Writer, nav *Nav, title, message string) error {
+	return pageTmpl.ExecuteTemplate(w, "notice", struct {
+		Nav            *Nav
+		Title, Message string
+	}{nav, title, message})
+}
+
+// WriteSubmission writes a submission page: the report with the
+// workspace's navigation, its forms and its history.
+func WriteSubmission(w io.Writer, r *checks.Report, ws Workspace) error {
+	var opts PageOptions
+	for _, part := range []struct {
+		name string
+		data any
+		out  *template.HTML
+	}{{"navbar", ws.Nav, &opts.Nav}, {"actions", ws, &opts.Actions}, {"history", ws, &opts.History}} {
+		var b bytes.Buffer
+		if err := pageTmpl.ExecuteTemplate(&b, part.name, part.data); err != nil {
+			return err
+		}
+		*part.out = template.HTML(b.String())
+	}
+	return WritePage(w, r, opts)
+}

@@ -1,0 +1,143 @@
+package store_test
+
+import (
+	"encoding/json"
+	"testing"
+	"time"
+
+	"github.com/pathvet/pathvet/api/service"
+	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/store"
+	"github.com/pathvet/pathvet/store/storetest"
+)
+
+func TestSessions(t *testing.T) {
+	db, _ := storetest.MustOpenDB(t)
+	k, _ := mustKey(t, db, "Office S", service.RoleEditor)
+	id, err := db.OpenSession(ctx, k, time.Hour)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var stored []byte
+	if err := db.Pool.QueryRow(ctx, `SELECT id_sha256 FROM web_sessions`).Scan(&stored); err != nil || string(stored) == id {
+		t.Fatalf("the session id is stored as is, or not at all: %v", err)
+	}
+	got, err := db.SessionKey(ctx, id)
+	if err != nil || got.ID != k.ID || got.OfficeID != k.OfficeID || got.Role != service.RoleEditor || got.Label != k.Label {
+		t.Fatalf("session key: %+v, %v", got, err)
+	}
+	if _, err := db.SessionKey(ctx, id+"x"); service.ErrorCode(err) != service.ENotFound {
+		t.Fatalf("unknown session: %v", err)
+	}
+	now := db.Now
+	db.Now = func() time.Time { return now().Add(2 * time.Hour) }
+	if _, err := db.SessionKey(ctx, id); service.ErrorCode(err) != service.ENotFound {
+		t.Fatalf("expired session: %v", err)
+	}
+	db.Now = func() time.Time { return now().Add(26 * time.Hour) }
+	if _, err := db.OpenSession(ctx, k, time.Hour); err != nil {
+		t.Fatal(err)
+	}
+	var left int
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM web_sessions`).Scan(&left); err != nil || left != 1 {
+		t.Fatalf("%d sessions after a day past expiry, want the new one only (%v)", left, err)
+	}
+	db.Now = now
+	id, _ = db.OpenSession(ctx, k, time.Hour)
+	if err := db.EndSession(ctx, id); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := db.SessionKey(ctx, id); service.ErrorCode(err) != service.ENotFound {
+		t.Fatalf("ended session: %v", err)
+	}
+}
+
+// TestSignInWait: three failures are free, then the wait doubles from one
+// second; a success clears the count.
+func TestSignInWait(t *testing.T) {
+	db, _ := storetest.MustOpenDB(t)
+	at := time.Date(2026, 1, 1, 9, 0, 0, 0, time.UTC)
+	db.Now = func() time.Time { return at }
+	for i, want := range []time.Duration{0, 0, 0, time.Second, 2 * time.Second, 4 * time.Second} {
+		if err := db.NoteSignInFailure(ctx, "192.0.2.1"); err != nil {
+			t.Fatal(err)
+		}
+		if got, err := db.SignInWait(ctx, "192.0.2.1"); err != nil || got != want {
+			t.Errorf("after %d failures: wait %v, want %v (%v)", i+1, got, want, err)
+		}
+	}
+	if got, _ := db.SignInWait(ctx, "192.0.2.2"); got != 0 {
+		t.Errorf("another address waits %v", got)
+	}
+	db.Now = func() time.Time { return at.Add(3 * time.Second) }
+	if got, _ := db.SignInWait(ctx, "192.0.2.1"); got != time.Second {
+		t.Errorf("3 s into a 4 s wait: %v left", got)
+	}
+	if err := db.ClearSignInFailures(ctx, "192.0.2.1"); err != nil {
+		t.Fatal(err)
+	}
+	if got, _ := db.SignInWait(ctx, "192.0.2.1"); got != 0 {
+		t.Errorf("after a success: wait %v", got)
+	}
+}
+
+func saveReport(t *testing.T, db *store.DB, id string, score int) {
+	t.Helper()
+	if _, _, err := db.Claim(ctx, id); err != nil {
+		t.Fatal(err)
+	}
+	rep := &checks.Report{Title: "A study", Score: score, Band: checks.Band(score), ToolVersion: checks.ToolVersion}
+	if err := db.SaveReport(ctx, id, rep, time.Millisecond); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestWorkspaceQueries(t *testing.T) {
+	db, _ := storetest.MustOpenDB(t)
+	editor, _ := mustKey(t, db, "Office W", service.RoleEditor)
+	author, _ := mustKey(t, db, "Office W", service.RoleSubmitter)
+	other, _ := mustKey(t, db, "Office V", service.RoleEditor)
+	v1, _, _ := db.CreateSubmission(ctx, newSub(author, "h1", ""))
+	v2, _, _ := db.CreateSubmission(ctx, newSub(editor, "h2", ""))
+	saveReport(t, db, v1.ID, 40)
+	saveReport(t, db, v2.ID, 70)
+	saveReport(t, db, v2.ID, 90)
+
+	hist, err := db.ReportHistory(ctx, v2.ID, editor.Scope())
+	if err != nil || len(hist) != 2 || hist[0].Score != 90 || hist[1].Score != 70 || !json.Valid(hist[0].Report) {
+		t.Fatalf("history: %+v, %v", hist, err)
+	}
+	if _, err := db.ReportHistory(ctx, v2.ID, other.Scope()); service.ErrorCode(err) != service.ENotFound {
+		t.Fatalf("another office's history: %v", err)
+	}
+	v2s, _ := db.Submission(ctx, v2.ID, editor.Scope())
+	prev, rep, err := db.PreviousVersion(ctx, v2s, editor.Scope())
+	if err != nil || prev.ID != v1.ID || rep == nil {
+		t.Fatalf("previous version: %+v, %v", prev, err)
+	}
+	v1s, _ := db.Submission(ctx, v1.ID, author.Scope())
+	if _, _, err := db.PreviousVersion(ctx, v1s, author.Scope()); service.ErrorCode(err) != service.ENotFound {
+		t.Fatalf("the first version has an earlier one: %v", err)
+	}
+	if _, _, err := db.PreviousVersion(ctx, v2s, other.Scope()); service.ErrorCode(err) != service.ENotFound {
+		t.Fatalf("another office sees the earlier version: %v", err)
+	}
+	vs, err := db.Versions(ctx, []string{v1.ID, v2.ID}, editor.Scope())
+	if err != nil || vs[v1.ID] != (service.Version{N: 1, Of: 2}) || vs[v2.ID] != (service.Version{N: 2, Of: 2}) {
+		t.Fatalf("versions: %v, %v", vs, err)
+	}
+	counts, err := db.BandCounts(ctx, editor.Scope())
+	if err != nil || counts[checks.BandHigh] != 1 || counts[checks.BandLow] != 1 || len(counts) != 2 {
+		t.Fatalf("band counts: %v, %v", counts, err)
+	}
+	if c, _ := db.BandCounts(ctx, author.Scope()); c[checks.BandHigh] != 1 || len(c) != 1 {
+		t.Fatalf("a submitter's counts: %v", c)
+	}
+	reps, more, err := db.RecentReports(ctx, editor.Scope(), time.Now().Add(-time.Hour), 1)
+	if err != nil || len(reps) != 1 || !more {
+		t.Fatalf("recent reports: %d, %v, %v", len(reps), more, err)
+	}
+	if reps, _, _ := db.RecentReports(ctx, editor.Scope(), time.Now().Add(time.Hour), 10); len(reps) != 0 {
+		t.Fatalf("reports from the future: %d", len(reps))
+	}
+}
