@@ -46,7 +46,8 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	case tp < a.Alpha:
 		t.Verdict = "excludes_meaningful_effects"
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, and the data exclude effects of ±%g or larger at α = %g (equivalence test %s, "+
+			"%s says there is no effect, and the data exclude effects of ±%g or larger at α = %g (equivalence test "+
+				"%s, "+
 				"%s%s).", c.ID, t.Margin, a.Alpha, pText(tp), t.Distribution, a.marginSource(t.Margin))}}
 	}
 	t.Verdict = "does_not_tell"
@@ -145,7 +146,8 @@ func (a *Analysis) noAbsenceTest(c Claim, decl est) string {
 			"standardized estimate with its SE.", c.ID, c.From, c.To, delta)
 	case !decl.ok():
 		return fmt.Sprintf("%s says there is no effect, but the data give no estimate (%v) and the claim reports no "+
-			"standardized estimate with its SE, so nothing can be tested against the smallest effect of interest (%g).", c.ID, decl.err, delta)
+			"standardized estimate with its SE, so nothing can be tested against the smallest effect of interest "+
+			"(%g).", c.ID, decl.err, delta)
 	}
 	return fmt.Sprintf("%s says there is no effect, but neither the data nor the reported figures give a "+
 		"standardized estimate with its SE to test against the smallest effect of interest (%g).", c.ID, delta)

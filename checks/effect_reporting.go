@@ -78,7 +78,8 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 	switch {
 	case !hasEst && hasP:
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect is.", c.ID, reportedP(c))})
+			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect "+
+				"is.", c.ID, reportedP(c))})
 	case !hasEst && !hasP:
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval " +
 			"or p-value at all."})
@@ -264,7 +265,8 @@ func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
 	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 		"%s reports %g, but the data give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
 			"obtained.",
-		c.ID, *c.Estimate, figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi), adjustment)}}
+		c.ID, *c.Estimate, figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi),
+		adjustment)}}
 }
 
 // oddsRatioFinding gives a binary outcome's odds ratio between the 10th
