@@ -109,6 +109,11 @@ func TestEffectReporting_Absence(t *testing.T) {
 	if a := r.Claims[0].Absence; a == nil || a.Verdict != "effect_found" {
 		t.Fatalf("sleep demo S1: %+v", a)
 	}
+	// the estimate weighed is the complete cases', and the sentence says so
+	if f := checkOf(r, "effect-reporting").Findings; len(f) == 0 ||
+		!strings.Contains(f[0].Message, "recomputed from the 152 complete rows (of 300) is 0.20") {
+		t.Errorf("S1's sentence does not name its data: %+v", f)
+	}
 	r = mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
 	if a := r.Claims[2].Absence; a == nil || a.Verdict != "excludes_meaningful_effects" || a.Power == nil || *a.Power <= 0 || *a.Power >= 1 {
 		t.Fatalf("coding-club H3: %+v", a)

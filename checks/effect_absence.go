@@ -40,9 +40,9 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	case p < a.Alpha:
 		t.Verdict = "effect_found"
 		return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, but the %s estimate is %.2f (%s, %s), significant at α = %g: the data do not "+
+			"%s says there is no effect, but the %s is %.2f (%s, %s), significant at α = %g: the data do not "+
 				"support \"no effect\".",
-			c.ID, in.source, in.shown, pText(p), t.Distribution, a.Alpha)}}
+			c.ID, a.sourceText(in.source), in.shown, pText(p), t.Distribution, a.Alpha)}}
 	case tp < a.Alpha:
 		t.Verdict = "excludes_meaningful_effects"
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
@@ -55,6 +55,14 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 		"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
 			"%s; the study had %.0f%% power to detect an effect of that size%s): the data do not tell.",
 		c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw, a.marginSource(t.Margin))}}
+}
+
+// sourceText names the weighed estimate and where it comes from.
+func (a *Analysis) sourceText(source string) string {
+	if b := a.dataBasis(""); source == "recomputed" && b != "" {
+		return "estimate recomputed from " + b
+	}
+	return source + " estimate"
 }
 
 // marginSource says where the equivalence margin comes from: the package's

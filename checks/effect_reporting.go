@@ -263,10 +263,25 @@ func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
 		adjustment = "the claim's own adjustment set"
 	}
 	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %g, but the data give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
+		"%s reports %g, but %s give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
 			"obtained.",
-		c.ID, *c.Estimate, figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi),
+		c.ID, *c.Estimate, a.dataBasis("the data"), figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi),
 		adjustment)}}
+}
+
+// dataBasis names the data a recomputed estimate comes from: the complete
+// rows where some rows have a missing value (the missing-data check
+// re-estimates the claims on all rows), else what.
+func (a *Analysis) dataBasis(what string) string {
+	d := a.Study.Data
+	if d == nil || d.Kind == DataSummary || len(d.Columns) == 0 {
+		return what
+	}
+	m, err := a.moments()
+	if err != nil || m.N >= len(d.Columns[0]) {
+		return what
+	}
+	return fmt.Sprintf("the %d complete rows (of %d)", m.N, len(d.Columns[0]))
 }
 
 // oddsRatioFinding gives a binary outcome's odds ratio between the 10th
