@@ -20,9 +20,11 @@ var alternativesCheck = Check{
 	Title: "Stated alternative graphs",
 	Run:   runAlternatives,
 	Summaries: map[string]string{
-		StatusPass:          "No claim changes its conclusion under a stated alternative that fits the data about as well as the declared graph.",
-		StatusWarn:          "The stated alternatives need attention; see the findings.",
-		StatusFail:          "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it.",
+		StatusPass: "No claim changes its conclusion under a stated alternative that fits the data about as " +
+			"well as the declared graph.",
+		StatusWarn: "The stated alternatives need attention; see the findings.",
+		StatusFail: "A headline claim changes sign or significance under a stated alternative that fits the " +
+			"data about as well; the data do not support choosing the declared graph over it.",
 		StatusNotApplicable: "No alternatives are stated, and the paper makes no causal claim.",
 	},
 }
@@ -33,12 +35,15 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	switch {
 	case len(s.Alternatives) == 0 && causal:
 		return CheckResult{Status: StatusWarn, Metrics: map[string]any{"alternatives": 0},
-			Summary:  "The paper states no alternative graph for its causal claims; ask which other causal orders the authors considered and why they rejected them.",
-			Findings: []Finding{{Severity: StatusWarn, Message: "No alternative graph is stated, so nothing shows the causal claims were weighed against another causal order."}}}, nil
+			Summary: "The paper states no alternative graph for its causal claims; ask which other causal orders " +
+				"the authors considered and why they rejected them.",
+			Findings: []Finding{{Severity: StatusWarn, Message: "No alternative graph is stated, so nothing shows " +
+				"the causal claims were weighed against another causal order."}}}, nil
 	case len(s.Alternatives) == 0:
 		return CheckResult{Status: StatusNotApplicable}, nil
 	case s.Declared == nil:
-		return CheckResult{Status: StatusNotApplicable, Summary: "Alternatives are stated but no declared graph, so there is nothing to compare them with."}, nil
+		return CheckResult{Status: StatusNotApplicable, Summary: "Alternatives are stated but no declared graph, so " +
+			"there is nothing to compare them with."}, nil
 	}
 	m, err := a.moments()
 	if err != nil {
@@ -46,7 +51,8 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	declFit, err := a.fitGraph(ctx, s.Declared, s.InGraph)
 	if err != nil {
-		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: the declared graph could not be fitted to the data (%w)", err)
+		return CheckResult{}, fmt.Errorf("the alternatives could not be compared: the declared graph could not be "+
+			"fitted to the data (%w)", err)
 	}
 	var fs []Finding
 	var rows []map[string]any
@@ -62,7 +68,8 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 		}
 	}
 	res := CheckResult{Findings: fs, Metrics: map[string]any{"alternatives": len(s.Alternatives), "comparisons": rows,
-		"declared_bic": num(declFit.fit.BIC), "declared_chi_square": num(declFit.fit.ChiSquare), "declared_df": declFit.fit.DF}}
+		"declared_bic": num(declFit.fit.BIC), "declared_chi_square": num(declFit.fit.ChiSquare),
+		"declared_df": declFit.fit.DF}}
 	res.Status = statusOf(fs)
 	res.Summary = alternativesSummary(res.Status, len(s.Alternatives), rows, fs)
 	return res, nil
@@ -85,21 +92,41 @@ func alternativesSummary(status string, n int, rows []map[string]any, fs []Findi
 	stated := "The paper states " + count(n, "alternative graph", "alternative graphs")
 	switch {
 	case status == StatusFail:
-		return "A headline claim changes sign or significance under a stated alternative that fits the data about as well; the data do not support choosing the declared graph over it."
+		return "A headline claim changes sign or significance under a stated alternative that fits the data " +
+			"about as well or better; the data do not support choosing the declared graph over it."
 	case changed > 0:
-		return fmt.Sprintf("%s sign or significance under a stated alternative that fits the data about as well; the paper should say why the declared graph is preferred.",
+		return fmt.Sprintf("%s sign or significance under a stated alternative that fits the data about as well "+
+			"or better; the paper should say why the declared graph is preferred.",
 			count(changed, "claim changes", "claims change"))
 	case status == StatusWarn:
-		return stated + "; some could not be compared with the declared graph (see the findings), and no claim changes its conclusion under those that fit about as well."
+		return stated + "; some could not be compared with the declared graph (see the findings), and no claim " +
+			"changes its conclusion under those that fit about as well or better."
 	case asWell == 0:
-		return stated + "; none fits the data about as well as the declared graph (Markov equivalent, or ΔBIC below 2), so none challenges the claims."
+		return stated + "; none fits the data about as well as the declared graph or better (Markov equivalent, " +
+			"or ΔBIC below 2), so none challenges the claims."
 	}
-	return fmt.Sprintf("%s; under the %d that fit the data about as well as the declared graph, no claim that could be estimated changes its conclusion (the sign of a significant estimate, or its non-significance).", stated, asWell)
+	return fmt.Sprintf("%s; under %s the data about as well as the declared graph or better, no claim that "+
+		"could be estimated changes its conclusion (the sign of a significant estimate, or its non-significance).",
+		stated, map[bool]string{true: "the one that fits", false: fmt.Sprintf("the %d that fit", asWell)}[asWell == 1])
+}
+
+// fitWord says how an alternative fits beside the declared graph by
+// ΔBIC (alternative − declared): better by 2 or more, about as well within
+// 2, else worse.
+func fitWord(delta float64) string {
+	switch {
+	case delta <= -weakBIC:
+		return "better"
+	case delta < weakBIC:
+		return "about as well"
+	}
+	return "worse"
 }
 
 // compareAlternative fits alternative j beside the declared graph and
 // re-estimates every claim under it.
-func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG, declFit *modelFit, declCPDAG string, m *Moments) (map[string]any, []Finding, error) {
+func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG, declFit *modelFit, declCPDAG string,
+	m *Moments) (map[string]any, []Finding, error) {
 	s := a.Study
 	name := s.Package.Alternatives[j].Name
 	in := graphNodes(alt)
@@ -111,23 +138,28 @@ func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG,
 	switch {
 	case equivalent:
 		fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
-			"The alternative %q is Markov equivalent to the declared graph: it fits any data exactly as well, so the data cannot tell the two apart.", name)})
+			"The alternative %q is Markov equivalent to the declared graph: it fits any data exactly as well, so the "+
+				"data cannot tell the two apart.", name)})
 	default:
 		af, err := a.fitGraph(ctx, alt, in)
 		if err != nil {
-			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf("The alternative %q could not be fitted to the data: %v.", name, err)})
+			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf("The alternative %q could not be "+
+				"fitted to the data: %v.", name, err)})
 			break
 		}
 		delta, fitted = af.fit.BIC-declFit.fit.BIC, true
-		row["chi_square"], row["df"], row["p_value"], row["bic"] = num(af.fit.ChiSquare), af.fit.DF, num(af.fit.P), num(af.fit.BIC)
+		row["chi_square"], row["df"] = num(af.fit.ChiSquare), af.fit.DF
+		row["p_value"], row["bic"] = num(af.fit.P), num(af.fit.BIC)
 		if same {
 			row["delta_bic"] = num(delta)
 			fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
-				"The alternative %q: χ² = %.2f on %d df against %.2f on %d df for the declared graph; ΔBIC = %+.1f (negative favours the alternative).",
+				"The alternative %q: χ² = %.2f on %d df against %.2f on %d df for the declared graph; ΔBIC = %+.1f "+
+					"(negative favours the alternative).",
 				name, af.fit.ChiSquare, af.fit.DF, declFit.fit.ChiSquare, declFit.fit.DF, delta)})
 		} else {
 			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-				"The alternative %q does not cover the same variables as the declared graph, so their fits cannot be compared.", name)})
+				"The alternative %q does not cover the same variables as the declared graph, so their fits cannot be "+
+					"compared.", name)})
 		}
 	}
 	fitsAsWell := equivalent || (same && fitted && delta < weakBIC)
@@ -148,7 +180,8 @@ func graphNodes(g *dag.PDAG) []bool {
 	return in
 }
 
-func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.PDAG, in []bool, equivalent, fitsAsWell bool, delta float64) (AlternativeEstimate, []Finding) {
+func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.PDAG, in []bool,
+	equivalent, fitsAsWell bool, delta float64) (AlternativeEstimate, []Finding) {
 	s := a.Study
 	ae := AlternativeEstimate{Name: name, Equivalent: equivalent}
 	if Causal(c.Kind) && (!in[s.Index[c.From]] || !in[s.Index[c.To]]) {
@@ -169,7 +202,7 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	}
 	how := "which the data cannot tell from it"
 	if !equivalent {
-		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", map[bool]string{true: "about as well", false: "worse"}[fitsAsWell], delta)
+		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", fitWord(delta), delta)
 	}
 	sev := SeverityInfo
 	if fitsAsWell {
@@ -179,5 +212,6 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 		}
 	}
 	return ae, []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
-		"%s is %s under the declared graph but %s under the alternative %q, %s.", c.ID, valueText(decl), valueText(e), name, how)}}
+		"%s is %s under the declared graph but %s under the alternative %q, "+
+			"%s.", c.ID, valueText(decl), valueText(e), name, how)}}
 }

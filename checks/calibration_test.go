@@ -25,7 +25,7 @@ var calibration = []struct {
 	{"../testdata/calibration/bare-claims/package.json", "`testdata/calibration/bare-claims` (20)", 20, checks.BandHigh},
 	{"../testdata/demo/tutoring-anxiety/package.json", "tutoring-anxiety (25)", 25, checks.BandHigh},
 	{"../testdata/demo/sleep-attention/package.json", "sleep-attention (35)", 35, checks.BandHigh},
-	{"../testdata/demo/coding-club/package.json", "coding-club demo scores 55 (moderate concern)", 55, checks.BandModerate},
+	{"../testdata/demo/coding-club/package.json", "coding-club demo scores 65 (moderate concern)", 65, checks.BandModerate},
 	{"../testdata/calibration/nearby-headline/package.json", "within ΔBIC 2 (75, moderate concern)", 75, checks.BandModerate},
 }
 
@@ -109,9 +109,22 @@ func TestEffectReporting_Absence(t *testing.T) {
 	if a := r.Claims[0].Absence; a == nil || a.Verdict != "effect_found" {
 		t.Fatalf("sleep demo S1: %+v", a)
 	}
+	// the estimate weighed is the complete cases', and the sentence says so
+	if f := checkOf(r, "effect-reporting").Findings; len(f) == 0 ||
+		!strings.Contains(f[0].Message, "recomputed from the 152 complete rows (of 300) is 0.20") {
+		t.Errorf("S1's sentence does not name its data: %+v", f)
+	}
 	r = mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
 	if a := r.Claims[2].Absence; a == nil || a.Verdict != "excludes_meaningful_effects" || a.Power == nil || *a.Power <= 0 || *a.Power >= 1 {
 		t.Fatalf("coding-club H3: %+v", a)
+	}
+	// the package sets no margin, so the sentence says it is the default
+	found := false
+	for _, f := range checkOf(r, "effect-reporting").Findings {
+		found = found || f.Claim == "H3" && strings.Contains(f.Message, "±0.1, standardized, is the default smallest effect")
+	}
+	if !found {
+		t.Errorf("H3's equivalence finding does not say its margin is the default: %+v", checkOf(r, "effect-reporting").Findings)
 	}
 }
 

@@ -80,10 +80,12 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 		return CheckResult{Status: StatusNotApplicable, Summary: "The paper makes no causal claim, so there is " +
 			"nothing to explain away."}, nil
 	}
-	res := CheckResult{Findings: fs, Status: statusOf(fs), Metrics: map[string]any{"claims_with_e_value": computed, "weak_e_value_below": weakEValue}}
+	res := CheckResult{Findings: fs, Status: statusOf(fs),
+		Metrics: map[string]any{"claims_with_e_value": computed, "weak_e_value_below": weakEValue}}
 	res.Summary = confoundingSummary(computed, missing, weak)
 	if computed == 0 && missing == 0 { // only claims the declared graph gives no effect
-		res.Status, res.Summary = StatusNotApplicable, "No causal claim is left to explain away: the declared graph gives each no effect (see graph-declared)."
+		res.Status, res.Summary = StatusNotApplicable, "No causal claim is left to explain away: "+
+			"the declared graph gives each no effect (see graph-declared)."
 	}
 	return res, nil
 }
@@ -101,7 +103,7 @@ func confoundingSummary(computed, missing, weak int) string {
 	}
 	if missing > 0 {
 		parts = append(parts, fmt.Sprintf("%s no E-value, so how much confounding would explain %s away is not known",
-			countNoun(missing, "causal claim has", "causal claims have"), map[bool]string{true: "it", false: "them"}[missing == 1]))
+			countNoun(missing, "causal claim has", "causal claims have"), them(missing)))
 	}
 	if len(parts) == 0 {
 		which := fmt.Sprintf("For each of the %d causal claims", computed)
@@ -161,7 +163,7 @@ func (a *Analysis) convert(c Claim, scale string, b float64, se *float64, ci []f
 	case scale == "unstandardized" || binary:
 		return nil
 	default: // standardized or correlation: as a standardized difference
-		ev = a.convertStandardized(c, b, se, ci)
+		ev = a.convertStandardized(c, scale, b, se, ci)
 	}
 	if ev == nil || ev.Estimate == nil || ev.CILimit == nil {
 		return nil
@@ -205,23 +207,44 @@ func (a *Analysis) convertOddsRatio(c Claim, scale string, b float64, se *float6
 	return ev
 }
 
-// convertStandardized takes a standardized estimate d with its SE (or
-// interval, under the normal) to the risk-ratio scale by exp(0.91 d),
-// and the interval limit nearer the null by exp(0.91 d ∓ 1.78 SE), an
-// approximation whose conversion text says what it was made for.
-func (a *Analysis) convertStandardized(c Claim, d float64, se *float64, ci []float64) *EValue {
-	s := math.NaN()
-	if se != nil {
-		s = *se
-	} else if len(ci) == 2 {
-		s = effects.SEFromCI(ci[0], ci[1], claimLevel(c))
+// convertStandardized takes a standardized estimate d (a correlation r
+// first to d = 2r/√(1 − r²), Borenstein et al. 2009, eq. 7.5) to the
+// risk-ratio scale by exp(0.91 d) (VanderWeele & Ding 2017), and the
+// interval's limit nearer the null the same way: the given interval, or
+// b ± z SE at the claim's level (their exp(0.91 d ∓ 1.78 SE) at 95%),
+// each limit converted, so that a correlation's interval is not taken as
+// one of d. The conversion text says what the approximation was made for.
+func (a *Analysis) convertStandardized(c Claim, scale string, b float64, se *float64, ci []float64) *EValue {
+	var lo, hi float64
+	switch {
+	case len(ci) == 2 && !math.IsNaN(ci[0]) && !math.IsNaN(ci[1]):
+		lo, hi = ci[0], ci[1]
+	case se != nil && !math.IsNaN(*se):
+		z := effects.TQuantile(0.5+claimLevel(c)/2, effects.Normal)
+		lo, hi = b-z**se, b+z**se
+	default:
+		return nil
 	}
-	rr, limit := effects.RRFromD(d, s)
+	toD, note := func(x float64) float64 { return x }, ""
+	if scale == "correlation" {
+		toD, note = dFromR, "d = 2r/√(1 − r²) from the correlation r (Borenstein et al. 2009); "
+	}
+	rr := math.Exp(0.91 * toD(b))
 	ev := &EValue{Conversion: "risk ratio ≈ exp(0.91 d), an approximation made for a binary exposure with d the " +
-		"difference in outcome SDs between its groups (VanderWeele & Ding 2017); " + a.exposureNote(c)}
+		"difference in outcome SDs between its groups (VanderWeele & Ding 2017); " + note + a.exposureNote(c)}
 	ev.RiskRatio, ev.Estimate = finite(rr), finite(effects.EValue(rr))
-	ev.CILimit = finite(effects.EValue(limit))
+	ev.CILimit = finite(effects.EValueCI(math.Exp(0.91*toD(lo)), math.Exp(0.91*toD(hi))))
 	return ev
+}
+
+// dFromR converts a correlation to a standardized difference,
+// d = 2r/√(1 − r²) (Borenstein et al. 2009, Introduction to Meta-Analysis,
+// eq. 7.5); ±Inf at |r| ≥ 1 (an interval limit past ±1).
+func dFromR(r float64) float64 {
+	if math.Abs(r) >= 1 {
+		return math.Copysign(math.Inf(1), r)
+	}
+	return 2 * r / math.Sqrt(1-r*r)
 }
 
 // exposureNote says how far a claim's standardized estimate is from the d
@@ -263,5 +286,6 @@ func eValueFinding(c Claim, ev *EValue) Finding {
 		how = fmt.Sprintf("an unmeasured confounder of strength %.2f could explain the estimate away, and the "+
 			"interval already includes no effect", *ev.Estimate)
 	}
-	return Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("E-value for %s (%s figures; %s): %s.", c.ID, ev.Source, ev.Conversion, how)}
+	return Finding{Severity: sev, Claim: c.ID,
+		Message: fmt.Sprintf("E-value for %s (%s figures; %s): %s.", c.ID, ev.Source, ev.Conversion, how)}
 }

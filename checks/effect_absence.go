@@ -40,20 +40,39 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	case p < a.Alpha:
 		t.Verdict = "effect_found"
 		return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, but the %s estimate is %.2f (%s, %s), significant at α = %g: the data do not "+
+			"%s says there is no effect, but the %s is %.2f (%s, %s), significant at α = %g: the data do not "+
 				"support \"no effect\".",
-			c.ID, in.source, in.shown, pText(p), t.Distribution, a.Alpha)}}
+			c.ID, a.sourceText(in.source), in.shown, pText(p), t.Distribution, a.Alpha)}}
 	case tp < a.Alpha:
 		t.Verdict = "excludes_meaningful_effects"
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, and the data exclude effects of ±%g or larger (equivalence test %s, %s).",
-			c.ID, t.Margin, pText(tp), t.Distribution)}}
+			"%s says there is no effect, and the data exclude effects of ±%g or larger at α = %g (equivalence test "+
+				"%s, "+
+				"%s%s).", c.ID, t.Margin, a.Alpha, pText(tp), t.Distribution, a.marginSource(t.Margin))}}
 	}
 	t.Verdict = "does_not_tell"
 	return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
 		"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
-			"%s; the study had %.0f%% power to detect an effect of that size): the data do not tell.",
-		c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw)}}
+			"%s; the study had %.0f%% power to detect an effect of that size%s): the data do not tell.",
+		c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw, a.marginSource(t.Margin))}}
+}
+
+// sourceText names the weighed estimate and where it comes from.
+func (a *Analysis) sourceText(source string) string {
+	if b := a.dataBasis(""); source == "recomputed" && b != "" {
+		return "estimate recomputed from " + b
+	}
+	return source + " estimate"
+}
+
+// marginSource says where the equivalence margin comes from: the package's
+// smallest effect of interest, or the default the author can replace.
+func (a *Analysis) marginSource(margin float64) string {
+	if a.Study.Package.SmallestEffectOfInterest != nil {
+		return fmt.Sprintf("; ±%g is the package's smallest effect of interest", margin)
+	}
+	return fmt.Sprintf("; ±%g, standardized, is the default smallest effect of interest, as the package sets "+
+		"no smallest_effect_of_interest", margin)
 }
 
 // absenceInput is what an absence claim is weighed with: the estimate
@@ -135,7 +154,8 @@ func (a *Analysis) noAbsenceTest(c Claim, decl est) string {
 			"standardized estimate with its SE.", c.ID, c.From, c.To, delta)
 	case !decl.ok():
 		return fmt.Sprintf("%s says there is no effect, but the data give no estimate (%v) and the claim reports no "+
-			"standardized estimate with its SE, so nothing can be tested against the smallest effect of interest (%g).", c.ID, decl.err, delta)
+			"standardized estimate with its SE, so nothing can be tested against the smallest effect of interest "+
+			"(%g).", c.ID, decl.err, delta)
 	}
 	return fmt.Sprintf("%s says there is no effect, but neither the data nor the reported figures give a "+
 		"standardized estimate with its SE to test against the smallest effect of interest (%g).", c.ID, delta)

@@ -78,7 +78,8 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 	switch {
 	case !hasEst && hasP:
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect is.", c.ID, reportedP(c))})
+			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect "+
+				"is.", c.ID, reportedP(c))})
 	case !hasEst && !hasP:
 		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval " +
 			"or p-value at all."})
@@ -156,11 +157,15 @@ func testDF(c Claim, decl est) float64 {
 }
 
 // distribution names what an estimate's p-value and interval are taken
-// under; "" where the estimate says it in its note (pooled imputations).
+// under: t on its OLS df, or for pooled imputations t on the
+// Barnard–Rubin df (to one decimal, as the note prints it; on the pooling
+// scale for correlations and odds ratios).
 func (e est) distribution() string {
 	switch {
 	case e.method == MethodOLS && e.df > 0:
 		return distName(e.df)
+	case e.method == "multiple_imputation" && e.df > 0:
+		return distName(math.Round(e.df*10) / 10)
 	case e.method == MethodLogit || e.method == MethodPartial:
 		return "normal"
 	}
@@ -258,9 +263,25 @@ func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
 		adjustment = "the claim's own adjustment set"
 	}
 	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %g, but the data give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
+		"%s reports %g, but %s give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
 			"obtained.",
-		c.ID, *c.Estimate, figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi), adjustment)}}
+		c.ID, *c.Estimate, a.dataBasis("the data"), figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi),
+		adjustment)}}
+}
+
+// dataBasis names the data a recomputed estimate comes from: the complete
+// rows where some rows have a missing value (the missing-data check
+// re-estimates the claims on all rows), else what.
+func (a *Analysis) dataBasis(what string) string {
+	d := a.Study.Data
+	if d == nil || d.Kind == DataSummary || len(d.Columns) == 0 {
+		return what
+	}
+	m, err := a.moments()
+	if err != nil || m.N >= len(d.Columns[0]) {
+		return what
+	}
+	return fmt.Sprintf("the %d complete rows (of %d)", m.N, len(d.Columns[0]))
 }
 
 // oddsRatioFinding gives a binary outcome's odds ratio between the 10th
@@ -292,7 +313,7 @@ func (a *Analysis) oddsRatioFinding(i int, c Claim, decl est) []Finding {
 	}
 	ci := ""
 	if r.RangeCI != nil {
-		ci = fmt.Sprintf(" (95%% interval %.2f to %.2f)", r.RangeCI[0], r.RangeCI[1])
+		ci = fmt.Sprintf(" (%g%% interval %.2f to %.2f)", 100*claimLevel(c), r.RangeCI[0], r.RangeCI[1])
 	}
 	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
 		"For %s: from the 10th to the 90th percentile of %s (%g to %g), the odds of %s change by a factor of %.2f%s.",

@@ -19,9 +19,11 @@ var equivalenceCheck = Check{
 	Title: "Equivalent graphs",
 	Run:   runEquivalence,
 	Summaries: map[string]string{
-		StatusPass:          "No claim changes sign or significance among the graphs that fit the data exactly as well as the declared one.",
-		StatusWarn:          "Some claims or the equivalent graphs need attention; see the findings.",
-		StatusFail:          "A headline claim depends on a choice among equivalent graphs that the paper does not discuss; see the findings.",
+		StatusPass: "No claim changes sign or significance among the graphs that fit the data exactly as " +
+			"well as the declared one.",
+		StatusWarn: "Some claims or the equivalent graphs need attention; see the findings.",
+		StatusFail: "A headline claim depends on a choice among equivalent graphs that the paper does not " +
+			"discuss; see the findings.",
 		StatusNotApplicable: "No causal graph is declared, so there is no equivalence class to report.",
 	},
 }
@@ -92,7 +94,8 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 	fs = append(fs, discussionFinding(s, eq)...)
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: equivalenceMetrics(eq, reversible)}
 	res.Metrics["claims_unstable"] = unstable
-	res.Summary = equivalenceSummary(s, eq, res.Status, equivalenceTally{unstable: unstable, reversible: reversible, claimWarnings: claimWarnings(fs)})
+	res.Summary = equivalenceSummary(s, eq, res.Status,
+		equivalenceTally{unstable: unstable, reversible: reversible, claimWarnings: claimWarnings(fs)})
 	return res, nil
 }
 
@@ -103,7 +106,8 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 	decl := a.declaredEstimate(i)
 	if !decl.ok() {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be estimated under the declared graph (%v), so it could not be re-estimated across the equivalent graphs either.", c.ID, decl.err)})
+			"%s could not be estimated under the declared graph (%v), so it could not be re-estimated across the "+
+				"equivalent graphs either.", c.ID, decl.err)})
 	}
 	across, err := a.declaredAcross(i)
 	if err != nil {
@@ -112,13 +116,15 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 	}
 	if across.Failed > 0 && !across.Unstable {
 		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be estimated in %d of the %s it was tried in, so whether its conclusion holds in all of them is not known.",
+			"%s could not be estimated in %d of the %s it was tried in, so whether its conclusion holds in all of "+
+				"them is not known.",
 			c.ID, across.Failed, acrossNoun(across.Method, across.Failed+across.Estimates))})
 	}
 	if !across.Unstable {
 		if len(structural) > 0 && structural[0].Severity != SeverityInfo {
 			return across, []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-				"The arrow %s → %s behind %s can point the other way in an equivalent graph, but the claim's conclusion is the same in every plausible one (%s under the declared graph).",
+				"The arrow %s → %s behind %s can point the other way in an equivalent graph, but the claim's "+
+					"conclusion is the same in every plausible one (%s under the declared graph).",
 				c.From, c.To, c.ID, valueText(decl))}}
 		}
 		return across, structural
@@ -128,7 +134,8 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 		sev = StatusFail
 	}
 	return across, []Finding{{Severity: sev, Claim: c.ID, Message: a.unstableText(c, decl, across),
-		Details: map[string]any{"estimates": across.Estimates, "estimates_differing": across.Differing, "method": across.Method}}}
+		Details: map[string]any{"estimates": across.Estimates, "estimates_differing": across.Differing,
+			"method": across.Method}}}
 }
 
 // acrossNoun counts what claims were estimated in: plausible graphs, or
@@ -189,13 +196,15 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 	n, err := dag.PlausibleSize(eq.cpdag, append(append([]dag.Edge(nil), s.Background...), dag.Edge{From: to, To: from}))
 	if err != nil {
 		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s: whether background knowledge fixes the direction of %s → %s could not be counted exactly (%v).", c.ID, c.From, c.To, err)}}, rev, nil
+			"%s: whether background knowledge fixes the direction of %s → %s could not be counted exactly "+
+				"(%v).", c.ID, c.From, c.To, err)}}, rev, nil
 	}
 	rev.PlausibleReversed, _ = exactCount(n)
 	rev.InPlausible = n.Sign() > 0
 	if !rev.InPlausible {
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"The data alone cannot orient the arrow %s → %s behind %s; only the stated background knowledge (exogenous variables, fixed arrows) does.",
+			"The data alone cannot orient the arrow %s → %s behind %s; only the stated background knowledge "+
+				"(exogenous variables, fixed arrows) does.",
 			c.From, c.To, c.ID)}}, rev, nil
 	}
 	sev := StatusWarn
@@ -203,7 +212,9 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 		sev = StatusFail
 	}
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
-		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible members of the declared graph's class it does, those graphs fit the data exactly as well, and in them the direct effect of %s on %s is zero.",
+		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible members of the declared "+
+			"graph's class it does, those graphs fit the data exactly as well, and in them the direct effect of %s "+
+			"on %s is zero.",
 		c.From, c.To, c.ID, n, countText(eq.plausible), c.From, c.To)}}, rev, nil
 }
 

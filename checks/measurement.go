@@ -22,7 +22,8 @@ var measurementCheck = Check{
 	Title: "Measurement error",
 	Run:   runMeasurement,
 	Summaries: map[string]string{
-		StatusPass:          "Correcting for measurement error changes the conclusion of no claim it could re-estimate.",
+		StatusPass: "Correcting for measurement error changes the conclusion of no claim it could " +
+			"re-estimate.",
 		StatusWarn:          "Measurement error needs attention; see the findings.",
 		StatusFail:          "Correcting for measurement error changes the sign or significance of a headline claim.",
 		StatusNotApplicable: "Nothing here is open to a correction for measurement error.",
@@ -58,20 +59,25 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 	var fs []Finding
 	if len(missingRel) > 0 {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-			"No reliability is reported for %s; how much measurement error weakens the claims that use %s cannot be judged, and %s left uncorrected below.",
-			strings.Join(missingRel, ", "), them(len(missingRel)), map[bool]string{true: "it is", false: "they are"}[len(missingRel) == 1])})
+			"No reliability is reported for %s; how much measurement error weakens the claims that use %s cannot be "+
+				"judged, and %s left uncorrected below.",
+			strings.Join(missingRel, ", "), them(len(missingRel)), plural(len(missingRel), "it is", "they are"))})
 	}
 	if len(low) > 0 {
-		fs = append(fs, Finding{Severity: SeverityInfo, Message: "Reliability below .70 (a rule of thumb in the field, no single source): " + strings.Join(low, ", ") + "."})
+		fs = append(fs, Finding{Severity: SeverityInfo, Message: "Reliability below .70 (a rule of thumb in the " +
+			"field, no single source): " + strings.Join(low, ", ") + "."})
 	}
 	m, err := a.moments()
 	if err != nil {
-		return CheckResult{}, fmt.Errorf("the correction for measurement error needs the data's correlations: %w", a.dataError())
+		return CheckResult{}, fmt.Errorf("the correction for measurement error needs the data's correlations: "+
+			"%w", a.dataError())
 	}
 	corrected, problem := correctedMoments(m, rel)
 	metrics := map[string]any{"variables_without_reliability": len(missingRel), "variables_low_reliability": len(low)}
 	if problem != "" {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: "Corrected for attenuation (Spearman 1904), the correlation matrix " + problem + ", so the claims are not re-estimated on it; the reliabilities and the correlations cannot all be right."})
+		fs = append(fs, Finding{Severity: StatusWarn, Message: "Corrected for attenuation (Spearman 1904), the " +
+			"correlation matrix " + problem + ", so the claims are not re-estimated on it; the reliabilities and " +
+			"the correlations cannot all be right."})
 	} else {
 		var cf []Finding
 		cf, metrics["claims_corrected"] = a.correctedClaims(corrected)
@@ -90,13 +96,31 @@ func measurementSummary(status string, metrics map[string]any, claims int, impos
 	case status == StatusFail:
 		return "" // the declared summary
 	case impossible:
-		return "Corrected for the reported reliabilities, the correlations are impossible, so the claims could not be re-estimated; the reliabilities or the correlations need checking."
+		return "Corrected for the reported reliabilities, the correlations are impossible, so the claims could not " +
+			"be re-estimated; the reliabilities or the correlations need checking."
 	case status == StatusWarn:
-		return "Measurement error needs attention: reliabilities are missing for some claims' variables, or correcting for them changes some claims; see the findings."
+		return "Measurement error needs attention: reliabilities are missing for some claims' variables, or " +
+			"correcting for them changes some claims; see the findings."
 	}
 	n, _ := metrics["claims_corrected"].(int)
-	return fmt.Sprintf("Reliabilities are reported for the claims' variables; correcting for measurement error changes the conclusion of none of the %s re-estimated on the corrected correlations (of %d).",
-		count(n, "claim", "claims"), claims)
+	return measurementPassText(n, claims)
+}
+
+// measurementPassText says how many claims were re-estimated on the
+// corrected correlations, and of how many, without a bare "(of n)".
+func measurementPassText(n, claims int) string {
+	const head = "Reliabilities are reported for the claims' variables; "
+	switch {
+	case n == 0:
+		return head + "no claim could be re-estimated on the corrected correlations."
+	case n == 1 && claims == 1:
+		return head + "the claim, re-estimated on the corrected correlations, keeps its conclusion."
+	case n == claims:
+		return fmt.Sprintf("%scorrecting for measurement error changes the conclusion of none of the %d claims, "+
+			"each re-estimated on the corrected correlations.", head, n)
+	}
+	return fmt.Sprintf("%s%d of the %d claims %s re-estimated on the corrected correlations, and correcting for "+
+		"measurement error changes the conclusion of none of them.", head, n, claims, plural(n, "was", "were"))
 }
 
 // claimVariables marks the variables that some claim names.
@@ -151,7 +175,8 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 		corr := a.estimateWith(cm, std, a.declaredParentsFor(c))
 		if bad := firstErr(decl, corr); bad != nil {
 			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-				"%s could not be estimated with and without the correction (%v), so what measurement error does to it is not known.", c.ID, bad)})
+				"%s could not be estimated with and without the correction (%v), so what measurement error does to "+
+					"it is not known.", c.ID, bad)})
 			continue
 		}
 		if corr.method == MethodZero {
@@ -163,11 +188,13 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 		a.Claims[i].Measurement = r
 		if r.Changed {
 			fs = append(fs, Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-				"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: measurement error alone could carry the conclusion.",
+				"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: "+
+					"measurement error alone could carry the conclusion.",
 				c.ID, valueText(decl), valueText(corr))})
 		} else if math.Abs(corr.value-decl.value) >= 0.05 {
 			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-				"%s moves from %s to %s (standardized) when corrected for measurement error; it %s.", c.ID, estText(decl.value), estText(corr.value),
+				"%s moves from %s to %s (standardized) when corrected for measurement error; it "+
+					"%s.", c.ID, estText(decl.value), estText(corr.value),
 				agreement(decl, corr, a.Alpha))})
 		}
 	}

@@ -3,6 +3,7 @@ package checks
 import (
 	"fmt"
 	"math"
+	"strings"
 )
 
 // methodFindings judge the declared method against the missingness.
@@ -14,17 +15,12 @@ func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 	switch name, bad := unsoundMethods[method]; {
 	case method == "":
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-			"The package does not say how missing values were handled, and %.1f%% of the data cells are missing (%d of %d rows are complete).",
-			share, r.summary.CompleteRows, r.summary.Rows)})
+			unstatedFormat, share, r.summary.CompleteRows, r.summary.Rows)})
 	case method == MissingNone:
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-			"The package says no values are missing, but %.1f%% of the data cells are (%d of %d rows are complete).", share, r.summary.CompleteRows, r.summary.Rows)})
+			noneMissingFormat, share, r.summary.CompleteRows, r.summary.Rows)})
 	case bad:
-		tail := "; the claims could not be re-estimated by a principled method (see below)."
-		if p := principledDone(r); p != "" {
-			tail = "; the claims are re-estimated below by " + p + "."
-		}
-		fs = append(fs, Finding{Severity: StatusWarn, Message: name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data)" + tail})
+		fs = append(fs, Finding{Severity: StatusWarn, Message: name + unsoundText + reestimatedText(method, r)})
 	case method == MissingAvailableCases && r.pairwiseErr != "":
 		fs = append(fs, Finding{Severity: StatusWarn, Message: "Available-case analysis: " + r.pairwiseErr + "."})
 	}
@@ -32,16 +28,65 @@ func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 		sev, tail := SeverityInfo, ""
 		rejected := r.mcar.P < alpha
 		if rejected && (method == MissingCompleteCases || method == MissingAvailableCases || method == "") {
-			sev, tail = StatusWarn, " An analysis of complete or available cases is then unbiased only under assumptions the data argue against."
+			sev, tail = StatusWarn, " An analysis of complete or available cases is then unbiased only under "+
+				"assumptions the data argue against."
 		}
 		verdict := "does not reject"
 		if rejected {
 			verdict = "rejects"
 		}
-		fs = append(fs, Finding{Severity: sev, Message: fmt.Sprintf(
-			"Little's test %s at the %g level that values are missing completely at random (χ² = %.2f on %d df, %s).%s", verdict, alpha, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
+		fs = append(fs, Finding{Severity: sev, Message: fmt.Sprintf(littleFormat,
+			verdict, alpha, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
 	}
 	return fs
+}
+
+// Long message formats of the missing-data findings.
+const (
+	// mlSENote: the ML estimate is the estimator run on the EM mean and
+	// covariance as if they came from n complete rows, so its SE, interval
+	// and p are complete-data ones, too small where data are missing.
+	mlSENote = "point estimate from the EM mean and covariance; its SE, interval and p-value treat them as if " +
+		"from n complete rows, so they understate the uncertainty where values are missing (no " +
+		"observed-information correction)"
+	unsoundText = " biases coefficients and understates their uncertainty (Little & Rubin, " +
+		"Statistical Analysis with Missing Data)"
+	unstatedFormat = "The package does not say how missing values were handled, and %.1f%% of the data cells " +
+		"are missing (%d of %d rows are complete)."
+	noneMissingFormat = "The package says no values are missing, but %.1f%% of the data cells are " +
+		"(%d of %d rows are complete)."
+	littleFormat = "Little's test %s at the %g level that values are missing completely at random " +
+		"(χ² = %.2f on %d df, %s).%s"
+	uncomparedFormat = "%s could not be estimated by %s (%s), so whether its conclusion depends on how " +
+		"missing values were handled is not known."
+	missingFailSummary = "A headline claim changes sign or significance once missing values are handled by a " +
+		"principled method; the conclusion rests on the missing-data method, not on the data."
+	missingChangedFormat = "%s %s sign or significance once missing values are handled by a principled method; " +
+		"the paper should report the analysis by multiple imputation or maximum likelihood."
+)
+
+// reestimatedText says by which principled methods the claims were
+// re-estimated and which one the findings hold the declared method
+// against: the report's missing_data has every estimate, the findings
+// compare one.
+func reestimatedText(method string, r *missingResult) string {
+	done := principledDone(r)
+	if done == "" {
+		return "; the claims could not be re-estimated by a principled method (see below)."
+	}
+	has := map[string]est{}
+	for k := range r.moments {
+		has[k] = est{}
+	}
+	if len(r.imputed) > 0 {
+		has[MissingMultipleImputation] = est{}
+	}
+	dk, pk := comparison(method, has)
+	if _, ok := has[pk]; !ok {
+		return "; the claims are re-estimated by " + done + " (see below)."
+	}
+	return fmt.Sprintf("; the claims are re-estimated by %s, and below each claim's %s estimate is held against "+
+		"its estimate by %s.", done, r.label(dk), r.label(pk))
 }
 
 // principledDone names the principled methods the claims were re-estimated
@@ -98,6 +143,10 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	ests := map[string]est{}
 	for key, m := range r.moments {
 		ests[key] = a.estimateWith(m, c, pa)
+		if e := ests[key]; key == MissingMaximumLikelihood && e.ok() && e.method != MethodZero {
+			e.note = strings.TrimPrefix(e.note+"; "+mlSENote, "; ")
+			ests[key] = e
+		}
 	}
 	if len(r.imputed) > 0 {
 		ests[MissingMultipleImputation] = a.pooled(c, r.imputedEst[i], r.imputed)
@@ -128,7 +177,8 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	level := claimLevel(c)
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
 		"%s is %s by %s (%s) but %s by %s (%s): the conclusion depends on how missing values were handled.",
-		c.ID, valueText(d), r.label(declaredKey), ciText(d, level), valueText(p), r.label(principledKey), ciText(p, level))}}, true
+		c.ID, valueText(d), r.label(declaredKey), ciText(d, level), valueText(p), r.label(principledKey),
+		ciText(p, level))}}, true
 }
 
 // uncompared is the warning for a claim whose declared-method or
@@ -145,8 +195,7 @@ func (r *missingResult) uncompared(c Claim, ests map[string]est, declaredKey, pr
 			why = e.err.Error()
 		}
 		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be estimated by %s (%s), so whether its conclusion depends on how missing values were handled is not known.",
-			c.ID, r.label(key), why)}}
+			uncomparedFormat, c.ID, r.label(key), why)}}
 	}
 	return nil
 }
@@ -192,16 +241,17 @@ func missingSummary(status string, changed, uncompared int, method string, r *mi
 	dk, pk := comparison(method, has)
 	switch {
 	case changed > 0 && status == StatusFail:
-		return "A headline claim changes sign or significance once missing values are handled by a principled method; the conclusion rests on the missing-data method, not on the data."
+		return missingFailSummary
 	case changed > 0:
-		return fmt.Sprintf("%s %s sign or significance once missing values are handled by a principled method; the paper should report the analysis by multiple imputation or maximum likelihood.",
-			count(changed, "claim", "claims"), map[bool]string{true: "changes", false: "change"}[changed == 1])
+		return fmt.Sprintf(missingChangedFormat, count(changed, "claim", "claims"), plural(changed, "changes", "change"))
 	case uncompared > 0:
-		return fmt.Sprintf("%s could not be compared between %s and %s, so the screen of missing data is incomplete; see the findings.",
-			count(uncompared, "claim", "claims"), r.label(dk), r.label(pk))
+		return fmt.Sprintf("%s could not be compared between %s and %s, so the screen of missing data is "+
+			"incomplete; see the findings.", count(uncompared, "claim", "claims"), r.label(dk), r.label(pk))
 	case status == StatusWarn:
-		return fmt.Sprintf("No claim changes its conclusion between %s and %s, but the way missing values were handled or reported needs attention; see the findings.", r.label(dk), r.label(pk))
+		return fmt.Sprintf("No claim changes its conclusion between %s and %s, but the way missing values were "+
+			"handled or reported needs attention; see the findings.", r.label(dk), r.label(pk))
 	}
-	return fmt.Sprintf("No claim changes its conclusion (the sign of a significant estimate, or its non-significance) between %s and %s (%d of %d rows complete).",
-		r.label(dk), r.label(pk), r.summary.CompleteRows, r.summary.Rows)
+	return fmt.Sprintf("No claim changes its conclusion (the sign of a significant estimate, or its "+
+		"non-significance) between %s and %s (%d of %d rows complete).", r.label(dk), r.label(pk),
+		r.summary.CompleteRows, r.summary.Rows)
 }

@@ -109,7 +109,8 @@ func TestMissingData_PairwiseNotPositiveDefinite(t *testing.T) {
 // A binary outcome with raw rows: a logistic regression, and the odds
 // ratio between the 10th and 90th percentile of the predictor equals
 // exp(β (x90 − x10)).
-func TestEffectReporting_OddsRatioRange(t *testing.T) {
+// logisticRows draws 400 rows of a binary y with logit 0.8x − 0.2.
+func logisticRows() string {
 	r := rand.New(rand.NewPCG(3, 3))
 	var b strings.Builder
 	b.WriteString("x,y,z\n")
@@ -121,7 +122,31 @@ func TestEffectReporting_OddsRatioRange(t *testing.T) {
 		}
 		fmt.Fprintf(&b, "%.4f,%d,%.4f\n", x, y, r.NormFloat64())
 	}
-	rep := rowsPackage(t, b.String(), "binary", `{"id": "L1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "estimate_scale": "odds_ratio", "estimate": 2.2, "ci": [1.7, 2.8], "p_value": 0.001, "p_relation": "<"}`, "none")
+	return b.String()
+}
+
+// The odds-ratio range's interval is at the claim's level, and says so.
+func TestEffectReporting_OddsRatioRangeLevel(t *testing.T) {
+	rep := rowsPackage(t, logisticRows(), "binary", `{"id": "L1", "text": "x goes with y", "kind": "association",
+		"from": "x", "to": "y", "estimate_scale": "odds_ratio", "estimate": 2.2, "ci": [1.8, 2.7], "ci_level": 0.9,
+		"p_value": 0.001, "p_relation": "<"}`, "none")
+	found := false
+	for _, f := range checkOf(rep, "effect-reporting").Findings {
+		if strings.HasPrefix(f.Message, "For L1: from the 10th") {
+			found = strings.Contains(f.Message, "(90% interval")
+			t.Log(f.Message)
+		}
+	}
+	if !found {
+		t.Error("no odds-ratio range finding with its 90% interval")
+	}
+	if rep.Claims[0].OddsRatio == nil || rep.Claims[0].OddsRatio.RangeCI == nil {
+		t.Fatalf("no range interval: %+v", rep.Claims[0].OddsRatio)
+	}
+}
+
+func TestEffectReporting_OddsRatioRange(t *testing.T) {
+	rep := rowsPackage(t, logisticRows(), "binary", `{"id": "L1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "estimate_scale": "odds_ratio", "estimate": 2.2, "ci": [1.7, 2.8], "p_value": 0.001, "p_relation": "<"}`, "none")
 	cl := rep.Claims[0]
 	if cl.Declared.Method != "logistic" || cl.OddsRatio == nil {
 		t.Fatalf("declared %+v, odds ratio %+v", cl.Declared, cl.OddsRatio)
@@ -133,5 +158,29 @@ func TestEffectReporting_OddsRatioRange(t *testing.T) {
 	}
 	if math.Abs(*cl.Declared.Estimate-*cl.OddsRatio.PerUnit) > 1e-9 {
 		t.Fatalf("per-unit odds ratio %v vs declared %v", *cl.OddsRatio.PerUnit, *cl.Declared.Estimate)
+	}
+}
+
+// A pooled estimate names its distribution, t on the Barnard–Rubin df
+// its note prints (report-format.md).
+func TestMissingData_PooledDistribution(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/sleep-attention/package.json"))
+	for _, c := range r.Claims {
+		mi := c.MissingData["multiple_imputation"]
+		df := strings.TrimSuffix(strings.TrimPrefix(mi.Distribution, "t("), ")")
+		if df == "" || !strings.HasPrefix(mi.Distribution, "t(") || !strings.Contains(mi.Note, "Barnard–Rubin df "+df+";") {
+			t.Errorf("%s: distribution %q, note %q", c.ID, mi.Distribution, mi.Note)
+		}
+	}
+}
+
+// The ML estimate's SE is a complete-data one on the EM moments: its
+// note says so, since its p-value is smaller than the pooled imputations'
+// (sleep demo S1: ML p ≈ .001, MI p ≈ .011).
+func TestMissingData_MLNoteSaysSEIsCompleteData(t *testing.T) {
+	r := mustRun(t, MustLoad(t, "../testdata/demo/sleep-attention/package.json"))
+	ml := r.Claims[0].MissingData["maximum_likelihood"]
+	if ml == nil || !strings.Contains(ml.Note, "understate the uncertainty") {
+		t.Fatalf("ML estimate %+v", ml)
 	}
 }

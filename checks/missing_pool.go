@@ -46,9 +46,11 @@ func (a *Analysis) pooled(c Claim, ests []est, imputed []*Moments) est {
 	}
 	e := est{method: "multiple_imputation", scale: first.scale, n: first.n, adjusted: first.adjusted, p: pr.P,
 		value: pr.Estimate, additive: pr.Estimate, se: pr.StdError, lo: pr.CI[0], hi: pr.CI[1],
-		note: fmt.Sprintf("%d imputations pooled by Rubin's rules; Barnard–Rubin df %.1f; fraction of missing information %.2f; "+
-			"Monte Carlo error of the pooled estimate %.2g%s", pr.M, pr.DF, pr.FMI, monteCarloError(pr), poolScaleNote(first))}
-	e.mcse, e.nearLine = monteCarloError(pr), nearLine(pr, a.Alpha)
+		note: fmt.Sprintf("%d imputations pooled by Rubin's rules; Barnard–Rubin df %.1f; fraction of missing "+
+			"information %.2f; "+
+			"Monte Carlo error of the pooled estimate "+
+			"%.2g%s", pr.M, pr.DF, pr.FMI, monteCarloError(pr), poolScaleNote(first))}
+	e.mcse, e.nearLine, e.df = monteCarloError(pr), nearLine(pr, a.Alpha), pr.DF
 	switch {
 	case first.method == MethodPartial:
 		e.value, e.lo, e.hi, e.se = math.Tanh(pr.Estimate), math.Tanh(pr.CI[0]), math.Tanh(pr.CI[1]), math.NaN()
@@ -77,7 +79,8 @@ func (a *Analysis) raiseImputations(ctx context.Context, r *missingResult) {
 		return
 	}
 	if cells := r.summary.Rows * len(a.Study.Names); cells > MaxRaiseCells {
-		r.raiseErr = fmt.Errorf("not raised: %d rows × %d variables is past the %d cells for which %d imputations fit in a job's time",
+		r.raiseErr = fmt.Errorf("not raised: %d rows × %d variables is past the %d cells for which %d imputations "+
+			"fit in a job's time",
 			r.summary.Rows, len(a.Study.Names), MaxRaiseCells, MaxImputations)
 		return
 	}
@@ -111,13 +114,16 @@ func raisedFindings(r *missingResult) []Finding {
 	ids := strings.Join(r.raised, ", ")
 	if r.raiseErr != nil {
 		return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
-			"With %d imputations the Monte Carlo error could carry the pooled estimate of %s across the significance line, and m was not raised (%v): read %s as on the line.",
+			"With %d imputations the Monte Carlo error could carry the pooled estimate of %s across the significance "+
+				"line, and m was not raised (%v): read %s as on the line.",
 			Imputations, ids, r.raiseErr, ids)}}
 	}
-	msg := fmt.Sprintf("Multiple imputation was run with %d imputations, not %d: with %d, the Monte Carlo error could have carried the pooled estimate of %s across the significance line.",
+	msg := fmt.Sprintf("Multiple imputation was run with %d imputations, not %d: with %d, the Monte Carlo error "+
+		"could have carried the pooled estimate of %s across the significance line.",
 		len(r.imputed), Imputations, Imputations, ids)
 	if len(r.stillNear) > 0 {
-		msg += fmt.Sprintf(" With %d it still could for %s: read %s as on the line.", len(r.imputed), strings.Join(r.stillNear, ", "), strings.Join(r.stillNear, ", "))
+		msg += fmt.Sprintf(" With %d it still could for %s: read %s as on the "+
+			"line.", len(r.imputed), strings.Join(r.stillNear, ", "), strings.Join(r.stillNear, ", "))
 	}
 	return []Finding{{Severity: SeverityInfo, Message: msg}}
 }

@@ -147,7 +147,8 @@ func (a *Analysis) nearbyReport(c *nearClass) NearbyGraph {
 		r.Claims = map[string]NearbyClaim{}
 		for i, ae := range c.claims {
 			r.Claims[s.Package.Claims[i].ID] = NearbyClaim{Min: ae.Min, Max: ae.Max,
-				ShareSignificantSameSign: ae.ShareSignificantSameSign, Graphs: ae.Estimates, Method: ae.Method, Changed: ae.Unstable}
+				ShareSignificantSameSign: ae.ShareSignificantSameSign, Graphs: ae.Estimates, Method: ae.Method,
+				Changed: ae.Unstable}
 		}
 	}
 	return r

@@ -24,21 +24,75 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 	}
 	fs = append(fs, a.searchFinding(run))
 	if left := run.near - run.examined; left > 0 {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-			"%d more class(es) fit within ΔBIC 2 of the declared graph beyond the %d examined; their claims were not re-estimated, so this check cannot say that every claim holds in them.",
-			left, run.examined)})
+		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(unexaminedFormat,
+			count(left, "more class fits", "more classes fit"), run.examined)})
 	}
 	return append(fs, a.binaryScoreFinding()...)
 }
 
+// Long message formats of the nearby-graphs findings.
+const (
+	unexaminedFormat = "%s within ΔBIC 2 of the declared graph beyond the %d examined; their claims were not " +
+		"re-estimated, so this check cannot say that every claim holds in them."
+	overviewFormat = "%s one edit from the declared graph within the background knowledge; %s%s. " +
+		"The score is graph-fit's BIC (χ² + free parameters · ln N), refitting only the equations whose parents change."
+	searchFormat = "A greedy search from the declared graph (%s that lowers BIC most%s) " +
+		"ends at the graphs %s (%s). A search result is a hint, not a discovery: one greedy path through many " +
+		"candidate edits also finds chance improvements, so it says where to look, not which graph is true."
+	binaryScoreFormat = "%s: binary. The nearby graphs are scored by the same linear BIC as graph-fit's χ², which " +
+		"treats %s as continuous: where an edit changes a binary variable's equation its ΔBIC is approximate, and a " +
+		"headline claim that changes there is warned about, not failed (the claims themselves are estimated as " +
+		"elsewhere in the report)."
+	noNeighbourText = "No graph lies one edit from the declared one within the background knowledge " +
+		"(exogenous variables, fixed arrows)."
+	differsFormat = "%s is %s under the declared graph, but its sign or significance differs in %d of %s " +
+		"(%s; in the one nearest zero it is %s)"
+	coveredText = " It already changes among the declared graph's own equivalent graphs (see the equivalence " +
+		"check), so the equivalence check's finding covers it."
+	approximateText = " The edit changes the equation of a binary variable, which the linear score treats as " +
+		"continuous, so this ΔBIC is approximate and the finding a warning rather than a failure; the paper " +
+		"neither states nor discusses this graph."
+	undiscussedText = " The paper neither states nor discusses this graph, so the data do not decide this claim; " +
+		"the choice of graph does."
+	noSearchStepText = "A greedy search from the declared graph finds no single edit that lowers BIC: " +
+		"the declared graph is a local optimum of the score."
+)
+
 func overviewFinding(run *nearbyRun) Finding {
 	nb := run.nb
 	if nb.DAGs == 0 {
-		return Finding{Severity: SeverityInfo, Message: "No graph lies one edit from the declared one within the background knowledge (exogenous variables, fixed arrows)."}
+		return Finding{Severity: SeverityInfo, Message: noNeighbourText}
 	}
-	return Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
-		"%d graph(s) lie one edit from the declared graph within the background knowledge, %d of them in its own equivalence class (a reversible arrow reversed); the other %d equivalence class(es): %d within ΔBIC 2 of the declared graph, %d fitting better by 2 or more. The score is graph-fit's BIC (χ² + free parameters · ln N), refitting only the equations whose parents change.",
-		nb.DAGs, nb.Equivalent, len(nb.Classes), run.near, run.better)}
+	own := "none is in its own equivalence class"
+	switch {
+	case nb.Equivalent == nb.DAGs && nb.DAGs == 1:
+		own = "it is in its own equivalence class (a reversible arrow reversed)"
+	case nb.Equivalent > 0:
+		own = fmt.Sprintf("%d %s in its own equivalence class (a reversible arrow reversed)",
+			nb.Equivalent, plural(nb.Equivalent, "is", "are"))
+	}
+	others := ""
+	if n := nb.DAGs - nb.Equivalent; n > 0 && n < nb.DAGs {
+		others = fmt.Sprintf("; the %s in %s", plural(n, "other falls", "others fall"), classesText(run))
+	} else if n > 0 {
+		others = fmt.Sprintf("; they fall in %s", classesText(run))
+	}
+	return Finding{Severity: SeverityInfo, Message: fmt.Sprintf(overviewFormat,
+		count(nb.DAGs, "graph lies", "graphs lie"), own, others)}
+}
+
+// classesText counts the neighbours' classes and how they fit.
+func classesText(run *nearbyRun) string {
+	return fmt.Sprintf("%s: %d within ΔBIC 2 of the declared graph, %d fitting better by 2 or more",
+		count(len(run.nb.Classes), "equivalence class", "equivalence classes"), run.near, run.better)
+}
+
+// plural picks the singular or plural word for a count.
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
 }
 
 // classFindings: one finding per claim that changes sign or significance
@@ -98,7 +152,7 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)",
 			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
 	default:
-		fmt.Fprintf(&b, "%s is %s under the declared graph, but its sign or significance differs in %d of %s (%s; in the one nearest zero it is %s)",
+		fmt.Fprintf(&b, differsFormat,
 			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)
 	}
 	if ae.Estimates > 1 {
@@ -108,13 +162,13 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 	b.WriteString(".")
 	switch {
 	case sev == SeverityInfo:
-		b.WriteString(" It already changes among the declared graph's own equivalent graphs (see the equivalence check), so the equivalence check's finding covers it.")
+		b.WriteString(coveredText)
 	case c.alternative != "":
 		fmt.Fprintf(&b, " The authors state this graph as the alternative %q.", c.alternative)
 	case c.approximate && cl.Headline && math.Abs(c.delta) < weakBIC && c.alternative == "":
-		b.WriteString(" The edit changes the equation of a binary variable, which the linear score treats as continuous, so this ΔBIC is approximate and the finding a warning rather than a failure; the paper neither states nor discusses this graph.")
+		b.WriteString(approximateText)
 	case sev == StatusFail:
-		b.WriteString(" The paper neither states nor discusses this graph, so the data do not decide this claim; the choice of graph does.")
+		b.WriteString(undiscussedText)
 	}
 	return b.String()
 }
@@ -136,7 +190,7 @@ func shareText(x *float64) string {
 func (a *Analysis) searchFinding(run *nearbyRun) Finding {
 	sr := run.sr
 	if sr.Steps == 0 {
-		return Finding{Severity: SeverityInfo, Message: "A greedy search from the declared graph finds no single edit that lowers BIC: the declared graph is a local optimum of the score."}
+		return Finding{Severity: SeverityInfo, Message: noSearchStepText}
 	}
 	sev := SeverityInfo
 	if sr.DeltaBIC < clearlyBetterBIC {
@@ -146,9 +200,9 @@ func (a *Analysis) searchFinding(run *nearbyRun) Finding {
 	if sr.Stopped {
 		stopped = ", stopped at its step limit"
 	}
-	return Finding{Severity: sev, Message: fmt.Sprintf(
-		"A greedy search from the declared graph (%d step(s), each the single edit that lowers BIC most%s) ends at the graphs %s (%s). A search result is a hint, not a discovery: one greedy path through many candidate edits also finds chance improvements, so it says where to look, not which graph is true.",
-		sr.Steps, stopped, a.editsText(sr.Edits), deltaText(sr.DeltaBIC))}
+	return Finding{Severity: sev, Message: fmt.Sprintf(searchFormat,
+		count(sr.Steps, "step: the single edit", "steps, each the single edit"), stopped, a.editsText(sr.Edits),
+		deltaText(sr.DeltaBIC))}
 }
 
 // binaryScoreFinding says where the linear score treats a binary
@@ -163,7 +217,6 @@ func (a *Analysis) binaryScoreFinding() []Finding {
 	if len(names) == 0 {
 		return nil
 	}
-	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
-		"%s: binary. The nearby graphs are scored by the same linear BIC as graph-fit's χ², which treats %s as continuous: where an edit changes a binary variable's equation its ΔBIC is approximate, and a headline claim that changes there is warned about, not failed (the claims themselves are estimated as elsewhere in the report).",
+	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(binaryScoreFormat,
 		strings.Join(names, ", "), them(len(names)))}}
 }

@@ -54,9 +54,11 @@ var nearbyGraphsCheck = Check{
 	Title: "Graphs one edit away",
 	Run:   runNearbyGraphs,
 	Summaries: map[string]string{
-		StatusPass:          "No graph one edit from the declared one that fits the data about as well changes a claim's sign or significance.",
-		StatusWarn:          "The graphs near the declared one need a look; see the findings.",
-		StatusFail:          "A headline claim changes sign or significance in a graph one edit from the declared one that fits the data about as well; see the findings.",
+		StatusPass: "No graph one edit from the declared one that fits the data about as well changes a claim's " +
+			"sign or significance.",
+		StatusWarn: "The graphs near the declared one need a look; see the findings.",
+		StatusFail: "A headline claim changes sign or significance in a graph one edit from the declared one " +
+			"that fits the data about as well; see the findings.",
 		StatusNotApplicable: "There are no graphs near the declared one to weigh.",
 	},
 }
@@ -74,7 +76,8 @@ type nearbyRun struct {
 func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
 	s := a.Study
 	if s.Declared == nil {
-		return CheckResult{Status: StatusNotApplicable, Summary: "No causal graph is declared, so there are no graphs near it to weigh."}, nil
+		return CheckResult{Status: StatusNotApplicable,
+			Summary: "No causal graph is declared, so there are no graphs near it to weigh."}, nil
 	}
 	m, err := a.moments()
 	if err != nil {
@@ -85,7 +88,8 @@ func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
 		return CheckResult{}, ctxErr
 	}
 	if err != nil {
-		return CheckResult{}, fmt.Errorf("the graphs near the declared one could not be scored: the declared graph could not be fitted to the data (%w)", err)
+		return CheckResult{}, fmt.Errorf("the graphs near the declared one could not be scored: "+
+			"the declared graph could not be fitted to the data (%w)", err)
 	}
 	run, err := a.nearbyRun(ctx, m)
 	if err != nil {
@@ -162,22 +166,72 @@ func nearbyMetrics(run *nearbyRun, declaredBIC float64) map[string]any {
 	return m
 }
 
+// Long summaries of the nearby-graphs check.
+const (
+	nearbyFailSummary = "A headline claim changes sign or significance in a graph one edit from the declared one " +
+		"that fits the data about as well (|ΔBIC| < 2) and that the paper does not state as an alternative; the data " +
+		"do not decide between the two graphs, so they do not decide the claim."
+	nearbyWarnSummary = "The graphs near the declared one need a look: a claim changes in one that fits about as " +
+		"well, a greedy search finds graphs that fit clearly better, or not every close class could be examined; " +
+		"see the findings."
+)
+
 func nearbySummary(status string, run *nearbyRun) string {
 	switch status {
 	case StatusFail:
-		return "A headline claim changes sign or significance in a graph one edit from the declared one that fits the data about as well (|ΔBIC| < 2) and that the paper does not state as an alternative; the data do not decide between the two graphs, so they do not decide the claim."
+		return nearbyFailSummary
 	case StatusWarn:
-		return "The graphs near the declared one need a look: a claim changes in one that fits about as well, a greedy search finds graphs that fit clearly better, or not every close class could be examined; see the findings."
+		return nearbyWarnSummary
 	}
+	n := len(run.nb.Classes)
 	if run.nb.DAGs == 0 {
 		return "The background knowledge leaves no graph one edit from the declared one."
 	}
 	if run.near == 0 {
-		return fmt.Sprintf("None of the %d class(es) of graphs one edit from the declared graph fits within ΔBIC 2 of it, so no graph that close challenges the claims.",
-			len(run.nb.Classes))
+		return noneNearSummary(n) + betterText(run) + "."
 	}
-	return fmt.Sprintf("%d class(es) of graphs lie one edit from the declared graph; %d fit within ΔBIC 2 of it, and no claim changes sign or significance in them.",
-		len(run.nb.Classes), run.near)
+	held := "no claim changes sign or significance in " + them(run.near)
+	if changedNear(run) {
+		held = "a claim that changes in " + them(run.near) +
+			" already changes among the declared graph's own equivalent graphs (see the equivalence check)"
+	}
+	return fmt.Sprintf("%s of graphs %s one edit from the declared graph; %d %s within ΔBIC 2 of it, and %s%s.",
+		count(n, "class", "classes"), plural(n, "lies", "lie"), run.near, plural(run.near, "fits", "fit"), held,
+		betterText(run))
+}
+
+func noneNearSummary(n int) string {
+	if n == 1 {
+		return "The one class of graphs one edit from the declared graph does not fit within ΔBIC 2 of it"
+	}
+	return fmt.Sprintf("None of the %d classes of graphs one edit from the declared graph fits within ΔBIC 2 of it", n)
+}
+
+// betterText says that classes fitting better by 2 or more were not
+// re-estimated (only those within 2 are, and the search's end point).
+func betterText(run *nearbyRun) string {
+	if run.better == 0 {
+		return ""
+	}
+	return fmt.Sprintf("; %s better by 2 or more: the claims are re-estimated where the greedy search ends, "+
+		"not in every such class (see the findings)", count(run.better, "class fits", "classes fit"))
+}
+
+// changedNear reports whether a claim changes sign or significance in a
+// class within ΔBIC 2 (then only among the declared graph's equivalents,
+// or the status would not be pass).
+func changedNear(run *nearbyRun) bool {
+	for _, c := range run.listed {
+		if math.Abs(c.delta) >= weakBIC {
+			continue
+		}
+		for _, ae := range c.claims {
+			if ae.Unstable {
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // editsText names edits of the declared graph: "without the arrow a → b",

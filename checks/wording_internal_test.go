@@ -75,6 +75,24 @@ func TestPrincipledDone_NamesWhatRan(t *testing.T) {
 	}
 }
 
+// The methods said to be re-run are named apart from the one each claim is
+// held against below (the findings compare one; missing_data has all).
+func TestReestimatedText_NamesTheComparison(t *testing.T) {
+	r := &missingResult{moments: map[string]*Moments{MissingMaximumLikelihood: {}, MissingMeanSubstitution: {}},
+		imputed: []*Moments{{}}}
+	got := reestimatedText(MissingMeanSubstitution, r)
+	want := "; the claims are re-estimated by maximum likelihood and multiple imputation, and below each claim's " +
+		"mean substitution estimate is held against its estimate by multiple imputation with"
+	if !strings.HasPrefix(got, want) {
+		t.Errorf("%q\nwant prefix %q", got, want)
+	}
+	r.imputed = nil // MI did not run: no comparison to name
+	got = reestimatedText(MissingMeanSubstitution, r)
+	if got != "; the claims are re-estimated by maximum likelihood (see below)." {
+		t.Errorf("without imputations: %q", got)
+	}
+}
+
 // One Holm-adjusted rejection under linear-normal tests is not "the graph
 // is wrong": the summary counts it and names the assumptions.
 func TestFitSummary_OneRejection(t *testing.T) {
@@ -121,6 +139,37 @@ func TestEquivalenceSummary_Branches(t *testing.T) {
 	}
 }
 
+// The measurement pass summary counts what was re-estimated without a
+// bare "(of n)", in the singular for one claim.
+func TestMeasurementPassText(t *testing.T) {
+	for _, tc := range []struct {
+		n, claims int
+		want      string
+	}{
+		{4, 4, "changes the conclusion of none of the 4 claims, each re-estimated on the corrected correlations."},
+		{1, 1, "the claim, re-estimated on the corrected correlations, keeps its conclusion."},
+		{1, 3, "1 of the 3 claims was re-estimated on the corrected correlations, and correcting"},
+		{0, 2, "no claim could be re-estimated on the corrected correlations."},
+	} {
+		if got := measurementPassText(tc.n, tc.claims); !strings.HasSuffix(got, tc.want) && !strings.Contains(got, tc.want) {
+			t.Errorf("%d of %d: %q lacks %q", tc.n, tc.claims, got, tc.want)
+		}
+	}
+}
+
+// An alternative that fits better by 2 or more is not said to fit "about
+// as well".
+func TestFitWord(t *testing.T) {
+	for _, tc := range []struct {
+		delta float64
+		want  string
+	}{{-5.8, "better"}, {-2, "better"}, {-1.9, "about as well"}, {1.9, "about as well"}, {2, "worse"}} {
+		if got := fitWord(tc.delta); got != tc.want {
+			t.Errorf("fitWord(%g) = %q, want %q", tc.delta, got, tc.want)
+		}
+	}
+}
+
 func TestAlternativesSummary_Branches(t *testing.T) {
 	asWell := []map[string]any{{"fits_about_as_well": true}, {"fits_about_as_well": false}}
 	claimWarn := []Finding{{Severity: StatusWarn, Claim: "C1"}}
@@ -133,7 +182,8 @@ func TestAlternativesSummary_Branches(t *testing.T) {
 		want   string
 	}{
 		{StatusPass, 1, asWell[1:], nil, "states 1 alternative graph; none fits the data about as well"},
-		{StatusPass, 2, asWell, nil, "under the 1 that fit"},
+		{StatusPass, 2, asWell, nil, "under the one that fits the data about as well as the declared graph or better"},
+		{StatusPass, 2, append(asWell[:1:1], asWell[0]), nil, "under the 2 that fit the data"},
 		{StatusWarn, 2, asWell, claimWarn, "1 claim changes sign"},
 		{StatusWarn, 2, asWell, otherWarn, "could not be compared"},
 	} {

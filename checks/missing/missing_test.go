@@ -244,3 +244,19 @@ func TestEM_Cancelled(t *testing.T) {
 		t.Fatalf("Impute: %v", err)
 	}
 }
+
+// With no between-imputation variance and ν_com = 1e15, ν_BR ≈ 1e15 and
+// the pooled t is the normal to 1e-15: the interval is Q̄ ± z_.975 and
+// p = 2Φ(−5) (z_.975 = 1.959963984540054, 2Φ(−5) = 5.733031437583878e-7,
+// scipy.stats.norm.ppf and 2*norm.sf). Gonum's incomplete-beta t gives
+// 3.23 and a wrong p at such df.
+func TestPool_LargeDF(t *testing.T) {
+	r, err := Pool([]float64{5, 5, 5}, []float64{1, 1, 1}, 1e15, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !scalar.EqualWithinAbsOrRel(r.CI[1]-r.Estimate, 1.959963984540054, 1e-9, 1e-9) ||
+		!scalar.EqualWithinAbsOrRel(r.P, 5.733031437583878e-7, 1e-15, 1e-8) {
+		t.Fatalf("ν_BR %v: half-width %v, p %v", r.DF, r.CI[1]-r.Estimate, r.P)
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/pathvet/pathvet/checks/effects"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -35,7 +36,10 @@ type Pooled struct {
 //
 //	ν_obs = (ν_com + 1)/(ν_com + 3) · ν_com · (1 − λ),  ν_BR = (1/ν_m + 1/ν_obs)⁻¹
 //
-// The interval is Q̄ ± t_{ν_BR} sqrt(T) at the level; p is two-sided.
+// The interval is Q̄ ± t_{ν_BR} sqrt(T) at the level; p is two-sided. The
+// t tail and quantile are the effects package's, which keep their digits
+// for very large ν_BR (a small fraction of missing information), where
+// the incomplete-beta forms lose them.
 func Pool(q, u []float64, dfCom, level float64) (Pooled, error) {
 	m := len(q)
 	if m < 2 || len(u) != m {
@@ -61,9 +65,8 @@ func Pool(q, u []float64, dfCom, level float64) (Pooled, error) {
 	obs := (dfCom + 1) / (dfCom + 3) * dfCom * (1 - r.Lambda)
 	r.DF = 1 / (1/r.DFRubin + 1/obs)
 	r.FMI = (r.RelativeIncrease + 2/(r.DFRubin+3)) / (r.RelativeIncrease + 1)
-	t := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: r.DF}
-	half := t.Quantile(0.5+level/2) * r.StdError
+	half := effects.TQuantile(0.5+level/2, r.DF) * r.StdError
 	r.CI = [2]float64{r.Estimate - half, r.Estimate + half}
-	r.P = 2 * t.Survival(math.Abs(r.Estimate/r.StdError))
+	r.P = effects.PFromT(r.Estimate, r.StdError, r.DF)
 	return r, nil
 }
