@@ -89,28 +89,25 @@ func mustJSON(v any) []byte {
 
 // createSubmission takes a package as JSON (data inline or as summary
 // statistics) or as multipart parts "package" and "data", checks it, and
-// stores and queues it: 202 with the new submission.
+// stores and queues it: 202 with the new submission. A data part is
+// spooled to a file, parsed, and streamed from the file into the store.
 func (s *Server) createSubmission(c echo.Context) error {
 	doc, data, err := s.readPackage(c)
+	if data != nil {
+		defer data.Close()
+	}
 	if err != nil {
 		return err
 	}
-	if err := s.checkMemory(doc, data); err != nil {
-		return err
-	}
-	study, err := load.Load(doc, load.Options{Limits: s.cfg.Limits, CSV: data})
+	n, err := s.checkPackage(doc, data)
 	if err != nil {
 		return err
 	}
-	idem, err := idempotencyKey(c)
-	if err != nil {
+	if n.IdempotencyKey, err = idempotencyKey(c); err != nil {
 		return err
 	}
-	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), service.NewSubmission{
-		Key: keyOf(c), Package: doc, Data: data, Title: study.Package.Title,
-		ManuscriptID: study.Package.ManuscriptID, PackageSHA256: study.SHA256, IdempotencyKey: idem,
-		Cells: cells(study),
-	})
+	n.Key = keyOf(c)
+	sub, replayed, err := s.cfg.Store.CreateSubmission(c.Request().Context(), n)
 	if err != nil {
 		return err
 	}
@@ -120,6 +117,33 @@ func (s *Server) createSubmission(c echo.Context) error {
 		c.Response().Header().Set("Idempotent-Replayed", "true")
 	}
 	return c.JSON(http.StatusAccepted, v)
+}
+
+// checkPackage loads the package and its data part, and returns what the
+// store needs: the package, the data as a stream from the spool, and the
+// fields from the study. The data bytes and the study are let go here,
+// before the store is called.
+func (s *Server) checkPackage(doc []byte, data *spool) (service.NewSubmission, error) {
+	var csv []byte
+	if data != nil {
+		var err error
+		if csv, err = data.bytes(); err != nil {
+			return service.NewSubmission{}, err
+		}
+	}
+	if err := s.checkMemory(doc, csv); err != nil {
+		return service.NewSubmission{}, err
+	}
+	study, err := load.Load(doc, load.Options{Limits: s.cfg.Limits, CSV: csv})
+	if err != nil {
+		return service.NewSubmission{}, err
+	}
+	n := service.NewSubmission{Package: doc, Title: study.Package.Title,
+		ManuscriptID: study.Package.ManuscriptID, PackageSHA256: study.SHA256, Cells: cells(study)}
+	if data != nil {
+		n.DataReader, n.DataSize = data.reader(), data.size
+	}
+	return n, nil
 }
 
 func (s *Server) getSubmission(c echo.Context) error {

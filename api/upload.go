@@ -12,8 +12,9 @@ import (
 )
 
 // readPackage reads the request body: the package JSON, and the CSV data
-// when they come as a multipart part.
-func (s *Server) readPackage(c echo.Context) (doc, data []byte, err error) {
+// when they come as a multipart part, spooled to a temporary file that the
+// caller closes.
+func (s *Server) readPackage(c echo.Context) (doc []byte, data *spool, err error) {
 	req := c.Request()
 	mt, _, perr := mime.ParseMediaType(req.Header.Get(echo.HeaderContentType))
 	switch {
@@ -27,47 +28,52 @@ func (s *Server) readPackage(c echo.Context) (doc, data []byte, err error) {
 		"Send the package as application/json, or as multipart/form-data with parts named package and data.")
 }
 
-func (s *Server) readMultipart(c echo.Context) (doc, data []byte, err error) {
+func (s *Server) readMultipart(c echo.Context) (doc []byte, data *spool, err error) {
 	mr, err := c.Request().MultipartReader()
 	if err != nil {
 		return nil, nil, problemError(http.StatusBadRequest, "The multipart body cannot be read: "+err.Error())
 	}
+	defer func() {
+		if err != nil && data != nil {
+			data.Close()
+		}
+	}()
 	for {
 		part, err := mr.NextPart()
 		if errors.Is(err, io.EOF) {
 			break
 		}
 		if err != nil {
-			return nil, nil, bodyError(err)
+			return nil, data, bodyError(err)
 		}
 		switch part.FormName() {
 		case "package":
-			err = onlyOnce(doc, "package")
+			err = onlyOnce(doc != nil, "package")
 			if err == nil {
 				doc, err = readLimited(part, s.cfg.Limits.PackageBytes, "package", 0)
 			}
 		case "data":
-			err = onlyOnce(data, "data")
+			err = onlyOnce(data != nil, "data")
 			if err == nil {
-				data, err = readLimited(part, s.cfg.Limits.CSVBytes, "data", c.Request().ContentLength-int64(len(doc)))
+				data, err = newSpool(part, s.cfg.Limits.CSVBytes)
 			}
 		default:
 			err = problemError(http.StatusBadRequest,
 				fmt.Sprintf("Unknown multipart part %q: the parts are package and data.", part.FormName()))
 		}
 		if err != nil {
-			return nil, nil, err
+			return nil, data, err
 		}
 	}
 	if doc == nil {
-		return nil, nil, problemError(http.StatusBadRequest, "The multipart body has no part named package.")
+		return nil, data, problemError(http.StatusBadRequest, "The multipart body has no part named package.")
 	}
 	return doc, data, nil
 }
 
 // onlyOnce refuses a second multipart part of one name.
-func onlyOnce(earlier []byte, name string) error {
-	if earlier != nil {
+func onlyOnce(earlier bool, name string) error {
+	if earlier {
 		return problemError(http.StatusBadRequest, fmt.Sprintf("The multipart body has more than one part named %s.", name))
 	}
 	return nil

@@ -1,10 +1,12 @@
 package store
 
 import (
+	"bufio"
 	"context"
 	"encoding/base64"
 	"errors"
 	"fmt"
+	"io"
 	"regexp"
 	"strconv"
 	"strings"
@@ -62,14 +64,23 @@ func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (
 			idem = &n.IdempotencyKey
 		}
 		now := db.now()
+		lo, err := streamData(ctx, tx, n)
+		if err != nil {
+			return err
+		}
 		var id string
-		err := tx.QueryRow(ctx, `
+		err = tx.QueryRow(ctx, `
 			INSERT INTO submissions (id, office_id, submitter_key_id, manuscript_id, title, package, data,
 				package_sha256, status, idempotency_key, created_at, updated_at, cells)
-			VALUES (gen_random_uuid(), $1, $2, $3, $4, $5, $6, $7, 'queued', $8, $9, $9, $10)
+			VALUES (gen_random_uuid(), $1, $2, $3, $4, $5, COALESCE($6, lo_get($10)), $7, 'queued', $8, $9, $9, $11)
 			ON CONFLICT (submitter_key_id, idempotency_key) DO NOTHING
 			RETURNING id`, n.Key.OfficeID, n.Key.ID, n.ManuscriptID, n.Title, n.Package, n.Data,
-			n.PackageSHA256, idem, now, n.Cells).Scan(&id)
+			n.PackageSHA256, idem, now, lo, n.Cells).Scan(&id)
+		if lo != nil && (err == nil || errors.Is(err, pgx.ErrNoRows)) {
+			if _, uerr := tx.Exec(ctx, `SELECT lo_unlink($1)`, *lo); uerr != nil {
+				return fmt.Errorf("drop the upload's large object: %w", uerr)
+			}
+		}
 		if errors.Is(err, pgx.ErrNoRows) {
 			replayed = true
 			sub, err = scanSubmission(tx.QueryRow(ctx, `SELECT `+submissionColumns+submissionFrom+`
@@ -93,6 +104,40 @@ func (db *DB) CreateSubmission(ctx context.Context, n service.NewSubmission) (
 		return nil, false, dbError(err, "submission")
 	}
 	return sub, replayed, nil
+}
+
+// streamData writes a streamed upload (n.DataReader) into a large object of
+// the transaction, 1 MiB a call, and returns its OID, which the insert reads
+// back into the data column and then drops: the bytes go to PostgreSQL
+// without being held whole by the caller. Nil when there is no stream.
+func streamData(ctx context.Context, tx pgx.Tx, n service.NewSubmission) (*uint32, error) {
+	if n.DataReader == nil {
+		return nil, nil
+	}
+	los := tx.LargeObjects()
+	oid, err := los.Create(ctx, 0)
+	if err != nil {
+		return nil, fmt.Errorf("upload: %w", err)
+	}
+	obj, err := los.Open(ctx, oid, pgx.LargeObjectModeWrite)
+	if err != nil {
+		return nil, fmt.Errorf("upload: %w", err)
+	}
+	w := bufio.NewWriterSize(obj, 1<<20)
+	written, err := io.Copy(w, n.DataReader)
+	if err == nil {
+		err = w.Flush()
+	}
+	if err == nil && written != n.DataSize {
+		err = fmt.Errorf("%d bytes streamed of %d", written, n.DataSize)
+	}
+	if err == nil {
+		err = obj.Close()
+	}
+	if err != nil {
+		return nil, fmt.Errorf("upload: %w", err)
+	}
+	return &oid, nil
 }
 
 // scopeSQL limits a query on submissions s to a scope; args $1..$3.

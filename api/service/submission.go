@@ -1,6 +1,9 @@
 package service
 
-import "time"
+import (
+	"io"
+	"time"
+)
 
 // Submission statuses.
 const (
@@ -51,8 +54,12 @@ type Progress struct {
 
 // NewSubmission is what a store keeps for a new submission.
 type NewSubmission struct {
-	Key            *Key
-	Package, Data  []byte
+	Key           *Key
+	Package, Data []byte
+	// DataReader, when not nil, gives the data instead of Data: DataSize
+	// bytes, streamed into the store.
+	DataReader     io.Reader
+	DataSize       int64
 	Title          string
 	ManuscriptID   string
 	PackageSHA256  string

@@ -78,12 +78,25 @@ func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt Impu
 			}
 		}()
 	}
-	for k := range opt.M {
-		jobs <- k
-	}
-	close(jobs)
+	dispatch(ctx, jobs, opt.M, errs)
 	wg.Wait()
 	return firstError(errs)
+}
+
+// dispatch hands out imputations 0..m−1 until the context ends; those not
+// handed out then get its error, so that none starts after a deadline.
+func dispatch(ctx context.Context, jobs chan<- int, m int, errs []error) {
+	defer close(jobs)
+	for k := range m {
+		select {
+		case jobs <- k:
+		case <-ctx.Done():
+			for ; k < m; k++ {
+				errs[k] = ctx.Err()
+			}
+			return
+		}
+	}
 }
 
 // firstError returns the error of the first imputation that failed for a
@@ -133,6 +146,9 @@ func (w *imputer) safeImpute(ctx context.Context, k int, start *EMResult, opt Im
 // impute draws imputation k and hands it to use.
 func (w *imputer) impute(ctx context.Context, k int, start *EMResult, opt ImputeOptions,
 	use func(int, *mat.Dense) error) error {
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	rng := rand.New(rand.NewPCG(opt.Seed, 0x9e3779b97f4a7c15+uint64(k)))
 	theta, err := w.bootstrapEM(ctx, start, opt.EM, rng)
 	if err == nil {
