@@ -114,6 +114,9 @@ func drawGraph(l *Layout, arcs []drawnArc, exo map[string]bool, id, title, desc 
 	for _, p := range l.Nodes {
 		drawNode(&b, p, exo[p.Name])
 	}
+	for i, a := range arcs {
+		drawArcMarks(&b, l, a, ends[i])
+	}
 	b.WriteString(`</svg>`)
 	return template.HTML(b.String())
 }
@@ -191,7 +194,7 @@ func drawArc(b *strings.Builder, a drawnArc, g geom, id string) {
 	switch a.Kind {
 	case arcReversible:
 		marker = ` marker-end="url(#` + id + `-open)"`
-	case arcLine:
+	case arcLine, arcRemoved:
 		marker = ""
 	}
 	if a.Fixed {
@@ -201,10 +204,43 @@ func drawArc(b *strings.Builder, a drawnArc, g geom, id string) {
 	fmt.Fprintf(b, `<path class="%s" data-from="%s" data-to="%s" data-y1="%.1f" data-y2="%.1f" `+
 		`d="M%.1f,%.1f Q%.1f,%.1f %.1f,%.1f"%s/>`,
 		class, esc(a.From), esc(a.To), g.y1, g.y2, g.x1, g.y1, g.cx, g.cy, g.x2, g.y2, marker)
+}
+
+// drawArcMarks writes an arc's label and, on a removed arc, its strike,
+// at the first point along the curve clear of every node; drawn after the
+// nodes, so that a mark never hides behind one.
+func drawArcMarks(b *strings.Builder, l *Layout, a drawnArc, g geom) {
+	mx, my := markPoint(l, g)
+	if a.Kind == arcRemoved {
+		fmt.Fprintf(b, `<path class="strike" d="M%.1f,%.1f l12,12 m0,-12 l-12,12"/>`, mx-6, my-6)
+	}
 	if a.Label != "" {
-		mx, my := (g.x1+2*g.cx+g.x2)/4, (g.y1+2*g.cy+g.y2)/4
 		fmt.Fprintf(b, `<text class="claimlabel" x="%.1f" y="%.1f">%s</text>`, mx+6, my+4, esc(a.Label))
 	}
+}
+
+// markPoint is the point of the arc's quadratic curve at the first of a
+// few places (middle first) that lies outside every node's box.
+func markPoint(l *Layout, g geom) (float64, float64) {
+	at := func(t float64) (float64, float64) {
+		u := 1 - t
+		return u*u*g.x1 + 2*u*t*g.cx + t*t*g.x2, u*u*g.y1 + 2*u*t*g.cy + t*t*g.y2
+	}
+	for _, t := range []float64{0.5, 0.35, 0.65, 0.25, 0.75} {
+		if x, y := at(t); !inNode(l, x, y) {
+			return x, y
+		}
+	}
+	return at(0.5)
+}
+
+func inNode(l *Layout, x, y float64) bool {
+	for _, p := range l.Nodes {
+		if x >= p.X-2 && x <= p.X+p.W+2 && y >= p.Y-2 && y <= p.Y+nodeH+2 {
+			return true
+		}
+	}
+	return false
 }
 
 func abs(n int) int {
