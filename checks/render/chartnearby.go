@@ -13,15 +13,13 @@ import (
 func nearbyChartRows(id string, cs []checks.NearbyGraph, search bool) []chartRow {
 	rows := make([]chartRow, 0, len(cs))
 	for i, n := range cs {
-		label := shortEdits(n.Edits)
+		label := shortEdits(n.Edits) + ", ΔBIC " + signedNum(n.DeltaBIC)
 		if search && i == len(cs)-1 {
 			label = "search end: " + label
 		}
-		label += ", ΔBIC " + signedNum(n.DeltaBIC)
 		r := chartRow{Label: label}
 		if c, ok := n.Claims[id]; ok {
 			r.Lo, r.Hi = c.Min, c.Max
-			r.Label += " (" + plural(c.Graphs, "graph", "graphs") + ")"
 			if c.Changed {
 				r.Shift = "changes"
 			}
@@ -32,9 +30,9 @@ func nearbyChartRows(id string, cs []checks.NearbyGraph, search bool) []chartRow
 }
 
 // shortEdits names edits briefly for a chart row: "without a → b",
-// "added a → b", "b → a reversed"; past two, how many more.
+// "added a → b", "b → a reversed"; past the first, how many more.
 func shortEdits(edits []checks.GraphEdit) string {
-	const shown = 2
+	const shown = 1
 	var parts []string
 	for _, e := range edits[:min(shown, len(edits))] {
 		switch e.Op {
@@ -51,5 +49,5 @@ func shortEdits(edits []checks.GraphEdit) string {
 	if len(edits) > shown {
 		parts = append(parts, fmt.Sprintf("%d more", len(edits)-shown))
 	}
-	return strings.Join(parts, ", ")
+	return strings.Join(parts, " + ")
 }

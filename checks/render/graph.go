@@ -6,6 +6,7 @@ import (
 	"html/template"
 	"sort"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/pathvet/pathvet/checks"
 )
@@ -98,26 +99,35 @@ func claimLabels(claims []checks.ClaimReport) map[[2]string]string {
 // that it does not run through the nodes between its ends.
 const bowPerLayer = 34.0
 
+// labelW is a generous width of one character of an arc's label (13 px,
+// bold), in user units.
+const labelW = 9.0
+
+// sidePad is the room a drawing keeps on each side for its bowed arcs.
+func sidePad(l *Layout) float64 { return bowPerLayer / 2 * float64(max(len(l.Layers)-2, 0)) }
+
 // drawGraph writes the SVG of a layout with the given arcs; exo marks the
 // exogenous variables; title and desc say in words what it shows.
 func drawGraph(l *Layout, arcs []drawnArc, exo map[string]bool, id, title, desc string) template.HTML {
-	pad := bowPerLayer / 2 * float64(max(len(l.Layers)-2, 0))
+	pad := sidePad(l)
+	ends := arcPorts(l, arcs)
+	var marks strings.Builder
+	right := l.Width + pad
+	for i, a := range arcs {
+		right = max(right, drawArcMarks(&marks, l, a, ends[i]))
+	}
 	var b strings.Builder
 	fmt.Fprintf(&b, `<svg class="graph" id="%[1]s" viewBox="%.0[2]f 0 %.0[3]f %.0[4]f" style="max-width:%.0[3]fpx" `+
 		`role="img" aria-labelledby="%[1]s-t %[1]s-d"><title id="%[1]s-t">%[5]s</title><desc id="%[1]s-d">%[6]s</desc>`,
-		id, -pad, l.Width+2*pad, l.Height, esc(title), esc(desc))
+		id, -pad, right+pad, l.Height, esc(title), esc(desc))
 	fmt.Fprintf(&b, svgMarkers, id)
-	ends := arcPorts(l, arcs)
 	for i, a := range arcs {
 		drawArc(&b, a, ends[i], id)
 	}
 	for _, p := range l.Nodes {
 		drawNode(&b, p, exo[p.Name])
 	}
-	for i, a := range arcs {
-		drawArcMarks(&b, l, a, ends[i])
-	}
-	b.WriteString(`</svg>`)
+	b.WriteString(marks.String() + `</svg>`)
 	return template.HTML(b.String())
 }
 
@@ -208,15 +218,19 @@ func drawArc(b *strings.Builder, a drawnArc, g geom, id string) {
 
 // drawArcMarks writes an arc's label and, on a removed arc, its strike,
 // at the first point along the curve clear of every node; drawn after the
-// nodes, so that a mark never hides behind one.
-func drawArcMarks(b *strings.Builder, l *Layout, a drawnArc, g geom) {
+// nodes, so that a mark never hides behind one. It returns how far right
+// the marks reach, so that the drawing can make room.
+func drawArcMarks(b *strings.Builder, l *Layout, a drawnArc, g geom) float64 {
 	mx, my := markPoint(l, g)
+	right := mx + 6
 	if a.Kind == arcRemoved {
 		fmt.Fprintf(b, `<path class="strike" d="M%.1f,%.1f l12,12 m0,-12 l-12,12"/>`, mx-6, my-6)
 	}
 	if a.Label != "" {
 		fmt.Fprintf(b, `<text class="claimlabel" x="%.1f" y="%.1f">%s</text>`, mx+6, my+4, esc(a.Label))
+		right = mx + 10 + labelW*float64(utf8.RuneCountInString(a.Label))
 	}
+	return right
 }
 
 // markPoint is the point of the arc's quadratic curve at the first of a
