@@ -65,7 +65,7 @@ func nearbyDrawings(l *Layout, g *checks.GraphReport, base []drawnArc, exo map[s
 
 // evidenceBands are Raftery's (1995) bands of |ΔBIC| in words.
 var evidenceBands = map[string]string{
-	"indistinguishable": "below 2 in size: the data do not tell the two graphs apart",
+	"indistinguishable": "|ΔBIC| below 2: the data do not tell the two graphs apart",
 	"positive":          "positive evidence (|ΔBIC| 2 to 6)",
 	"strong":            "strong evidence (|ΔBIC| 6 to 10)",
 	"very_strong":       "very strong evidence (|ΔBIC| above 10)",
