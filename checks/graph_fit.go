@@ -147,7 +147,7 @@ func (a *Analysis) implicationTests(m *Moments) []implicationTest {
 			e := logisticEstimate(m, resp, append([]int{other}, imp.Given...), "log_odds", 0.95)
 			t.method, t.p, t.err = "logistic_wald", e.p, e.err
 		} else {
-			it := sem.TestIndependence(m.Cor, m.N, sem.Independence{X: imp.X, Y: imp.Y, Given: imp.Given})
+			it := sem.ZTest(m.Cor, m.N, sem.Independence{X: imp.X, Y: imp.Y, Given: imp.Given})
 			t.r, t.p, t.err = it.PartialR, it.P, it.Err
 		}
 		out = append(out, t)

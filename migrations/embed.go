@@ -1,5 +1,3 @@
-// Package migrations holds pathvet's SQL migrations, applied in order by
-// goose; files are only ever appended.
 package migrations
 
 import "embed"

@@ -104,10 +104,6 @@ func (g *PDAG) HasArc(u, v int) bool { return g.state(u, v) == arcOut }
 // HasLine reports whether u − v.
 func (g *PDAG) HasLine(u, v int) bool { return g.state(u, v) == line }
 
-// Neighbours returns every node adjacent to u, in increasing order. The
-// slice is shared with the graph and must not be modified.
-func (g *PDAG) Neighbours(u int) []int { return g.adj[u] }
-
 func (g *PDAG) collect(u int, m int8) []int {
 	var out []int
 	for k, v := range g.adj[u] {

@@ -1,8 +1,3 @@
-// Package effects holds the effect-size arithmetic that reporting checks
-// need: p-values from an estimate and its standard error, two one-sided
-// tests of equivalence, power, E-values with their conversions to the
-// risk-ratio scale, and Spearman's correction for attenuation. Plain
-// functions on numbers and gonum matrices, with gonum's distributions.
 package effects
 
 import (
@@ -96,13 +91,6 @@ func noncentralTSF(x, ncp, df float64) float64 {
 		return NormalSF(x - ncp)
 	}
 	return NormalSF((x*(1-1/(4*df)) - ncp) / math.Sqrt(1+x*x/(2*df)))
-}
-
-// PowerCorrelation is the power of the two-sided Fisher-z test at alpha
-// to detect a (partial) correlation rho with n cases and k conditioning
-// variables: Power(atanh ρ, 1/sqrt(n − k − 3), α) (Cohen 1988, ch. 3).
-func PowerCorrelation(rho float64, n, k int, alpha float64) float64 {
-	return Power(math.Atanh(rho), 1/math.Sqrt(float64(n-k-3)), alpha, Normal)
 }
 
 // EValue is the E-value of a risk ratio (VanderWeele & Ding 2017, Ann.

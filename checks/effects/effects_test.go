@@ -14,7 +14,10 @@ import (
 // ../shared/spec/reference-values.md [pub]): RR 3.9 (1.8–8.7) gives E 7.26
 // and 3.00 for the interval; RR 0.80 (0.71–0.91) gives 1.81 and 1.43.
 func TestEValue_PaperExamples(t *testing.T) {
-	for _, c := range []struct{ rr, lo, hi, e, eCI float64 }{{3.9, 1.8, 8.7, 7.26, 3.00}, {0.80, 0.71, 0.91, 1.81, 1.43}} {
+	for _, c := range []struct{ rr, lo, hi, e, eCI float64 }{
+		{3.9, 1.8, 8.7, 7.26, 3.00},
+		{0.80, 0.71, 0.91, 1.81, 1.43},
+	} {
 		if got := EValue(c.rr); !scalar.EqualWithinAbs(got, c.e, 0.005) {
 			t.Errorf("E(%v) = %v, paper %v", c.rr, got, c.e)
 		}
@@ -25,7 +28,8 @@ func TestEValue_PaperExamples(t *testing.T) {
 	// The closed form: E = RR + sqrt(RR(RR − 1)), reciprocal below 1.
 	for _, rr := range []float64{1, 1.2, 2.5, 10} {
 		want := rr + math.Sqrt(rr*(rr-1))
-		if !scalar.EqualWithinRel(EValue(rr), want, 1e-15) || !scalar.EqualWithinRel(EValue(1/rr), want, 1e-12) {
+		if !scalar.EqualWithinRel(EValue(rr), want, 1e-15) ||
+			!scalar.EqualWithinRel(EValue(1/rr), want, 1e-12) {
 			t.Errorf("E(%v)", rr)
 		}
 	}
@@ -38,10 +42,12 @@ func TestEValue_PaperExamples(t *testing.T) {
 // E 1.721 (reference-values.md [computed]).
 func TestRRFromD(t *testing.T) {
 	rr, limit := RRFromD(0.31, 0.05)
-	if !scalar.EqualWithinAbs(rr, 1.3259, 5e-5) || !scalar.EqualWithinAbs(EValue(rr), 1.983, 5e-4) || !scalar.EqualWithinAbs(EValue(limit), 1.721, 5e-4) {
+	if !scalar.EqualWithinAbs(rr, 1.3259, 5e-5) || !scalar.EqualWithinAbs(EValue(rr), 1.983, 5e-4) ||
+		!scalar.EqualWithinAbs(EValue(limit), 1.721, 5e-4) {
 		t.Fatalf("RR %v, E %v, limit E %v", rr, EValue(rr), EValue(limit))
 	}
-	if rr, limit := RRFromD(-0.31, 0.05); !scalar.EqualWithinAbs(EValue(rr), 1.983, 5e-4) || !scalar.EqualWithinAbs(EValue(limit), 1.721, 5e-4) {
+	if rr, limit := RRFromD(-0.31, 0.05); !scalar.EqualWithinAbs(EValue(rr), 1.983, 5e-4) ||
+		!scalar.EqualWithinAbs(EValue(limit), 1.721, 5e-4) {
 		t.Fatal("a negative coefficient has the same E-values")
 	}
 	if RRFromOR(4, true) != 4 || RRFromOR(4, false) != 2 {
@@ -80,7 +86,7 @@ func TestPowerAndP_Scipy(t *testing.T) {
 		t.Fatalf("reference: %v", err)
 	}
 	for _, c := range ref.Power {
-		if got := PowerCorrelation(c.Rho, int(c.N), 0, c.Alpha); !scalar.EqualWithinAbs(got, c.Power, 1e-10) {
+		if got := powerCorrelation(c.Rho, int(c.N), 0, c.Alpha); !scalar.EqualWithinAbs(got, c.Power, 1e-10) {
 			t.Errorf("power(ρ %v, n %v) = %v, scipy %v", c.Rho, c.N, got, c.Power)
 		}
 	}

@@ -12,7 +12,8 @@ import (
 // ErrSeparation is returned when a predictor (or a combination of them)
 // separates the outcome's zeros from its ones, so the maximum likelihood
 // estimate does not exist.
-var ErrSeparation = errors.New("linmod: the outcome is (quasi-)completely separated: the odds ratio cannot be estimated")
+var ErrSeparation = errors.New("linmod: the outcome is (quasi-)completely separated: " +
+	"the odds ratio cannot be estimated")
 
 // ErrNotConverged is returned when IRLS does not settle.
 var ErrNotConverged = errors.New("linmod: the logistic regression did not converge")
@@ -62,8 +63,8 @@ func Logistic(x *mat.Dense, y []float64, level float64) (*LogitFit, error) {
 	z := effects.TQuantile(0.5+level/2, effects.Normal)
 	coef := func(j int) Coef {
 		est, se := beta.AtVec(j), math.Sqrt(cov.At(j, j))
-		s := est / se
-		return Coef{Estimate: est, StdError: se, Stat: s, P: effects.PFromZ(est, se), CI: [2]float64{est - z*se, est + z*se}}
+		ci := [2]float64{est - z*se, est + z*se}
+		return Coef{Estimate: est, StdError: se, Stat: est / se, P: effects.PFromZ(est, se), CI: ci}
 	}
 	fit := &LogitFit{Intercept: coef(0), Coefs: make([]Coef, k), N: n, Iterations: iter, LRDF: k}
 	for j := range k {
@@ -81,39 +82,22 @@ func Logistic(x *mat.Dense, y []float64, level float64) (*LogitFit, error) {
 // irls returns the estimate, the Cholesky factor of the information
 // matrix at it, and the iterations used.
 func irls(d *mat.Dense, y []float64) (*mat.VecDense, *mat.Cholesky, int, error) {
-	n, p := d.Dims()
+	_, p := d.Dims()
 	beta := mat.NewVecDense(p, nil)
 	var eta mat.VecDense
-	w := make([]float64, n)
 	prev := math.Inf(-1)
 	for iter := 1; iter <= logitMaxIter; iter++ {
 		eta.MulVec(d, beta)
 		if mat.Max(&eta) > separationEta || mat.Min(&eta) < -separationEta {
 			return nil, nil, iter, ErrSeparation
 		}
-		xtwx := mat.NewSymDense(p, nil)
-		score := mat.NewVecDense(p, nil)
-		for i := range n {
-			mu := 1 / (1 + math.Exp(-eta.AtVec(i)))
-			w[i] = mu * (1 - mu)
-			for a := range p {
-				score.SetVec(a, score.AtVec(a)+d.At(i, a)*(y[i]-mu))
-				for b := 0; b <= a; b++ {
-					xtwx.SetSym(a, b, xtwx.At(a, b)+w[i]*d.At(i, a)*d.At(i, b))
-				}
-			}
+		step, err := newtonStep(d, &eta, y)
+		if err != nil {
+			return nil, nil, iter, err
 		}
-		var ch mat.Cholesky
-		if !ch.Factorize(xtwx) {
-			return nil, nil, iter, ErrSeparation
-		}
-		var step mat.VecDense
-		if err := ch.SolveVecTo(&step, score); err != nil {
-			return nil, nil, iter, ErrSeparation
-		}
-		beta.AddVec(beta, &step)
+		beta.AddVec(beta, step)
 		ll := logLik(d, beta, y)
-		if math.Abs(ll-prev) < logitTol*(math.Abs(ll)+logitTol) && mat.Norm(&step, math.Inf(1)) < 1e-8 {
+		if math.Abs(ll-prev) < logitTol*(math.Abs(ll)+logitTol) && mat.Norm(step, math.Inf(1)) < 1e-8 {
 			// Information at the final estimate, for the standard errors.
 			info, err := information(d, beta)
 			return beta, info, iter, err
@@ -121,6 +105,33 @@ func irls(d *mat.Dense, y []float64) (*mat.VecDense, *mat.Cholesky, int, error) 
 		prev = ll
 	}
 	return nil, nil, logitMaxIter, ErrNotConverged
+}
+
+// newtonStep is the Newton–Raphson step (XᵀWX)⁻¹ Xᵀ(y − μ) at the linear
+// predictor eta, W = diag(μ(1 − μ)); ErrSeparation when XᵀWX is singular.
+func newtonStep(d *mat.Dense, eta *mat.VecDense, y []float64) (*mat.VecDense, error) {
+	n, p := d.Dims()
+	xtwx := mat.NewSymDense(p, nil)
+	score := mat.NewVecDense(p, nil)
+	for i := range n {
+		mu := 1 / (1 + math.Exp(-eta.AtVec(i)))
+		w := mu * (1 - mu)
+		for a := range p {
+			score.SetVec(a, score.AtVec(a)+d.At(i, a)*(y[i]-mu))
+			for b := 0; b <= a; b++ {
+				xtwx.SetSym(a, b, xtwx.At(a, b)+w*d.At(i, a)*d.At(i, b))
+			}
+		}
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(xtwx) {
+		return nil, ErrSeparation
+	}
+	var step mat.VecDense
+	if err := ch.SolveVecTo(&step, score); err != nil {
+		return nil, ErrSeparation
+	}
+	return &step, nil
 }
 
 func information(d *mat.Dense, beta *mat.VecDense) (*mat.Cholesky, error) {

@@ -90,36 +90,12 @@ func FromMoments(cov mat.Symmetric, means []float64, n, y int, x []int, level fl
 	if df < 1 {
 		return nil, ErrTooFewCases
 	}
-	sd := make([]float64, k)
-	for i, xi := range x {
-		sd[i] = math.Sqrt(cov.At(xi, xi))
-	}
-	rxx := mat.NewSymDense(max(k, 1), nil)
-	rxy := mat.NewVecDense(max(k, 1), nil)
-	for i, xi := range x {
-		for j, xj := range x[:i+1] {
-			rxx.SetSym(i, j, cov.At(xi, xj)/(sd[i]*sd[j]))
-		}
-		rxy.SetVec(i, cov.At(xi, y)/sd[i])
+	sd, rxx, rxy := standardize(cov, y, x)
+	b, inv, err := solveNormal(rxx, rxy, k)
+	if err != nil {
+		return nil, err
 	}
 	syy := cov.At(y, y)
-	b := mat.NewVecDense(max(k, 1), nil)
-	inv := mat.NewSymDense(max(k, 1), nil)
-	if k > 0 {
-		var ch mat.Cholesky
-		if !ch.Factorize(rxx) {
-			return nil, &SingularError{Condition: math.Inf(1)}
-		}
-		if c := ch.Cond(); c > MaxCondition {
-			return nil, &SingularError{Condition: c}
-		}
-		if err := ch.SolveVecTo(b, rxy); err != nil {
-			return nil, &SingularError{Condition: ch.Cond()}
-		}
-		if err := ch.InverseTo(inv); err != nil {
-			return nil, &SingularError{Condition: ch.Cond()}
-		}
-	}
 	explained := 0.0
 	if k > 0 {
 		explained = mat.Dot(b, rxy)
@@ -128,18 +104,71 @@ func FromMoments(cov mat.Symmetric, means []float64, n, y int, x []int, level fl
 	if resid <= 1e-12*syy {
 		return nil, ErrPerfectFit
 	}
-	sigma2 := resid * float64(n-1) / float64(df)
-	fit := &Fit{R2: explained / syy, Sigma2: sigma2, DF: df, N: n, Coefs: make([]Coef, k)}
-	ti := newTInference(df, level)
-	for i := range k {
-		est := b.AtVec(i) / sd[i]
-		se := math.Sqrt(sigma2*inv.At(i, i)/float64(n-1)) / sd[i]
-		fit.Coefs[i] = ti.coef(est, se)
-	}
+	fit := &Fit{R2: explained / syy, Sigma2: resid * float64(n-1) / float64(df), DF: df, N: n}
+	fit.Coefs = slopes(b, inv, sd, fit.Sigma2, n, newTInference(df, level))
 	if means != nil {
 		fit.Intercept = intercept(fit, inv, sd, means, y, x, n, level)
 	}
 	return fit, nil
+}
+
+// standardize returns the SDs of the predictors x, their correlation
+// matrix and their correlations with y, from the covariance matrix cov.
+// The matrices have at least one row, so that they exist for k = 0.
+func standardize(cov mat.Symmetric, y int, x []int) (sd []float64, rxx *mat.SymDense, rxy *mat.VecDense) {
+	k := len(x)
+	sd = make([]float64, k)
+	for i, xi := range x {
+		sd[i] = math.Sqrt(cov.At(xi, xi))
+	}
+	rxx = mat.NewSymDense(max(k, 1), nil)
+	rxy = mat.NewVecDense(max(k, 1), nil)
+	for i, xi := range x {
+		for j, xj := range x[:i+1] {
+			rxx.SetSym(i, j, cov.At(xi, xj)/(sd[i]*sd[j]))
+		}
+		rxy.SetVec(i, cov.At(xi, y)/sd[i])
+	}
+	return sd, rxx, rxy
+}
+
+// solveNormal solves rxx b = rxy for the first k rows by a Cholesky
+// factorization and returns b with the inverse of rxx, or a
+// SingularError when rxx is singular or its condition number exceeds
+// MaxCondition. With k = 0 both are zero.
+func solveNormal(rxx *mat.SymDense, rxy *mat.VecDense, k int) (*mat.VecDense, *mat.SymDense, error) {
+	b := mat.NewVecDense(max(k, 1), nil)
+	inv := mat.NewSymDense(max(k, 1), nil)
+	if k == 0 {
+		return b, inv, nil
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(rxx) {
+		return nil, nil, &SingularError{Condition: math.Inf(1)}
+	}
+	if c := ch.Cond(); c > MaxCondition {
+		return nil, nil, &SingularError{Condition: c}
+	}
+	if err := ch.SolveVecTo(b, rxy); err != nil {
+		return nil, nil, &SingularError{Condition: ch.Cond()}
+	}
+	if err := ch.InverseTo(inv); err != nil {
+		return nil, nil, &SingularError{Condition: ch.Cond()}
+	}
+	return b, inv, nil
+}
+
+// slopes turns the standardized solution b, with inv the inverse of the
+// predictors' correlation matrix, into coefficients on the predictors'
+// own scale with their t inference.
+func slopes(b *mat.VecDense, inv *mat.SymDense, sd []float64, sigma2 float64, n int, ti tInference) []Coef {
+	out := make([]Coef, len(sd))
+	for i := range out {
+		est := b.AtVec(i) / sd[i]
+		se := math.Sqrt(sigma2*inv.At(i, i)/float64(n-1)) / sd[i]
+		out[i] = ti.coef(est, se)
+	}
+	return out
 }
 
 func intercept(fit *Fit, inv *mat.SymDense, sd, means []float64, y int, x []int, n int, level float64) *Coef {

@@ -102,7 +102,8 @@ func TestFromMoments_AgreesWithRows(t *testing.T) {
 			g = got.Coefs[i-1]
 		}
 		if !scalar.EqualWithinAbsOrRel(g.Estimate, w.Estimate, 1e-12, 1e-10) ||
-			!scalar.EqualWithinRel(g.StdError, w.StdError, 1e-10) || !scalar.EqualWithinRel(g.P, w.P, 1e-8) {
+			!scalar.EqualWithinRel(g.StdError, w.StdError, 1e-10) ||
+			!scalar.EqualWithinRel(g.P, w.P, 1e-8) {
 			t.Errorf("coefficient %d: moments %+v, rows %+v", i, g, w)
 		}
 	}

@@ -81,8 +81,10 @@ func TestFromRows_Statsmodels(t *testing.T) {
 	for i, c := range all {
 		close := func(a, b float64) bool { return scalar.EqualWithinAbsOrRel(a, b, 1e-12, 1e-9) }
 		if !close(c.Estimate, ref.OLS.Params[i]) || !close(c.StdError, ref.OLS.BSE[i]) ||
-			!close(c.P, ref.OLS.PValues[i]) || !close(c.CI[0], ref.OLS.ConfInt[i][0]) || !close(c.CI[1], ref.OLS.ConfInt[i][1]) {
-			t.Errorf("coefficient %d: %+v; statsmodels %v ± %v, p %v, CI %v", i, c, ref.OLS.Params[i], ref.OLS.BSE[i], ref.OLS.PValues[i], ref.OLS.ConfInt[i])
+			!close(c.P, ref.OLS.PValues[i]) ||
+			!close(c.CI[0], ref.OLS.ConfInt[i][0]) || !close(c.CI[1], ref.OLS.ConfInt[i][1]) {
+			t.Errorf("coefficient %d: %+v; statsmodels %v ± %v, p %v, CI %v",
+				i, c, ref.OLS.Params[i], ref.OLS.BSE[i], ref.OLS.PValues[i], ref.OLS.ConfInt[i])
 		}
 	}
 	if !scalar.EqualWithinRel(fit.R2, ref.OLS.RSquared, 1e-10) {
@@ -101,10 +103,16 @@ func TestLogistic_Statsmodels(t *testing.T) {
 		close := func(a, b float64) bool { return scalar.EqualWithinAbsOrRel(a, b, 1e-9, 1e-7) }
 		if !close(c.Estimate, ref.Logit.Params[i]) || !close(c.StdError, ref.Logit.BSE[i]) ||
 			!close(c.P, ref.Logit.PValues[i]) || !close(c.CI[0], ref.Logit.ConfInt[i][0]) {
-			t.Errorf("coefficient %d: %+v; statsmodels %v ± %v, p %v", i, c, ref.Logit.Params[i], ref.Logit.BSE[i], ref.Logit.PValues[i])
+			t.Errorf("coefficient %d: %+v; statsmodels %v ± %v, p %v",
+				i, c, ref.Logit.Params[i], ref.Logit.BSE[i], ref.Logit.PValues[i])
 		}
 	}
-	for _, c := range []struct{ got, want float64 }{{fit.LogLik, ref.Logit.LLF}, {fit.NullLogLik, ref.Logit.LLNull}, {fit.LR, ref.Logit.LLR}, {fit.LRP, ref.Logit.LLRPValue}} {
+	for _, c := range []struct{ got, want float64 }{
+		{fit.LogLik, ref.Logit.LLF},
+		{fit.NullLogLik, ref.Logit.LLNull},
+		{fit.LR, ref.Logit.LLR},
+		{fit.LRP, ref.Logit.LLRPValue},
+	} {
 		if !scalar.EqualWithinAbsOrRel(c.got, c.want, 1e-9, 1e-8) {
 			t.Errorf("got %v, statsmodels %v", c.got, c.want)
 		}

@@ -104,6 +104,10 @@ func codeHint(cell string, likely bool) string {
 	return fmt.Sprintf("; if it marks a missing value, list %q in /data/missing_codes", cell)
 }
 
+// undeclaredColumn reports a CSV column that names no variable, with a
+// hint at a near name.
+const undeclaredColumn = "column %q is not a declared variable%s; list it in /data/ignore_columns to skip it"
+
 // headerColumns maps each CSV column to a variable index, -1 for an
 // ignored column.
 func (s *study) headerColumns(header []string, head []cell, ps *problems) []int {
@@ -126,8 +130,7 @@ func (s *study) headerColumns(header []string, head []cell, ps *problems) []int 
 		case ignore[name]:
 			cols[i] = -1
 		default:
-			ps.csv(line, i+1, "column %q is not a declared variable%s; list it in /data/ignore_columns to skip it",
-				name, didYouMean(name, s.Names))
+			ps.csv(line, i+1, undeclaredColumn, name, didYouMean(name, s.Names))
 		}
 		seen[name] = true
 	}

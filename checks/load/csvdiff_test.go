@@ -140,7 +140,8 @@ func compareScan(t *testing.T, text []byte) {
 		}
 		for i, f := range want {
 			if line, _ := r.FieldPos(i); string(got[i].b) != f || got[i].line != line {
-				t.Fatalf("%q: field %d is %q on line %d, want %q on line %d", text, i, got[i].b, got[i].line, f, line)
+				t.Fatalf("%q: field %d is %q on line %d, want %q on line %d",
+					text, i, got[i].b, got[i].line, f, line)
 			}
 		}
 		if werr != nil && !errors.Is(werr, csv.ErrFieldCount) {

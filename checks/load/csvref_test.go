@@ -83,10 +83,9 @@ func (s *study) parseRowRef(rec []string, r *csv.Reader, cols []int, missing map
 		line, _ := r.FieldPos(i)
 		switch {
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
-			ps.csv(line, i+1, "%q in column %q is not a number%s", cell, s.Names[j], codeHint(cell, missingMark(cell)))
+			ps.csv(line, i+1, cellNotNumber, cell, s.Names[j], codeHint(cell, missingMark(cell)))
 		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, "%q in column %q: a binary variable is coded 0 or 1%s",
-				cell, s.Names[j], codeHint(cell, CodeLike(x)))
+			ps.csv(line, i+1, cellNotBinary, cell, s.Names[j], codeHint(cell, CodeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}

@@ -18,33 +18,49 @@ const (
 	diagonalTol = 1e-6
 )
 
+// fileUnreadable is the problem of a data file named where no file can be
+// read.
+const fileUnreadable = "cannot be read here: send the CSV as the multipart part named data, or inline as csv"
+
+// setField is a field of the data section and whether the package set it.
+type setField struct {
+	name string
+	set  bool
+}
+
+// misplaced reports each set field of fs, which the data kind does not use.
+func misplaced(ps *problems, detail string, fs []setField) {
+	for _, f := range fs {
+		if f.set {
+			ps.at("/data/"+f.name, "%s", detail)
+		}
+	}
+}
+
 // resolveData checks the data section and fills s.Data; it returns the
 // CSV text for the package hash.
 func (s *study) resolveData(opt Options, lim Limits, ps *problems) []byte {
 	d := s.Package.Data
 	if dataKind(d) == checks.DataSummary {
-		for _, f := range []struct {
-			name string
-			set  bool
-		}{{"file", d.File != ""}, {"csv", d.CSV != ""}, {"missing_codes", d.MissingCodes != nil}, {"ignore_columns", d.IgnoreColumns != nil}} {
-			if f.set {
-				ps.at("/data/"+f.name, "is for data of kind rows, not summary")
-			}
-		}
+		misplaced(ps, "is for data of kind rows, not summary", []setField{
+			{"file", d.File != ""},
+			{"csv", d.CSV != ""},
+			{"missing_codes", d.MissingCodes != nil},
+			{"ignore_columns", d.IgnoreColumns != nil},
+		})
 		if opt.CSV != nil {
 			ps.at("/data/kind", "is summary, but CSV data were sent beside the package")
 		}
 		s.Data = summaryData(d, s.Index, len(s.Names), ps)
 		return nil
 	}
-	for _, f := range []struct {
-		name string
-		set  bool
-	}{{"n", d.N != 0}, {"variables", d.Variables != nil}, {"correlations", d.Correlations != nil}, {"sds", d.SDs != nil}, {"means", d.Means != nil}} {
-		if f.set {
-			ps.at("/data/"+f.name, "is for data of kind summary, not rows")
-		}
-	}
+	misplaced(ps, "is for data of kind summary, not rows", []setField{
+		{"n", d.N != 0},
+		{"variables", d.Variables != nil},
+		{"correlations", d.Correlations != nil},
+		{"sds", d.SDs != nil},
+		{"means", d.Means != nil},
+	})
 	text, ok := csvSource(d, opt, lim, ps)
 	if !ok {
 		return nil
@@ -84,7 +100,7 @@ func csvSource(d checks.Data, opt Options, lim Limits, ps *problems) ([]byte, bo
 	case opt.CSV != nil:
 		text = opt.CSV
 	case d.File != "" && opt.ReadFile == nil:
-		ps.at("/data/file", "cannot be read here: send the CSV as the multipart part named data, or inline as csv")
+		ps.at("/data/file", "%s", fileUnreadable)
 		return nil, false
 	case d.File != "":
 		b, err := opt.ReadFile(d.File)
@@ -108,24 +124,7 @@ func csvSource(d checks.Data, opt Options, lim Limits, ps *problems) ([]byte, bo
 // declared variables.
 func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *checks.Dataset {
 	before := len(ps.list)
-	pos := make([]int, len(d.Variables)) // data order → variable index
-	seen := map[string]int{}
-	for i, name := range d.Variables {
-		at := pointer("data", "variables", i)
-		j, ok := index[name]
-		switch _, dup := seen[name]; {
-		case !ok:
-			ps.at(at, "%s", unknownName(name, index))
-		case dup:
-			ps.at(at, "%q is listed twice", name)
-		}
-		seen[name], pos[i] = i, j
-	}
-	for name, j := range index {
-		if _, ok := seen[name]; !ok {
-			ps.at(pointer("variables", j, "name"), "%q has no entry in /data/variables", name)
-		}
-	}
+	pos := summaryOrder(d.Variables, index, ps)
 	if d.N < 3 {
 		ps.at("/data/n", "must be at least 3 for data of kind summary")
 	}
@@ -144,6 +143,31 @@ func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *chec
 	}
 	ds.SD, ds.Means = reorder(d.SDs, pos), reorder(d.Means, pos)
 	return ds
+}
+
+// summaryOrder maps the summary's variables, in their order, to the
+// declared variables' indices, and reports unknown, repeated and missing
+// names.
+func summaryOrder(names []string, index map[string]int, ps *problems) []int {
+	pos := make([]int, len(names)) // data order → variable index
+	seen := map[string]int{}
+	for i, name := range names {
+		at := pointer("data", "variables", i)
+		j, ok := index[name]
+		switch _, dup := seen[name]; {
+		case !ok:
+			ps.at(at, "%s", unknownName(name, index))
+		case dup:
+			ps.at(at, "%q is listed twice", name)
+		}
+		seen[name], pos[i] = i, j
+	}
+	for name, j := range index {
+		if _, ok := seen[name]; !ok {
+			ps.at(pointer("variables", j, "name"), "%q has no entry in /data/variables", name)
+		}
+	}
+	return pos
 }
 
 func reorder(v []float64, pos []int) []float64 {
@@ -182,15 +206,45 @@ func correlationMatrix(rows [][]float64, k int, ps *problems) *mat.SymDense {
 	}
 	full := k > 1 && len(rows[0]) == k
 	before := len(ps.list)
-	for i, row := range rows {
-		if want := map[bool]int{true: k, false: i + 1}[full]; len(row) != want {
-			ps.at(pointer("data", "correlations", i), "has %d entries; want %d (%s)", len(row), want,
-				map[bool]string{true: "full matrix, as row 0", false: "lower triangle: row i has i+1 entries"}[full])
-		}
-	}
+	checkRowLengths(rows, k, full, ps)
 	if len(ps.list) > before {
 		return nil
 	}
+	m := correlationEntries(rows, k, full, ps)
+	if len(ps.list) > before {
+		return nil
+	}
+	return positiveDefinite(m, ps)
+}
+
+// Formats of the problems with the entries of a correlation matrix.
+const (
+	rowLength    = "has %d entries; want %d (%s)"
+	fullShape    = "full matrix, as row 0"
+	lowerShape   = "lower triangle: row i has i+1 entries"
+	offDiagonal  = "is %g; a correlation matrix has 1 on its diagonal"
+	outOfRange   = "is %g; a correlation lies in [-1, 1]"
+	notSymmetric = "is %g, but /data/correlations/%d/%d is %g: the matrix is not symmetric"
+)
+
+// checkRowLengths reports each row whose length does not fit the shape:
+// k entries in a full matrix, i+1 in row i of a lower triangle.
+func checkRowLengths(rows [][]float64, k int, full bool, ps *problems) {
+	for i, row := range rows {
+		want, shape := i+1, lowerShape
+		if full {
+			want, shape = k, fullShape
+		}
+		if len(row) != want {
+			ps.at(pointer("data", "correlations", i), rowLength, len(row), want, shape)
+		}
+	}
+}
+
+// correlationEntries reads the lower triangle of rows into a matrix and
+// reports each entry off the unit diagonal, outside [-1, 1], or (in a full
+// matrix) unequal to its mirror entry.
+func correlationEntries(rows [][]float64, k int, full bool, ps *problems) *mat.SymDense {
 	m := mat.NewSymDense(k, nil)
 	for i, row := range rows {
 		for j := 0; j <= i; j++ {
@@ -198,18 +252,21 @@ func correlationMatrix(rows [][]float64, k int, ps *problems) *mat.SymDense {
 			at := pointer("data", "correlations", i, j)
 			switch {
 			case i == j && math.Abs(x-1) > diagonalTol:
-				ps.at(at, "is %g; a correlation matrix has 1 on its diagonal", x)
+				ps.at(at, offDiagonal, x)
 			case x < -1 || x > 1:
-				ps.at(at, "is %g; a correlation lies in [-1, 1]", x)
+				ps.at(at, outOfRange, x)
 			case full && math.Abs(x-rows[j][i]) > symmetryTol:
-				ps.at(at, "is %g, but /data/correlations/%d/%d is %g: the matrix is not symmetric", x, j, i, rows[j][i])
+				ps.at(at, notSymmetric, x, j, i, rows[j][i])
 			}
 			m.SetSym(i, j, x)
 		}
 	}
-	if len(ps.list) > before {
-		return nil
-	}
+	return m
+}
+
+// positiveDefinite returns m when its smallest eigenvalue exceeds
+// checks.MinEigen, and reports it otherwise.
+func positiveDefinite(m *mat.SymDense, ps *problems) *mat.SymDense {
 	var eig mat.EigenSym
 	if !eig.Factorize(m, false) {
 		ps.at("/data/correlations", "its eigenvalues could not be computed")

@@ -51,7 +51,8 @@ func screenCleanly(t *testing.T, s *checks.Study) {
 		t.Fatal(err)
 	}
 	for _, c := range r.Checks {
-		if strings.HasPrefix(c.RunError, "internal error") || strings.HasPrefix(c.RunError, "its result could not be encoded") {
+		if strings.HasPrefix(c.RunError, "internal error") ||
+			strings.HasPrefix(c.RunError, "its result could not be encoded") {
 			t.Fatalf("%s failed to run: %s", c.ID, c.RunError)
 		}
 	}
@@ -64,10 +65,13 @@ func screenCleanly(t *testing.T, s *checks.Study) {
 // load must then screen without any check failing to run.
 func FuzzCSV(f *testing.F) {
 	doc := []byte(`{"format_version": 1, "title": "fuzz", "design": "observational",
-		"variables": [{"name": "a", "scale": "binary"}, {"name": "b", "scale": "continuous"}, {"name": "c", "scale": "continuous"}],
+		"variables": [{"name": "a", "scale": "binary"}, {"name": "b", "scale": "continuous"},
+		              {"name": "c", "scale": "continuous"}],
 		"graph": {"edges": [{"from": "a", "to": "b"}, {"from": "b", "to": "c"}]},
-		"claims": [{"id": "C1", "text": "b raises c", "kind": "direct_effect", "from": "b", "to": "c", "estimate": 0.2, "std_error": 0.1, "p_value": 0.04},
-		           {"id": "C2", "text": "c goes with a", "kind": "association", "from": "c", "to": "a", "asserts_absence": true}],
+		"claims": [{"id": "C1", "text": "b raises c", "kind": "direct_effect", "from": "b", "to": "c",
+		            "estimate": 0.2, "std_error": 0.1, "p_value": 0.04},
+		           {"id": "C2", "text": "c goes with a", "kind": "association", "from": "c", "to": "a",
+		            "asserts_absence": true}],
 		"missing_data": {"method": "mean_substitution"},
 		"data": {"kind": "rows", "missing_codes": ["-9"], "ignore_columns": ["id"]}}`)
 	for _, seed := range []string{

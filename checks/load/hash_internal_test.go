@@ -36,7 +36,8 @@ func TestCanonicalHash_StreamsTheSameBytes(t *testing.T) {
 // TestPlainText checks the byte table against the rule it stands for.
 func TestPlainText(t *testing.T) {
 	for c := range 256 {
-		want := c == '\n' || c == '\r' || c == '\t' || c >= 0x20 && c <= 0x7e && !strings.ContainsRune(`"\<>&`, rune(c))
+		printable := c >= 0x20 && c <= 0x7e && !strings.ContainsRune(`"\<>&`, rune(c))
+		want := c == '\n' || c == '\r' || c == '\t' || printable
 		if got := plainText([]byte{'a', byte(c)}); got != want {
 			t.Errorf("plainText(%q) = %v, want %v", []byte{'a', byte(c)}, got, want)
 		}

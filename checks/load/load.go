@@ -1,8 +1,3 @@
-// Package load turns a package document and its data into the study the
-// pipeline screens: strict JSON decoding, field rules, cross-references,
-// graphs, CSV rows or printed summary statistics (package-format.md).
-// Every problem found is reported at once, each with its JSON pointer or
-// CSV line and column.
 package load
 
 import (
@@ -61,22 +56,12 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 		return nil, &checks.InvalidPackageError{TooLarge: true, Problems: []checks.Problem{{
 			Detail: fmt.Sprintf("the package is %d bytes; the limit is %d", len(doc), lim.PackageBytes)}}}
 	}
-	pkg := new(checks.Package)
 	var ps problems
-	if !decode(doc, pkg, &ps) {
+	pkg, ok := decodePackage(doc, lim, &ps)
+	if !ok {
 		return nil, ps.err()
 	}
-	checkFields(pkg, &ps)
-	ps.shadow()
-	if checkLimits(pkg, lim, &ps) {
-		return nil, ps.err()
-	}
-	s := &study{&checks.Study{Package: pkg, Index: indexVariables(pkg, &ps), Printed: printedClaims(doc, len(pkg.Claims))}}
-	for _, v := range pkg.Variables {
-		s.Names = append(s.Names, v.Name)
-	}
-	s.resolveGraphs(&ps)
-	checkClaims(pkg, s.Index, &ps)
+	s := newStudy(doc, pkg, &ps)
 	var csvText []byte
 	if !ps.coveredBelow("/data", "/data/kind") {
 		csvText = s.resolveData(opt, lim, &ps)
@@ -86,6 +71,36 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 	}
 	s.SHA256 = canonicalHash(pkg, csvText)
 	return s.Study, nil
+}
+
+// decodePackage decodes doc and checks its fields and counts; it reports
+// false when the problems found leave nothing further to check.
+func decodePackage(doc []byte, lim Limits, ps *problems) (*checks.Package, bool) {
+	pkg := new(checks.Package)
+	if !decode(doc, pkg, ps) {
+		return nil, false
+	}
+	checkFields(pkg, ps)
+	ps.shadow()
+	if checkLimits(pkg, lim, ps) {
+		return nil, false
+	}
+	return pkg, true
+}
+
+// newStudy indexes the variables of pkg and resolves its graphs and claims.
+func newStudy(doc []byte, pkg *checks.Package, ps *problems) *study {
+	s := &study{&checks.Study{
+		Package: pkg,
+		Index:   indexVariables(pkg, ps),
+		Printed: printedClaims(doc, len(pkg.Claims)),
+	}}
+	for _, v := range pkg.Variables {
+		s.Names = append(s.Names, v.Name)
+	}
+	s.resolveGraphs(ps)
+	checkClaims(pkg, s.Index, ps)
+	return s
 }
 
 // resolveGraphs checks the declared graph and the alternatives and builds
@@ -121,12 +136,15 @@ func (s *study) resolveGraphs(ps *problems) {
 	}
 }
 
+// fixedNotEdge reports a fixed edge (from, to) missing from the graph.
+const fixedNotEdge = "%s → %s is not an edge of /graph/edges"
+
 // background collects the required arcs and checks that each fixed edge
 // is an edge of the declared graph.
 func (s *study) background(fixed []dag.Edge, ps *problems) {
 	for i, e := range fixed {
 		if !s.Declared.HasArc(e.From, e.To) {
-			ps.at(pointer("graph", "fixed_edges", i), "%s → %s is not an edge of /graph/edges", s.Names[e.From], s.Names[e.To])
+			ps.at(pointer("graph", "fixed_edges", i), fixedNotEdge, s.Names[e.From], s.Names[e.To])
 			continue
 		}
 		s.Background = append(s.Background, e)

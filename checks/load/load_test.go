@@ -185,8 +185,8 @@ func TestLoad_AllProblemsAtOnce(t *testing.T) {
 		"data": {"kind": "summary", "n": 10, "variables": ["a", "b"], "correlations": [[1], [0.2]]}}`)
 	_, err := load.Load(doc, load.Options{})
 	for _, want := range []string{"/titel", "/design", "/variables/1/scale", "/claims/0/p_value",
-		"/claims/0/ci_level: is 95, but the level is a proportion", "/graph/edges/0/to", "/claims/0/adjust_for/0",
-		"/data/correlations/1: has 1 entries; want 2"} {
+		"/claims/0/ci_level: is 95, but the level is a proportion", "/graph/edges/0/to",
+		"/claims/0/adjust_for/0", "/data/correlations/1: has 1 entries; want 2"} {
 		if err == nil || !strings.Contains(err.Error(), want) {
 			t.Errorf("missing %s in %v", want, err)
 		}
@@ -282,10 +282,12 @@ func TestLoad_TextAndDuplicateKeys(t *testing.T) {
 	}
 	for _, tc := range []struct{ old, new, want string }{
 		{`"id": "C1"`, `"id": "C1", "id": "C9"`, `/claims/0/id: the key "id" appears more than once`},
-		{`"kind": "summary"`, `"kind": "summary", "a/b": 1, "a/b": 2`, `/data/a~1b: the key "a/b" appears more than once`},
+		{`"kind": "summary"`, `"kind": "summary", "a/b": 1, "a/b": 2`,
+			`/data/a~1b: the key "a/b" appears more than once`},
 		{`"design": "observational"`, `"design": "observa\u0000tional"`, "/design: contains a NUL character"},
 		{`"kind": "summary"`, `"kind": "summary", "k\u0000": 1`, "/data/k\x00: contains a NUL character"},
-		{`"design": "observational"`, "\"design\": \"observ\xc3\x28tional\"", "/design: is not valid UTF-8 text"},
+		{`"design": "observational"`, "\"design\": \"observ\xc3\x28tional\"",
+			"/design: is not valid UTF-8 text"},
 	} {
 		doc := bytes.Replace(base, []byte(tc.old), []byte(tc.new), 1)
 		if bytes.Equal(doc, base) {

@@ -73,7 +73,8 @@ func (ps *problems) err() error {
 	}
 	list := ps.list
 	if ps.dropped > 0 {
-		list = append(list, checks.Problem{Detail: fmt.Sprintf("%d further problems are not listed", ps.dropped)})
+		more := checks.Problem{Detail: fmt.Sprintf("%d further problems are not listed", ps.dropped)}
+		list = append(list, more)
 	}
 	return &checks.InvalidPackageError{Problems: list}
 }

@@ -36,7 +36,8 @@ func TestSuspects(t *testing.T) {
 		{"code 999 above", column(40, 10, 60, 999, 999), []checks.Suspect{{Value: 999, Count: 2, Code: true}}},
 		{"two codes at one end", column(40, 1, 5, -99, -99, -98, -98),
 			[]checks.Suspect{{Value: -99, Count: 2, Code: true}, {Value: -98, Count: 2}}},
-		{"repeated extreme, not a code", column(40, 150, 190, 400, 400, 400), []checks.Suspect{{Value: 400, Count: 3}}},
+		{"repeated extreme, not a code", column(40, 150, 190, 400, 400, 400),
+			[]checks.Suspect{{Value: 400, Count: 3}}},
 		{"a single -999 is not repeated", column(40, 1, 5, -999), nil},
 		{"99 inside a 0-100 scale", column(40, 0, 100, 99, 99), nil},
 		{"fewer than ten other values", column(8, 1, 5, -99, -99), nil},
@@ -86,11 +87,13 @@ func TestLoad_UndeclaredMissingCode(t *testing.T) {
 	}
 	c := checkOf(t, s, "missing-data")
 	reportValid(t, s)
-	if c.Status != checks.StatusWarn || !strings.Contains(c.Findings[0].Message, `Column "y" has the value -999 in 4 rows`) ||
+	if c.Status != checks.StatusWarn ||
+		!strings.Contains(c.Findings[0].Message, `Column "y" has the value -999 in 4 rows`) ||
 		!strings.Contains(c.Findings[0].Message, "/data/missing_codes") {
 		t.Errorf("missing-data: %s %+v", c.Status, c.Findings)
 	}
-	s, err = load.Load([]byte(strings.Replace(doc, "CODES", `, "missing_codes": ["-999"]`, 1)), load.Options{CSV: []byte(b.String())})
+	coded := strings.Replace(doc, "CODES", `, "missing_codes": ["-999"]`, 1)
+	s, err = load.Load([]byte(coded), load.Options{CSV: []byte(b.String())})
 	if err != nil {
 		t.Fatal(err)
 	}

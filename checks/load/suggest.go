@@ -60,6 +60,10 @@ func editDistance(a, b string) int {
 	return prev[len(t)]
 }
 
+// relationApart is the hint for a p-value given with its relation, as
+// "<.001": the number, then the relation.
+const relationApart = `; write the relation apart from the number: "p_value": %s, "p_relation": %q`
+
 // numberHint says how to write a number given as a string: a p-value
 // printed as "<.001" becomes a number and a p_relation.
 func numberHint(ptr, str string) string {
@@ -69,8 +73,7 @@ func numberHint(ptr, str string) string {
 		for _, rel := range []string{"<", ">", "="} {
 			if rest, ok := strings.CutPrefix(t, rel); ok {
 				if x, err := strconv.ParseFloat(strings.TrimSpace(rest), 64); err == nil {
-					return fmt.Sprintf(`; write the relation apart from the number: "p_value": %s, "p_relation": %q`,
-						strconv.FormatFloat(x, 'g', -1, 64), rel)
+					return fmt.Sprintf(relationApart, strconv.FormatFloat(x, 'g', -1, 64), rel)
 				}
 			}
 		}

@@ -50,7 +50,8 @@ func scanTokens(doc []byte, ps *problems) {
 		at := next(top)
 		switch t := tok.(type) {
 		case json.Delim:
-			stack = append(stack, &frame{ptr: at.pointer(), array: t == '[', wantKey: true, keys: map[string]bool{}})
+			f := &frame{ptr: at.pointer(), array: t == '[', wantKey: true, keys: map[string]bool{}}
+			stack = append(stack, f)
 		case string:
 			if problem := textProblem(t, raw); problem != "" {
 				ps.at(at.pointer(), "%s", problem)

@@ -59,50 +59,62 @@ func namespacePointer(ns string) string {
 	return "/" + strings.ReplaceAll(rest, ".", "/")
 }
 
+// ruleText says in words which rule fe breaks.
 func ruleText(fe validator.FieldError) string {
 	if hint := proportionHint(fe); hint != "" {
 		return hint
 	}
 	p := fe.Param()
-	counted := fe.Kind() == reflect.Slice || fe.Kind() == reflect.Map
 	switch fe.Tag() {
 	case "required":
 		return "is required"
-	case "eq":
-		return "must be " + p
-	case "len":
-		return "must have exactly " + p + " entries"
 	case "min", "max":
-		if fe.Namespace() == "Package.claims" && fe.Tag() == "min" {
-			return "has no claims yet: add each claim the paper makes, with its id, text, kind, from and to"
-		}
-		bound := map[string]string{"min": "at least", "max": "at most"}[fe.Tag()]
-		switch {
-		case counted:
-			return fmt.Sprintf("must have %s %s entries", bound, p)
-		case fe.Kind() == reflect.String:
-			return fmt.Sprintf("must be %s %s characters long", bound, p)
-		}
-		return fmt.Sprintf("must be %s %s", bound, p)
+		return boundText(fe)
 	case "oneof":
-		return "must be one of: " + strings.ReplaceAll(p, " ", ", ") + didYouMean(fmt.Sprint(fe.Value()), strings.Fields(p))
-	case "gt":
-		return "must be greater than " + p
-	case "gte":
-		return "must be at least " + p
-	case "lt":
-		return "must be less than " + p
+		hint := didYouMean(fmt.Sprint(fe.Value()), strings.Fields(p))
+		return "must be one of: " + strings.ReplaceAll(p, " ", ", ") + hint
 	case "lte":
 		if fe.Field() == "n" {
 			return "must be at most " + p + ", the format's limit on the sample size"
 		}
-		return "must be at most " + p
 	case "varname":
 		return "must match " + varNameRE.String()
 	case "claimid":
 		return "must match " + claimIDRE.String()
 	}
+	if format, ok := ruleFormats[fe.Tag()]; ok {
+		return fmt.Sprintf(format, p)
+	}
 	return "fails the rule " + fe.Tag()
+}
+
+// ruleFormats word the rules whose text only needs the rule's parameter.
+var ruleFormats = map[string]string{
+	"eq":  "must be %s",
+	"len": "must have exactly %s entries",
+	"gt":  "must be greater than %s",
+	"gte": "must be at least %s",
+	"lt":  "must be less than %s",
+	"lte": "must be at most %s",
+}
+
+// noClaims is the text of an empty claims section.
+const noClaims = "has no claims yet: add each claim the paper makes, with its id, text, kind, from and to"
+
+// boundText words a min or max rule: on a count of entries, on the length
+// of a string, or on a number.
+func boundText(fe validator.FieldError) string {
+	if fe.Namespace() == "Package.claims" && fe.Tag() == "min" {
+		return noClaims
+	}
+	bound := map[string]string{"min": "at least", "max": "at most"}[fe.Tag()]
+	switch fe.Kind() {
+	case reflect.Slice, reflect.Map:
+		return fmt.Sprintf("must have %s %s entries", bound, fe.Param())
+	case reflect.String:
+		return fmt.Sprintf("must be %s %s characters long", bound, fe.Param())
+	}
+	return fmt.Sprintf("must be %s %s", bound, fe.Param())
 }
 
 // proportionHint explains a level written as a percentage: ci_level 95
@@ -118,13 +130,16 @@ func proportionHint(fe validator.FieldError) string {
 	return ""
 }
 
+// overLimit reports a count, what it counts, and its limit.
+const overLimit = "has %d %s; the limit is %d"
+
 // checkLimits reports every count above its limit, naming the limit, and
 // whether there was one.
 func checkLimits(pkg *checks.Package, lim Limits, ps *problems) bool {
 	found := false
 	over := func(ptr, what string, n, max int) {
 		if n > max {
-			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf("has %d %s; the limit is %d", n, what, max)})
+			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf(overLimit, n, what, max)})
 			found = true
 		}
 	}

@@ -110,7 +110,9 @@ func BenchmarkMI(b *testing.B) {
 		b.Run(fmt.Sprintf("n=%d/p=%d/m=20", s.n, s.p), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if err := ImputeEach(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}, func(int, *mat.Dense) error { return nil }); err != nil {
+				opt := ImputeOptions{M: 20, Seed: 1, EM: Options{Tolerance: 1e-6}}
+				discard := func(int, *mat.Dense) error { return nil }
+				if err := ImputeEach(context.Background(), cols, em, opt, discard); err != nil {
 					b.Fatal(err)
 				}
 			}

@@ -50,10 +50,11 @@ func BenchmarkCohortMissing(b *testing.B) {
 		if _, err := LittleMCAR(cols, em); err != nil {
 			b.Fatal(err)
 		}
-		err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1}, func(_ int, data *mat.Dense) error {
+		moments := func(_ int, data *mat.Dense) error {
 			RowMoments(data)
 			return nil
-		})
+		}
+		err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 20, Seed: 1}, moments)
 		if err != nil {
 			b.Fatal(err)
 		}

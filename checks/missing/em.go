@@ -92,7 +92,8 @@ func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Patter
 func startValues(cols [][]float64, start *EMResult) ([]float64, *mat.SymDense, error) {
 	p := len(cols)
 	if start != nil {
-		return append([]float64(nil), start.Mean...), mat.NewSymDense(p, append([]float64(nil), start.Cov.RawSymmetric().Data...)), nil
+		cov := append([]float64(nil), start.Cov.RawSymmetric().Data...)
+		return append([]float64(nil), start.Mean...), mat.NewSymDense(p, cov), nil
 	}
 	mean := make([]float64, p)
 	cov := mat.NewSymDense(p, nil)

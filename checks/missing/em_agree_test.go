@@ -50,7 +50,10 @@ func TestEM_AgreesWithRowByRow(t *testing.T) {
 	for _, c := range []struct {
 		n, p, k int
 		share   float64
-	}{{2000, 6, 3, 0.2}, {300, 8, 8, 0.1}, {1000, 10, 10, 0.05}, {150, 4, 2, 0.4}, {400, 3, 3, 0.6}, {200, 5, 5, 0.5}} {
+	}{
+		{2000, 6, 3, 0.2}, {300, 8, 8, 0.1}, {1000, 10, 10, 0.05},
+		{150, 4, 2, 0.4}, {400, 3, 3, 0.6}, {200, 5, 5, 0.5},
+	} {
 		t.Run(fmt.Sprint(c), func(t *testing.T) {
 			cols := randomData(uint64(c.n), c.n, c.p, c.k, c.share)
 			opt := Options{Tolerance: 1e-12, MaxIter: 100000}
@@ -153,17 +156,19 @@ func TestImputeEach_PanicAndError(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 2}, func(k int, _ *mat.Dense) error {
+	boom := func(k int, _ *mat.Dense) error {
 		if k == 2 {
 			panic("boom")
 		}
 		return nil
-	})
+	}
+	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 2}, boom)
 	if err == nil || !strings.Contains(err.Error(), "imputation 3: internal error: boom") {
 		t.Fatalf("got %v", err)
 	}
 	stop := errors.New("stop")
-	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 1}, func(int, *mat.Dense) error { return stop })
+	fail := func(int, *mat.Dense) error { return stop }
+	err = ImputeEach(context.Background(), cols, em, ImputeOptions{M: 4, Workers: 1}, fail)
 	if !errors.Is(err, stop) {
 		t.Fatalf("got %v", err)
 	}

@@ -36,25 +36,6 @@ type ImputeOptions struct {
 	Workers int
 }
 
-// Impute returns M completed copies of cols, drawn by ImputeEach.
-func Impute(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOptions) ([][][]float64, error) {
-	if opt.M == 0 {
-		opt.M = DefaultImputations
-	}
-	out := make([][][]float64, opt.M)
-	err := ImputeEach(ctx, cols, start, opt, func(k int, data *mat.Dense) error {
-		out[k] = make([][]float64, len(cols))
-		for j := range cols {
-			out[k][j] = mat.Col(nil, j, data)
-		}
-		return nil
-	})
-	if err != nil {
-		return nil, err
-	}
-	return out, nil
-}
-
 // ImputeEach draws M completed datasets and hands each, as an n × p matrix
 // of rows, to use, which must neither change nor keep the matrix: it is
 // drawn over by the next imputation, so memory does not grow with M. Each dataset is proper

@@ -79,7 +79,11 @@ type Summary struct {
 
 // Summarize counts missing cells per variable, complete rows and patterns.
 func Summarize(cols [][]float64) Summary {
-	s := Summary{Rows: rows(cols), MissingByVariable: make([]int, len(cols)), RowsByMissing: make([]int, len(cols)+1)}
+	s := Summary{
+		Rows:              rows(cols),
+		MissingByVariable: make([]int, len(cols)),
+		RowsByMissing:     make([]int, len(cols)+1),
+	}
 	ps := Patterns(cols)
 	s.Patterns = len(ps)
 	for _, p := range ps {

@@ -180,8 +180,10 @@ func (d *emData) addReduced(t []float64, g *group) {
 	}
 	am := blas64.General{Rows: p + 1, Cols: k, Stride: k, Data: a}
 	as := blas64.General{Rows: p + 1, Cols: k, Stride: k, Data: make([]float64, (p+1)*k)}
-	blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, am, blas64.General{Rows: k, Cols: k, Stride: k, Data: g.s}, 0, as)
-	blas64.Gemm(blas.NoTrans, blas.Trans, 1, as, am, 1, blas64.General{Rows: p + 1, Cols: p + 1, Stride: p + 1, Data: t})
+	gs := blas64.General{Rows: k, Cols: k, Stride: k, Data: g.s}
+	tt := blas64.General{Rows: p + 1, Cols: p + 1, Stride: p + 1, Data: t}
+	blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, am, gs, 0, as)
+	blas64.Gemm(blas.NoTrans, blas.Trans, 1, as, am, 1, tt)
 }
 
 // addRows completes g's rows into the block buffer, from row r on, and
@@ -200,7 +202,8 @@ func (d *emData) addRows(sums blas64.Symmetric, g *group, r int) int {
 			row[j] *= sw
 		}
 		if r++; r == blockRows {
-			blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: d.buf}, 1, sums)
+			block := blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: d.buf}
+			blas64.Syrk(blas.Trans, 1, block, 1, sums)
 			r = 0
 		}
 	}

@@ -66,7 +66,9 @@ func BenchmarkNeighbours(b *testing.B) {
 		s, pa := simulated(p, 1)
 		b.Run(fmt.Sprint(p), func(b *testing.B) {
 			for b.Loop() {
-				if _, err := nearby.Neighbours(context.Background(), nearby.Model{S: s, N: 1000}, pa, nearby.Knowledge{}); err != nil {
+				m := nearby.Model{S: s, N: 1000}
+				_, err := nearby.Neighbours(context.Background(), m, pa, nearby.Knowledge{})
+				if err != nil {
 					b.Fatal(err)
 				}
 			}
@@ -79,7 +81,9 @@ func BenchmarkSearch(b *testing.B) {
 		s, pa := simulated(p, 1)
 		b.Run(fmt.Sprint(p), func(b *testing.B) {
 			for b.Loop() {
-				if _, err := nearby.Search(context.Background(), nearby.Model{S: s, N: 1000}, pa, nearby.Knowledge{}); err != nil {
+				m := nearby.Model{S: s, N: 1000}
+				_, err := nearby.Search(context.Background(), m, pa, nearby.Knowledge{})
+				if err != nil {
 					b.Fatal(err)
 				}
 			}

@@ -99,7 +99,8 @@ func oracle(t *testing.T, s mat.Symmetric, n int, pa [][]int, k nearby.Knowledge
 				if dag.FindCycle(g) != nil || !respects(npa, pa, k) {
 					continue
 				}
-				out = append(out, oracleNeighbour{e: e, pa: npa, delta: wholeBIC(t, s, n, npa) - base, key: dag.CPDAG(g).Key()})
+				delta := wholeBIC(t, s, n, npa) - base
+				out = append(out, oracleNeighbour{e: e, pa: npa, delta: delta, key: dag.CPDAG(g).Key()})
 			}
 		}
 	}
@@ -188,7 +189,8 @@ func compareOracle(t *testing.T, trial int, pa [][]int, want []oracleNeighbour, 
 		classes[o.key] = append(classes[o.key], o)
 	}
 	if got.Equivalent != equivalent || len(got.Classes) != len(classes) {
-		t.Fatalf("trial %d: %d classes and %d equivalent, oracle %d and %d", trial, len(got.Classes), got.Equivalent, len(classes), equivalent)
+		t.Fatalf("trial %d: %d classes and %d equivalent, oracle %d and %d",
+			trial, len(got.Classes), got.Equivalent, len(classes), equivalent)
 	}
 	for i, c := range got.Classes {
 		if i > 0 && c.DeltaBIC < got.Classes[i-1].DeltaBIC-1e-7 {
@@ -196,14 +198,16 @@ func compareOracle(t *testing.T, trial int, pa [][]int, want []oracleNeighbour, 
 		}
 		members := classes[dag.CPDAG(toPDAG(nearby.Apply(pa, c.Edits[0]))).Key()]
 		if len(members) != len(c.Edits) {
-			t.Fatalf("trial %d: class of %v has %d edits, oracle %d", trial, c.Edits[0], len(c.Edits), len(members))
+			t.Fatalf("trial %d: class of %v has %d edits, oracle %d",
+				trial, c.Edits[0], len(c.Edits), len(members))
 		}
 		for j, o := range members {
 			if o.e != c.Edits[j] {
 				t.Errorf("trial %d: edit %d of the class is %v, oracle %v", trial, j, c.Edits[j], o.e)
 			}
 			if !scalar.EqualWithinAbsOrRel(c.DeltaBIC, o.delta, 1e-10, 1e-10) {
-				t.Errorf("trial %d: %v ΔBIC %.12g, whole-model difference %.12g", trial, o.e, c.DeltaBIC, o.delta)
+				t.Errorf("trial %d: %v ΔBIC %.12g, whole-model difference %.12g",
+					trial, o.e, c.DeltaBIC, o.delta)
 			}
 		}
 	}
@@ -229,7 +233,8 @@ func TestNeighbours_ClosedFormRemoval(t *testing.T) {
 				if e.Op != nearby.Remove {
 					continue
 				}
-				others := slices.DeleteFunc(slices.Clone(pa[e.To]), func(u int) bool { return u == e.From })
+				isFrom := func(u int) bool { return u == e.From }
+				others := slices.DeleteFunc(slices.Clone(pa[e.To]), isFrom)
 				pr, err := linmod.PartialCorrelation(s, e.To, e.From, others)
 				if err != nil {
 					t.Fatal(err)

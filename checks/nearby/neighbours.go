@@ -78,9 +78,12 @@ func Neighbours(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Ne
 	return nb, nil
 }
 
+// parentListCount reports parent lists that do not match the matrix.
+const parentListCount = "nearby: %d parent lists for a matrix of %d variables"
+
 func setUp(m Model, parents [][]int, k Knowledge) (*graph, *rows, *knowledge, error) {
 	if m.S == nil || len(parents) != m.S.SymmetricDim() {
-		return nil, nil, nil, fmt.Errorf("nearby: %d parent lists for a matrix of %d variables", len(parents), dim(m))
+		return nil, nil, nil, fmt.Errorf(parentListCount, len(parents), dim(m))
 	}
 	g, err := newGraph(parents)
 	if err != nil {

@@ -40,7 +40,8 @@ func TestNeighbours_AgainstStatsmodels(t *testing.T) {
 		t.Fatal(err)
 	}
 	s := readCorrelation(t, dir+"data.csv")
-	nb, err := nearby.Neighbours(context.Background(), nearby.Model{S: s, N: ref.N}, ref.Parents, nearby.Knowledge{})
+	m := nearby.Model{S: s, N: ref.N}
+	nb, err := nearby.Neighbours(context.Background(), m, ref.Parents, nearby.Knowledge{})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -67,23 +67,37 @@ func (r *rows) update(v int, pa []int) error {
 	return r.removals(v, pa)
 }
 
+// onParents returns W = S_pa,pa⁻¹ S_pa,· , the coefficients of every
+// variable regressed on pa (one row per parent; a zero row for no parents).
+func onParents(s mat.Symmetric, pa []int) (*mat.Dense, error) {
+	p := s.SymmetricDim()
+	w := mat.NewDense(max(len(pa), 1), p, nil)
+	if len(pa) == 0 {
+		return w, nil
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(sub(s, pa)) {
+		return nil, ErrNotPositiveDefinite
+	}
+	b := mat.NewDense(len(pa), p, nil)
+	for j, u := range pa {
+		for k := range p {
+			b.Set(j, k, s.At(u, k))
+		}
+	}
+	if err := ch.SolveTo(w, b); err != nil {
+		return nil, ErrNotPositiveDefinite
+	}
+	return w, nil
+}
+
+// additions fills r.add[v] with the ΔBIC of adding each allowed u → v to
+// the parents pa, from the partial correlation of v and u given pa.
 func (r *rows) additions(v int, pa []int) error {
 	s, p := r.m.S, r.m.S.SymmetricDim()
-	w := mat.NewDense(max(len(pa), 1), p, nil)
-	if len(pa) > 0 {
-		var ch mat.Cholesky
-		if !ch.Factorize(sub(s, pa)) {
-			return ErrNotPositiveDefinite
-		}
-		b := mat.NewDense(len(pa), p, nil)
-		for j, u := range pa {
-			for k := range p {
-				b.Set(j, k, s.At(u, k))
-			}
-		}
-		if err := ch.SolveTo(w, b); err != nil {
-			return ErrNotPositiveDefinite
-		}
+	w, err := onParents(s, pa)
+	if err != nil {
+		return err
 	}
 	given := func(a, u int) float64 { // covariance of a and u given pa
 		c := s.At(a, u)

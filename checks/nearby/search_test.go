@@ -43,7 +43,8 @@ func TestSearch_LocalOptimum(t *testing.T) {
 		}
 		for _, o := range oracle(t, s, n, res.Parents, k) {
 			if o.delta < -1e-6 {
-				t.Errorf("trial %d: the edit %v of the search's graph still lowers BIC by %g", trial, o.e, -o.delta)
+				t.Errorf("trial %d: the edit %v of the search's graph still lowers BIC by %g",
+					trial, o.e, -o.delta)
 			}
 		}
 	}

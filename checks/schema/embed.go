@@ -1,5 +1,3 @@
-// Package schema ships the JSON Schemas of pathvet's formats: the
-// submission package and the screening report, format version 1.
 package schema
 
 import _ "embed"

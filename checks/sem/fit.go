@@ -69,38 +69,13 @@ func FitDAG(ctx context.Context, s mat.Symmetric, n int, parents [][]int) (*Fit,
 		return nil, ErrNotPositiveDefinite
 	}
 	f := &Fit{N: n, Variables: p, Coefficients: make([][]float64, p), Residual: make([]float64, p)}
-	a := mat.NewDense(p, p, nil) // I − B
-	psi := mat.NewDiagDense(p, nil)
-	edges := 0
-	for i, pa := range parents {
-		a.Set(i, i, 1)
-		f.Residual[i] = s.At(i, i)
-		if len(pa) > 0 {
-			reg, err := linmod.FromMoments(s, nil, n, i, pa, 0.95)
-			if err != nil {
-				return nil, &EquationError{Variable: i, Err: err}
-			}
-			f.Coefficients[i] = make([]float64, len(pa))
-			for k, c := range reg.Coefs {
-				f.Coefficients[i][k] = c.Estimate
-				a.Set(i, pa[k], -c.Estimate)
-			}
-			f.Residual[i] = reg.Sigma2 * float64(reg.DF) / float64(n-1) // ML residual variance on s's scale
-		}
-		psi.SetDiag(i, f.Residual[i])
-		edges += len(pa)
+	a, edges, err := f.regress(s, n, parents)
+	if err != nil {
+		return nil, err
 	}
-	var ainv mat.Dense
-	if err := ainv.Inverse(a); err != nil {
-		return nil, fmt.Errorf("sem: the graph is not recursive: %w", err)
+	if f.Implied, err = impliedCovariance(a, f.Residual); err != nil {
+		return nil, err
 	}
-	for j := range p { // (I − B)⁻¹ Ψ^½, so that Σ̂ = L Lᵀ
-		col := ainv.ColView(j).(*mat.VecDense)
-		col.ScaleVec(math.Sqrt(psi.At(j, j)), col)
-	}
-	var implied mat.Dense
-	implied.Mul(&ainv, ainv.T())
-	f.Implied = symmetrize(&implied)
 	f.FreeParams = edges + p
 	f.DF = p*(p+1)/2 - f.FreeParams
 	if err := f.discrepancy(s, &chS); err != nil {
@@ -110,6 +85,50 @@ func FitDAG(ctx context.Context, s mat.Symmetric, n int, parents [][]int) (*Fit,
 		return nil, err
 	}
 	return f, nil
+}
+
+// regress regresses each variable on its parents, filling f's
+// coefficients and ML residual variances; it returns I − B and the number
+// of edges.
+func (f *Fit) regress(s mat.Symmetric, n int, parents [][]int) (*mat.Dense, int, error) {
+	p := s.SymmetricDim()
+	a := mat.NewDense(p, p, nil) // I − B
+	edges := 0
+	for i, pa := range parents {
+		a.Set(i, i, 1)
+		f.Residual[i] = s.At(i, i)
+		edges += len(pa)
+		if len(pa) == 0 {
+			continue
+		}
+		reg, err := linmod.FromMoments(s, nil, n, i, pa, 0.95)
+		if err != nil {
+			return nil, 0, &EquationError{Variable: i, Err: err}
+		}
+		f.Coefficients[i] = make([]float64, len(pa))
+		for k, c := range reg.Coefs {
+			f.Coefficients[i][k] = c.Estimate
+			a.Set(i, pa[k], -c.Estimate)
+		}
+		f.Residual[i] = reg.Sigma2 * float64(reg.DF) / float64(n-1) // ML residual variance on s's scale
+	}
+	return a, edges, nil
+}
+
+// impliedCovariance is Σ̂ = (I − B)⁻¹ Ψ (I − B)⁻ᵀ from a = I − B and the
+// residual variances psi, the diagonal of Ψ.
+func impliedCovariance(a *mat.Dense, psi []float64) (*mat.SymDense, error) {
+	var ainv mat.Dense
+	if err := ainv.Inverse(a); err != nil {
+		return nil, fmt.Errorf("sem: the graph is not recursive: %w", err)
+	}
+	for j, v := range psi { // (I − B)⁻¹ Ψ^½, so that Σ̂ = L Lᵀ
+		col := ainv.ColView(j).(*mat.VecDense)
+		col.ScaleVec(math.Sqrt(v), col)
+	}
+	var implied mat.Dense
+	implied.Mul(&ainv, ainv.T())
+	return symmetrize(&implied), nil
 }
 
 func symmetrize(m *mat.Dense) *mat.SymDense {

@@ -46,7 +46,7 @@ func TestFitDAG_WorkedExample(t *testing.T) {
 		t.Errorf("df %d, baseline df %d", f.DF, f.BaselineDF)
 	}
 	// The one implied independence X ⊥ Y | M: partial r = .125988, p = .0762.
-	it := TestIndependence(r, 200, Independence{X: 0, Y: 2, Given: []int{1}})
+	it := ZTest(r, 200, Independence{X: 0, Y: 2, Given: []int{1}})
 	if !scalar.EqualWithinAbs(it.PartialR, .125988, 1e-6) || !scalar.EqualWithinAbs(it.P, .0762, 5e-5) {
 		t.Errorf("partial r %.6f, p %.5f", it.PartialR, it.P)
 	}
@@ -65,7 +65,8 @@ func TestPartialCorrelation_ClosedForm(t *testing.T) {
 	rab, rac, rbc := .35, -.2, .6
 	r := mat.NewSymDense(3, []float64{1, rab, rac, rab, 1, rbc, rac, rbc, 1})
 	want := (rac - rab*rbc) / math.Sqrt((1-rab*rab)*(1-rbc*rbc))
-	if got := TestIndependence(r, 100, Independence{X: 0, Y: 2, Given: []int{1}}).PartialR; !scalar.EqualWithinAbs(got, want, 1e-12) {
+	got := ZTest(r, 100, Independence{X: 0, Y: 2, Given: []int{1}}).PartialR
+	if !scalar.EqualWithinAbs(got, want, 1e-12) {
 		t.Fatalf("got %v, want %v", got, want)
 	}
 }
@@ -142,15 +143,18 @@ func TestNoncentralChiSquared_Scipy(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, c := range ref.NCX2 {
-		if got := NoncentralChiSquaredCDF(c.X, c.DF, c.NC); !scalar.EqualWithinAbsOrRel(got, c.CDF, 1e-9, 1e-8) {
+		got := NoncentralChiSquaredCDF(c.X, c.DF, c.NC)
+		if !scalar.EqualWithinAbsOrRel(got, c.CDF, 1e-9, 1e-8) {
 			t.Errorf("ncx2 cdf(%v; %v, %v) = %.12g, scipy %.12g", c.X, c.DF, c.NC, got, c.CDF)
 		}
 	}
 	// The quantiles, through the root-finding on the noncentrality: the λ
 	// at which scipy's ppf is the q-th quantile is the λ we started from.
 	for _, c := range ref.NCX2PPF {
-		if got, _ := noncentrality(context.Background(), c.PPF, c.DF, c.Q); !scalar.EqualWithinAbsOrRel(got, c.NC, 1e-6, 1e-6) {
-			t.Errorf("noncentrality for ppf %.6g (q %v, df %v) = %.8g, want %v", c.PPF, c.Q, c.DF, got, c.NC)
+		got, _ := noncentrality(context.Background(), c.PPF, c.DF, c.Q)
+		if !scalar.EqualWithinAbsOrRel(got, c.NC, 1e-6, 1e-6) {
+			t.Errorf("noncentrality for ppf %.6g (q %v, df %v) = %.8g, want %v",
+				c.PPF, c.Q, c.DF, got, c.NC)
 		}
 	}
 }
@@ -177,7 +181,8 @@ func TestFitDAG_RecoversSimulatedSEM(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !scalar.EqualWithinAbs(f.Coefficients[1][0], 0.5, 0.03) || !scalar.EqualWithinAbs(f.Coefficients[2][0], -0.3, 0.03) ||
+	if !scalar.EqualWithinAbs(f.Coefficients[1][0], 0.5, 0.03) ||
+		!scalar.EqualWithinAbs(f.Coefficients[2][0], -0.3, 0.03) ||
 		!scalar.EqualWithinAbs(f.Coefficients[2][1], 0.4, 0.03) {
 		t.Fatalf("coefficients %v", f.Coefficients)
 	}

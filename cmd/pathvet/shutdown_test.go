@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"net/http"
+	"net/http/httptrace"
 	"os/exec"
 	"path/filepath"
 	"strings"
@@ -25,7 +26,7 @@ type process struct {
 	cmd   *exec.Cmd
 	mu    sync.Mutex
 	lines []map[string]any
-	seen  chan string // each log message, as it comes
+	seen  chan map[string]any // each log line, as it comes
 }
 
 // buildBinary builds pathvet once into a test's temporary folder.
@@ -40,7 +41,7 @@ func buildBinary(t *testing.T) string {
 
 func startProcess(t *testing.T, bin string, args ...string) *process {
 	t.Helper()
-	p := &process{cmd: exec.Command(bin, args...), seen: make(chan string, 1024)}
+	p := &process{cmd: exec.Command(bin, args...), seen: make(chan map[string]any, 1024)}
 	stderr, err := p.cmd.StderrPipe()
 	if err != nil {
 		t.Fatal(err)
@@ -63,23 +64,21 @@ func (p *process) read(r io.Reader) {
 		p.mu.Lock()
 		p.lines = append(p.lines, line)
 		p.mu.Unlock()
-		msg, _ := line["msg"].(string)
 		select {
-		case p.seen <- msg:
+		case p.seen <- line:
 		default:
 		}
 	}
 	close(p.seen)
 }
 
-// waitFor waits for a log message and returns its line.
+// waitFor waits for a log message and returns its line (the line itself:
+// later lines may have been read meanwhile).
 func (p *process) waitFor(t *testing.T, msg string) map[string]any {
 	t.Helper()
-	for m := range p.seen {
-		if m == msg {
-			p.mu.Lock()
-			defer p.mu.Unlock()
-			return p.lines[len(p.lines)-1]
+	for line := range p.seen {
+		if m, _ := line["msg"].(string); m == msg {
+			return line
 		}
 	}
 	t.Fatalf("the process ended without logging %q", msg)
@@ -119,7 +118,7 @@ func TestServe_SIGTERMShutsDownCleanly(t *testing.T) {
 	addr, _ := p.waitFor(t, "serving")["addr"].(string)
 	p.waitFor(t, "screening started")
 	poll := longPoll(t, "http://"+addr+"/v1/submissions/"+last+"?wait=30s", token)
-	time.Sleep(500 * time.Millisecond) // let the long poll reach the server
+	time.Sleep(500 * time.Millisecond) // the request has been written; let the server start serving it
 	if err := p.cmd.Process.Signal(syscall.SIGTERM); err != nil {
 		t.Fatal(err)
 	}
@@ -129,7 +128,7 @@ func TestServe_SIGTERMShutsDownCleanly(t *testing.T) {
 	}
 	t.Logf("exited %v after SIGTERM", time.Since(signalled).Round(time.Millisecond))
 	if v := <-poll; v.err != nil || v.code != http.StatusOK || v.status == "" {
-		t.Fatalf("the open long poll: %+v", v)
+		t.Fatalf("the open long poll: %+v (%v)", v, v.err)
 	}
 	checkNoStartAfterStop(t, p.messages())
 	var running, queued int
@@ -162,11 +161,19 @@ type pollResult struct {
 	err    error
 }
 
-// longPoll starts a GET and delivers its outcome.
+// longPoll starts a GET and delivers its outcome. It returns once the
+// request has been written to the server (or has failed), so that a signal
+// sent afterwards cannot beat the request to the server's listener.
 func longPoll(t *testing.T, url, token string) <-chan pollResult {
 	out := make(chan pollResult, 1)
+	written := make(chan struct{})
+	var once sync.Once
+	done := func() { once.Do(func() { close(written) }) }
 	go func() {
-		req, _ := http.NewRequest(http.MethodGet, url, nil)
+		defer done()
+		trace := &httptrace.ClientTrace{WroteRequest: func(httptrace.WroteRequestInfo) { done() }}
+		req, _ := http.NewRequestWithContext(httptrace.WithClientTrace(context.Background(), trace),
+			http.MethodGet, url, nil)
 		req.Header.Set("Authorization", "Bearer "+token)
 		resp, err := http.DefaultClient.Do(req)
 		if err != nil {
@@ -178,6 +185,7 @@ func longPoll(t *testing.T, url, token string) <-chan pollResult {
 		err = json.NewDecoder(resp.Body).Decode(&v)
 		out <- pollResult{code: resp.StatusCode, status: v.Status, err: err}
 	}()
+	<-written
 	return out
 }
 
