@@ -6,6 +6,7 @@ import (
 	"math"
 	"slices"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/pathvet/pathvet/checks"
 )
@@ -19,6 +20,7 @@ const (
 	axisH     = 34.0
 	dotR      = 5.0
 	chartTick = 5
+	minRangeW = 4.0
 )
 
 // chartRow is one line of a claim's chart.
@@ -90,8 +92,11 @@ func nullValue(c checks.ClaimReport) float64 {
 // StabilityChart draws one claim's estimates as dots and intervals on a
 // common axis with the no-effect line: a filled dot is significant at
 // alpha, a hollow one is not; a range bar spans the equivalent graphs.
-func StabilityChart(c checks.ClaimReport, alpha float64) template.HTML {
-	rows := stabilityRows(c, alpha)
+// Each class of g.nearby_graphs within |ΔBIC| < 2, and g.search_best,
+// adds a range row named by its edit (drawnClasses).
+func StabilityChart(c checks.ClaimReport, alpha float64, g *checks.GraphReport) template.HTML {
+	cs, search := drawnClasses(g)
+	rows := append(stabilityRows(c, alpha), nearbyChartRows(c.ID, cs, search)...)
 	null := nullValue(c)
 	sc, ticks := NiceScale(chartValues(rows), null, chartPad, chartW-chartPad, chartTick)
 	h := float64(len(rows))*rowH + axisH
@@ -121,18 +126,39 @@ func drawRow(b *strings.Builder, sc Scale, r chartRow, y, alpha float64) {
 	if r.Shift != "" {
 		class += " shifted"
 	}
-	fmt.Fprintf(b, `<g class="%s"><text class="rowlabel" x="%.0f" y="%.1f">%s</text>`, class, chartPad, y+13, esc(label))
+	fmt.Fprintf(b, `<g class="%s"><text class="rowlabel" x="%.0f" y="%.1f"%s>%s</text>`, class, chartPad, y+13,
+		fitText(label, r.Shift != ""), esc(label))
 	ym := y + 27
 	switch {
 	case r.Lo != nil && r.Hi != nil:
-		x1, x2 := sc.At(*r.Lo), sc.At(*r.Hi)
-		fmt.Fprintf(b, `<rect class="range" x="%.1f" y="%.1f" width="%.1f" height="8"/>`, x1, ym-4, math.Max(x2-x1, 2))
+		x1, w := sc.At(*r.Lo), sc.At(*r.Hi)-sc.At(*r.Lo)
+		if w < minRangeW { // one value: a short bar centred on it
+			x1, w = x1+w/2-minRangeW/2, minRangeW
+		}
+		fmt.Fprintf(b, `<rect class="range" x="%.1f" y="%.1f" width="%.1f" height="8"/>`, x1, ym-4, w)
 	case r.P.Est != nil:
 		drawPoint(b, sc, r.P, ym, alpha)
 	default:
 		fmt.Fprintf(b, `<text class="na" x="%.0f" y="%.1f">not computed</text>`, chartPad, ym+4)
 	}
 	b.WriteString(`</g>`)
+}
+
+// labelEm is the width of an average character of a 12-pixel row label
+// in user units, bold a little wider; a label estimated past the chart's
+// width is set smaller to fit (never stretched).
+const labelEm, boldEm = 6.2, 6.8
+
+// fitText shrinks a row label that would run past the chart's right edge.
+func fitText(label string, bold bool) string {
+	room, em := chartW-2*chartPad, labelEm
+	if bold {
+		em = boldEm
+	}
+	if w := float64(utf8.RuneCountInString(label)) * em; w > room {
+		return fmt.Sprintf(` style="font-size:%.1fpx"`, 12*room/w)
+	}
+	return ""
 }
 
 func drawPoint(b *strings.Builder, sc Scale, p point, y, alpha float64) {

@@ -6,6 +6,7 @@ import (
 	"html/template"
 	"sort"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/pathvet/pathvet/checks"
 )
@@ -98,23 +99,35 @@ func claimLabels(claims []checks.ClaimReport) map[[2]string]string {
 // that it does not run through the nodes between its ends.
 const bowPerLayer = 34.0
 
+// labelW is a generous width of one character of an arc's label (13 px,
+// bold), in user units.
+const labelW = 9.0
+
+// sidePad is the room a drawing keeps on each side for its bowed arcs.
+func sidePad(l *Layout) float64 { return bowPerLayer / 2 * float64(max(len(l.Layers)-2, 0)) }
+
 // drawGraph writes the SVG of a layout with the given arcs; exo marks the
 // exogenous variables; title and desc say in words what it shows.
 func drawGraph(l *Layout, arcs []drawnArc, exo map[string]bool, id, title, desc string) template.HTML {
-	pad := bowPerLayer / 2 * float64(max(len(l.Layers)-2, 0))
+	pad := sidePad(l)
+	ends := arcPorts(l, arcs)
+	var marks strings.Builder
+	right := l.Width + pad
+	for i, a := range arcs {
+		right = max(right, drawArcMarks(&marks, l, a, ends[i]))
+	}
 	var b strings.Builder
 	fmt.Fprintf(&b, `<svg class="graph" id="%[1]s" viewBox="%.0[2]f 0 %.0[3]f %.0[4]f" style="max-width:%.0[3]fpx" `+
 		`role="img" aria-labelledby="%[1]s-t %[1]s-d"><title id="%[1]s-t">%[5]s</title><desc id="%[1]s-d">%[6]s</desc>`,
-		id, -pad, l.Width+2*pad, l.Height, esc(title), esc(desc))
+		id, -pad, right+pad, l.Height, esc(title), esc(desc))
 	fmt.Fprintf(&b, svgMarkers, id)
-	ends := arcPorts(l, arcs)
 	for i, a := range arcs {
 		drawArc(&b, a, ends[i], id)
 	}
 	for _, p := range l.Nodes {
 		drawNode(&b, p, exo[p.Name])
 	}
-	b.WriteString(`</svg>`)
+	b.WriteString(marks.String() + `</svg>`)
 	return template.HTML(b.String())
 }
 
@@ -191,7 +204,7 @@ func drawArc(b *strings.Builder, a drawnArc, g geom, id string) {
 	switch a.Kind {
 	case arcReversible:
 		marker = ` marker-end="url(#` + id + `-open)"`
-	case arcLine:
+	case arcLine, arcRemoved:
 		marker = ""
 	}
 	if a.Fixed {
@@ -201,10 +214,47 @@ func drawArc(b *strings.Builder, a drawnArc, g geom, id string) {
 	fmt.Fprintf(b, `<path class="%s" data-from="%s" data-to="%s" data-y1="%.1f" data-y2="%.1f" `+
 		`d="M%.1f,%.1f Q%.1f,%.1f %.1f,%.1f"%s/>`,
 		class, esc(a.From), esc(a.To), g.y1, g.y2, g.x1, g.y1, g.cx, g.cy, g.x2, g.y2, marker)
-	if a.Label != "" {
-		mx, my := (g.x1+2*g.cx+g.x2)/4, (g.y1+2*g.cy+g.y2)/4
-		fmt.Fprintf(b, `<text class="claimlabel" x="%.1f" y="%.1f">%s</text>`, mx+6, my+4, esc(a.Label))
+}
+
+// drawArcMarks writes an arc's label and, on a removed arc, its strike,
+// at the first point along the curve clear of every node; drawn after the
+// nodes, so that a mark never hides behind one. It returns how far right
+// the marks reach, so that the drawing can make room.
+func drawArcMarks(b *strings.Builder, l *Layout, a drawnArc, g geom) float64 {
+	mx, my := markPoint(l, g)
+	right := mx + 6
+	if a.Kind == arcRemoved {
+		fmt.Fprintf(b, `<path class="strike" d="M%.1f,%.1f l12,12 m0,-12 l-12,12"/>`, mx-6, my-6)
 	}
+	if a.Label != "" {
+		fmt.Fprintf(b, `<text class="claimlabel" x="%.1f" y="%.1f">%s</text>`, mx+6, my+4, esc(a.Label))
+		right = mx + 10 + labelW*float64(utf8.RuneCountInString(a.Label))
+	}
+	return right
+}
+
+// markPoint is the point of the arc's quadratic curve at the first of a
+// few places (middle first) that lies outside every node's box.
+func markPoint(l *Layout, g geom) (float64, float64) {
+	at := func(t float64) (float64, float64) {
+		u := 1 - t
+		return u*u*g.x1 + 2*u*t*g.cx + t*t*g.x2, u*u*g.y1 + 2*u*t*g.cy + t*t*g.y2
+	}
+	for _, t := range []float64{0.5, 0.35, 0.65, 0.25, 0.75} {
+		if x, y := at(t); !inNode(l, x, y) {
+			return x, y
+		}
+	}
+	return at(0.5)
+}
+
+func inNode(l *Layout, x, y float64) bool {
+	for _, p := range l.Nodes {
+		if x >= p.X-2 && x <= p.X+p.W+2 && y >= p.Y-2 && y <= p.Y+nodeH+2 {
+			return true
+		}
+	}
+	return false
 }
 
 func abs(n int) int {

@@ -17,6 +17,7 @@ type GraphView struct {
 	OtherCaption string
 	Arrows       []string // the declared arrows in words, for readers who cannot see the drawing
 	Note         string
+	Nearby       []NearbyDrawing // the near-equivalent classes and the search's end point, edits drawn
 }
 
 // graphView draws the report's graph; nil when no graph was declared.
@@ -45,6 +46,7 @@ func graphView(r *checks.Report) (*GraphView, error) {
 	}
 	oa := cpdagArcs(other)
 	v.Other, v.OtherCaption = drawGraph(l, oa, exo, "plausible-cpdag", caption, cpdagWords(oa)), caption
+	v.Nearby = nearbyDrawings(l, g, arcs, exo)
 	if !g.Acyclic {
 		v.Note = "The declared graph has a cycle, so some arrows point upwards."
 	}

@@ -83,7 +83,7 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 		Graph: g, Nearby: nearbyRows(r.Graph), Ledger: ledger(r)}
 	for _, c := range r.Claims {
 		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
-			SVG: StabilityChart(c, r.SignificanceLevel)})
+			SVG: StabilityChart(c, r.SignificanceLevel, r.Graph)})
 	}
 	for _, c := range ByConcern(r.Checks) {
 		c.Summary, c.RunError = Prose(c.Summary), Prose(c.RunError)

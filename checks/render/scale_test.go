@@ -64,7 +64,7 @@ var (
 func TestStabilityChart(t *testing.T) {
 	r := loadGolden(t, "tutoring-anxiety")
 	c := r.Claims[0]
-	svg := string(StabilityChart(c, r.SignificanceLevel))
+	svg := string(StabilityChart(c, r.SignificanceLevel, r.Graph))
 	sc, _ := NiceScale(chartValues(stabilityRows(c, r.SignificanceLevel)), 0, chartPad, chartW-chartPad, chartTick)
 	m := nullRe.FindStringSubmatch(svg)
 	if m == nil {
