@@ -81,7 +81,8 @@ func TestErrors_MapToProblems(t *testing.T) {
 		{errors.New("connection reset by peer at 10.1.2.3"), 500, "internal error"},
 	} {
 		rr, p := serve(t, &fakeStore{err: tc.err}, http.MethodGet, "/v1/submissions/x", "good")
-		if rr.Code != tc.status || p.Status != tc.status || p.Detail != tc.detail || rr.Header().Get("Content-Type") != api.ProblemContentType {
+		if rr.Code != tc.status || p.Status != tc.status || p.Detail != tc.detail ||
+			rr.Header().Get("Content-Type") != api.ProblemContentType {
 			t.Errorf("%v: %d %+v", tc.err, rr.Code, p)
 		}
 	}
@@ -91,7 +92,8 @@ func TestReadyz(t *testing.T) {
 	if rr, _ := serve(t, &fakeStore{}, http.MethodGet, "/readyz", ""); rr.Code != 200 {
 		t.Fatalf("ready: %d", rr.Code)
 	}
-	if rr, p := serve(t, &fakeStore{pingErr: errors.New("down")}, http.MethodGet, "/readyz", ""); rr.Code != 503 || p.Status != 503 {
+	if rr, p := serve(t, &fakeStore{pingErr: errors.New("down")}, http.MethodGet, "/readyz", ""); rr.Code != 503 ||
+		p.Status != 503 {
 		t.Fatalf("database down: %d %+v", rr.Code, p)
 	}
 }

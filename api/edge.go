@@ -51,12 +51,18 @@ func headerBytes(req *http.Request) int {
 func checkQuery(raw string) error {
 	values, err := url.ParseQuery(raw)
 	if err != nil {
-		return problemError(http.StatusBadRequest, "The query string is malformed: "+strings.ToValidUTF8(err.Error(), "?"))
+		return problemError(
+			http.StatusBadRequest,
+			"The query string is malformed: "+strings.ToValidUTF8(err.Error(), "?"),
+		)
 	}
 	for k, vs := range values {
 		name := k
 		if !validText(k) {
-			return problemError(http.StatusBadRequest, "A query parameter's name is not valid UTF-8 text or holds a NUL.")
+			return problemError(
+				http.StatusBadRequest,
+				"A query parameter's name is not valid UTF-8 text or holds a NUL.",
+			)
 		}
 		for _, v := range vs {
 			if !validText(v) {

@@ -18,8 +18,17 @@ func (s *Server) logRequests() echo.MiddlewareFunc {
 			if v.Status >= 500 {
 				level = slog.LevelError
 			}
-			attrs := []slog.Attr{slog.String("method", v.Method), slog.String("uri", v.URI), slog.String("route", v.RoutePath),
-				slog.Int("status", v.Status), slog.Duration("latency", v.Latency), slog.String("request_id", v.RequestID)}
+			attrs := []slog.Attr{
+				slog.String("method", v.Method),
+				slog.String("uri", v.URI),
+				slog.String("route", v.RoutePath),
+				slog.Int(
+					"status",
+					v.Status,
+				),
+				slog.Duration("latency", v.Latency),
+				slog.String("request_id", v.RequestID),
+			}
 			if v.Error != nil && v.Status >= 500 {
 				attrs = append(attrs, slog.String("error", v.Error.Error()))
 			}

@@ -68,7 +68,11 @@ func problemFor(err error) (Problem, bool) {
 		detail, _ := he.Message.(string)
 		return Problem{Status: he.Code, Detail: detail}, false
 	case errors.As(err, &ip) && ip.TooLarge:
-		return Problem{Status: http.StatusRequestEntityTooLarge, Detail: ip.Problems[0].Detail, Errors: ip.Problems}, false
+		return Problem{
+			Status: http.StatusRequestEntityTooLarge,
+			Detail: ip.Problems[0].Detail,
+			Errors: ip.Problems,
+		}, false
 	case errors.As(err, &ip):
 		return Problem{Status: http.StatusUnprocessableEntity, Detail: invalidPackageDetail, Errors: ip.Problems}, false
 	case errors.As(err, &ce) && ce.Code == checks.EInvalid:

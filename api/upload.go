@@ -74,7 +74,10 @@ func (s *Server) readMultipart(c echo.Context) (doc []byte, data *spool, err err
 // onlyOnce refuses a second multipart part of one name.
 func onlyOnce(earlier bool, name string) error {
 	if earlier {
-		return problemError(http.StatusBadRequest, fmt.Sprintf("The multipart body has more than one part named %s.", name))
+		return problemError(
+			http.StatusBadRequest,
+			fmt.Sprintf("The multipart body has more than one part named %s.", name),
+		)
 	}
 	return nil
 }

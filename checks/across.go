@@ -192,7 +192,8 @@ func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGr
 		}
 		if cat != want {
 			r.Differing++
-			if best == nil || math.Abs(e.additive) < math.Abs(bestEst.additive) || e.method == MethodZero && bestEst.method != MethodZero {
+			if best == nil || math.Abs(e.additive) < math.Abs(bestEst.additive) ||
+				e.method == MethodZero && bestEst.method != MethodZero {
 				best, bestEst = &graphs[i], e
 			}
 		}

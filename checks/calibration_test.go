@@ -21,12 +21,32 @@ var calibration = []struct {
 	score        int
 	band         string
 }{
-	{"../testdata/calibration/clean-randomized/package.json", "`testdata/calibration/clean-randomized` scores 100", 100, checks.BandLow},
-	{"../testdata/calibration/bare-claims/package.json", "`testdata/calibration/bare-claims` (20)", 20, checks.BandHigh},
+	{
+		"../testdata/calibration/clean-randomized/package.json",
+		"`testdata/calibration/clean-randomized` scores 100",
+		100,
+		checks.BandLow,
+	},
+	{
+		"../testdata/calibration/bare-claims/package.json",
+		"`testdata/calibration/bare-claims` (20)",
+		20,
+		checks.BandHigh,
+	},
 	{"../testdata/demo/tutoring-anxiety/package.json", "tutoring-anxiety (25)", 25, checks.BandHigh},
 	{"../testdata/demo/sleep-attention/package.json", "sleep-attention (35)", 35, checks.BandHigh},
-	{"../testdata/demo/coding-club/package.json", "coding-club demo scores 65 (moderate concern)", 65, checks.BandModerate},
-	{"../testdata/calibration/nearby-headline/package.json", "within ΔBIC 2 (75, moderate concern)", 75, checks.BandModerate},
+	{
+		"../testdata/demo/coding-club/package.json",
+		"coding-club demo scores 65 (moderate concern)",
+		65,
+		checks.BandModerate,
+	},
+	{
+		"../testdata/calibration/nearby-headline/package.json",
+		"within ΔBIC 2 (75, moderate concern)",
+		75,
+		checks.BandModerate,
+	},
 }
 
 func TestScore_Calibration(t *testing.T) {
@@ -115,16 +135,22 @@ func TestEffectReporting_Absence(t *testing.T) {
 		t.Errorf("S1's sentence does not name its data: %+v", f)
 	}
 	r = mustRun(t, MustLoad(t, "../testdata/demo/coding-club/package.json"))
-	if a := r.Claims[2].Absence; a == nil || a.Verdict != "excludes_meaningful_effects" || a.Power == nil || *a.Power <= 0 || *a.Power >= 1 {
+	if a := r.Claims[2].Absence; a == nil || a.Verdict != "excludes_meaningful_effects" || a.Power == nil ||
+		*a.Power <= 0 ||
+		*a.Power >= 1 {
 		t.Fatalf("coding-club H3: %+v", a)
 	}
 	// the package sets no margin, so the sentence says it is the default
 	found := false
 	for _, f := range checkOf(r, "effect-reporting").Findings {
-		found = found || f.Claim == "H3" && strings.Contains(f.Message, "±0.1, standardized, is the default smallest effect")
+		found = found ||
+			f.Claim == "H3" && strings.Contains(f.Message, "±0.1, standardized, is the default smallest effect")
 	}
 	if !found {
-		t.Errorf("H3's equivalence finding does not say its margin is the default: %+v", checkOf(r, "effect-reporting").Findings)
+		t.Errorf(
+			"H3's equivalence finding does not say its margin is the default: %+v",
+			checkOf(r, "effect-reporting").Findings,
+		)
 	}
 }
 
@@ -161,7 +187,8 @@ func TestMeasurement_Correction(t *testing.T) {
 		t.Fatal(err)
 	}
 	c := checkOf(mustRun(t, s), "measurement")
-	if c.Status != checks.StatusWarn || !bytes.Contains([]byte(c.Findings[len(c.Findings)-1].Message), []byte("Corrected for attenuation")) {
+	if c.Status != checks.StatusWarn ||
+		!bytes.Contains([]byte(c.Findings[len(c.Findings)-1].Message), []byte("Corrected for attenuation")) {
 		t.Fatalf("%s %+v", c.Status, c.Findings)
 	}
 }

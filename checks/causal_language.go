@@ -56,7 +56,10 @@ func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
 	if !randomized && causal {
 		fs = append(fs, targetTrialFinding(s.Package.TargetTrial)...)
 	}
-	res := CheckResult{Findings: fs, Metrics: map[string]any{"claims_with_causal_wording": worded, "design": s.Package.Design}}
+	res := CheckResult{
+		Findings: fs,
+		Metrics:  map[string]any{"claims_with_causal_wording": worded, "design": s.Package.Design},
+	}
 	switch {
 	case randomized:
 		res.Status, res.Summary = StatusPass, "The design is randomized, so causal wording about the randomized comparison is supported by design."
@@ -113,7 +116,9 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	if c.Kind == KindAssociation {
 		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
 			"%s is declared an association but worded causally (%s); from a non-randomized design, say \"is associated with\" or declare it as a causal claim with its graph.",
-			c.ID, quoted)}
+			c.ID,
+			quoted,
+		)}
 	}
 	var lacks []string
 	if a.Study.Declared == nil {
@@ -126,14 +131,22 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	}
 	if len(lacks) == 0 {
 		return Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs%s.", c.ID, quoted, a.eValueBacking(c))}
+			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs%s.",
+			c.ID,
+			quoted,
+			a.eValueBacking(c),
+		)}
 	}
 	sev := StatusWarn
 	if a.Study.Declared == nil {
 		sev = headlineSeverity(c)
 	}
 	return Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
-		"%s is worded causally (%s) from a non-randomized design without %s.", c.ID, quoted, strings.Join(lacks, " or "))}
+		"%s is worded causally (%s) from a non-randomized design without %s.",
+		c.ID,
+		quoted,
+		strings.Join(lacks, " or "),
+	)}
 }
 
 // eValueBacking names the E-value among a claim's backing, where it has
@@ -159,7 +172,12 @@ func (a *Analysis) claimEValue(c Claim) claimEValue {
 // (Hernán & Robins 2016).
 func targetTrialFinding(t *TargetTrial) []Finding {
 	if t == nil {
-		return []Finding{{Severity: StatusWarn, Message: "No target trial is described: the randomized trial these causal claims emulate (population, intervention, comparator, outcome, follow-up; Hernán & Robins 2016) is left unsaid."}}
+		return []Finding{
+			{
+				Severity: StatusWarn,
+				Message:  "No target trial is described: the randomized trial these causal claims emulate (population, intervention, comparator, outcome, follow-up; Hernán & Robins 2016) is left unsaid.",
+			},
+		}
 	}
 	var missing []string
 	for _, part := range []struct{ name, v string }{
@@ -171,7 +189,17 @@ func targetTrialFinding(t *TargetTrial) []Finding {
 		}
 	}
 	if len(missing) == 0 {
-		return []Finding{{Severity: SeverityInfo, Message: "The target trial is described in all five parts (Hernán & Robins 2016)."}}
+		return []Finding{
+			{
+				Severity: SeverityInfo,
+				Message:  "The target trial is described in all five parts (Hernán & Robins 2016).",
+			},
+		}
 	}
-	return []Finding{{Severity: StatusWarn, Message: "The target trial lacks its " + strings.Join(missing, ", ") + " (Hernán & Robins 2016)."}}
+	return []Finding{
+		{
+			Severity: StatusWarn,
+			Message:  "The target trial lacks its " + strings.Join(missing, ", ") + " (Hernán & Robins 2016).",
+		},
+	}
 }

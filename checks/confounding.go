@@ -60,7 +60,10 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 		}
 		if ev == nil {
 			sev := map[bool]string{true: SeverityInfo, false: StatusWarn}[ce.contradicted]
-			fs = append(fs, Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)})
+			fs = append(
+				fs,
+				Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)},
+			)
 			if !ce.contradicted {
 				missing++
 			}

@@ -252,7 +252,8 @@ func printedSE(c Claim, pr printed, logScale bool, df float64) (s, hs float64, o
 // recomputedFinding sets the reported estimate beside the recomputed one
 // and flags a reported estimate outside the recomputed interval.
 func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
-	if c.Estimate == nil || !decl.ok() || decl.method == MethodZero || decl.scale != claimScale(c) || math.IsNaN(decl.lo) {
+	if c.Estimate == nil || !decl.ok() || decl.method == MethodZero || decl.scale != claimScale(c) ||
+		math.IsNaN(decl.lo) {
 		return nil
 	}
 	if *c.Estimate >= decl.lo && *c.Estimate <= decl.hi {
@@ -265,8 +266,16 @@ func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
 	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 		"%s reports %g, but %s give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
 			"obtained.",
-		c.ID, *c.Estimate, a.dataBasis("the data"), figure(decl.value), pText(decl.p), 100*claimLevel(c), figure(decl.lo), figure(decl.hi),
-		adjustment)}}
+		c.ID,
+		*c.Estimate,
+		a.dataBasis("the data"),
+		figure(decl.value),
+		pText(decl.p),
+		100*claimLevel(c),
+		figure(decl.lo),
+		figure(decl.hi),
+		adjustment,
+	)}}
 }
 
 // dataBasis names the data a recomputed estimate comes from: the complete

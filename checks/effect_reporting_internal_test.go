@@ -60,7 +60,17 @@ func TestEffectReporting_ConsistencyRules(t *testing.T) {
 			if f != nil {
 				msg = f.Message
 			}
-			t.Errorf("case %d (%s, %s, %v, p %s %s): want flagged %v, got %s", i+1, c.est, c.se, c.ci, c.rel, c.p, c.flagged, msg)
+			t.Errorf(
+				"case %d (%s, %s, %v, p %s %s): want flagged %v, got %s",
+				i+1,
+				c.est,
+				c.se,
+				c.ci,
+				c.rel,
+				c.p,
+				c.flagged,
+				msg,
+			)
 		}
 		if f != nil && !strings.Contains(f.Message, distName(testDF(cl, c.decl))) {
 			t.Errorf("case %d: the message does not name the distribution: %s", i+1, f.Message)

@@ -193,7 +193,10 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 	if !rev.InClass {
 		return nil, rev, nil
 	}
-	n, err := dag.PlausibleSize(eq.cpdag, append(append([]dag.Edge(nil), s.Background...), dag.Edge{From: to, To: from}))
+	n, err := dag.PlausibleSize(
+		eq.cpdag,
+		append(append([]dag.Edge(nil), s.Background...), dag.Edge{From: to, To: from}),
+	)
 	if err != nil {
 		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s: whether background knowledge fixes the direction of %s → %s could not be counted exactly "+

@@ -226,10 +226,17 @@ func (a *Analysis) fitRegression(m *Moments, y, focal int, adj []int, scale stri
 	}
 	note := ""
 	if scale != "standardized" {
-		note = fmt.Sprintf("estimated as a standardized coefficient: the %s scale needs %s", scaleName(scale), needs(scale))
+		note = fmt.Sprintf(
+			"estimated as a standardized coefficient: the %s scale needs %s",
+			scaleName(scale),
+			needs(scale),
+		)
 	}
 	if binary {
-		note = strings.TrimPrefix(note+"; ", "; ") + "the binary outcome is treated as continuous (moments without rows allow no logistic regression)"
+		note = strings.TrimPrefix(
+			note+"; ",
+			"; ",
+		) + "the binary outcome is treated as continuous (moments without rows allow no logistic regression)"
 	}
 	return olsEstimate(m.Cor, nil, m.N, y, x, "standardized", level, note)
 }

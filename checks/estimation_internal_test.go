@@ -125,7 +125,13 @@ func TestGraphFit_WorkedExample(t *testing.T) {
 		}
 	}
 	if m["df"] != 1 || m["implications_tested"] != 1 || m["implications_rejected"] != 0 || m["fisher_c_df"] != 2 {
-		t.Errorf("df %v, tested %v, rejected %v, C df %v", m["df"], m["implications_tested"], m["implications_rejected"], m["fisher_c_df"])
+		t.Errorf(
+			"df %v, tested %v, rejected %v, C df %v",
+			m["df"],
+			m["implications_tested"],
+			m["implications_rejected"],
+			m["fisher_c_df"],
+		)
 	}
 	if ci := m["rmsea_ci"].([]any); !scalar.EqualWithinAbs(ci[1].(float64), .2431, 5e-5) || ci[0].(float64) != 0 {
 		t.Errorf("RMSEA interval %v", ci)
@@ -247,7 +253,14 @@ func TestLocalGraphs_BackgroundKnowledgeExact(t *testing.T) {
 				got[fmt.Sprint(g.parents)] = true
 			}
 			if fmt.Sprint(keysOf(got)) != fmt.Sprint(keysOf(want)) {
-				t.Fatalf("node %d of %v with %v: local sets %v, members give %v", node, edges, s.Background, keysOf(got), keysOf(want))
+				t.Fatalf(
+					"node %d of %v with %v: local sets %v, members give %v",
+					node,
+					edges,
+					s.Background,
+					keysOf(got),
+					keysOf(want),
+				)
 			}
 			checked++
 		}
@@ -281,11 +294,21 @@ func summaryPackageBK(vars []string, edges [][2]string, lower [][]float64, fixed
 // equations) is reported as such, and the check still runs to the end.
 func TestAlternatives_UnfittableAlternative(t *testing.T) {
 	var m map[string]any
-	_ = json.Unmarshal(summaryPackage([]string{"X", "A", "B", "Y"},
-		[][2]string{{"B", "A"}, {"A", "X"}, {"X", "Y"}}, [][]float64{{1}, {.1, 1}, {.1, .1, 1}, {.6, .1, .1, 1}}, 3), &m)
+	_ = json.Unmarshal(summaryPackage(
+		[]string{"X", "A", "B", "Y"},
+		[][2]string{
+			{"B", "A"},
+			{"A", "X"},
+			{"X", "Y"},
+		},
+		[][]float64{{1}, {.1, 1}, {.1, .1, 1}, {.6, .1, .1, 1}},
+		3,
+	), &m)
 	m["alternatives"] = []map[string]any{{"name": "crowded", "edges": []map[string]string{
 		{"from": "A", "to": "Y"}, {"from": "B", "to": "Y"}, {"from": "Y", "to": "X"}}}}
-	m["claims"] = []map[string]any{{"id": "D1", "text": "X raises Y", "kind": "direct_effect", "from": "X", "to": "Y", "headline": true}}
+	m["claims"] = []map[string]any{
+		{"id": "D1", "text": "X raises Y", "kind": "direct_effect", "from": "X", "to": "Y", "headline": true},
+	}
 	doc, _ := json.Marshal(m)
 	c := checkByID(runDoc(t, doc), "alternatives")
 	found := false

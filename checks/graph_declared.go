@@ -43,7 +43,13 @@ func runGraphDeclared(_ context.Context, a *Analysis) (CheckResult, error) {
 			strings.Join(outside, ", "), them(len(outside)), them(len(outside)))})
 	}
 	if ign := ignoredColumns(s); len(ign) > 0 {
-		fs = append(fs, Finding{Severity: SeverityInfo, Message: "Data columns skipped as the package asks: " + strings.Join(ign, ", ") + "."})
+		fs = append(
+			fs,
+			Finding{
+				Severity: SeverityInfo,
+				Message:  "Data columns skipped as the package asks: " + strings.Join(ign, ", ") + ".",
+			},
+		)
 	}
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: graphMetrics(s, outside)}
 	if res.Status == StatusFail {
@@ -72,7 +78,11 @@ func noGraph(s *Study) CheckResult {
 		if Causal(c.Kind) {
 			fs = append(fs, Finding{Severity: StatusFail, Claim: c.ID, Message: fmt.Sprintf(
 				"%s is a causal claim (%s of %s on %s), but the package declares no causal graph, so nothing says which variables it was adjusted for or why.",
-				c.ID, kindText(c.Kind), c.From, c.To)})
+				c.ID,
+				kindText(c.Kind),
+				c.From,
+				c.To,
+			)})
 		}
 	}
 	metrics := map[string]any{"graph_declared": false}
@@ -80,7 +90,10 @@ func noGraph(s *Study) CheckResult {
 		return CheckResult{Status: StatusNotApplicable, Metrics: metrics}
 	}
 	return CheckResult{Status: StatusFail, Findings: fs, Metrics: metrics,
-		Summary: fmt.Sprintf("The paper makes %s without declaring a causal graph; ask the authors for the graph their analysis assumes.", count(len(fs), "causal claim", "causal claims"))}
+		Summary: fmt.Sprintf(
+			"The paper makes %s without declaring a causal graph; ask the authors for the graph their analysis assumes.",
+			count(len(fs), "causal claim", "causal claims"),
+		)}
 }
 
 func kindText(kind string) string {
@@ -112,7 +125,12 @@ func claimAgainstGraph(s *Study, c Claim) []Finding {
 		if !dag.HasDirectedPath(s.Declared, from, to) {
 			return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 				"%s claims a total effect of %s on %s, but the declared graph has no directed path from %s to %s, so by the graph itself that effect is zero.",
-				c.ID, c.From, c.To, c.From, c.To)}}
+				c.ID,
+				c.From,
+				c.To,
+				c.From,
+				c.To,
+			)}}
 		}
 	}
 	return nil

@@ -174,7 +174,12 @@ func (a *Analysis) rejectedFindings(tests []implicationTest) []Finding {
 		}
 		fs = append(fs, Finding{Severity: StatusFail, Message: fmt.Sprintf(
 			"The data contradict an independence the graph implies: %s and %s should be independent given %s, but %s (Holm-adjusted %s).",
-			a.Study.Names[t.imp.X], a.Study.Names[t.imp.Y], a.setText(t.imp.Given), what, pText(t.pHolm))})
+			a.Study.Names[t.imp.X],
+			a.Study.Names[t.imp.Y],
+			a.setText(t.imp.Given),
+			what,
+			pText(t.pHolm),
+		)})
 	}
 	return fs
 }
@@ -201,7 +206,11 @@ func fitFindings(f *sem.Fit, alpha float64) []Finding {
 	var fs []Finding
 	if f.P < alpha {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-			"The chi-square test rejects the graph: χ² = %.2f on %d df, %s (with large samples it rejects small misfits too).", f.ChiSquare, f.DF, pText(f.P))})
+			"The chi-square test rejects the graph: χ² = %.2f on %d df, %s (with large samples it rejects small misfits too).",
+			f.ChiSquare,
+			f.DF,
+			pText(f.P),
+		)})
 	}
 	type cut struct {
 		name   string
@@ -216,7 +225,11 @@ func fitFindings(f *sem.Fit, alpha float64) []Finding {
 	} {
 		if c.bad {
 			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-				"%s is %.3f, %s; the cut-offs of Hu & Bentler (1999) are a guide, not a verdict.", c.name, c.value, c.thresh)})
+				"%s is %.3f, %s; the cut-offs of Hu & Bentler (1999) are a guide, not a verdict.",
+				c.name,
+				c.value,
+				c.thresh,
+			)})
 		}
 	}
 	return fs
@@ -240,7 +253,11 @@ func (a *Analysis) binaryNodeFindings(m *Moments) []Finding {
 	}
 	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
 		"%s: binary, with arrows into %s. The linear chi-square and the fit indices treat %s as continuous and are approximate there; %s.",
-		strings.Join(names, ", "), them(len(names)), them(len(names)), how)}}
+		strings.Join(names, ", "),
+		them(len(names)),
+		them(len(names)),
+		how,
+	)}}
 }
 
 func (a *Analysis) fitMetrics(f *sem.Fit, tests []implicationTest, m *Moments) map[string]any {
@@ -253,8 +270,11 @@ func (a *Analysis) fitMetrics(f *sem.Fit, tests []implicationTest, m *Moments) m
 			rejected++
 		}
 		if i < MaxListedImplications {
-			listed = append(listed, map[string]any{"x": a.Study.Names[t.imp.X], "y": a.Study.Names[t.imp.Y], "given": a.names(t.imp.Given),
-				"partial_r": num(t.r), "p_value": num(t.p), "p_holm": num(t.pHolm), "test": t.method})
+			listed = append(
+				listed,
+				map[string]any{"x": a.Study.Names[t.imp.X], "y": a.Study.Names[t.imp.Y], "given": a.names(t.imp.Given),
+					"partial_r": num(t.r), "p_value": num(t.p), "p_holm": num(t.pHolm), "test": t.method},
+			)
 		}
 	}
 	c, cdf, cp := sem.ShipleyC(ps)
@@ -273,8 +293,16 @@ func (a *Analysis) fitMetrics(f *sem.Fit, tests []implicationTest, m *Moments) m
 }
 
 func fitSummary(status string, f *sem.Fit, tests []implicationTest, alpha float64) string {
-	base := fmt.Sprintf("χ² = %.2f on %d df (%s), RMSEA %.3f, CFI %.3f, SRMR %.3f; %s tested.",
-		f.ChiSquare, f.DF, pText(f.P), f.RMSEA, f.CFI, f.SRMR, count(len(tests), "implied independence", "implied independences"))
+	base := fmt.Sprintf(
+		"χ² = %.2f on %d df (%s), RMSEA %.3f, CFI %.3f, SRMR %.3f; %s tested.",
+		f.ChiSquare,
+		f.DF,
+		pText(f.P),
+		f.RMSEA,
+		f.CFI,
+		f.SRMR,
+		count(len(tests), "implied independence", "implied independences"),
+	)
 	switch status {
 	case StatusFail:
 		rejected := 0

@@ -75,7 +75,12 @@ func TestReportSchema(t *testing.T) {
 			t.Errorf("%s: %v", path, err)
 		}
 	}
-	bad := bytes.Replace(encode(t, mustRun(t, MustLoad(t, demoPackages(t)[0]))), []byte(`"band": "`), []byte(`"band": "no-`), 1)
+	bad := bytes.Replace(
+		encode(t, mustRun(t, MustLoad(t, demoPackages(t)[0]))),
+		[]byte(`"band": "`),
+		[]byte(`"band": "no-`),
+		1,
+	)
 	v, _ := jsonschema.UnmarshalJSON(bytes.NewReader(bad))
 	if sch.Validate(v) == nil {
 		t.Error("the report schema accepts an unknown band")

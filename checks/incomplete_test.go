@@ -63,7 +63,14 @@ func TestRun_NothingEstimable(t *testing.T) {
 			for _, id := range []string{"graph-fit", "nearby-graphs", "measurement"} {
 				c := checkOf(r, id)
 				if c.Status != checks.StatusFail || !strings.Contains(c.RunError, tc.cause) || c.Deduction == 0 {
-					t.Errorf("%s: %s, deduction %d, run error %q; want fail with %q", id, c.Status, c.Deduction, c.RunError, tc.cause)
+					t.Errorf(
+						"%s: %s, deduction %d, run error %q; want fail with %q",
+						id,
+						c.Status,
+						c.Deduction,
+						c.RunError,
+						tc.cause,
+					)
 				}
 			}
 			for _, cl := range r.Claims {
@@ -99,7 +106,8 @@ func TestRun_TooFewCasesSummary(t *testing.T) {
 			t.Errorf("%s: %q", cl.ID, cl.Declared.Error)
 		}
 	}
-	if c := checkOf(r, "graph-fit"); c.Status != checks.StatusFail || !strings.Contains(c.RunError, "and the data 4 cases; it needs at least 5") {
+	if c := checkOf(r, "graph-fit"); c.Status != checks.StatusFail ||
+		!strings.Contains(c.RunError, "and the data 4 cases; it needs at least 5") {
 		t.Errorf("graph-fit %s: %q", c.Status, c.RunError)
 	}
 	if c := checkOf(r, "measurement"); c.Status == checks.StatusPass {

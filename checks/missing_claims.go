@@ -158,7 +158,10 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	a.Claims[i].MissingData = out
 	if why := a.graphContradiction(c); why != "" {
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s is not weighed here: the declared graph itself gives it no effect, %s (see graph-declared).", c.ID, why)}}, false
+			"%s is not weighed here: the declared graph itself gives it no effect, %s (see graph-declared).",
+			c.ID,
+			why,
+		)}}, false
 	}
 	declaredKey, principledKey := comparison(method, ests)
 	d, p := ests[declaredKey], ests[principledKey]
@@ -243,7 +246,11 @@ func missingSummary(status string, changed, uncompared int, method string, r *mi
 	case changed > 0 && status == StatusFail:
 		return missingFailSummary
 	case changed > 0:
-		return fmt.Sprintf(missingChangedFormat, count(changed, "claim", "claims"), plural(changed, "changes", "change"))
+		return fmt.Sprintf(
+			missingChangedFormat,
+			count(changed, "claim", "claims"),
+			plural(changed, "changes", "change"),
+		)
 	case uncompared > 0:
 		return fmt.Sprintf("%s could not be compared between %s and %s, so the screen of missing data is "+
 			"incomplete; see the findings.", count(uncompared, "claim", "claims"), r.label(dk), r.label(pk))

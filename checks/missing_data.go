@@ -147,15 +147,24 @@ func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
 	}
 	var eig mat.EigenSym
 	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
-		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear",
-			casesName(method))
+		return nil, Errorf(
+			EInvalid,
+			"the correlation matrix of the %s is singular: some variables are exactly collinear",
+			casesName(method),
+		)
 	}
 	return m, nil
 }
 
 func emMoments(em *missing.EMResult, n int) *Moments {
 	p := len(em.Mean)
-	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: em.Mean, Method: MissingMaximumLikelihood}
+	m := &Moments{
+		N:      n,
+		Cor:    mat.NewSymDense(p, nil),
+		SD:     make([]float64, p),
+		Means:  em.Mean,
+		Method: MissingMaximumLikelihood,
+	}
 	for i := range p {
 		m.SD[i] = math.Sqrt(em.Cov.At(i, i) * float64(n) / float64(n-1)) // on the n − 1 scale of the estimators
 	}
@@ -199,7 +208,10 @@ func (a *Analysis) declaredMethodMoments(r *missingResult) {
 			if ok {
 				low = eig.Values(nil)[0]
 			}
-			r.pairwiseErr = fmt.Sprintf("the available-case (pairwise) correlation matrix is not positive definite (smallest eigenvalue %.4g), so no regression can be fitted to it", low)
+			r.pairwiseErr = fmt.Sprintf(
+				"the available-case (pairwise) correlation matrix is not positive definite (smallest eigenvalue %.4g), so no regression can be fitted to it",
+				low,
+			)
 			return
 		}
 		r.moments[method] = &Moments{N: n, Cor: cor, Method: method}
@@ -235,7 +247,15 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	res.Findings = append(methodFindings(method, r, a.Alpha), raisedFindings(r)...)
 	if r.err != nil {
-		res.Findings = append(res.Findings, Finding{Severity: StatusWarn, Message: "The claims could not be re-estimated by " + principledMissing(r) + ": " + r.err.Error() + "."})
+		res.Findings = append(
+			res.Findings,
+			Finding{
+				Severity: StatusWarn,
+				Message: "The claims could not be re-estimated by " + principledMissing(
+					r,
+				) + ": " + r.err.Error() + ".",
+			},
+		)
 	}
 	changed, uncompared := 0, 0
 	for i, c := range s.Package.Claims {
@@ -258,7 +278,12 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 func summaryMissing(method string) CheckResult {
 	res := CheckResult{Metrics: map[string]any{"rows": nil}}
 	if name, bad := unsoundMethods[method]; bad {
-		res.Findings = []Finding{{Severity: StatusWarn, Message: name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data). With summary statistics only, pathvet cannot re-estimate the claims; ask the authors for the raw rows, or for the analysis by maximum likelihood or multiple imputation."}}
+		res.Findings = []Finding{
+			{
+				Severity: StatusWarn,
+				Message:  name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data). With summary statistics only, pathvet cannot re-estimate the claims; ask the authors for the raw rows, or for the analysis by maximum likelihood or multiple imputation.",
+			},
+		}
 		res.Status = StatusWarn
 		res.Summary = "The paper handles missing values by a method that biases coefficients, and the summary statistics do not allow a re-analysis; ask for the raw rows or a principled re-analysis."
 		return res
@@ -272,12 +297,21 @@ func summaryMissing(method string) CheckResult {
 }
 
 func completeRows(method string, res CheckResult) CheckResult {
-	if name, bad := unsoundMethods[method]; bad || method == MissingMultipleImputation || method == MissingMaximumLikelihood {
+	if name, bad := unsoundMethods[method]; bad || method == MissingMultipleImputation ||
+		method == MissingMaximumLikelihood {
 		if !bad {
 			name = map[string]string{MissingMultipleImputation: "Multiple imputation", MissingMaximumLikelihood: "Maximum likelihood"}[method]
 		}
 		res.Status = StatusWarn
-		res.Findings = []Finding{{Severity: StatusWarn, Message: fmt.Sprintf("The rows have no missing value although the package says missing values were handled by %s: the uploaded data may be the completed data. Ask for the raw rows with their missing cells.", lowerFirst(name))}}
+		res.Findings = []Finding{
+			{
+				Severity: StatusWarn,
+				Message: fmt.Sprintf(
+					"The rows have no missing value although the package says missing values were handled by %s: the uploaded data may be the completed data. Ask for the raw rows with their missing cells.",
+					lowerFirst(name),
+				),
+			},
+		}
 		res.Summary = "The data show no missing value, yet the package says values were filled in; the uploaded rows may already be imputed."
 		return res
 	}
@@ -304,7 +338,9 @@ func (a *Analysis) missingMetrics(r *missingResult) map[string]any {
 	m := map[string]any{
 		"rows": s.Rows, "rows_complete": s.CompleteRows, "patterns": s.Patterns,
 		"missing_cells": s.MissingCells, "share_missing_cells": num(float64(s.MissingCells) / float64(max(cells, 1))),
-		"missing_by_variable": a.byName(s.MissingByVariable), "rows_by_missing_count": s.RowsByMissing, "mcar_chi_square": nil, "mcar_df": nil, "mcar_p_value": nil,
+		"missing_by_variable": a.byName(
+			s.MissingByVariable,
+		), "rows_by_missing_count": s.RowsByMissing, "mcar_chi_square": nil, "mcar_df": nil, "mcar_p_value": nil,
 		"imputations": 0,
 	}
 	if r.mcar != nil {

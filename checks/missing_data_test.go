@@ -41,8 +41,14 @@ func TestMissingData_Demo(t *testing.T) {
 	if strings.Join(keys, ",") != "complete_cases,maximum_likelihood,mean_substitution,multiple_imputation" {
 		t.Fatalf("methods %v", keys)
 	}
-	if *md["mean_substitution"].PValue < 0.05 || *md["multiple_imputation"].PValue > 0.05 || *md["maximum_likelihood"].PValue > 0.05 {
-		t.Fatalf("mean substitution p %v, MI p %v, ML p %v", *md["mean_substitution"].PValue, *md["multiple_imputation"].PValue, *md["maximum_likelihood"].PValue)
+	if *md["mean_substitution"].PValue < 0.05 || *md["multiple_imputation"].PValue > 0.05 ||
+		*md["maximum_likelihood"].PValue > 0.05 {
+		t.Fatalf(
+			"mean substitution p %v, MI p %v, ML p %v",
+			*md["mean_substitution"].PValue,
+			*md["multiple_imputation"].PValue,
+			*md["maximum_likelihood"].PValue,
+		)
 	}
 	if *md["mean_substitution"].Estimate >= *md["maximum_likelihood"].Estimate {
 		t.Fatal("mean substitution should attenuate the coefficient")
@@ -61,7 +67,12 @@ func TestMissingData_SummaryData(t *testing.T) {
 func TestMissingData_CompletedRowsUploaded(t *testing.T) {
 	doc, _ := os.ReadFile("../testdata/demo/sleep-attention/package.json")
 	rows := "part_time_job,sleep_hours,attention\n1,6.5,55\n0,7.5,60\n1,6,50\n0,8,62\n1,7,58\n0,7,57\n"
-	doc = bytes.Replace(doc, []byte(`"file": "rows.csv", "ignore_columns": ["student"]`), []byte(`"csv": "`+strings.ReplaceAll(rows, "\n", `\n`)+`"`), 1)
+	doc = bytes.Replace(
+		doc,
+		[]byte(`"file": "rows.csv", "ignore_columns": ["student"]`),
+		[]byte(`"csv": "`+strings.ReplaceAll(rows, "\n", `\n`)+`"`),
+		1,
+	)
 	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatal(err)
@@ -70,7 +81,8 @@ func TestMissingData_CompletedRowsUploaded(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if c := checkOf(r, "missing-data"); c.Status != checks.StatusWarn || !strings.Contains(c.Findings[0].Message, "completed data") {
+	if c := checkOf(r, "missing-data"); c.Status != checks.StatusWarn ||
+		!strings.Contains(c.Findings[0].Message, "completed data") {
 		t.Fatalf("%s %+v", c.Status, c.Findings)
 	}
 }
@@ -97,9 +109,24 @@ func TestMissingData_PairwiseNotPositiveDefinite(t *testing.T) {
 	b.WriteString("x,y,z\n")
 	for i := range 10 {
 		v := float64(i)
-		fmt.Fprintf(&b, "%g,%g,\n%g,,%g\n,%g,%g\n", v, v+0.1*float64(i%3), v, -v+0.1*float64(i%2), v, v+0.1*float64(i%4))
+		fmt.Fprintf(
+			&b,
+			"%g,%g,\n%g,,%g\n,%g,%g\n",
+			v,
+			v+0.1*float64(i%3),
+			v,
+			-v+0.1*float64(i%2),
+			v,
+			v+0.1*float64(i%4),
+		)
 	}
-	r := rowsPackage(t, b.String(), "continuous", `{"id": "A1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "adjust_for": ["z"]}`, "available_cases")
+	r := rowsPackage(
+		t,
+		b.String(),
+		"continuous",
+		`{"id": "A1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "adjust_for": ["z"]}`,
+		"available_cases",
+	)
 	c := checkOf(r, "missing-data")
 	if c.Metrics["available_cases_error"] == nil || !strings.Contains(fmt.Sprint(c.Findings), "not positive definite") {
 		t.Fatalf("%+v", c.Findings)
@@ -146,7 +173,13 @@ func TestEffectReporting_OddsRatioRangeLevel(t *testing.T) {
 }
 
 func TestEffectReporting_OddsRatioRange(t *testing.T) {
-	rep := rowsPackage(t, logisticRows(), "binary", `{"id": "L1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "estimate_scale": "odds_ratio", "estimate": 2.2, "ci": [1.7, 2.8], "p_value": 0.001, "p_relation": "<"}`, "none")
+	rep := rowsPackage(
+		t,
+		logisticRows(),
+		"binary",
+		`{"id": "L1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y", "estimate_scale": "odds_ratio", "estimate": 2.2, "ci": [1.7, 2.8], "p_value": 0.001, "p_relation": "<"}`,
+		"none",
+	)
 	cl := rep.Claims[0]
 	if cl.Declared.Method != "logistic" || cl.OddsRatio == nil {
 		t.Fatalf("declared %+v, odds ratio %+v", cl.Declared, cl.OddsRatio)
@@ -168,7 +201,8 @@ func TestMissingData_PooledDistribution(t *testing.T) {
 	for _, c := range r.Claims {
 		mi := c.MissingData["multiple_imputation"]
 		df := strings.TrimSuffix(strings.TrimPrefix(mi.Distribution, "t("), ")")
-		if df == "" || !strings.HasPrefix(mi.Distribution, "t(") || !strings.Contains(mi.Note, "Barnard–Rubin df "+df+";") {
+		if df == "" || !strings.HasPrefix(mi.Distribution, "t(") ||
+			!strings.Contains(mi.Note, "Barnard–Rubin df "+df+";") {
 			t.Errorf("%s: distribution %q, note %q", c.ID, mi.Distribution, mi.Note)
 		}
 	}

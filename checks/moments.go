@@ -104,7 +104,14 @@ func rowMoments(rows *mat.Dense, method string) (*Moments, error) {
 	}
 	cov := mat.NewSymDense(p, nil)
 	stat.CovarianceMatrix(cov, rows, nil)
-	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: make([]float64, p), Rows: rows, Method: method}
+	m := &Moments{
+		N:      n,
+		Cor:    mat.NewSymDense(p, nil),
+		SD:     make([]float64, p),
+		Means:  make([]float64, p),
+		Rows:   rows,
+		Method: method,
+	}
 	for j := range p {
 		m.Means[j] = stat.Mean(mat.Col(nil, j, rows), nil)
 		m.SD[j] = math.Sqrt(cov.At(j, j))
@@ -119,7 +126,11 @@ func rowMoments(rows *mat.Dense, method string) (*Moments, error) {
 	}
 	var eig mat.EigenSym
 	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
-		return nil, Errorf(EInvalid, "the correlation matrix of the %s is singular: some variables are exactly collinear", casesName(method))
+		return nil, Errorf(
+			EInvalid,
+			"the correlation matrix of the %s is singular: some variables are exactly collinear",
+			casesName(method),
+		)
 	}
 	return m, nil
 }

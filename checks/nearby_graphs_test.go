@@ -35,7 +35,8 @@ func TestNearbyGraphs_HeadlineArrowWithinTwo(t *testing.T) {
 	if len(first.Edits) != 1 || first.Edits[0] != (checks.GraphEdit{Op: "remove", From: "offered", To: "wellbeing"}) {
 		t.Fatalf("best nearby class: %+v", first.Edits)
 	}
-	if first.DeltaBIC == nil || !scalar.EqualWithinAbsOrRel(*first.DeltaBIC, want, 1e-8, 1e-8) || first.Evidence != "indistinguishable" {
+	if first.DeltaBIC == nil || !scalar.EqualWithinAbsOrRel(*first.DeltaBIC, want, 1e-8, 1e-8) ||
+		first.Evidence != "indistinguishable" {
 		t.Errorf("ΔBIC %v (%s), closed form %g", first.DeltaBIC, first.Evidence, want)
 	}
 	n1 := first.Claims["N1"]
@@ -49,7 +50,10 @@ func TestNearbyGraphs_HeadlineArrowWithinTwo(t *testing.T) {
 	found := false
 	for _, f := range c.Findings {
 		found = found || f.Severity == checks.StatusFail && f.Claim == "N1" &&
-			strings.Contains(f.Message, "without the arrow offered → wellbeing") && strings.Contains(f.Message, "ΔBIC = +0.72")
+			strings.Contains(
+				f.Message,
+				"without the arrow offered → wellbeing",
+			) && strings.Contains(f.Message, "ΔBIC = +0.72")
 	}
 	if !found {
 		t.Errorf("no fail finding naming the edit and the ΔBIC: %+v", c.Findings)
@@ -58,7 +62,10 @@ func TestNearbyGraphs_HeadlineArrowWithinTwo(t *testing.T) {
 	if err := render.WriteText(&text, r); err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(text.String(), "+0.72  remove offered → wellbeing (indistinguishable); class of 3, 1 plausible; changed:") {
+	if !strings.Contains(
+		text.String(),
+		"+0.72  remove offered → wellbeing (indistinguishable); class of 3, 1 plausible; changed:",
+	) {
 		t.Errorf("the text view lacks the nearby line:\n%s", text.String())
 	}
 }
@@ -80,7 +87,11 @@ func TestNearbyGraphs_StatedAlternativeWarns(t *testing.T) {
 	r := mustRun(t, s)
 	c := checkOf(r, "nearby-graphs")
 	if c.Status != checks.StatusWarn || r.Graph.NearbyGraphs[0].Alternative != "no-direct-effect" {
-		t.Errorf("nearby-graphs %s, alternative %q; want warn, no-direct-effect", c.Status, r.Graph.NearbyGraphs[0].Alternative)
+		t.Errorf(
+			"nearby-graphs %s, alternative %q; want warn, no-direct-effect",
+			c.Status,
+			r.Graph.NearbyGraphs[0].Alternative,
+		)
 	}
 }
 

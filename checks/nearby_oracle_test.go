@@ -55,7 +55,17 @@ func randomOracleStudy(r *rand.Rand) (*oracleStudy, bool) {
 			From: fmt.Sprint("v", e.From), To: fmt.Sprint("v", e.To)})
 	}
 	e := o.arcs[0]
-	o.claims = append(o.claims, checks.Claim{ID: "T0", Text: "t", Kind: checks.KindTotal, From: fmt.Sprint("v", e.From), To: fmt.Sprint("v", e.To), Headline: true})
+	o.claims = append(
+		o.claims,
+		checks.Claim{
+			ID:       "T0",
+			Text:     "t",
+			Kind:     checks.KindTotal,
+			From:     fmt.Sprint("v", e.From),
+			To:       fmt.Sprint("v", e.To),
+			Headline: true,
+		},
+	)
 	return o, true
 }
 
@@ -258,7 +268,15 @@ func TestNearbyGraphs_AgainstOracle(t *testing.T) {
 			oc := o.classOf(t, ng, want)
 			if !scalar.EqualWithinAbsOrRel(*ng.DeltaBIC, oc.delta, 1e-8, 1e-8) ||
 				!scalar.EqualWithinAbsOrRel(*ng.DeltaBIC, listed[i].delta, 1e-8, 1e-8) {
-				t.Fatalf("trial %d: class %d ΔBIC %g, oracle %g (%d-th listed %g)", trial, i, *ng.DeltaBIC, oc.delta, i, listed[i].delta)
+				t.Fatalf(
+					"trial %d: class %d ΔBIC %g, oracle %g (%d-th listed %g)",
+					trial,
+					i,
+					*ng.DeltaBIC,
+					oc.delta,
+					i,
+					listed[i].delta,
+				)
 			}
 			if math.Abs(oc.delta) < 2 {
 				compared += o.compareClaims(t, trial, rep, ng, oc)
@@ -313,7 +331,13 @@ func (o *oracleStudy) classOf(t *testing.T, ng checks.NearbyGraph, want []oracle
 	return oracleClass{}
 }
 
-func (o *oracleStudy) compareClaims(t *testing.T, trial int, rep *checks.Report, ng checks.NearbyGraph, oc oracleClass) int {
+func (o *oracleStudy) compareClaims(
+	t *testing.T,
+	trial int,
+	rep *checks.Report,
+	ng checks.NearbyGraph,
+	oc oracleClass,
+) int {
 	t.Helper()
 	ms := o.members(oc.cpdag)
 	for i, c := range o.claims {
@@ -331,9 +355,20 @@ func (o *oracleStudy) compareClaims(t *testing.T, trial int, rep *checks.Report,
 			}
 		}
 		share := float64(same) / float64(len(ms))
-		if !scalar.EqualWithinAbsOrRel(*got.Min, lo, 1e-8, 1e-8) || !scalar.EqualWithinAbsOrRel(*got.Max, hi, 1e-8, 1e-8) ||
+		if !scalar.EqualWithinAbsOrRel(*got.Min, lo, 1e-8, 1e-8) ||
+			!scalar.EqualWithinAbsOrRel(*got.Max, hi, 1e-8, 1e-8) ||
 			!scalar.EqualWithinAbsOrRel(*got.ShareSignificantSameSign, share, 1e-9, 1e-9) {
-			t.Errorf("trial %d: %s min %g max %g share %g, oracle %g %g %g", trial, c.ID, *got.Min, *got.Max, *got.ShareSignificantSameSign, lo, hi, share)
+			t.Errorf(
+				"trial %d: %s min %g max %g share %g, oracle %g %g %g",
+				trial,
+				c.ID,
+				*got.Min,
+				*got.Max,
+				*got.ShareSignificantSameSign,
+				lo,
+				hi,
+				share,
+			)
 		}
 	}
 	return len(o.claims)

@@ -44,13 +44,15 @@ func TestConfounding_PrevalenceFromMeans(t *testing.T) {
 	claim := obj{"id": "K1", "text": "X raises Y", "kind": "total_effect", "from": "X", "to": "Y",
 		"estimate": 3.9, "estimate_scale": "odds_ratio", "ci": []float64{1.8, 8.7}}
 	rare := runDoc(t, binaryOutcomePackage(claim, []float64{0, 0.08})).Claims[0].EValue
-	if rare == nil || !scalar.EqualWithinAbs(*rare.Estimate, 7.26, 0.005) || !scalar.EqualWithinAbs(*rare.CILimit, 3.00, 0.005) ||
+	if rare == nil || !scalar.EqualWithinAbs(*rare.Estimate, 7.26, 0.005) ||
+		!scalar.EqualWithinAbs(*rare.CILimit, 3.00, 0.005) ||
 		!strings.Contains(rare.Conversion, "rarer than 15%") {
 		t.Fatalf("rare outcome: %+v", rare)
 	}
 	// sqrt(3.9) = 1.9748: E = 1.9748 + sqrt(1.9748 × 0.9748) = 3.362.
 	common := runDoc(t, binaryOutcomePackage(claim, []float64{0, 0.9})).Claims[0].EValue
-	if common == nil || !scalar.EqualWithinAbs(*common.Estimate, 3.362, 0.001) || !strings.Contains(common.Conversion, "0.90, not rare") {
+	if common == nil || !scalar.EqualWithinAbs(*common.Estimate, 3.362, 0.001) ||
+		!strings.Contains(common.Conversion, "0.90, not rare") {
 		t.Fatalf("common outcome: %+v", common)
 	}
 	unknown := runDoc(t, binaryOutcomePackage(claim, nil)).Claims[0].EValue
@@ -77,7 +79,8 @@ func TestConfounding_OddsRatioWithSEOnly(t *testing.T) {
 		if claim["estimate_scale"] == "odds_ratio" {
 			// The summary data re-estimate a binary outcome linearly: no conversion, and a reason.
 			c := checkByID(r, "confounding-sensitivity")
-			if r.Claims[0].EValue != nil || len(c.Findings) != 1 || !strings.Contains(c.Findings[0].Message, "outcome is binary") {
+			if r.Claims[0].EValue != nil || len(c.Findings) != 1 ||
+				!strings.Contains(c.Findings[0].Message, "outcome is binary") {
 				t.Fatalf("odds ratio with SE only: %+v, %+v", r.Claims[0].EValue, c.Findings)
 			}
 		}
@@ -191,7 +194,12 @@ func TestRun_HugeN(t *testing.T) {
 // .03165, TOST p = P(T < (r − .1)/SE) = .005816 on t(998) (scipy's t).
 func TestEffectReporting_AbsenceUnstandardized(t *testing.T) {
 	doc := func(sds []float64) []byte {
-		data := obj{"kind": "summary", "n": 1000, "variables": []string{"X", "Y"}, "correlations": [][]float64{{1}, {0.02, 1}}}
+		data := obj{
+			"kind":         "summary",
+			"n":            1000,
+			"variables":    []string{"X", "Y"},
+			"correlations": [][]float64{{1}, {0.02, 1}},
+		}
 		if sds != nil {
 			data["sds"] = sds
 		}
@@ -204,7 +212,8 @@ func TestEffectReporting_AbsenceUnstandardized(t *testing.T) {
 	}
 	for _, sds := range [][]float64{{2, 4}, nil} {
 		ab := runDoc(t, doc(sds)).Claims[0].Absence
-		if ab == nil || ab.Distribution != "t(998)" || ab.Verdict != "excludes_meaningful_effects" || ab.Source != "recomputed" ||
+		if ab == nil || ab.Distribution != "t(998)" || ab.Verdict != "excludes_meaningful_effects" ||
+			ab.Source != "recomputed" ||
 			!scalar.EqualWithinAbs(*ab.TOSTP, 0.005816, 1e-6) {
 			t.Fatalf("SDs %v: %+v", sds, ab)
 		}

@@ -151,7 +151,10 @@ func runCheck(ctx context.Context, c Check, a *Analysis) (res CheckResult) {
 	}
 	declared, ok := c.Summaries[res.Status]
 	if !ok {
-		return failedToRun(c, fmt.Sprintf("internal error: the check ended with status %q, for which it declares no summary", res.Status))
+		return failedToRun(
+			c,
+			fmt.Sprintf("internal error: the check ended with status %q, for which it declares no summary", res.Status),
+		)
 	}
 	res.Summary = cmp.Or(res.Summary, declared)
 	res.ID, res.Title = c.ID, c.Title

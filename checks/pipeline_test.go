@@ -81,12 +81,20 @@ func TestRun_Deterministic(t *testing.T) {
 
 func TestRun_PanickingCheckIsReported(t *testing.T) {
 	s := MustLoad(t, "../testdata/demo/tutoring-anxiety/package.json")
-	boom := checks.Check{ID: "graph-fit", Title: "Boom", Run: func(context.Context, *checks.Analysis) (checks.CheckResult, error) {
-		panic("deliberate")
-	}}
-	broken := checks.Check{ID: "alternatives", Title: "Broken", Run: func(context.Context, *checks.Analysis) (checks.CheckResult, error) {
-		return checks.CheckResult{Status: checks.StatusPass, Metrics: map[string]any{"x": func() {}}}, nil
-	}}
+	boom := checks.Check{
+		ID:    "graph-fit",
+		Title: "Boom",
+		Run: func(context.Context, *checks.Analysis) (checks.CheckResult, error) {
+			panic("deliberate")
+		},
+	}
+	broken := checks.Check{
+		ID:    "alternatives",
+		Title: "Broken",
+		Run: func(context.Context, *checks.Analysis) (checks.CheckResult, error) {
+			return checks.CheckResult{Status: checks.StatusPass, Metrics: map[string]any{"x": func() {}}}, nil
+		},
+	}
 	r, err := checks.Run(context.Background(), s, checks.Options{Checks: append(checks.Pipeline(), boom, broken)})
 	if err != nil {
 		t.Fatal(err)

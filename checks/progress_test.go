@@ -34,7 +34,8 @@ func TestRun_Progress(t *testing.T) {
 			imps = append(imps, s)
 		}
 	}
-	if len(imps) != checks.Imputations || imps[len(imps)-1] != fmt.Sprintf("missing data: imputations %d/%d", checks.Imputations, checks.Imputations) {
+	if len(imps) != checks.Imputations ||
+		imps[len(imps)-1] != fmt.Sprintf("missing data: imputations %d/%d", checks.Imputations, checks.Imputations) {
 		t.Errorf("imputation progress %q", imps)
 	}
 }

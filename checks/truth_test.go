@@ -80,7 +80,8 @@ func TestRun_ClaimAgainstGraph(t *testing.T) {
 	}
 	for _, c := range r.Checks {
 		for _, f := range c.Findings {
-			if f.Claim == "H1" && (strings.Contains(f.Message, "keeps its sign") || strings.HasPrefix(f.Message, "E-value for")) {
+			if f.Claim == "H1" &&
+				(strings.Contains(f.Message, "keeps its sign") || strings.HasPrefix(f.Message, "E-value for")) {
 				t.Errorf("%s: %s", c.ID, f.Message)
 			}
 			if f.Claim == "H1" && c.ID == "confounding-sensitivity" && f.Severity != checks.SeverityInfo {
@@ -183,7 +184,8 @@ func TestMissingData_RaisesImputations(t *testing.T) {
 		t.Fatal(err)
 	}
 	c := checkOf(r, "missing-data")
-	if c.Metrics["imputations"] != checks.MaxImputations || !reflect.DeepEqual(c.Metrics["imputations_raised_for"], []string{"S1"}) {
+	if c.Metrics["imputations"] != checks.MaxImputations ||
+		!reflect.DeepEqual(c.Metrics["imputations_raised_for"], []string{"S1"}) {
 		t.Fatalf("imputations %v, raised for %v", c.Metrics["imputations"], c.Metrics["imputations_raised_for"])
 	}
 	mi := r.Claims[0].MissingData[checks.MissingMultipleImputation]
@@ -203,7 +205,8 @@ func TestRun_TotalEffectWithoutPath(t *testing.T) {
 		`"kind": "direct_effect", "from": "club_member", "to": "practice_hours"`,
 		`"kind": "total_effect", "from": "persistence", "to": "club_member"`)
 	d := mustRun(t, s).Claims[0].Declared
-	if d.Method != checks.MethodZero || d.PValue != nil || !strings.Contains(d.StructuralZero, "no directed path from persistence to club_member") {
+	if d.Method != checks.MethodZero || d.PValue != nil ||
+		!strings.Contains(d.StructuralZero, "no directed path from persistence to club_member") {
 		t.Fatalf("%+v", d)
 	}
 }

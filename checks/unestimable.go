@@ -48,8 +48,13 @@ func rowsProblem(d *Dataset, names []string) string {
 	p := len(d.Columns)
 	switch n := len(rows); {
 	case n <= p:
-		return fmt.Sprintf("only %s for %d variables: a correlation matrix of %d variables needs at least %d complete cases, and each regression needs more cases than parameters",
-			count(n, "complete case", "complete cases"), p, p, p+1)
+		return fmt.Sprintf(
+			"only %s for %d variables: a correlation matrix of %d variables needs at least %d complete cases, and each regression needs more cases than parameters",
+			count(n, "complete case", "complete cases"),
+			p,
+			p,
+			p+1,
+		)
 	}
 	x := mat.NewDense(len(rows), p, slices.Concat(rows...))
 	for j := range p {
@@ -79,8 +84,10 @@ func collinearText(x *mat.Dense, names []string) string {
 			in = append(in, names[j])
 		}
 	}
-	return fmt.Sprintf("%s are exactly collinear in the complete cases (one is a linear combination of the others), so no regression that uses them all can be fitted",
-		strings.Join(in, ", "))
+	return fmt.Sprintf(
+		"%s are exactly collinear in the complete cases (one is a linear combination of the others), so no regression that uses them all can be fitted",
+		strings.Join(in, ", "),
+	)
 }
 
 // observedRows are the rows with every value observed.

@@ -133,7 +133,12 @@ func TestEquivalenceSummary_Branches(t *testing.T) {
 	if !strings.Contains(got, "the findings about 1 claim need attention") {
 		t.Errorf("%q", got)
 	}
-	got = equivalenceSummary(s, &equivalenceResult{size: big.NewInt(3), plausible: big.NewInt(1)}, StatusPass, equivalenceTally{})
+	got = equivalenceSummary(
+		s,
+		&equivalenceResult{size: big.NewInt(3), plausible: big.NewInt(1)},
+		StatusPass,
+		equivalenceTally{},
+	)
 	if !strings.Contains(got, "2 other graphs") || !strings.Contains(got, "rules them all out") {
 		t.Errorf("%q", got)
 	}
@@ -151,7 +156,8 @@ func TestMeasurementPassText(t *testing.T) {
 		{1, 3, "1 of the 3 claims was re-estimated on the corrected correlations, and correcting"},
 		{0, 2, "no claim could be re-estimated on the corrected correlations."},
 	} {
-		if got := measurementPassText(tc.n, tc.claims); !strings.HasSuffix(got, tc.want) && !strings.Contains(got, tc.want) {
+		if got := measurementPassText(tc.n, tc.claims); !strings.HasSuffix(got, tc.want) &&
+			!strings.Contains(got, tc.want) {
 			t.Errorf("%d of %d: %q lacks %q", tc.n, tc.claims, got, tc.want)
 		}
 	}
@@ -194,8 +200,11 @@ func TestAlternativesSummary_Branches(t *testing.T) {
 }
 
 func TestMissingSummary_Branches(t *testing.T) {
-	r := &missingResult{moments: map[string]*Moments{MissingCompleteCases: {}, MissingMaximumLikelihood: {}}, imputed: []*Moments{{}},
-		summary: missing.Summary{Rows: 10, CompleteRows: 8}}
+	r := &missingResult{
+		moments: map[string]*Moments{MissingCompleteCases: {}, MissingMaximumLikelihood: {}},
+		imputed: []*Moments{{}},
+		summary: missing.Summary{Rows: 10, CompleteRows: 8},
+	}
 	for _, tc := range []struct {
 		status              string
 		changed, uncompared int
@@ -244,7 +253,8 @@ func TestNearLine(t *testing.T) {
 // warning; where it was, the report says for which claims.
 func TestRaisedFindings(t *testing.T) {
 	fs := raisedFindings(&missingResult{raised: []string{"S1"}, imputed: make([]*Moments, MaxImputations)})
-	if len(fs) != 1 || fs[0].Severity != SeverityInfo || !strings.Contains(fs[0].Message, "run with 100 imputations, not 20") {
+	if len(fs) != 1 || fs[0].Severity != SeverityInfo ||
+		!strings.Contains(fs[0].Message, "run with 100 imputations, not 20") {
 		t.Errorf("%+v", fs)
 	}
 	fs = raisedFindings(&missingResult{raised: []string{"S1"}, raiseErr: errors.New("not raised: too large")})

@@ -166,7 +166,13 @@ func (h panicHandler) HandlePanic(ctx context.Context, job *rivertype.JobRow, v 
 	if err := unmarshalArgs(job, &args); err == nil && job.Attempt >= job.MaxAttempts {
 		reason := fmt.Sprintf("internal error: %v", v)
 		if err := h.db.MarkFailed(context.WithoutCancel(ctx), args.SubmissionID, reason); err != nil {
-			h.logger.Error("marking a submission failed after a panic", "submission_id", args.SubmissionID, "error", err)
+			h.logger.Error(
+				"marking a submission failed after a panic",
+				"submission_id",
+				args.SubmissionID,
+				"error",
+				err,
+			)
 		}
 	}
 	return nil
@@ -194,8 +200,11 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 		return nil, err
 	}
 	every := cmp.Or(cfg.ReconcileEvery, reconcileEvery)
-	periodic := river.NewPeriodicJob(river.PeriodicInterval(every),
-		func() (river.JobArgs, *river.InsertOpts) { return ReconcileArgs{}, nil }, &river.PeriodicJobOpts{RunOnStart: true})
+	periodic := river.NewPeriodicJob(
+		river.PeriodicInterval(every),
+		func() (river.JobArgs, *river.InsertOpts) { return ReconcileArgs{}, nil },
+		&river.PeriodicJobOpts{RunOnStart: true},
+	)
 	rescue := cfg.rescueAfter()
 	if cfg.RescueAfter > 0 && rescue != cfg.RescueAfter {
 		cmp.Or(cfg.Logger, slog.Default()).Info("rescue-after raised past the largest job deadline",

@@ -111,7 +111,12 @@ func (db *DB) Keys(ctx context.Context, office string) ([]*service.Key, error) {
 
 // RevokeKey revokes a live key: its token stops working at once.
 func (db *DB) RevokeKey(ctx context.Context, id int64) error {
-	tag, err := db.Pool.Exec(ctx, `UPDATE api_keys SET revoked_at = $2 WHERE id = $1 AND revoked_at IS NULL`, id, db.now())
+	tag, err := db.Pool.Exec(
+		ctx,
+		`UPDATE api_keys SET revoked_at = $2 WHERE id = $1 AND revoked_at IS NULL`,
+		id,
+		db.now(),
+	)
 	if err != nil {
 		return dbError(err, "key")
 	}

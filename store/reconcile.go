@@ -90,7 +90,10 @@ func (j stoppedJob) reason() string {
 	case j.state == "cancelled":
 		return "the screening job was cancelled"
 	case j.rescues > 0 && j.rescues == j.attempts:
-		return fmt.Sprintf("the worker stopped %s; the package may need more memory than the worker has", times(j.rescues))
+		return fmt.Sprintf(
+			"the worker stopped %s; the package may need more memory than the worker has",
+			times(j.rescues),
+		)
 	case j.rescues > 0:
 		return fmt.Sprintf("screening failed after %d attempts (the worker stopped %s); last error: %s",
 			j.attempts, times(j.rescues), j.lastError)

@@ -53,8 +53,14 @@ func (db *DB) MarkFailed(ctx context.Context, id, reason string) error {
 // office's webhook, in one transaction.
 func (db *DB) fail(ctx context.Context, id, reason, cond string) error {
 	err := pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
-		tag, err := tx.Exec(ctx, `UPDATE submissions SET status = 'failed', error = $2, updated_at = $3, `+clearProgress+`
-			WHERE id = $1 AND `+cond, id, reason, db.now())
+		tag, err := tx.Exec(
+			ctx,
+			`UPDATE submissions SET status = 'failed', error = $2, updated_at = $3, `+clearProgress+`
+			WHERE id = $1 AND `+cond,
+			id,
+			reason,
+			db.now(),
+		)
 		if err != nil || tag.RowsAffected() == 0 {
 			return err
 		}
@@ -66,8 +72,14 @@ func (db *DB) fail(ctx context.Context, id, reason, cond string) error {
 // NoteAttemptError records the error of an attempt that will be retried;
 // the submission goes back to queued.
 func (db *DB) NoteAttemptError(ctx context.Context, id, reason string) error {
-	_, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'queued', error = $2, updated_at = $3, `+clearProgress+`
-		WHERE id = $1 AND status = 'running'`, id, reason, db.now())
+	_, err := db.Pool.Exec(
+		ctx,
+		`UPDATE submissions SET status = 'queued', error = $2, updated_at = $3, `+clearProgress+`
+		WHERE id = $1 AND status = 'running'`,
+		id,
+		reason,
+		db.now(),
+	)
 	return dbError(err, "submission")
 }
 

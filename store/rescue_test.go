@@ -34,7 +34,10 @@ func TestWorkers_RescueAfterHardKill(t *testing.T) {
 		t.Fatal(err)
 	}
 	start := time.Now()
-	w, err := db.StartWorkers(ctx, store.WorkerConfig{Workers: 1, Timeout: time.Second, RescueAfter: 2 * time.Second, Screen: screenDemo})
+	w, err := db.StartWorkers(
+		ctx,
+		store.WorkerConfig{Workers: 1, Timeout: time.Second, RescueAfter: 2 * time.Second, Screen: screenDemo},
+	)
 	if err != nil {
 		t.Fatal(err)
 	}

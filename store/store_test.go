@@ -32,7 +32,8 @@ func TestKeys(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	k, token := mustKey(t, db, "Journal of Invented Studies", service.RoleEditor)
 	got, err := db.KeyByToken(ctx, token)
-	if err != nil || got.ID != k.ID || got.Role != service.RoleEditor || got.OfficeName != "Journal of Invented Studies" {
+	if err != nil || got.ID != k.ID || got.Role != service.RoleEditor ||
+		got.OfficeName != "Journal of Invented Studies" {
 		t.Fatalf("KeyByToken: %+v, %v", got, err)
 	}
 	k2, _ := mustKey(t, db, "Journal of Invented Studies", service.RoleSubmitter)
@@ -55,7 +56,8 @@ func TestKeys(t *testing.T) {
 	})
 	t.Run("ListAndRevoke", func(t *testing.T) {
 		keys, err := db.Keys(ctx, "Journal of Invented Studies")
-		if err != nil || len(keys) != 2 || keys[0].LastUsedAt == nil || keys[1].LastUsedAt != nil || keys[0].Label == "" {
+		if err != nil || len(keys) != 2 || keys[0].LastUsedAt == nil || keys[1].LastUsedAt != nil ||
+			keys[0].Label == "" {
 			t.Fatalf("keys %+v, %v: want two, the first used", keys, err)
 		}
 		if err := db.RevokeKey(ctx, k.ID); err != nil {
@@ -69,12 +71,15 @@ func TestKeys(t *testing.T) {
 		}
 	})
 	t.Run("ErrInvalid", func(t *testing.T) {
-		if _, _, err := db.CreateKey(ctx, service.NewKey{Office: "x", Role: "admin"}); service.ErrorCode(err) != service.EInvalid {
+		if _, _, err := db.CreateKey(ctx, service.NewKey{Office: "x", Role: "admin"}); service.ErrorCode(
+			err,
+		) != service.EInvalid {
 			t.Fatalf("bad role: %v", err)
 		}
 	})
 	var n int
-	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM api_keys WHERE position($1 in encode(token_sha256, 'escape')) > 0`, token).Scan(&n); err != nil || n != 0 {
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM api_keys WHERE position($1 in encode(token_sha256, 'escape')) > 0`, token).Scan(&n); err != nil ||
+		n != 0 {
 		t.Fatalf("the token itself is stored: %d, %v", n, err)
 	}
 }
@@ -91,7 +96,8 @@ func TestSubmissionStore(t *testing.T) {
 		t.Fatalf("create: %+v, %v, %v", s, replayed, err)
 	}
 	var jobs int
-	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM river_job WHERE args->>'submission_id' = $1`, s.ID).Scan(&jobs); err != nil || jobs != 1 {
+	if err := db.Pool.QueryRow(ctx, `SELECT count(*) FROM river_job WHERE args->>'submission_id' = $1`, s.ID).Scan(&jobs); err != nil ||
+		jobs != 1 {
 		t.Fatalf("queued jobs: %d, %v", jobs, err)
 	}
 	t.Run("Idempotency", func(t *testing.T) {
@@ -99,7 +105,9 @@ func TestSubmissionStore(t *testing.T) {
 		if err != nil || !replayed || again.ID != s.ID {
 			t.Fatalf("replay: %+v, %v, %v", again, replayed, err)
 		}
-		if _, _, err := db.CreateSubmission(ctx, newSub(sub1, "h2", "k1")); service.ErrorCode(err) != service.EConflict {
+		if _, _, err := db.CreateSubmission(ctx, newSub(sub1, "h2", "k1")); service.ErrorCode(
+			err,
+		) != service.EConflict {
 			t.Fatalf("same key, other package: %v", err)
 		}
 		if _, replayed, err := db.CreateSubmission(ctx, newSub(sub2, "h1", "k1")); err != nil || replayed {
@@ -152,7 +160,9 @@ func TestSubmissionStore(t *testing.T) {
 		if len(own) != 1 {
 			t.Fatalf("a submitter lists %d submissions, want its 1", len(own))
 		}
-		if _, _, err := db.Submissions(ctx, service.Filter{Scope: editor.Scope(), Cursor: "garbage"}); service.ErrorCode(err) != service.EInvalid {
+		if _, _, err := db.Submissions(ctx, service.Filter{Scope: editor.Scope(), Cursor: "garbage"}); service.ErrorCode(
+			err,
+		) != service.EInvalid {
 			t.Fatalf("bad cursor: %v", err)
 		}
 	})
@@ -203,7 +213,14 @@ func waitStatus(t *testing.T, db *store.DB, id string, sc service.Scope, want st
 	return waitStatusWithin(t, db, id, sc, want, 30*time.Second)
 }
 
-func waitStatusWithin(t *testing.T, db *store.DB, id string, sc service.Scope, want string, within time.Duration) *service.Submission {
+func waitStatusWithin(
+	t *testing.T,
+	db *store.DB,
+	id string,
+	sc service.Scope,
+	want string,
+	within time.Duration,
+) *service.Submission {
 	t.Helper()
 	deadline := time.Now().Add(within)
 	for time.Now().Before(deadline) {
@@ -234,7 +251,10 @@ func TestWorkers(t *testing.T) {
 			t.Fatal(err)
 		}
 		defer w.Stop(ctx)
-		s, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"})
+		s, _, err := db.CreateSubmission(
+			ctx,
+			service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"},
+		)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -242,7 +262,10 @@ func TestWorkers(t *testing.T) {
 		if done.Score == nil || done.Band == nil {
 			t.Fatalf("done without a score: %+v", done)
 		}
-		bad, _, _ := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: []byte(`{}`), Title: "t", PackageSHA256: "h2"})
+		bad, _, _ := db.CreateSubmission(
+			ctx,
+			service.NewSubmission{Key: k, Package: []byte(`{}`), Title: "t", PackageSHA256: "h2"},
+		)
 		failed := waitStatus(t, db, bad.ID, k.Scope(), service.StatusFailed)
 		if failed.Error == "" || failed.Attempts != 1 {
 			t.Fatalf("a permanent error should fail at once with its reason: %+v", failed)
@@ -263,7 +286,10 @@ func TestWorkers(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		s, _, _ := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h3"})
+		s, _, _ := db.CreateSubmission(
+			ctx,
+			service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h3"},
+		)
 		<-started
 		if err := first.Kill(ctx); err != nil {
 			t.Fatal(err)
@@ -275,7 +301,11 @@ func TestWorkers(t *testing.T) {
 		defer second.Stop(ctx)
 		done := waitStatus(t, db, s.ID, k.Scope(), service.StatusDone)
 		if done.Attempts != 2 || calls.Load() != 2 {
-			t.Fatalf("attempts %d, calls %d; want the job retried once by the second worker", done.Attempts, calls.Load())
+			t.Fatalf(
+				"attempts %d, calls %d; want the job retried once by the second worker",
+				done.Attempts,
+				calls.Load(),
+			)
 		}
 	})
 }

@@ -19,11 +19,13 @@ func TestSessions(t *testing.T) {
 		t.Fatal(err)
 	}
 	var stored []byte
-	if err := db.Pool.QueryRow(ctx, `SELECT id_sha256 FROM web_sessions`).Scan(&stored); err != nil || string(stored) == id {
+	if err := db.Pool.QueryRow(ctx, `SELECT id_sha256 FROM web_sessions`).Scan(&stored); err != nil ||
+		string(stored) == id {
 		t.Fatalf("the session id is stored as is, or not at all: %v", err)
 	}
 	got, err := db.SessionKey(ctx, id)
-	if err != nil || got.ID != k.ID || got.OfficeID != k.OfficeID || got.Role != service.RoleEditor || got.Label != k.Label {
+	if err != nil || got.ID != k.ID || got.OfficeID != k.OfficeID || got.Role != service.RoleEditor ||
+		got.Label != k.Label {
 		t.Fatalf("session key: %+v, %v", got, err)
 	}
 	if _, err := db.SessionKey(ctx, id+"x"); service.ErrorCode(err) != service.ENotFound {

@@ -34,7 +34,9 @@ var cssVar = regexp.MustCompile(`--([a-z-]+): (#[0-9a-f]{6});`)
 // TestContrast: every text colour of the stylesheet on every background
 // it is used on reaches WCAG AA for normal text (4.5:1).
 func TestContrast(t *testing.T) {
-	if c := contrast("#777777", "#ffffff"); math.Abs(c-4.48) > 0.01 { // #777 on white is 4.48, from memory, the usual example of just missing AA
+	if c := contrast("#777777", "#ffffff"); math.Abs(
+		c-4.48,
+	) > 0.01 { // #777 on white is 4.48, from memory, the usual example of just missing AA
 		t.Fatalf("the contrast formula gives %.3f for #777 on white", c)
 	}
 	vars := map[string]string{"white": "#ffffff", "nav-text": "#e8ecef"}
@@ -42,8 +44,14 @@ func TestContrast(t *testing.T) {
 		vars[m[1]] = m[2]
 	}
 	pairs := [][2]string{
-		{"ink", "paper"}, {"soft", "paper"}, {"accent", "paper"}, {"fail", "paper"}, {"warn", "paper"}, {"pass", "paper"},
-		{"ink", "panel"}, {"soft", "panel"}, {"ink", "mark-bg"}, {"fail", "mark-bg"}, {"soft", "white"}, {"fail", "white"},
+		{
+			"ink",
+			"paper",
+		}, {"soft", "paper"}, {"accent", "paper"}, {"fail", "paper"}, {"warn", "paper"}, {"pass", "paper"},
+		{
+			"ink",
+			"panel",
+		}, {"soft", "panel"}, {"ink", "mark-bg"}, {"fail", "mark-bg"}, {"soft", "white"}, {"fail", "white"},
 		{"white", "accent"}, {"white", "fail"}, {"white", "ink"}, {"nav-text", "ink"},
 	}
 	for _, p := range pairs {

@@ -47,7 +47,15 @@ func TestLayOut(t *testing.T) {
 			u, _ := l.At(a[0])
 			v, _ := l.At(a[1])
 			if u.Layer >= v.Layer || u.Y+nodeH > v.Y {
-				t.Errorf("%s: %s drawn from layer %d (y %g) to layer %d (y %g)", tc.name, arrow(a), u.Layer, u.Y, v.Layer, v.Y)
+				t.Errorf(
+					"%s: %s drawn from layer %d (y %g) to layer %d (y %g)",
+					tc.name,
+					arrow(a),
+					u.Layer,
+					u.Y,
+					v.Layer,
+					v.Y,
+				)
 			}
 		}
 	}
@@ -85,7 +93,9 @@ func loadGolden(t *testing.T, demo string) *checks.Report {
 
 var (
 	nodeRe = regexp.MustCompile(`<g class="node[^"]*" data-name="([^"]+)"`)
-	arcRe  = regexp.MustCompile(`<path class="arc ([a-z ]+)" data-from="([^"]+)" data-to="([^"]+)" data-y1="([0-9.]+)" data-y2="([0-9.]+)"`)
+	arcRe  = regexp.MustCompile(
+		`<path class="arc ([a-z ]+)" data-from="([^"]+)" data-to="([^"]+)" data-y1="([0-9.]+)" data-y2="([0-9.]+)"`,
+	)
 )
 
 // TestDeclaredDrawing draws each demo's declared graph: one node per graph

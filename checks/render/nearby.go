@@ -53,7 +53,11 @@ func nearbyRow(n checks.NearbyGraph) NearbyRow {
 	}
 	sort.Strings(changed)
 	r := NearbyRow{Edits: strings.Join(edits, ", "), DeltaBIC: signedNum(n.DeltaBIC), Evidence: evidenceWords(n),
-		Class:   fmt.Sprintf("%s graphs, %s plausible", countWords(n.EquivalenceClassSize), countWords(n.PlausibleClassSize)),
+		Class: fmt.Sprintf(
+			"%s graphs, %s plausible",
+			countWords(n.EquivalenceClassSize),
+			countWords(n.PlausibleClassSize),
+		),
 		Changed: strings.Join(changed, ", ")}
 	switch {
 	case len(n.Claims) == 0:

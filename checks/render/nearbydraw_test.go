@@ -98,7 +98,8 @@ func TestEditedArcs(t *testing.T) {
 		{Op: "add", From: "long_commute", To: "nowhere"}}
 	svg := string(drawGraph(l, editedArcs(base, edits, l), nil, "t", "t", "t"))
 	added := arcOf(svg, "maths_score", "tutor_sessions")
-	if !strings.Contains(added, "arc added") || !strings.Contains(added, "t-head)") || !strings.Contains(svg, ">added</text>") {
+	if !strings.Contains(added, "arc added") || !strings.Contains(added, "t-head)") ||
+		!strings.Contains(svg, ">added</text>") {
 		t.Errorf("added arrow: %q", added)
 	}
 	rev := arcOf(svg, "maths_anxiety", "tutor_sessions")

@@ -21,11 +21,46 @@ var scaleCases = []struct {
 	lo, hi   float64
 	firstTwo [2]float64
 }{
-	{"negative claim", []float64{-0.298, -0.373, -0.223}, 0, -0.4, 0, [2]float64{-0.4, -0.3}},          // span .373/4 = .093 → .1
-	{"either side", []float64{-1.3, 2.6}, 0, -2, 3, [2]float64{-2, -1}},                                // 3.9/4 = .975 → 1
-	{"odds ratios", []float64{1.8, 2.4, 3.1}, 1, 1, 3.5, [2]float64{1, 1.5}},                           // 2.1/4 = .525 → .5
-	{"all zero", []float64{0, 0}, 0, -1, 1, [2]float64{-1, -0.5}},                                      // no spread: ±1, 2/4 = .5
-	{"ignores NaN and Inf", []float64{math.NaN(), 0.12, math.Inf(1)}, 0, 0, 0.15, [2]float64{0, 0.05}}, // .12/4 = .03 → .05 (3 is not below 3)
+	{
+		"negative claim",
+		[]float64{-0.298, -0.373, -0.223},
+		0,
+		-0.4,
+		0,
+		[2]float64{-0.4, -0.3},
+	}, // span .373/4 = .093 → .1
+	{
+		"either side",
+		[]float64{-1.3, 2.6},
+		0,
+		-2,
+		3,
+		[2]float64{-2, -1},
+	}, // 3.9/4 = .975 → 1
+	{
+		"odds ratios",
+		[]float64{1.8, 2.4, 3.1},
+		1,
+		1,
+		3.5,
+		[2]float64{1, 1.5},
+	}, // 2.1/4 = .525 → .5
+	{
+		"all zero",
+		[]float64{0, 0},
+		0,
+		-1,
+		1,
+		[2]float64{-1, -0.5},
+	}, // no spread: ±1, 2/4 = .5
+	{
+		"ignores NaN and Inf",
+		[]float64{math.NaN(), 0.12, math.Inf(1)},
+		0,
+		0,
+		0.15,
+		[2]float64{0, 0.05},
+	}, // .12/4 = .03 → .05 (3 is not below 3)
 }
 
 func TestNiceScale(t *testing.T) {
@@ -77,7 +112,8 @@ func TestStabilityChart(t *testing.T) {
 	if len(dots) != 2 { // declared and the non-equivalent alternative; the equivalent one is zero by graph
 		t.Fatalf("%d dots, want 2", len(dots))
 	}
-	if x, _ := strconv.ParseFloat(dots[0][2], 64); dots[0][1] != "sig" || !scalar.EqualWithinAbs(x, sc.At(*c.Declared.Estimate), 0.06) {
+	if x, _ := strconv.ParseFloat(dots[0][2], 64); dots[0][1] != "sig" ||
+		!scalar.EqualWithinAbs(x, sc.At(*c.Declared.Estimate), 0.06) {
 		t.Errorf("declared dot %v, want a filled dot at %g", dots[0], sc.At(*c.Declared.Estimate))
 	}
 	if strings.Count(svg, `class="zero"`) != 1 || !strings.Contains(svg, "zero here") {

@@ -20,7 +20,10 @@ import (
 )
 
 // benchClient is a bounded load generator: at most 8 connections.
-var benchClient = &http.Client{Transport: &http.Transport{MaxIdleConnsPerHost: 8, MaxConnsPerHost: 8}, Timeout: 30 * time.Second}
+var benchClient = &http.Client{
+	Transport: &http.Transport{MaxIdleConnsPerHost: 8, MaxConnsPerHost: 8},
+	Timeout:   30 * time.Second,
+}
 
 func benchDo(b *testing.B, req *http.Request, want int) {
 	resp, err := benchClient.Do(req)
@@ -109,7 +112,10 @@ func storedReport(b *testing.B, m *Main, token string, pkg []byte) stored {
 	if err != nil {
 		b.Fatal(err)
 	}
-	sub, _, err := m.DB.CreateSubmission(context.Background(), service.NewSubmission{Key: k, Package: pkg, Title: "bench", PackageSHA256: s.SHA256})
+	sub, _, err := m.DB.CreateSubmission(
+		context.Background(),
+		service.NewSubmission{Key: k, Package: pkg, Title: "bench", PackageSHA256: s.SHA256},
+	)
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -13,7 +13,8 @@ import (
 func checkDashboard(t *testing.T, ctx context.Context, f *browserFixture) {
 	mustContain(t, ctx, "h1", "Office of Invented Studies")
 	rows := value(t, ctx, chromedp.Evaluate[[]string](
-		`[...document.querySelectorAll('table.submissions tbody tr:not(.grouphead) td:first-child a')].map(a => a.getAttribute('href'))`))
+		`[...document.querySelectorAll('table.submissions tbody tr:not(.grouphead) td:first-child a')].map(a => a.getAttribute('href'))`,
+	))
 	want := []string{"/submissions/" + f.v2.ID, "/submissions/" + f.tutoring.ID, "/submissions/" + f.club.ID}
 	if strings.Join(rows, " ") != strings.Join(want, " ") {
 		t.Errorf("dashboard rows %v, want %v (the versions grouped under the newest)", rows, want)
@@ -68,8 +69,14 @@ func submitLink(t *testing.T, ctx context.Context, sel string) *network.Response
 
 func checkLetter(t *testing.T, ctx context.Context, f *browserFixture) {
 	href := value(t, ctx, chromedp.Evaluate[string](`document.querySelector('a[href$="/letter.md"]').href`))
-	got := value(t, ctx, chromedp.Evaluate[[]string](`fetch('`+href+`').then(async r => [r.headers.get('content-type'), await r.text()])`,
-		chromedp.EvalAwaitPromise))
+	got := value(
+		t,
+		ctx,
+		chromedp.Evaluate[[]string](
+			`fetch('`+href+`').then(async r => [r.headers.get('content-type'), await r.text()])`,
+			chromedp.EvalAwaitPromise,
+		),
+	)
 	if len(got) != 2 || !strings.HasPrefix(got[0], "text/markdown") {
 		t.Fatalf("letter: %v", got)
 	}
@@ -87,7 +94,11 @@ func checkNarrow(t *testing.T, ctx context.Context, f *browserFixture) {
 	defer do(t, ctx, chromedp.EmulateViewport(1280, 1000))
 	for _, path := range []string{"/submissions/" + f.v2.ID, "/submissions/" + f.club.ID, "/"} {
 		do(t, ctx, chromedp.Navigate(f.m.URL()+path))
-		over := value(t, ctx, chromedp.Evaluate[int](`document.documentElement.scrollWidth - document.documentElement.clientWidth`))
+		over := value(
+			t,
+			ctx,
+			chromedp.Evaluate[int](`document.documentElement.scrollWidth - document.documentElement.clientWidth`),
+		)
 		if over > 0 {
 			t.Errorf("%s at 390 px scrolls sideways by %d px", path, over)
 		}

@@ -63,7 +63,8 @@ func mustSubmit(t *testing.T, c apiClient, ctype string, body []byte) api.Submis
 	if code != http.StatusAccepted || json.Unmarshal(b, &v) != nil {
 		t.Fatalf("submit: %d %.300s", code, b)
 	}
-	if code, done := c.submission(v.Links.Self + "?wait=30s"); code != http.StatusOK || done.Status != service.StatusDone {
+	if code, done := c.submission(v.Links.Self + "?wait=30s"); code != http.StatusOK ||
+		done.Status != service.StatusDone {
 		t.Fatalf("screening: %d %+v", code, done)
 	}
 	return v
@@ -165,7 +166,11 @@ func signIn(t *testing.T, ctx context.Context, base, key string) {
 
 func mustSignInPage(t *testing.T, ctx context.Context) {
 	t.Helper()
-	n := value(t, ctx, chromedp.Evaluate[int](`document.querySelectorAll('form[action="/session"] input[name=key]').length`))
+	n := value(
+		t,
+		ctx,
+		chromedp.Evaluate[int](`document.querySelectorAll('form[action="/session"] input[name=key]').length`),
+	)
 	if n != 1 {
 		t.Fatalf("not the sign-in page: %s", value(t, ctx, chromedp.Location()))
 	}

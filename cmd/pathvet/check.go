@@ -74,7 +74,13 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 // screenFile loads the package at path and runs the pipeline on it. On
 // failure it prints the problems and returns a nil report and the exit
 // code.
-func screenFile(ctx context.Context, path string, alpha float64, stderr io.Writer, progress *progressLine) (*checks.Report, int) {
+func screenFile(
+	ctx context.Context,
+	path string,
+	alpha float64,
+	stderr io.Writer,
+	progress *progressLine,
+) (*checks.Report, int) {
 	doc, err := os.ReadFile(path)
 	if err != nil {
 		fmt.Fprintln(stderr, "pathvet check:", err)

@@ -30,7 +30,11 @@ func newClient(server, token string) (*client, error) {
 	if token == "" {
 		return nil, fmt.Errorf("set PATHVET_TOKEN to an API key (pathvet keys create)")
 	}
-	return &client{base: strings.TrimRight(server, "/"), token: token, http: &http.Client{Timeout: 5 * time.Minute}}, nil
+	return &client{
+		base:  strings.TrimRight(server, "/"),
+		token: token,
+		http:  &http.Client{Timeout: 5 * time.Minute},
+	}, nil
 }
 
 // apiError is a problem details answer.
@@ -62,7 +66,12 @@ func (e *apiError) Error() string {
 	return b.String()
 }
 
-func (c *client) do(ctx context.Context, method, path, contentType string, body io.Reader, headers map[string]string) ([]byte, int, error) {
+func (c *client) do(
+	ctx context.Context,
+	method, path, contentType string,
+	body io.Reader,
+	headers map[string]string,
+) ([]byte, int, error) {
 	req, err := http.NewRequestWithContext(ctx, method, c.base+path, body)
 	if err != nil {
 		return nil, 0, err
@@ -164,7 +173,14 @@ func runSubmit(ctx context.Context, args []string, stdout, stderr io.Writer) int
 		fmt.Fprintln(stderr, "pathvet submit:", err)
 		return exitInvalid
 	}
-	b, _, err := c.do(ctx, http.MethodPost, "/v1/submissions", ct, bytes.NewReader(body), map[string]string{"Idempotency-Key": *idem})
+	b, _, err := c.do(
+		ctx,
+		http.MethodPost,
+		"/v1/submissions",
+		ct,
+		bytes.NewReader(body),
+		map[string]string{"Idempotency-Key": *idem},
+	)
 	if err != nil {
 		return clientFailure(stderr, "submit", err)
 	}
@@ -196,7 +212,8 @@ func runSubmit(ctx context.Context, args []string, stdout, stderr io.Writer) int
 
 func clientFailure(stderr io.Writer, cmd string, err error) int {
 	fmt.Fprintf(stderr, "pathvet %s: %v\n", cmd, err)
-	if e, ok := err.(*apiError); ok && (e.Status == http.StatusUnprocessableEntity || e.Status == http.StatusRequestEntityTooLarge) {
+	if e, ok := err.(*apiError); ok &&
+		(e.Status == http.StatusUnprocessableEntity || e.Status == http.StatusRequestEntityTooLarge) {
 		return exitInvalid
 	}
 	return exitInternal

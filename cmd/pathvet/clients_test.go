@@ -17,10 +17,12 @@ func TestCommands_KeysSubmitReport(t *testing.T) {
 		t.Fatalf("migrate status: %d %q %q", code, out, errOut)
 	}
 	if code, _, errOut := runCLI("keys", "create", "--database-url", url, "--office", "Review board", "--role", "editor",
-		"--label", "R. Editor"); code != exitInvalid || !strings.Contains(errOut, "no office named") {
+		"--label", "R. Editor"); code != exitInvalid ||
+		!strings.Contains(errOut, "no office named") {
 		t.Fatalf("keys create for an unknown office: %d %q", code, errOut)
 	}
-	if code, out, errOut := runCLI("offices", "create", "--database-url", url, "Review board"); code != exitOK || !strings.HasSuffix(out, " Review board\n") {
+	if code, out, errOut := runCLI("offices", "create", "--database-url", url, "Review board"); code != exitOK ||
+		!strings.HasSuffix(out, " Review board\n") {
 		t.Fatalf("offices create: %d %q %q", code, out, errOut)
 	}
 	if code, _, _ := runCLI("offices", "create", "--database-url", url, "Review board"); code != exitInvalid {
@@ -70,7 +72,8 @@ func TestCommands_KeysSubmitReport(t *testing.T) {
 		t.Fatalf("unknown id: exit %d", code)
 	}
 	checkKeysList(t, url, token)
-	if code, _, errOut := runCLI("report", "--server", m.URL(), id); code != exitInternal || !strings.Contains(errOut, "401") {
+	if code, _, errOut := runCLI("report", "--server", m.URL(), id); code != exitInternal ||
+		!strings.Contains(errOut, "401") {
 		t.Fatalf("report with a revoked key: %d %q", code, errOut)
 	}
 }
@@ -88,7 +91,8 @@ func checkKeysList(t *testing.T, url, token string) {
 	if f[1] != "Review" || f[3] != "editor" || f[4] != "R." || f[5] != "Editor" || strings.Count(lines[1], " - ") != 0 {
 		t.Fatalf("keys list row %q: want the office, role, label and a last use", lines[1])
 	}
-	if code, out, _ := runCLI("keys", "revoke", "--database-url", url, f[0]); code != exitOK || !strings.Contains(out, "revoked") {
+	if code, out, _ := runCLI("keys", "revoke", "--database-url", url, f[0]); code != exitOK ||
+		!strings.Contains(out, "revoked") {
 		t.Fatalf("keys revoke: %d %q", code, out)
 	}
 	if code, _, _ := runCLI("keys", "revoke", "--database-url", url, f[0]); code != exitInvalid {

@@ -90,9 +90,18 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 	})
 	if serve {
 		fs.StringVar(&c.Addr, "addr", c.Addr, "listen address (PATHVET_ADDR)")
-		fs.IntVar(&c.LargeIngests, "large-ingests", c.LargeIngests, "uploads of 8 MiB or more read at once; more get 503")
-		fs.BoolVar(&c.TLSProxy, "behind-tls", c.TLSProxy,
-			"served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)")
+		fs.IntVar(
+			&c.LargeIngests,
+			"large-ingests",
+			c.LargeIngests,
+			"uploads of 8 MiB or more read at once; more get 503",
+		)
+		fs.BoolVar(
+			&c.TLSProxy,
+			"behind-tls",
+			c.TLSProxy,
+			"served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)",
+		)
 	}
 	fs.Int64Var(&c.JobMemoryMiB, "job-memory-mib", c.JobMemoryMiB,
 		"memory one screening job may use; larger raw data is refused with the estimate (PATHVET_JOB_MEMORY_MIB)")

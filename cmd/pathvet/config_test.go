@@ -22,7 +22,8 @@ func TestConfig_DeadlineForSize(t *testing.T) {
 	fs := flag.NewFlagSet("serve", flag.ContinueOnError)
 	fs.SetOutput(io.Discard)
 	cfg.bindServerFlags(fs, true)
-	if err := fs.Parse([]string{"--job-time-per-10m-cells", "2m"}); err != nil || cfg.JobTimePer10MCells != 2*time.Minute {
+	if err := fs.Parse([]string{"--job-time-per-10m-cells", "2m"}); err != nil ||
+		cfg.JobTimePer10MCells != 2*time.Minute {
 		t.Fatalf("from the flag: %v (%v)", cfg.JobTimePer10MCells, err)
 	}
 	if got, want := cfg.maxCells(), service.MaxCells(900<<20); got != want {

@@ -51,7 +51,8 @@ func TestWorker_JobAtItsDeadlineReturns(t *testing.T) {
 	t.Logf("the attempt ended %v after it started (deadline %v)", took, cfg.JobTimeout)
 	var reason string
 	if err := m.DB.Pool.QueryRow(ctx, `SELECT error FROM submissions WHERE id = $1`, slow.ID).Scan(&reason); err != nil ||
-		!strings.Contains(reason, "attempt 1 of") || !strings.Contains(reason, "deadline exceeded") {
+		!strings.Contains(reason, "attempt 1 of") ||
+		!strings.Contains(reason, "deadline exceeded") {
 		t.Fatalf("the slow submission's error is %q (%v), want its first attempt ended by the deadline", reason, err)
 	}
 	if took > cfg.JobTimeout+deadlineSlack {

@@ -99,15 +99,29 @@ func TestDeploy_MemoryAndGraceAgree(t *testing.T) {
 		}
 		grace, err := time.ParseDuration(d.env["PATHVET_SHUTDOWN_GRACE"])
 		if err != nil || grace >= time.Duration(d.termination)*time.Second {
-			t.Errorf("%s: shutdown grace %q against termination %d s", d.name, d.env["PATHVET_SHUTDOWN_GRACE"], d.termination)
+			t.Errorf(
+				"%s: shutdown grace %q against termination %d s",
+				d.name,
+				d.env["PATHVET_SHUTDOWN_GRACE"],
+				d.termination,
+			)
 		}
 	}
 	job, err := strconv.Atoi(worker.env["PATHVET_JOB_MEMORY_MIB"])
 	if err != nil || float64(job*worker.workers) > 0.9*float64(mib(t, worker.limit)) {
-		t.Errorf("worker: %d jobs × %q MiB do not fit in %s", worker.workers, worker.env["PATHVET_JOB_MEMORY_MIB"], worker.limit)
+		t.Errorf(
+			"worker: %d jobs × %q MiB do not fit in %s",
+			worker.workers,
+			worker.env["PATHVET_JOB_MEMORY_MIB"],
+			worker.limit,
+		)
 	}
 	if api.env["PATHVET_JOB_MEMORY_MIB"] != worker.env["PATHVET_JOB_MEMORY_MIB"] {
-		t.Errorf("the API refuses by %q MiB, the workers have %q", api.env["PATHVET_JOB_MEMORY_MIB"], worker.env["PATHVET_JOB_MEMORY_MIB"])
+		t.Errorf(
+			"the API refuses by %q MiB, the workers have %q",
+			api.env["PATHVET_JOB_MEMORY_MIB"],
+			worker.env["PATHVET_JOB_MEMORY_MIB"],
+		)
 	}
 }
 
@@ -143,7 +157,12 @@ func deployment(t *testing.T, file string) podSpec {
 		t.Fatalf("%s: %v", file, err)
 	}
 	c := d.Spec.Template.Spec.Containers[0]
-	p := podSpec{name: file, env: map[string]string{}, limit: c.Res.Limits.Memory, termination: d.Spec.Template.Spec.Termination}
+	p := podSpec{
+		name:        file,
+		env:         map[string]string{},
+		limit:       c.Res.Limits.Memory,
+		termination: d.Spec.Template.Spec.Termination,
+	}
 	for _, e := range c.Env {
 		p.env[e.Name] = e.Value
 	}

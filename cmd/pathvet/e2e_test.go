@@ -128,9 +128,17 @@ func TestServer_EndToEnd(t *testing.T) {
 	badKey := apiClient{t, &base, "pv_not-a-key"}
 
 	pkg := readFile(t, "../../testdata/demo/tutoring-anxiety/package.json")
-	code, hdr, b := submitter.call(http.MethodPost, "/v1/submissions", "application/json", pkg, "Idempotency-Key", "first")
+	code, hdr, b := submitter.call(
+		http.MethodPost,
+		"/v1/submissions",
+		"application/json",
+		pkg,
+		"Idempotency-Key",
+		"first",
+	)
 	var sub api.SubmissionView
-	if err := json.Unmarshal(b, &sub); err != nil || code != http.StatusAccepted || sub.ID == "" || hdr.Get("Location") != sub.Links.Self {
+	if err := json.Unmarshal(b, &sub); err != nil || code != http.StatusAccepted || sub.ID == "" ||
+		hdr.Get("Location") != sub.Links.Self {
 		t.Fatalf("submit: %d %s", code, b)
 	}
 	t.Run("Wait", func(t *testing.T) {
@@ -142,14 +150,18 @@ func TestServer_EndToEnd(t *testing.T) {
 	t.Run("Report", func(t *testing.T) {
 		code, hdr, b := submitter.call(http.MethodGet, sub.Links.Report, "", nil)
 		var rep checks.Report
-		if code != http.StatusOK || json.Unmarshal(b, &rep) != nil || rep.PackageSHA256 != sub.PackageSHA256 || !strings.HasPrefix(hdr.Get("Content-Type"), "application/json") {
+		if code != http.StatusOK || json.Unmarshal(b, &rep) != nil || rep.PackageSHA256 != sub.PackageSHA256 ||
+			!strings.HasPrefix(hdr.Get("Content-Type"), "application/json") {
 			t.Fatalf("report: %d %.200s", code, b)
 		}
-		if code, _, b := submitter.call(http.MethodGet, sub.Links.Report+"?format=text", "", nil); code != 200 || !bytes.HasPrefix(b, []byte("Score ")) {
+		if code, _, b := submitter.call(http.MethodGet, sub.Links.Report+"?format=text", "", nil); code != 200 ||
+			!bytes.HasPrefix(b, []byte("Score ")) {
 			t.Fatalf("text report: %d %.100s", code, b)
 		}
 		code, hdr, b = submitter.call(http.MethodGet, sub.Links.Report+"?format=html", "", nil)
-		if code != 200 || !strings.HasPrefix(hdr.Get("Content-Type"), "text/html") || !bytes.Contains(b, []byte("not a verdict")) || !bytes.Contains(b, []byte("Score ")) {
+		if code != 200 || !strings.HasPrefix(hdr.Get("Content-Type"), "text/html") ||
+			!bytes.Contains(b, []byte("not a verdict")) ||
+			!bytes.Contains(b, []byte("Score ")) {
 			t.Fatalf("html report: %d %.200s", code, b)
 		}
 		if code, _, _ := submitter.call(http.MethodGet, sub.Links.Report+"?format=pdf", "", nil); code != 400 {
@@ -157,7 +169,14 @@ func TestServer_EndToEnd(t *testing.T) {
 		}
 	})
 	t.Run("Idempotency", func(t *testing.T) {
-		code, hdr, b := submitter.call(http.MethodPost, "/v1/submissions", "application/json", pkg, "Idempotency-Key", "first")
+		code, hdr, b := submitter.call(
+			http.MethodPost,
+			"/v1/submissions",
+			"application/json",
+			pkg,
+			"Idempotency-Key",
+			"first",
+		)
 		var again api.SubmissionView
 		_ = json.Unmarshal(b, &again)
 		if code != http.StatusAccepted || again.ID != sub.ID || hdr.Get("Idempotent-Replayed") != "true" {
@@ -182,7 +201,9 @@ func TestServer_EndToEnd(t *testing.T) {
 				t.Errorf("%s report: %d, want %d", tc.name, code, tc.want)
 			}
 		}
-		if code, hdr, b := anonymous.call(http.MethodGet, "/v1/submissions", "", nil); code != 401 || hdr.Get("WWW-Authenticate") == "" || hdr.Get("Content-Type") != api.ProblemContentType {
+		if code, hdr, b := anonymous.call(http.MethodGet, "/v1/submissions", "", nil); code != 401 ||
+			hdr.Get("WWW-Authenticate") == "" ||
+			hdr.Get("Content-Type") != api.ProblemContentType {
 			t.Errorf("no key: %d %s %s", code, hdr, b)
 		}
 	})
@@ -196,7 +217,8 @@ func TestServer_EndToEnd(t *testing.T) {
 		if json.Unmarshal(b, &v); code != http.StatusAccepted {
 			t.Fatalf("multipart: %d %s", code, b)
 		}
-		if _, done := editor.submission(v.Links.Self + "?wait=20s"); done.Status != service.StatusDone || *done.Band != checks.BandModerate {
+		if _, done := editor.submission(v.Links.Self + "?wait=20s"); done.Status != service.StatusDone ||
+			*done.Band != checks.BandModerate {
 			t.Fatalf("multipart screening: %+v", done)
 		}
 	})
@@ -229,12 +251,24 @@ func TestServer_EndToEnd(t *testing.T) {
 		}
 	})
 	t.Run("BadPackage422", func(t *testing.T) {
-		code, hdr, b := editor.call(http.MethodPost, "/v1/submissions", "application/json", readFile(t, "../../testdata/bad/edge-unknown-variable.json"))
+		code, hdr, b := editor.call(
+			http.MethodPost,
+			"/v1/submissions",
+			"application/json",
+			readFile(t, "../../testdata/bad/edge-unknown-variable.json"),
+		)
 		var p api.Problem
-		if json.Unmarshal(b, &p); code != 422 || hdr.Get("Content-Type") != api.ProblemContentType || len(p.Errors) == 0 || p.Errors[0].Pointer != "/graph/edges/2/to" {
+		if json.Unmarshal(b, &p); code != 422 || hdr.Get("Content-Type") != api.ProblemContentType ||
+			len(p.Errors) == 0 ||
+			p.Errors[0].Pointer != "/graph/edges/2/to" {
 			t.Fatalf("bad package: %d %s", code, b)
 		}
-		code, _, b = editor.call(http.MethodPost, "/v1/submissions", "application/json", readFile(t, "../../testdata/bad/csv-not-a-number.json"))
+		code, _, b = editor.call(
+			http.MethodPost,
+			"/v1/submissions",
+			"application/json",
+			readFile(t, "../../testdata/bad/csv-not-a-number.json"),
+		)
 		if json.Unmarshal(b, &p); code != 422 || p.Errors[0].Line != 3 || p.Errors[0].Column != 2 {
 			t.Fatalf("bad CSV: %d %s", code, b)
 		}

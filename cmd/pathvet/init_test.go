@@ -57,7 +57,8 @@ func TestInit_Rows(t *testing.T) {
 		t.Fatal(err)
 	}
 	d := p["data"].(map[string]any)
-	if fmt.Sprint(d["missing_codes"]) != "[-99 .]" || fmt.Sprint(d["ignore_columns"]) != "[id]" || d["file"] != "rows.csv" {
+	if fmt.Sprint(d["missing_codes"]) != "[-99 .]" || fmt.Sprint(d["ignore_columns"]) != "[id]" ||
+		d["file"] != "rows.csv" {
 		t.Errorf("data section %v", d)
 	}
 	code, _, errs = runCLI("check", pkg)
@@ -107,7 +108,8 @@ func TestInit_Summary(t *testing.T) {
 	if _, err := os.Stat(filepath.Join(dir, "p.notes.txt")); err != nil {
 		t.Error(err)
 	}
-	if code, _, errs := runCLI("init", "--summary", table, "--out", pkg); code != exitInvalid || !strings.Contains(errs, "--force") {
+	if code, _, errs := runCLI("init", "--summary", table, "--out", pkg); code != exitInvalid ||
+		!strings.Contains(errs, "--force") {
 		t.Errorf("second init overwrote: %d %s", code, errs)
 	}
 	for text, want := range map[string]string{

@@ -109,7 +109,11 @@ func withDB(ctx context.Context, c *command, url string, fn func(*store.DB) int)
 func createKey(ctx context.Context, c *command, args []string) int {
 	url := c.databaseURLFlag()
 	office := c.String("office", "", "the office the key belongs to (create it first with offices create)")
-	role := c.String("role", service.RoleSubmitter, "editor (sees all of the office's submissions) or submitter (its own)")
+	role := c.String(
+		"role",
+		service.RoleSubmitter,
+		"editor (sees all of the office's submissions) or submitter (its own)",
+	)
 	label := c.String("label", "", "who holds the key, shown on its submissions")
 	pos, code, ok := c.parse(args)
 	switch {

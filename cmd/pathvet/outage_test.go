@@ -32,7 +32,8 @@ func TestServer_OutageIs503(t *testing.T) {
 		}
 		path := strings.ReplaceAll(r[1], ":id", id)
 		code, hdr, b := c.call(r[0], path, "application/json", pkg, "Idempotency-Key", "during-outage")
-		if code != http.StatusServiceUnavailable || hdr.Get("Retry-After") == "" || hdr.Get("Content-Type") != api.ProblemContentType {
+		if code != http.StatusServiceUnavailable || hdr.Get("Retry-After") == "" ||
+			hdr.Get("Content-Type") != api.ProblemContentType {
 			t.Errorf("%s %s during an outage: %d %v %.200s", r[0], r[1], code, hdr, b)
 		}
 	}
@@ -41,7 +42,8 @@ func TestServer_OutageIs503(t *testing.T) {
 		time.Sleep(100 * time.Millisecond)
 	}
 	var n int
-	if err := db.Pool.QueryRow(context.Background(), `SELECT count(*) FROM submissions`).Scan(&n); err != nil || n != 1 {
+	if err := db.Pool.QueryRow(context.Background(), `SELECT count(*) FROM submissions`).Scan(&n); err != nil ||
+		n != 1 {
 		t.Fatalf("after the outage %d submissions (%v), want the 1 from before", n, err)
 	}
 }

@@ -37,7 +37,8 @@ func TestServer_BadBytesAreProblems(t *testing.T) {
 			code, hdr, b := c.call(p.method, p.path, p.ctype, p.body, p.headers...)
 			var pr api.Problem
 			_ = json.Unmarshal(b, &pr)
-			if code != p.want || hdr.Get("Content-Type") != api.ProblemContentType || !strings.Contains(pr.Detail, p.detail) {
+			if code != p.want || hdr.Get("Content-Type") != api.ProblemContentType ||
+				!strings.Contains(pr.Detail, p.detail) {
 				t.Fatalf("%d %s %.300s", code, hdr.Get("Content-Type"), b)
 			}
 			if code == http.StatusMethodNotAllowed && !strings.Contains(hdr.Get("Allow"), "GET") {
@@ -53,19 +54,51 @@ func badBytes(t *testing.T, pkg []byte) []probe {
 	uuid := "3f0e6f43-6c1e-4a8e-9d55-0d2f5b4f2a10"
 	twoCT, twoBody := twoParts(t, pkg)
 	return []probe{
-		{name: "QueryInvalidUTF8", method: "GET", path: "/v1/submissions?manuscript_id=%FF%FE", want: 400, detail: "manuscript_id"},
+		{
+			name:   "QueryInvalidUTF8",
+			method: "GET",
+			path:   "/v1/submissions?manuscript_id=%FF%FE",
+			want:   400,
+			detail: "manuscript_id",
+		},
 		{name: "QueryNUL", method: "GET", path: "/v1/submissions?manuscript_id=a%00b", want: 400, detail: "NUL"},
 		{name: "QueryBadEscape", method: "GET", path: "/v1/submissions?status=%zz", want: 400, detail: "malformed"},
-		{name: "CursorFarFuture", method: "GET", path: "/v1/submissions?cursor=" + cursor("9223372036854775807/"+uuid), want: 400, detail: "cursor"},
-		{name: "CursorFarPast", method: "GET", path: "/v1/submissions?cursor=" + cursor("-9223372036854775808/"+uuid), want: 400, detail: "cursor"},
-		{name: "IdempotencyKeyInvalidUTF8", method: "POST", path: "/v1/submissions", ctype: "application/json", body: pkg,
-			headers: []string{"Idempotency-Key", "k\xff\xfe"}, want: 400, detail: "Idempotency-Key"},
+		{
+			name:   "CursorFarFuture",
+			method: "GET",
+			path:   "/v1/submissions?cursor=" + cursor("9223372036854775807/"+uuid),
+			want:   400,
+			detail: "cursor",
+		},
+		{
+			name:   "CursorFarPast",
+			method: "GET",
+			path:   "/v1/submissions?cursor=" + cursor("-9223372036854775808/"+uuid),
+			want:   400,
+			detail: "cursor",
+		},
+		{
+			name:    "IdempotencyKeyInvalidUTF8",
+			method:  "POST",
+			path:    "/v1/submissions",
+			ctype:   "application/json",
+			body:    pkg,
+			headers: []string{"Idempotency-Key", "k\xff\xfe"},
+			want:    400,
+			detail:  "Idempotency-Key",
+		},
 		{name: "TwoPackageParts", method: "POST", path: "/v1/submissions", ctype: twoCT, body: twoBody,
 			want: 400, detail: "more than one part named package"},
 		{name: "UnknownMethod", method: "PUT", path: "/v1/submissions", want: 405, detail: "PUT"},
 		{name: "UnknownMethodOnID", method: "PATCH", path: "/v1/submissions/" + uuid, want: 405, detail: "PATCH"},
-		{name: "HeadersTooLarge", method: "GET", path: "/v1/submissions", headers: []string{"X-Filler", strings.Repeat("a", 80<<10)},
-			want: 431, detail: "limit of 65536 bytes"},
+		{
+			name:    "HeadersTooLarge",
+			method:  "GET",
+			path:    "/v1/submissions",
+			headers: []string{"X-Filler", strings.Repeat("a", 80<<10)},
+			want:    431,
+			detail:  "limit of 65536 bytes",
+		},
 		{name: "PackageTooLarge", method: "POST", path: "/v1/submissions", ctype: "application/json",
 			body: bytes.Repeat([]byte(" "), 2<<20), want: 413, detail: "limit of 1048576 bytes"},
 	}

@@ -31,7 +31,8 @@ func TestProgressLine_Draws(t *testing.T) {
 	p.update("missing data: imputations", 20, 20)
 	p.clear()
 	out := buf.String()
-	if !strings.Contains(out, "\r\033[Kpathvet: missing data: imputations: 20 of 20 done") || !strings.HasSuffix(out, "\r\033[K") {
+	if !strings.Contains(out, "\r\033[Kpathvet: missing data: imputations: 20 of 20 done") ||
+		!strings.HasSuffix(out, "\r\033[K") {
 		t.Fatalf("drew %q", out)
 	}
 }

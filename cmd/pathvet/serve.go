@@ -79,8 +79,18 @@ func (m *Main) Run(ctx context.Context) error {
 	if !m.serve {
 		return nil
 	}
-	srv := api.New(api.Config{Store: db, Web: db, TLSProxy: m.Config.TLSProxy, Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics,
-		LargeIngests: m.Config.LargeIngests, JobMemory: m.Config.JobMemoryMiB << 20})
+	srv := api.New(
+		api.Config{
+			Store:        db,
+			Web:          db,
+			TLSProxy:     m.Config.TLSProxy,
+			Limits:       m.Config.Limits,
+			Logger:       m.Logger,
+			Metrics:      metrics,
+			LargeIngests: m.Config.LargeIngests,
+			JobMemory:    m.Config.JobMemoryMiB << 20,
+		},
+	)
 	m.API = srv
 	m.ln, err = net.Listen("tcp", m.Config.Addr)
 	if err != nil {

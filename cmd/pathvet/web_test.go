@@ -69,24 +69,28 @@ func TestWeb_SignIn(t *testing.T) {
 		t.Fatalf("sign-in without the CSRF token: %d", code)
 	}
 	huge := url.Values{"key": {strings.Repeat("k", 100<<10)}, "_csrf": {csrf[1]}}
-	if code, _, page := w.post("/session", huge); code != http.StatusRequestEntityTooLarge || !strings.Contains(page, "<h1>") {
+	if code, _, page := w.post("/session", huge); code != http.StatusRequestEntityTooLarge ||
+		!strings.Contains(page, "<h1>") {
 		t.Fatalf("a 100 KiB sign-in form: %d", code)
 	}
 	for i := 1; i <= 4; i++ {
 		code, _, page := w.post("/session", url.Values{"key": {"pv_wrong"}, "_csrf": {csrf[1]}})
-		if code != http.StatusUnprocessableEntity || !strings.Contains(page, "not accepted") || !strings.Contains(page, `name="key"`) {
+		if code != http.StatusUnprocessableEntity || !strings.Contains(page, "not accepted") ||
+			!strings.Contains(page, `name="key"`) {
 			t.Fatalf("wrong key %d: %d %.300s", i, code, page)
 		}
 	}
 	code, hdr, page := w.post("/session", url.Values{"key": {token}, "_csrf": {csrf[1]}})
-	if code != http.StatusTooManyRequests || hdr.Get("Retry-After") == "" || !strings.Contains(page, "Too many failed sign-ins") {
+	if code != http.StatusTooManyRequests || hdr.Get("Retry-After") == "" ||
+		!strings.Contains(page, "Too many failed sign-ins") {
 		t.Fatalf("after four failures: %d %q %.300s", code, hdr.Get("Retry-After"), page)
 	}
 	if _, err := db.Pool.Exec(context.Background(), `DELETE FROM web_sign_in_failures`); err != nil {
 		t.Fatal(err)
 	}
 	code, hdr, _ = w.post("/session", url.Values{"key": {token}, "_csrf": {csrf[1]}})
-	if code != http.StatusSeeOther || hdr.Get("Location") != "/" || !strings.Contains(hdr.Get("Set-Cookie"), "HttpOnly") {
+	if code != http.StatusSeeOther || hdr.Get("Location") != "/" ||
+		!strings.Contains(hdr.Get("Set-Cookie"), "HttpOnly") {
 		t.Fatalf("sign-in: %d %v", code, hdr)
 	}
 	if code, page := w.get("/"); code != http.StatusOK || !strings.Contains(page, "Submissions of Office T") {
@@ -101,7 +105,8 @@ func TestWeb_SignIn(t *testing.T) {
 func checkRerunDelete(t *testing.T, w *webClient, m *Main, token string, sub api.SubmissionView, csrf string) {
 	base := m.URL()
 	editor := apiClient{t, &base, token}
-	if code, v := editor.submission(sub.Links.Self + "?wait=30s"); code != http.StatusOK || v.Status != service.StatusDone {
+	if code, v := editor.submission(sub.Links.Self + "?wait=30s"); code != http.StatusOK ||
+		v.Status != service.StatusDone {
 		t.Fatalf("screening: %d %+v", code, v)
 	}
 	code, hdr, _ := w.post("/submissions/"+sub.ID+"/rerun", url.Values{"_csrf": {csrf}})
@@ -119,7 +124,8 @@ func checkRerunDelete(t *testing.T, w *webClient, m *Main, token string, sub api
 	if earlier == nil {
 		t.Fatal("no link to the earlier report")
 	}
-	if code, page := w.get(earlier[1]); code != http.StatusOK || !strings.Contains(page, "earlier report, number 1 of 2") {
+	if code, page := w.get(earlier[1]); code != http.StatusOK ||
+		!strings.Contains(page, "earlier report, number 1 of 2") {
 		t.Fatalf("the earlier report: %d", code)
 	}
 	code, hdr, _ = w.post("/submissions/"+sub.ID+"/delete", url.Values{"_csrf": {csrf}})
@@ -149,7 +155,8 @@ func checkSubmitterScope(t *testing.T, m *Main, db *store.DB, editorToken string
 	if code, _, _ := w.post("/session", url.Values{"key": {submitter}, "_csrf": {csrf[1]}}); code != http.StatusSeeOther {
 		t.Fatalf("submitter sign-in: %d", code)
 	}
-	if code, page := w.get("/submissions/" + sub.ID); code != http.StatusNotFound || !strings.Contains(page, "Not found") {
+	if code, page := w.get("/submissions/" + sub.ID); code != http.StatusNotFound ||
+		!strings.Contains(page, "Not found") {
 		t.Errorf("a submitter opens an editor's submission: %d", code)
 	}
 	if _, page := w.get("/"); strings.Contains(page, sub.ID) {

@@ -74,7 +74,8 @@ func TestServer_Webhook(t *testing.T) {
 	rcv.mu.Unlock()
 	var shown api.WebhookView
 	if code, _, b := editor.call(http.MethodGet, "/v1/webhook", "", nil); code != 200 || json.Unmarshal(b, &shown) != nil ||
-		shown.Secret != "" || shown.URL != hook.URL {
+		shown.Secret != "" ||
+		shown.URL != hook.URL {
 		t.Fatalf("get webhook shows its secret or fails: %d %s", code, b)
 	}
 	_, _, b = submitter.call(http.MethodPost, "/v1/submissions", "application/json",
@@ -100,7 +101,8 @@ func checkDelivered(t *testing.T, rcv *receiver, editor apiClient, id string) {
 	var list api.DeliveryList
 	for range 50 { // the outcome is recorded just after the answer
 		_, _, b := editor.call(http.MethodGet, "/v1/webhook/deliveries", "", nil)
-		if json.Unmarshal(b, &list); len(list.Deliveries) == 1 && list.Deliveries[0].Status == service.DeliveryDelivered {
+		if json.Unmarshal(b, &list); len(list.Deliveries) == 1 &&
+			list.Deliveries[0].Status == service.DeliveryDelivered {
 			break
 		}
 		time.Sleep(100 * time.Millisecond)

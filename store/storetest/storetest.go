@@ -57,7 +57,11 @@ func MustCreateDB(tb testing.TB) string {
 	defer cancel()
 	admin, err := pgx.Connect(ctx, AdminURL())
 	if err != nil {
-		tb.Fatalf("PostgreSQL for the tests is unreachable at %s (set PATHVET_TEST_DATABASE_URL; bash .ci/run starts one): %v", AdminURL(), err)
+		tb.Fatalf(
+			"PostgreSQL for the tests is unreachable at %s (set PATHVET_TEST_DATABASE_URL; bash .ci/run starts one): %v",
+			AdminURL(),
+			err,
+		)
 	}
 	defer admin.Close(ctx)
 	suffix := make([]byte, 6)
