@@ -136,7 +136,8 @@ func writeNearby(b *strings.Builder, g *checks.GraphReport) {
 		if n.Favours == "declared" || n.Favours == "nearby" {
 			ev += map[string]string{"declared": ", for the declared graph", "nearby": ", for this graph"}[n.Favours]
 		}
-		text := fmt.Sprintf("%s (%s); class of %s", strings.Join(edits, ", "), ev, classWords(n))
+		text := fmt.Sprintf("%s (%s); class of %v, %v plausible", strings.Join(edits, ", "),
+			ev, n.EquivalenceClassSize, orDash(n.PlausibleClassSize))
 		if len(changed) > 0 {
 			text += "; changed: " + strings.Join(changed, ", ")
 		}
@@ -149,6 +150,13 @@ func writeNearby(b *strings.Builder, g *checks.GraphReport) {
 		line("search", *g.SearchBest)
 		wrap(b, "  ", "(the search's end point is a hint, not a discovery)")
 	}
+}
+
+func orDash(v any) any {
+	if v == nil {
+		return "uncounted"
+	}
+	return v
 }
 
 func deref(x *float64) float64 {
