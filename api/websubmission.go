@@ -61,7 +61,7 @@ func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []servi
 // pending is the page of a submission without a report: its status and,
 // while it runs, how far it is; it reloads itself until the screening ends.
 func (s *Server) pending(c echo.Context, sub *service.Submission) error {
-	p := render.Pending{Nav: s.nav(c), Title: sub.Title, Status: sub.Status, Running: progressOf(sub),
+	p := render.Pending{Nav: s.nav(c), ID: sub.ID, Title: sub.Title, Status: sub.Status, Running: progressOf(sub),
 		Note: statusNote(sub)}
 	return s.page(c, http.StatusOK, func(b *strings.Builder) error { return render.WritePending(b, p) })
 }

@@ -50,6 +50,7 @@ func (p Progress) Bar() string {
 // running (with its progress, when the worker has written it) or failed.
 type Pending struct {
 	Nav     Nav
+	ID      string
 	Title   string
 	Status  string
 	Running *Progress // nil unless running and written
@@ -59,6 +60,10 @@ type Pending struct {
 // Refresh says whether the page reloads itself: while the screening may
 // still end.
 func (p Pending) Refresh() bool { return p.Status == "queued" || p.Status == "running" }
+
+// Failed says whether the screening ended without a report: the page then
+// offers to screen it again.
+func (p Pending) Failed() bool { return p.Status == "failed" }
 
 // WritePending writes the page of a submission that has no report yet.
 func WritePending(w io.Writer, p Pending) error { return pageTmpl.ExecuteTemplate(w, "pending", p) }

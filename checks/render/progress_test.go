@@ -69,7 +69,8 @@ func TestDashboardRunningRow(t *testing.T) {
 }
 
 // TestPendingPage: a running submission without a report shows its
-// progress and reloads itself; a failed one says why, and does not.
+// progress and reloads itself; a failed one says why, does not, and offers
+// to screen it again.
 func TestPendingPage(t *testing.T) {
 	for _, tc := range []struct {
 		p       Pending
@@ -79,8 +80,8 @@ func TestPendingPage(t *testing.T) {
 		{Pending{Title: "T", Status: "running", Note: "attempt 2, since 05:10 UTC",
 			Running: &Progress{Stage: "checks (now: Fit)", Done: 3, Total: 12, AsOf: "05:11:00 UTC"}},
 			[]string{"checks (now: Fit), 3 of 12 done", "[■■□□□□□□□□]", "; attempt 2", "reloads itself"}, true},
-		{Pending{Title: "T", Status: "failed", Note: "the data do not parse"},
-			[]string{"; the data do not parse", "has no report."}, false},
+		{Pending{ID: "s-1", Title: "T", Status: "failed", Note: "the data do not parse"},
+			[]string{"; the data do not parse", "has no report.", `action="/submissions/s-1/rerun"`}, false},
 	} {
 		var b strings.Builder
 		if err := WritePending(&b, tc.p); err != nil {
@@ -91,6 +92,9 @@ func TestPendingPage(t *testing.T) {
 			if !strings.Contains(page, w) {
 				t.Errorf("%s: the page lacks %q", tc.p.Status, w)
 			}
+		}
+		if tc.p.Status != "failed" && strings.Contains(page, "/rerun") {
+			t.Errorf("%s: the page offers to screen again while the screening may still end", tc.p.Status)
 		}
 		if got := strings.Contains(page, `http-equiv="refresh"`); got != tc.refresh {
 			t.Errorf("%s: reloads itself %v, want %v", tc.p.Status, got, tc.refresh)
