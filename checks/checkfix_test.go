@@ -65,3 +65,39 @@ func TestMeasurement_NothingReestimatedIsNotAPass(t *testing.T) {
 		t.Errorf("no warning naming why R1 and R2 were not re-estimated: %+v", c.Findings)
 	}
 }
+
+// With n = 4, the total effect T1 of m on y is y regressed on m and m's
+// parents: under the declared graph that is m and x (it needs 4 cases),
+// under the stated alternative, which gives m a second parent w and fits
+// about as well, it is m, x and w (it needs 5), though that graph itself
+// can be fitted (no equation has more than 2 parents). The claim cannot
+// be weighed there, and alternatives must warn, not pass.
+func TestAlternatives_UnestimatedUnderCloseAlternativeWarns(t *testing.T) {
+	doc := []byte(`{"format_version": 1, "title": "Invented test package", "design": "observational",
+  "variables": [{"name": "x", "scale": "continuous", "reliability": 0.9},
+    {"name": "w", "scale": "continuous", "reliability": 0.9},
+    {"name": "m", "scale": "continuous", "reliability": 0.9}, {"name": "y", "scale": "continuous", "reliability": 0.9}],
+  "graph": {"edges": [{"from": "x", "to": "m"}, {"from": "m", "to": "y"}, {"from": "w", "to": "y"}],
+    "justification": "Invented.", "equivalents_discussed": true},
+  "alternatives": [{"name": "two-causes", "edges": [{"from": "x", "to": "m"}, {"from": "w", "to": "m"},
+    {"from": "m", "to": "y"}], "justification": "Invented."}],
+  "claims": [{"id": "T1", "text": "m raises y", "kind": "total_effect", "from": "m", "to": "y",
+    "estimate": 0.35, "estimate_scale": "standardized"}],
+  "missing_data": {"method": "none"},
+  "data": {"kind": "summary", "n": 4, "variables": ["x", "w", "m", "y"],
+    "correlations": [[1], [0.1, 1], [0.3, 0.2, 1], [0.2, 0.25, 0.35, 1]], "sds": [1, 1, 1, 1],
+    "means": [0, 0, 0, 0]}}`)
+	s, err := load.Load(doc, load.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := checkOf(mustRun(t, s), "alternatives")
+	found := false
+	for _, f := range c.Findings {
+		found = found || f.Severity == checks.StatusWarn && f.Claim == "T1" &&
+			strings.Contains(f.Message, `could not be estimated under the alternative "two-causes"`)
+	}
+	if c.Status == checks.StatusPass || !found || strings.Contains(c.Summary, "changes sign") {
+		t.Errorf("alternatives %s %q: %+v", c.Status, c.Summary, c.Findings)
+	}
+}
