@@ -101,3 +101,42 @@ func TestAlternatives_UnestimatedUnderCloseAlternativeWarns(t *testing.T) {
 		t.Errorf("alternatives %s %q: %+v", c.Status, c.Summary, c.Findings)
 	}
 }
+
+// The nearby-graphs warning names the reasons that apply: tutoring-anxiety
+// warns only because the greedy search ends clearly better (ΔBIC −9.28),
+// coding-club only because a claim changes in a class within ΔBIC 2.
+func TestNearbyGraphs_WarnSummaryNamesItsReason(t *testing.T) {
+	for _, tc := range []struct{ demo, want string }{
+		{"tutoring-anxiety", "The graphs near the declared one need a look: a greedy search finds graphs that fit " +
+			"clearly better (ΔBIC = -9.28); see the findings."},
+		{"coding-club", "The graphs near the declared one need a look: a claim changes sign or significance in a " +
+			"graph that fits about as well (|ΔBIC| < 2); see the findings."},
+	} {
+		c := checkOf(mustRun(t, MustLoad(t, "../testdata/demo/"+tc.demo+"/package.json")), "nearby-graphs")
+		if c.Status != checks.StatusWarn || c.Summary != tc.want {
+			t.Errorf("%s: %s %q\nwant warn %q", tc.demo, c.Status, c.Summary, tc.want)
+		}
+	}
+}
+
+// The listed classes that fit better by 2 or more (sleep-attention has
+// one, tutoring-anxiety two) have their claims re-estimated, as the
+// classes within 2 do.
+func TestNearbyGraphs_BetterClassesReestimated(t *testing.T) {
+	for _, demo := range []string{"sleep-attention", "tutoring-anxiety"} {
+		r := mustRun(t, MustLoad(t, "../testdata/demo/"+demo+"/package.json"))
+		better := 0
+		for _, g := range r.Graph.NearbyGraphs {
+			if g.DeltaBIC != nil && *g.DeltaBIC <= -2 {
+				better++
+				if len(g.Claims) == 0 {
+					t.Errorf("%s: class %+v (ΔBIC %.2f) fits better by 2 but its claims were not re-estimated",
+						demo, g.Edits, *g.DeltaBIC)
+				}
+			}
+		}
+		if better == 0 {
+			t.Errorf("%s: no listed class fits better by 2 or more", demo)
+		}
+	}
+}
