@@ -120,15 +120,33 @@ func dashboardRow(sub *service.Submission, v service.Version) render.Row {
 	if v.Of > 1 {
 		r.Version = fmt.Sprintf("version %d of %d", v.N, v.Of)
 	}
+	r.Running, r.Progress = progressOf(sub), statusNote(sub)
+	return r
+}
+
+// statusNote says a submission's attempt while it runs or waits to retry,
+// and why it failed.
+func statusNote(sub *service.Submission) string {
 	switch {
 	case sub.Status == service.StatusRunning:
-		r.Progress = fmt.Sprintf("attempt %d, since %s", sub.Attempts, sub.UpdatedAt.UTC().Format("15:04 UTC"))
+		return fmt.Sprintf("attempt %d, since %s", sub.Attempts, sub.UpdatedAt.UTC().Format("15:04 UTC"))
 	case sub.Status == service.StatusQueued && sub.Attempts > 0:
-		r.Progress = fmt.Sprintf("waiting to retry after attempt %d", sub.Attempts)
+		return fmt.Sprintf("waiting to retry after attempt %d", sub.Attempts)
 	case sub.Status == service.StatusFailed:
-		r.Progress = sub.Error
+		return sub.Error
 	}
-	return r
+	return ""
+}
+
+// progressOf is how far a running submission is, for a page; nil when it
+// is not running or its worker has not yet written how far it is.
+func progressOf(sub *service.Submission) *render.Progress {
+	p := sub.Progress
+	if p == nil || sub.Status != service.StatusRunning {
+		return nil
+	}
+	return &render.Progress{Stage: p.Stage, Done: p.Done, Total: p.Total,
+		AsOf: p.UpdatedAt.UTC().Format("15:04:05 UTC")}
 }
 
 // keyLabel names the key a submission was sent with.

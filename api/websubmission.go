@@ -28,8 +28,7 @@ func (s *Server) webSubmission(c echo.Context) error {
 		return err
 	}
 	if len(hist) == 0 {
-		return s.notice(c, http.StatusOK, sub.Title, fmt.Sprintf("This submission is %s and has no report yet; "+
-			"reload the page in a little while.", sub.Status))
+		return s.pending(c, sub)
 	}
 	rep, ws, err := s.workspace(c, sub, hist)
 	if err != nil {
@@ -41,7 +40,8 @@ func (s *Server) webSubmission(c echo.Context) error {
 // workspace picks the report to show and gathers what the page adds to it.
 func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []service.ReportEntry) (
 	*checks.Report, render.Workspace, error) {
-	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Error: sub.Error}
+	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Error: sub.Error,
+		Running: progressOf(sub)}
 	shown, err := pickReport(hist, c.QueryParam("report"))
 	if err != nil {
 		return nil, ws, err
@@ -56,6 +56,14 @@ func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []servi
 	}
 	ws.Previous, err = s.previous(c, sub, rep)
 	return rep, ws, err
+}
+
+// pending is the page of a submission without a report: its status and,
+// while it runs, how far it is; it reloads itself until the screening ends.
+func (s *Server) pending(c echo.Context, sub *service.Submission) error {
+	p := render.Pending{Nav: s.nav(c), Title: sub.Title, Status: sub.Status, Running: progressOf(sub),
+		Note: statusNote(sub)}
+	return s.page(c, http.StatusOK, func(b *strings.Builder) error { return render.WritePending(b, p) })
 }
 
 // pickReport finds the report named by ?report= (its id), else the newest.

@@ -14,7 +14,7 @@ const weakBIC = 2
 
 // alternatives: did the authors state alternatives; are they
 // distinguishable from the declared graph; do the claims survive them?
-// (checks.md)
+// (README, "Checks")
 var alternativesCheck = Check{
 	ID:    "alternatives",
 	Title: "Stated alternative graphs",

@@ -23,7 +23,7 @@ var causalWords = []string{
 var causalRE = regexp.MustCompile(`(?i)\b(` + strings.Join(causalWords, "|") + `)\b`)
 
 // causal-language: do causal words in claims match the design, and is the
-// emulated trial described? (checks.md)
+// emulated trial described? (README, "Checks")
 var causalLanguageCheck = Check{
 	ID:    "causal-language",
 	Title: "Causal language and the target trial",

@@ -21,7 +21,7 @@ const weakEValue = 1.5
 const rareOutcome = 0.15
 
 // confounding-sensitivity: how strong would unmeasured confounding have
-// to be to explain each causal claim away? (checks.md)
+// to be to explain each causal claim away? (README, "Checks")
 var confoundingCheck = Check{
 	ID:    "confounding-sensitivity",
 	Title: "Sensitivity to unmeasured confounding",

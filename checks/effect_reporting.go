@@ -14,7 +14,7 @@ import (
 
 // effect-reporting: does every claim carry an effect size and interval
 // beside its p-value; are the reported numbers consistent; is "no effect"
-// backed by an interval that excludes meaningful effects? (checks.md)
+// backed by an interval that excludes meaningful effects? (README, "Checks")
 var effectReportingCheck = Check{
 	ID:    "effect-reporting",
 	Title: "Effect sizes, intervals and p-values",

@@ -12,7 +12,7 @@ import (
 const MaxListedMembers = 50
 
 // equivalence: which graphs fit the data exactly as well, and did the
-// authors say so? (checks.md) This is its graph half: the CPDAG, both
+// authors say so? (README, "Checks") This is its graph half: the CPDAG, both
 // class sizes, and which claimed arrows the data cannot orient.
 var equivalenceCheck = Check{
 	ID:    "equivalence",

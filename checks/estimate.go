@@ -119,7 +119,7 @@ func (a *Analysis) report(e est) *Estimate {
 // parentsFunc gives the parents of a node in some graph.
 type parentsFunc func(v int) []int
 
-// estimateClaim estimates claim c with parents pa (checks.md,
+// estimateClaim estimates claim c with parents pa (README, "Checks",
 // "equivalence"): a direct effect is the coefficient of from when to is
 // regressed on its parents, zero where from is not one of them; a total
 // effect is the coefficient of from when to is regressed on from and the

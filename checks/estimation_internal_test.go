@@ -39,8 +39,9 @@ func summaryPackage(vars []string, edges [][2]string, lower [][]float64, n int) 
 	return doc
 }
 
-// IDA's possible effects by locally valid parent sets, the worked values
-// of ../shared/spec/reference-values.md [computed]: the chain Z − X − Y
+// IDA's possible effects by locally valid parent sets, values worked by
+// hand from the population correlations (adjusting for each locally valid
+// parent set in turn, Maathuis, Kalisch & Bühlmann 2009): the chain Z − X − Y
 // gives {0.4, 0.4, 0}; the complete X − A − Y gives {0.5, 0.41758, 0, 0}.
 func TestLocalParentSets_IDAValues(t *testing.T) {
 	cases := []struct {

@@ -9,7 +9,7 @@ import (
 )
 
 // graph-declared: is a causal graph declared, acyclic, and does it cover
-// the claims and the data? (checks.md)
+// the claims and the data? (README, "Checks")
 var graphDeclaredCheck = Check{
 	ID:    "graph-declared",
 	Title: "Declared causal graph",

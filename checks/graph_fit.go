@@ -25,7 +25,7 @@ const (
 const MaxListedImplications = 200
 
 // graph-fit: do the data contradict the graph's testable implications;
-// how well does it fit? (checks.md)
+// how well does it fit? (README, "Checks")
 var graphFitCheck = Check{
 	ID:    "graph-fit",
 	Title: "Fit of the declared graph",

@@ -16,7 +16,7 @@ import (
 const lowReliability = 0.70
 
 // measurement: are reliabilities reported, and how much would measurement
-// error move the claims? (checks.md)
+// error move the claims? (README, "Checks")
 var measurementCheck = Check{
 	ID:    "measurement",
 	Title: "Measurement error",

@@ -12,7 +12,7 @@ import (
 )
 
 // missing-data: is the method stated and sound; with raw data, do the
-// claims survive a principled method? (checks.md)
+// claims survive a principled method? (README, "Checks")
 var missingDataCheck = Check{
 	ID:    "missing-data",
 	Title: "Missing data",

@@ -25,7 +25,7 @@ var Weights = map[string]Weight{
 }
 
 // Band returns the band of a score: 80–100 low, 50–79 moderate, 0–49 high
-// concern (checks.md, "Score").
+// concern (README, "Score").
 func Band(score int) string {
 	switch {
 	case score >= 80:

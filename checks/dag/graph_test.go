@@ -77,8 +77,9 @@ func TestFindCycle(t *testing.T) {
 	}
 }
 
-// Local IDA parent sets, ../shared/spec/reference-values.md [computed]:
-// the chain Z − X − Y gives {∅, {Z}, {Y}} (not both: Z and Y are
+// Local IDA parent sets, worked by hand from the definition (Maathuis,
+// Kalisch & Bühlmann 2009: a parent set is locally valid when orienting it
+// into X creates no new v-structure): the chain Z − X − Y gives {∅, {Z}, {Y}} (not both: Z and Y are
 // non-adjacent); the triangle X − A − Y − X gives all four subsets.
 func TestLocalParentSets(t *testing.T) {
 	chain := undirected(3, [][2]int{{0, 1}, {1, 2}}) // Z=0, X=1, Y=2

@@ -10,8 +10,8 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// The E-value paper's own examples (VanderWeele & Ding 2017, as listed in
-// ../shared/spec/reference-values.md [pub]): RR 3.9 (1.8–8.7) gives E 7.26
+// The E-value paper's own worked examples (VanderWeele & Ding 2017, Annals
+// of Internal Medicine 167, printed there): RR 3.9 (1.8–8.7) gives E 7.26
 // and 3.00 for the interval; RR 0.80 (0.71–0.91) gives 1.81 and 1.43.
 func TestEValue_PaperExamples(t *testing.T) {
 	for _, c := range []struct{ rr, lo, hi, e, eCI float64 }{

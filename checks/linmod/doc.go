@@ -5,7 +5,7 @@
 // for the linear algebra and effects for the tail areas, and knows nothing
 // of packages or reports. A QR fit of the raw rows is the tests' oracle.
 //
-// Conventions (../shared/spec/checks.md): standard errors use n − k − 1
+// Conventions (README, "Checks"): standard errors use n − k − 1
 // residual degrees of freedom and p-values the t distribution with those
 // degrees of freedom; logistic regression uses Wald z tests.
 package linmod

@@ -15,7 +15,7 @@ import (
 )
 
 // nistCase is a NIST StRD linear regression with its certified values
-// (../shared/spec/reference-values.md; the data in testdata/reference/nist).
+// (NIST StRD certified values; the data in testdata/reference/nist).
 type nistCase struct {
 	name      string
 	x         *mat.Dense

@@ -16,7 +16,7 @@ type MCARTest struct {
 }
 
 // LittleMCAR computes Little's (1988) test from the data and their EM
-// estimates (ML, divisor n, as ../shared/spec/checks.md requires):
+// estimates (ML, divisor n, as the README's "Checks" section states):
 //
 //	d² = Σ_j n_j (ȳ_j − μ_Oj)ᵀ Σ_OjOj⁻¹ (ȳ_j − μ_Oj),  df = Σ_j p_j − p
 //

@@ -81,8 +81,8 @@ func TestEM_CompleteData(t *testing.T) {
 
 // Bivariate normal with monotone missingness: EM agrees with the closed
 // form ML estimates (Anderson 1957; Little & Rubin ch. 7) on airquality's
-// Temp (all 153) and Ozone (116 observed), the figures of
-// ../shared/spec/reference-values.md [computed], to 1e-8; and with the
+// Temp (all 153) and Ozone (116 observed), the closed-form figures worked
+// from R's airquality (testdata/reference/airquality), to 1e-8; and with the
 // closed form computed here from the complete cases.
 func TestEM_MonotoneClosedForm(t *testing.T) {
 	aq := airquality(t)

@@ -53,12 +53,7 @@ func nearbyRow(n checks.NearbyGraph) NearbyRow {
 	}
 	sort.Strings(changed)
 	r := NearbyRow{Edits: strings.Join(edits, ", "), DeltaBIC: signedNum(n.DeltaBIC), Evidence: evidenceWords(n),
-		Class: fmt.Sprintf(
-			"%s graphs, %s plausible",
-			countWords(n.EquivalenceClassSize),
-			countWords(n.PlausibleClassSize),
-		),
-		Changed: strings.Join(changed, ", ")}
+		Class: classWords(n), Changed: strings.Join(changed, ", ")}
 	switch {
 	case len(n.Claims) == 0:
 		r.Changed = "not re-estimated"
@@ -88,6 +83,24 @@ func evidenceWords(n checks.NearbyGraph) string {
 		s += ", for this graph"
 	}
 	return s
+}
+
+// classWords says the size of a class and of its plausible part: "1
+// graph, 1 plausible", "24 graphs, plausible ones not counted".
+func classWords(n checks.NearbyGraph) string {
+	size, plausible := countWords(n.EquivalenceClassSize), countWords(n.PlausibleClassSize)
+	switch {
+	case n.EquivalenceClassSize == nil:
+		size = "graphs not counted"
+	case size == "1":
+		size += " graph"
+	default:
+		size += " graphs"
+	}
+	if n.PlausibleClassSize == nil {
+		return size + ", plausible ones not counted"
+	}
+	return size + ", " + plausible + " plausible"
 }
 
 // countWords prints an exact count from the report (a number, or a

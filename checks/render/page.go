@@ -17,7 +17,7 @@ var styleCSS string
 
 var pageTmpl = template.Must(template.New("page").Funcs(template.FuncMap{
 	"css": CSS, "sub0": func(i int) int { return -i }, "words": Words, "head": head,
-	"list": func(s ...string) []string { return s },
+	"list": func(s ...string) []string { return s }, "plural": plural,
 }).ParseFS(pageFiles, "*.html"))
 
 // PageOptions are the parts of the workspace around a report; all are

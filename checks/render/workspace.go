@@ -28,8 +28,9 @@ type Row struct {
 	ID, Title, ManuscriptID, Received, KeyLabel string
 	Status, Progress                            string
 	Score                                       *int
-	Band                                        string // a report token, or ""
-	Version                                     string // "version 2 of 3", or ""
+	Band                                        string    // a report token, or ""
+	Version                                     string    // "version 2 of 3", or ""
+	Running                                     *Progress // nil unless running and written
 }
 
 // Group is the listed versions of one manuscript (or one submission
@@ -79,6 +80,7 @@ type Workspace struct {
 	ID       string
 	Status   string
 	Error    string
+	Running  *Progress // nil unless a new screening runs and has written how far it is
 	History  []HistoryEntry
 	Previous *Previous
 	// Earlier says which earlier report the page shows ("" for the newest).

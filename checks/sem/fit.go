@@ -60,7 +60,7 @@ var ErrNotPositiveDefinite = errors.New("sem: the covariance matrix is not posit
 //	Σ̂ = (I − B)⁻¹ Ψ (I − B)⁻ᵀ
 //
 // and the discrepancy F_ML = ln|Σ̂| − ln|S| + tr(S Σ̂⁻¹) − p, with
-// T = (N − 1) F_ML (../shared/spec/checks.md). It stops with ctx's error
+// T = (N − 1) F_ML (README, "Checks"). It stops with ctx's error
 // when ctx is cancelled (the RMSEA interval's root finding checks it).
 func FitDAG(ctx context.Context, s mat.Symmetric, n int, parents [][]int) (*Fit, error) {
 	p := s.SymmetricDim()

@@ -26,7 +26,7 @@ type IndependenceTest struct {
 
 // ZTest tests X ⊥ Y | Given from the correlation (or
 // covariance) matrix r of n cases by the partial correlation and Fisher's
-// z, SE = 1/sqrt(n − |Given| − 3) (../shared/spec/checks.md).
+// z, SE = 1/sqrt(n − |Given| − 3) (README, "Checks").
 func ZTest(r mat.Symmetric, n int, ind Independence) IndependenceTest {
 	t := IndependenceTest{Independence: ind, Z: math.NaN(), P: math.NaN()}
 	pr, err := linmod.PartialCorrelation(r, ind.X, ind.Y, ind.Given)

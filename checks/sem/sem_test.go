@@ -16,8 +16,8 @@ import (
 	"github.com/pathvet/pathvet/checks/linmod"
 )
 
-// The worked example of ../shared/spec/reference-values.md ("Path-model
-// fit", computed; formulas Steiger 1990, Browne & Cudeck 1993, Bentler
+// A worked example computed by hand (the demos' fit figures are checked
+// against numpy/scipy too, testdata/reference/demos; formulas Steiger 1990, Browne & Cudeck 1993, Bentler
 // 1990, Tucker & Lewis 1973, Shipley 2000): X → M → Y with r_XM = .5,
 // r_XY = .3, r_MY = .4 and N = 200.
 func TestFitDAG_WorkedExample(t *testing.T) {
