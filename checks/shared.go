@@ -73,11 +73,11 @@ func (a *Analysis) directionCaution(i int, c Claim) string {
 	if err != nil || ae == nil || ae.zero == 0 {
 		return ""
 	}
-	in := fmt.Sprintf("%d of the %d plausible equivalent graphs", ae.zero, ae.Estimates)
+	in := fmt.Sprintf("%d of the %d plausible equivalent graphs, which fit exactly as well", ae.zero, ae.Estimates)
 	if ae.Method == AcrossParentSets {
 		in = fmt.Sprintf("%d of the %d locally valid parent sets of the equivalent graphs", ae.zero, ae.Estimates)
 	}
 	return fmt.Sprintf(" The E-value speaks to unmeasured confounding under the declared direction of %s on %s; "+
-		"it says nothing of that direction, which the data cannot settle: in %s, which fit exactly as well, "+
-		"the claimed effect of %s on %s is zero (see equivalence).", c.From, c.To, in, c.From, c.To)
+		"it says nothing of that direction, which the data cannot settle: in %s, the claimed effect of %s on "+
+		"%s is zero (see equivalence).", c.From, c.To, in, c.From, c.To)
 }
