@@ -36,6 +36,9 @@ type AcrossEquivalents struct {
 	Differing int       `json:"estimates_differing"`
 	Failed    int       `json:"estimates_failed,omitempty"`
 	Contrast  *Contrast `json:"contrast,omitempty"`
+	// zero counts the estimates in which the graph gives the claim no
+	// effect (the arrow reversed, no path left).
+	zero int
 }
 
 // Contrast is the graph in which the claim differs most from its declared
@@ -184,6 +187,7 @@ func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGr
 		v := e.value
 		if e.method == MethodZero {
 			v = zeroOnScale(e.scale)
+			r.zero++
 		}
 		lo, hi = math.Min(lo, v), math.Max(hi, v)
 		cat := e.category(a.Alpha)

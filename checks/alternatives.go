@@ -85,7 +85,7 @@ func alternativesSummary(status string, n int, rows []map[string]any, fs []Findi
 		}
 	}
 	for _, f := range fs {
-		if f.Claim != "" && (f.Severity == StatusWarn || f.Severity == StatusFail) {
+		if f.Claim != "" && (f.Severity == StatusWarn || f.Severity == StatusFail) && f.Details["not_estimated"] == nil {
 			changed++
 		}
 	}
@@ -99,8 +99,8 @@ func alternativesSummary(status string, n int, rows []map[string]any, fs []Findi
 			"or better; the paper should say why the declared graph is preferred.",
 			count(changed, "claim changes", "claims change"))
 	case status == StatusWarn:
-		return stated + "; some could not be compared with the declared graph (see the findings), and no claim " +
-			"changes its conclusion under those that fit about as well or better."
+		return stated + "; some comparisons with the declared graph could not be made (see the findings), and " +
+			"no claim that could be estimated changes its conclusion under those that fit about as well or better."
 	case asWell == 0:
 		return stated + "; none fits the data about as well as the declared graph or better (Markov equivalent, " +
 			"or ΔBIC below 2), so none challenges the claims."
@@ -193,6 +193,11 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	r := a.report(e)
 	ae.Estimate, ae.CI, ae.PValue, ae.Method, ae.Error = r.Estimate, r.CI, r.PValue, r.Method, r.Error
 	ae.StructuralZero = r.StructuralZero
+	if !e.ok() && decl.ok() && fitsAsWell {
+		return ae, []Finding{{Severity: StatusWarn, Claim: c.ID, Details: map[string]any{"not_estimated": true},
+			Message: fmt.Sprintf("%s could not be estimated under the alternative %q, which fits the data about as "+
+				"well (%s), so whether its conclusion holds there is not known.", c.ID, name, ae.Error)}}
+	}
 	if !e.ok() || !decl.ok() {
 		return ae, nil
 	}

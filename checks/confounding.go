@@ -74,7 +74,9 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 			weak++
 		}
 		a.Claims[i].EValue = ev
-		fs = append(fs, eValueFinding(c, ev))
+		f := eValueFinding(c, ev)
+		f.Message += a.directionCaution(i, c)
+		fs = append(fs, f)
 		if err := ctx.Err(); err != nil {
 			return CheckResult{}, err
 		}

@@ -79,8 +79,8 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 			"correlation matrix " + problem + ", so the claims are not re-estimated on it; the reliabilities and " +
 			"the correlations cannot all be right."})
 	} else {
-		var cf []Finding
-		cf, metrics["claims_corrected"] = a.correctedClaims(corrected)
+		cf, n, changed := a.correctedClaims(corrected)
+		metrics["claims_corrected"], metrics["claims_changed"] = n, changed
 		fs = append(fs, cf...)
 	}
 	if err := ctx.Err(); err != nil {
@@ -99,11 +99,33 @@ func measurementSummary(status string, metrics map[string]any, claims int, impos
 		return "Corrected for the reported reliabilities, the correlations are impossible, so the claims could not " +
 			"be re-estimated; the reliabilities or the correlations need checking."
 	case status == StatusWarn:
-		return "Measurement error needs attention: reliabilities are missing for some claims' variables, or " +
-			"correcting for them changes some claims; see the findings."
+		return measurementWarnText(metrics)
 	}
 	n, _ := metrics["claims_corrected"].(int)
 	return measurementPassText(n, claims)
+}
+
+// measurementWarnText names the reasons for a warning that apply, and
+// only those.
+func measurementWarnText(metrics map[string]any) string {
+	var why []string
+	if k, _ := metrics["variables_without_reliability"].(int); k > 0 {
+		why = append(why, fmt.Sprintf("%s reported for %d of the claims' variables",
+			plural(k, "no reliability is", "no reliabilities are"), k))
+	}
+	n, _ := metrics["claims_corrected"].(int)
+	switch changed, _ := metrics["claims_changed"].(int); {
+	case n == 0:
+		why = append(why, "no claim could be re-estimated on the corrected correlations")
+	case changed > 0:
+		why = append(why, fmt.Sprintf("correcting for it changes the conclusion of %d of the %d claims "+
+			"re-estimated", changed, n))
+	}
+	if len(why) == 0 {
+		return "Measurement error needs attention: some claims could not be estimated with and without the " +
+			"correction; see the findings."
+	}
+	return "Measurement error needs attention: " + strings.Join(why, ", and ") + "; see the findings."
 }
 
 // measurementPassText says how many claims were re-estimated on the
@@ -161,11 +183,13 @@ func correctedMoments(m *Moments, rel []float64) (*Moments, string) {
 
 // correctedClaims re-estimates every claim on the corrected matrix, on
 // the standardized scale, and reports the change; n counts the claims
-// re-estimated.
-func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
+// re-estimated, changed those whose conclusion the correction changes.
+func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n, changed int) {
+	var skipped []string
 	for i, c := range a.Study.Package.Claims {
-		if a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary || a.graphContradiction(c) != "" {
-			continue // no attenuation correction for a logistic model; a claim the graph gives no effect
+		if why := a.notCorrectable(c); why != "" {
+			skipped = append(skipped, c.ID+" "+why)
+			continue
 		}
 		std := c
 		if std.EstimateScale != "correlation" {
@@ -180,6 +204,7 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 			continue
 		}
 		if corr.method == MethodZero {
+			skipped = append(skipped, c.ID+" has no effect under the declared graph")
 			continue
 		}
 		n++
@@ -187,6 +212,7 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 		r.Changed = corr.category(a.Alpha) != decl.category(a.Alpha)
 		a.Claims[i].Measurement = r
 		if r.Changed {
+			changed++
 			fs = append(fs, Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
 				"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: "+
 					"measurement error alone could carry the conclusion.",
@@ -198,7 +224,26 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n int) {
 				agreement(decl, corr, a.Alpha))})
 		}
 	}
-	return fs, n
+	if n == 0 && len(skipped) > 0 {
+		fs = append(fs, Finding{Severity: StatusWarn, Message: "No claim could be re-estimated on the corrected " +
+			"correlations, so what measurement error does to the claims is not known: " +
+			strings.Join(skipped, "; ") + "."})
+	}
+	return fs, n, changed
+}
+
+// notCorrectable says why claim c is not re-estimated on the corrected
+// correlations: Spearman's correction is for correlations, not for a
+// logistic model, and a claim the graph gives no effect has nothing to
+// correct.
+func (a *Analysis) notCorrectable(c Claim) string {
+	switch {
+	case a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary:
+		return "has a binary outcome, and the correction for attenuation is not made for a logistic model"
+	case a.graphContradiction(c) != "":
+		return "is given no effect by the declared graph (see graph-declared)"
+	}
+	return ""
 }
 
 // firstErr is the error of the first estimate that has one.

@@ -27,6 +27,10 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(unexaminedFormat,
 			count(left, "more class fits", "more classes fit"), run.examined)})
 	}
+	if left := run.better - run.examinedBetter; left > 0 {
+		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(unexaminedBetterFormat,
+			count(left, "more class fits", "more classes fit"), run.examinedBetter)})
+	}
 	return append(fs, a.binaryScoreFinding()...)
 }
 
@@ -34,6 +38,9 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 const (
 	unexaminedFormat = "%s within ΔBIC 2 of the declared graph beyond the %d examined; their claims were not " +
 		"re-estimated, so this check cannot say that every claim holds in them."
+	unexaminedBetterFormat = "%s better than the declared graph by 2 or more beyond the %d that fit best; their " +
+		"claims were not re-estimated (only the search's end point among them may be), so this check cannot say " +
+		"that every claim holds in them."
 	overviewFormat = "%s one edit from the declared graph within the background knowledge; %s%s. " +
 		"The score is graph-fit's BIC (χ² + free parameters · ln N), refitting only the equations whose parents change."
 	searchFormat = "A greedy search from the declared graph (%s that lowers BIC most%s) " +

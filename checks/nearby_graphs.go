@@ -11,9 +11,10 @@ import (
 )
 
 // MaxNearbyListed bounds the classes within ΔBIC 2 that
-// graph.nearby_graphs lists (best first), whose claims are re-estimated;
-// beside them it lists the maxBetterListed best classes that fit better by
-// 2 or more, and at least minNearbyListed classes in all, however far.
+// graph.nearby_graphs lists (best first); beside them it lists the
+// maxBetterListed best classes that fit better by 2 or more, and at least
+// minNearbyListed classes in all, however far. The claims are re-estimated
+// in the listed classes within 2 and better by 2, not in those worse by 2.
 const (
 	MaxNearbyListed = 20
 	maxBetterListed = 5
@@ -70,7 +71,9 @@ type nearbyRun struct {
 	listed       []*nearClass
 	best         *nearClass
 	near, better int // classes within 2, and better by 2 or more
-	examined     int
+	// examined, examinedBetter: the listed classes within 2, and better by
+	// 2 or more, whose claims were re-estimated.
+	examined, examinedBetter int
 }
 
 func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
@@ -98,7 +101,7 @@ func runNearbyGraphs(ctx context.Context, a *Analysis) (CheckResult, error) {
 	a.fillNearbyReport(run)
 	fs := a.nearbyFindings(run)
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: nearbyMetrics(run, declFit.fit.BIC)}
-	res.Summary = nearbySummary(res.Status, run)
+	res.Summary = nearbySummary(res.Status, run, fs)
 	return res, nil
 }
 
@@ -120,11 +123,15 @@ func (a *Analysis) nearbyRun(ctx context.Context, m *Moments) (*nearbyRun, error
 		c := nb.Classes[i]
 		nc := a.resolveClass(nearby.Apply(parents, c.Edits[0]), c.Edits[:1], c.DeltaBIC, alts)
 		nc.approximate = a.binaryEquation(c.Edits)
-		if math.Abs(c.DeltaBIC) < weakBIC {
+		if c.DeltaBIC < weakBIC { // within 2, or among the maxBetterListed better by 2 or more
 			if err := a.examine(ctx, nc); err != nil {
 				return nil, err
 			}
-			run.examined++
+			if c.DeltaBIC > -weakBIC {
+				run.examined++
+			} else {
+				run.examinedBetter++
+			}
 		}
 		run.listed = append(run.listed, nc)
 	}
@@ -156,7 +163,8 @@ func nearbyMetrics(run *nearbyRun, declaredBIC float64) map[string]any {
 		"neighbours": run.nb.DAGs, "neighbours_equivalent_to_declared": run.nb.Equivalent,
 		"classes": len(run.nb.Classes), "classes_within_2": run.near, "classes_better_by_2": run.better,
 		"classes_listed": len(run.listed), "classes_examined": run.examined,
-		"declared_bic": num(declaredBIC), "search_steps": run.sr.Steps, "search_delta_bic": num(run.sr.DeltaBIC),
+		"classes_better_examined": run.examinedBetter,
+		"declared_bic":            num(declaredBIC), "search_steps": run.sr.Steps, "search_delta_bic": num(run.sr.DeltaBIC),
 		"search_edits": len(run.sr.Edits), "search_stopped_at_step_limit": run.sr.Stopped,
 		"score": "graph-fit's BIC = χ² + free parameters · ln N, by refitting only the equations whose parents change",
 	}
@@ -164,74 +172,6 @@ func nearbyMetrics(run *nearbyRun, declaredBIC float64) map[string]any {
 		m["best_delta_bic"] = num(run.nb.Classes[0].DeltaBIC)
 	}
 	return m
-}
-
-// Long summaries of the nearby-graphs check.
-const (
-	nearbyFailSummary = "A headline claim changes sign or significance in a graph one edit from the declared one " +
-		"that fits the data about as well (|ΔBIC| < 2) and that the paper does not state as an alternative; the data " +
-		"do not decide between the two graphs, so they do not decide the claim."
-	nearbyWarnSummary = "The graphs near the declared one need a look: a claim changes in one that fits about as " +
-		"well, a greedy search finds graphs that fit clearly better, or not every close class could be examined; " +
-		"see the findings."
-)
-
-func nearbySummary(status string, run *nearbyRun) string {
-	switch status {
-	case StatusFail:
-		return nearbyFailSummary
-	case StatusWarn:
-		return nearbyWarnSummary
-	}
-	n := len(run.nb.Classes)
-	if run.nb.DAGs == 0 {
-		return "The background knowledge leaves no graph one edit from the declared one."
-	}
-	if run.near == 0 {
-		return noneNearSummary(n) + betterText(run) + "."
-	}
-	held := "no claim changes sign or significance in " + them(run.near)
-	if changedNear(run) {
-		held = "a claim that changes in " + them(run.near) +
-			" already changes among the declared graph's own equivalent graphs (see the equivalence check)"
-	}
-	return fmt.Sprintf("%s of graphs %s one edit from the declared graph; %d %s within ΔBIC 2 of it, and %s%s.",
-		count(n, "class", "classes"), plural(n, "lies", "lie"), run.near, plural(run.near, "fits", "fit"), held,
-		betterText(run))
-}
-
-func noneNearSummary(n int) string {
-	if n == 1 {
-		return "The one class of graphs one edit from the declared graph does not fit within ΔBIC 2 of it"
-	}
-	return fmt.Sprintf("None of the %d classes of graphs one edit from the declared graph fits within ΔBIC 2 of it", n)
-}
-
-// betterText says that classes fitting better by 2 or more were not
-// re-estimated (only those within 2 are, and the search's end point).
-func betterText(run *nearbyRun) string {
-	if run.better == 0 {
-		return ""
-	}
-	return fmt.Sprintf("; %s better by 2 or more: the claims are re-estimated where the greedy search ends, "+
-		"not in every such class (see the findings)", count(run.better, "class fits", "classes fit"))
-}
-
-// changedNear reports whether a claim changes sign or significance in a
-// class within ΔBIC 2 (then only among the declared graph's equivalents,
-// or the status would not be pass).
-func changedNear(run *nearbyRun) bool {
-	for _, c := range run.listed {
-		if math.Abs(c.delta) >= weakBIC {
-			continue
-		}
-		for _, ae := range c.claims {
-			if ae.Unstable {
-				return true
-			}
-		}
-	}
-	return false
 }
 
 // editsText names edits of the declared graph: "without the arrow a → b",

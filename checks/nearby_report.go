@@ -21,7 +21,8 @@ type NearbyGraph struct {
 	// Alternative names the stated alternative in this class, if any.
 	Alternative string `json:"alternative,omitempty"`
 	// Claims are the causal claims re-estimated across the class's
-	// plausible members (classes within ΔBIC 2, and the search's best).
+	// plausible members (classes within ΔBIC 2, the listed classes that fit
+	// better by 2 or more, and the search's best).
 	Claims map[string]NearbyClaim `json:"claims,omitempty"`
 }
 

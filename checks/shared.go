@@ -1,5 +1,7 @@
 package checks
 
+import "fmt"
+
 // Results that several checks read are computed here, lazily and once per
 // Analysis, never by one check for another: a check sees the same values
 // whether it runs alone, first or last (Options.Checks).
@@ -60,4 +62,22 @@ func (a *Analysis) declaredAcross(i int) (*AcrossEquivalents, error) {
 func (a *Analysis) unstableAmongEquivalents(i int) bool {
 	ae, err := a.declaredAcross(i)
 	return err == nil && ae != nil && ae.Unstable
+}
+
+// directionCaution is the caution an E-value needs when the data cannot
+// orient the claim: in some plausible equivalents, which fit exactly as
+// well, the graph gives the claim no effect (declaredAcross, shared). ""
+// when every estimate keeps an effect, or none could be made.
+func (a *Analysis) directionCaution(i int, c Claim) string {
+	ae, err := a.declaredAcross(i)
+	if err != nil || ae == nil || ae.zero == 0 {
+		return ""
+	}
+	in := fmt.Sprintf("%d of the %d plausible equivalent graphs, which fit exactly as well", ae.zero, ae.Estimates)
+	if ae.Method == AcrossParentSets {
+		in = fmt.Sprintf("%d of the %d locally valid parent sets of the equivalent graphs", ae.zero, ae.Estimates)
+	}
+	return fmt.Sprintf(" The E-value speaks to unmeasured confounding under the declared direction of %s on %s; "+
+		"it says nothing of that direction, which the data cannot settle: in %s, the claimed effect of %s on "+
+		"%s is zero (see equivalence).", c.From, c.To, in, c.From, c.To)
 }

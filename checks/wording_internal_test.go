@@ -191,7 +191,7 @@ func TestAlternativesSummary_Branches(t *testing.T) {
 		{StatusPass, 2, asWell, nil, "under the one that fits the data about as well as the declared graph or better"},
 		{StatusPass, 2, append(asWell[:1:1], asWell[0]), nil, "under the 2 that fit the data"},
 		{StatusWarn, 2, asWell, claimWarn, "1 claim changes sign"},
-		{StatusWarn, 2, asWell, otherWarn, "could not be compared"},
+		{StatusWarn, 2, asWell, otherWarn, "comparisons with the declared graph could not be made"},
 	} {
 		if got := alternativesSummary(tc.status, tc.n, tc.rows, tc.fs); !strings.Contains(got, tc.want) {
 			t.Errorf("%s: %q lacks %q", tc.status, got, tc.want)
