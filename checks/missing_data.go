@@ -133,27 +133,8 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) er
 // gives them, from missing.RowMoments, which does not copy the rows.
 func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
 	mean, cov := missing.RowMoments(data)
-	n, p := data.Dims()
-	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: mean, Rows: data, Method: method}
-	for j := range p {
-		if m.SD[j] = math.Sqrt(cov.At(j, j)); m.SD[j] == 0 {
-			return nil, Errorf(EInvalid, "a variable is constant in the %s", casesName(method))
-		}
-	}
-	for i := range p {
-		for j := 0; j <= i; j++ {
-			m.Cor.SetSym(i, j, cov.At(i, j)/(m.SD[i]*m.SD[j]))
-		}
-	}
-	var eig mat.EigenSym
-	if !eig.Factorize(m.Cor, false) || eig.Values(nil)[0] <= minEigen {
-		return nil, Errorf(
-			EInvalid,
-			"the correlation matrix of the %s is singular: some variables are exactly collinear",
-			casesName(method),
-		)
-	}
-	return m, nil
+	n, _ := data.Dims()
+	return momentsFrom(n, mean, cov, data, method)
 }
 
 func emMoments(em *missing.EMResult, n int) *Moments {

@@ -104,23 +104,26 @@ func rowMoments(rows *mat.Dense, method string) (*Moments, error) {
 	}
 	cov := mat.NewSymDense(p, nil)
 	stat.CovarianceMatrix(cov, rows, nil)
-	m := &Moments{
-		N:      n,
-		Cor:    mat.NewSymDense(p, nil),
-		SD:     make([]float64, p),
-		Means:  make([]float64, p),
-		Rows:   rows,
-		Method: method,
-	}
+	means := make([]float64, p)
 	for j := range p {
-		m.Means[j] = stat.Mean(mat.Col(nil, j, rows), nil)
-		m.SD[j] = math.Sqrt(cov.At(j, j))
+		means[j] = stat.Mean(mat.Col(nil, j, rows), nil)
+	}
+	return momentsFrom(n, means, cov, rows, method)
+}
+
+// momentsFrom turns a mean vector and covariance matrix of n cases into
+// Moments: SDs, correlations, and an error naming the cause when a variable
+// is constant or the correlations are singular.
+func momentsFrom(n int, means []float64, cov *mat.SymDense, rows *mat.Dense, method string) (*Moments, error) {
+	p := len(means)
+	m := &Moments{N: n, Cor: mat.NewSymDense(p, nil), SD: make([]float64, p), Means: means, Rows: rows, Method: method}
+	for j := range p {
+		if m.SD[j] = math.Sqrt(cov.At(j, j)); m.SD[j] == 0 {
+			return nil, Errorf(EInvalid, "a variable is constant in the %s", casesName(method))
+		}
 	}
 	for i := range p {
 		for j := 0; j <= i; j++ {
-			if m.SD[i] == 0 || m.SD[j] == 0 {
-				return nil, Errorf(EInvalid, "a variable is constant in the %s", casesName(method))
-			}
 			m.Cor.SetSym(i, j, cov.At(i, j)/(m.SD[i]*m.SD[j]))
 		}
 	}
