@@ -70,12 +70,12 @@ func overviewFinding(run *nearbyRun) Finding {
 	if nb.DAGs == 0 {
 		return Finding{Severity: SeverityInfo, Message: noNeighbourText}
 	}
-	own := "none is in its own equivalence class"
+	own := "none is Markov equivalent to the declared graph"
 	switch {
 	case nb.Equivalent == nb.DAGs && nb.DAGs == 1:
-		own = "it is in its own equivalence class (a reversible arrow reversed)"
+		own = "it is Markov equivalent to the declared graph (a reversible arrow reversed)"
 	case nb.Equivalent > 0:
-		own = fmt.Sprintf("%d %s in its own equivalence class (a reversible arrow reversed)",
+		own = fmt.Sprintf("%d %s Markov equivalent to the declared graph (a reversible arrow reversed)",
 			nb.Equivalent, plural(nb.Equivalent, "is", "are"))
 	}
 	others := ""

@@ -41,25 +41,25 @@ func TestNearbyText_Counts(t *testing.T) {
 		summary string
 	}{
 		{&nearbyRun{nb: &nearby.Neighbourhood{DAGs: 1, Classes: cls(5)}},
-			"1 graph lies one edit from the declared graph within the background knowledge; none is in its own " +
-				"equivalence class; they fall in 1 equivalence class: 0 within ΔBIC 2",
+			"1 graph lies one edit from the declared graph within the background knowledge; none is Markov " +
+				"equivalent to the declared graph; they fall in 1 equivalence class: 0 within ΔBIC 2",
 			"The one class of graphs one edit from the declared graph does not fit within ΔBIC 2 of it."},
 		{&nearbyRun{nb: &nearby.Neighbourhood{DAGs: 3, Equivalent: 1, Classes: cls(-5, 8)}, better: 1, examinedBetter: 1},
-			"3 graphs lie one edit from the declared graph within the background knowledge; 1 is in its own " +
-				"equivalence class (a reversible arrow reversed); the others fall in 2 equivalence classes:",
+			"3 graphs lie one edit from the declared graph within the background knowledge; 1 is Markov " +
+				"equivalent to the declared graph (a reversible arrow reversed); the others fall in 2 equivalence classes:",
 			"None of the 2 classes of graphs one edit from the declared graph fits within ΔBIC 2 of it; 1 class fits " +
 				"better by 2 or more, and the claims are re-estimated in each of them (see the findings)."},
 		{&nearbyRun{nb: &nearby.Neighbourhood{DAGs: 7, Classes: cls(-9, -8, -7, -6, -5, -4, -3)}, better: 7,
 			examinedBetter: 5},
-			"7 graphs lie one edit from the declared graph within the background knowledge; none is in its own " +
-				"equivalence class; they fall in 7 equivalence classes: 0 within ΔBIC 2 of the declared graph, 7",
+			"7 graphs lie one edit from the declared graph within the background knowledge; none is Markov " +
+				"equivalent to the declared graph; they fall in 7 equivalence classes: 0 within ΔBIC 2 of the declared graph, 7",
 			"None of the 7 classes of graphs one edit from the declared graph fits within ΔBIC 2 of it; 7 classes " +
 				"fit better by 2 or more, and the claims are re-estimated in the 5 that fit best and where the greedy " +
 				"search ends, not in the other 2 (see the findings)."},
 		{&nearbyRun{nb: &nearby.Neighbourhood{DAGs: 2, Equivalent: 1, Classes: cls(1)}, near: 1,
 			listed: []*nearClass{{delta: 1, claims: map[int]*AcrossEquivalents{0: {Unstable: true}}}}},
-			"2 graphs lie one edit from the declared graph within the background knowledge; 1 is in its own " +
-				"equivalence class (a reversible arrow reversed); the other falls in 1 equivalence class:",
+			"2 graphs lie one edit from the declared graph within the background knowledge; 1 is Markov " +
+				"equivalent to the declared graph (a reversible arrow reversed); the other falls in 1 equivalence class:",
 			"1 class of graphs lies one edit from the declared graph; 1 fits within ΔBIC 2 of it, and a claim that " +
 				"changes in it already changes among the declared graph's own equivalent graphs"},
 	} {
