@@ -74,13 +74,7 @@ func reestimatedText(method string, r *missingResult) string {
 	if done == "" {
 		return "; the claims could not be re-estimated by a principled method (see below)."
 	}
-	has := map[string]est{}
-	for k := range r.moments {
-		has[k] = est{}
-	}
-	if len(r.imputed) > 0 {
-		has[MissingMultipleImputation] = est{}
-	}
+	has := methodsRun(r)
 	dk, pk := comparison(method, has)
 	if _, ok := has[pk]; !ok {
 		return "; the claims are re-estimated by " + done + " (see below)."
@@ -233,7 +227,9 @@ func (a *Analysis) declaredParentsFor(c Claim) parentsFunc {
 	return nil
 }
 
-func missingSummary(status string, changed, uncompared int, method string, r *missingResult) string {
+// methodsRun is the set of methods the claims were re-estimated by, keyed
+// as comparison wants them.
+func methodsRun(r *missingResult) map[string]est {
 	has := map[string]est{}
 	for k := range r.moments {
 		has[k] = est{}
@@ -241,6 +237,11 @@ func missingSummary(status string, changed, uncompared int, method string, r *mi
 	if len(r.imputed) > 0 {
 		has[MissingMultipleImputation] = est{}
 	}
+	return has
+}
+
+func missingSummary(status string, changed, uncompared int, method string, r *missingResult) string {
+	has := methodsRun(r)
 	dk, pk := comparison(method, has)
 	switch {
 	case changed > 0 && status == StatusFail:
