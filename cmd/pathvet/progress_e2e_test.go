@@ -1,9 +1,7 @@
 package main
 
 import (
-	"context"
 	"encoding/json"
-	"io"
 	"net/http"
 	"strings"
 	"testing"
@@ -11,7 +9,6 @@ import (
 
 	"github.com/pathvet/pathvet/api"
 	"github.com/pathvet/pathvet/api/service"
-	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/store/storetest"
 )
 
@@ -22,23 +19,9 @@ import (
 func TestServer_ProgressWhileRunning(t *testing.T) {
 	db, url := storetest.MustOpenDB(t)
 	release := make(chan struct{})
-	cs := checks.Pipeline()
-	first, run := cs[0].Title, cs[0].Run
-	cs[0].Run = func(ctx context.Context, a *checks.Analysis) (checks.CheckResult, error) {
-		select {
-		case <-release:
-		case <-ctx.Done():
-			return checks.CheckResult{}, ctx.Err()
-		}
-		return run(ctx, a)
-	}
-	cfg := defaultConfig(func(string) string { return "" })
-	cfg.DatabaseURL, cfg.Addr, cfg.Workers, cfg.checks = url, "127.0.0.1:0", 1, cs
-	m := &Main{Config: cfg, Logger: newLogger(io.Discard), serve: true}
-	if err := m.Run(context.Background()); err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { _ = m.Close() })
+	cs := heldPipeline(release)
+	first := cs[0].Title
+	m := startHeld(t, url, cs)
 	base := m.URL()
 	c := apiClient{t, &base, mustKeyToken(t, db, "Office P", service.RoleEditor)}
 	code, _, b := c.call(http.MethodPost, "/v1/submissions", "application/json",

@@ -25,13 +25,7 @@ func TestWeb_ProgressWhileRunning(t *testing.T) {
 	db, dburl := storetest.MustOpenDB(t)
 	release := make(chan struct{})
 	cs := heldPipeline(release)
-	cfg := defaultConfig(func(string) string { return "" })
-	cfg.DatabaseURL, cfg.Addr, cfg.Workers, cfg.checks = dburl, "127.0.0.1:0", 1, cs
-	m := &Main{Config: cfg, Logger: newLogger(io.Discard), serve: true}
-	if err := m.Run(context.Background()); err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { _ = m.Close() })
+	m := startHeld(t, dburl, cs)
 	base, token := m.URL(), mustKeyToken(t, db, "Office W", service.RoleEditor)
 	c := apiClient{t, &base, token}
 	code, _, b := c.call(http.MethodPost, "/v1/submissions", "application/json",
@@ -67,6 +61,22 @@ func TestWeb_ProgressWhileRunning(t *testing.T) {
 }
 
 // heldPipeline is the pipeline with its first check waiting for release.
+// startHeld runs the real server with one in-process worker on the
+// pipeline cs, on port 0, closed when the test ends.
+func startHeld(t *testing.T, dburl string, cs []checks.Check) *Main {
+	t.Helper()
+	cfg := defaultConfig(func(string) string { return "" })
+	cfg.DatabaseURL, cfg.Addr, cfg.Workers, cfg.checks = dburl, "127.0.0.1:0", 1, cs
+	m := &Main{Config: cfg, Logger: newLogger(io.Discard), serve: true}
+	if err := m.Run(context.Background()); err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { _ = m.Close() })
+	return m
+}
+
+// heldPipeline is the pipeline with its first check held until release
+// is closed (or the job's context ends).
 func heldPipeline(release <-chan struct{}) []checks.Check {
 	cs := checks.Pipeline()
 	run := cs[0].Run
