@@ -10,7 +10,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
-	"github.com/pathvet/pathvet/checks/schema"
+	"github.com/pathvet/pathvet/checks/schema/schematest"
 )
 
 func init() {
@@ -43,27 +43,10 @@ func MustLoad(tb testing.TB, path string) *checks.Study {
 	return s
 }
 
-func compile(tb testing.TB, src []byte, name string) *jsonschema.Schema {
-	tb.Helper()
-	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(src))
-	if err != nil {
-		tb.Fatal(err)
-	}
-	c := jsonschema.NewCompiler()
-	if err := c.AddResource(name, doc); err != nil {
-		tb.Fatal(err)
-	}
-	sch, err := c.Compile(name)
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return sch
-}
-
 // The shipped report schema accepts every golden report and every report
 // of the calibration packages.
 func TestReportSchema(t *testing.T) {
-	sch := compile(t, schema.Report, "report-v1.schema.json")
+	sch := schematest.Report(t)
 	paths, _ := filepath.Glob("../testdata/calibration/*/package.json")
 	for _, path := range append(demoPackages(t), paths...) {
 		b := encode(t, mustRun(t, MustLoad(t, path)))

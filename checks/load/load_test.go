@@ -14,7 +14,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
-	"github.com/pathvet/pathvet/checks/schema"
+	"github.com/pathvet/pathvet/checks/schema/schematest"
 )
 
 type badCase struct {
@@ -220,24 +220,7 @@ func TestLoad_WrongTypeReportedOnce(t *testing.T) {
 }
 
 func compileSchema(tb testing.TB) *jsonschema.Schema {
-	return compile(tb, schema.Package, "package-v1.schema.json")
-}
-
-func compile(tb testing.TB, src []byte, name string) *jsonschema.Schema {
-	tb.Helper()
-	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(src))
-	if err != nil {
-		tb.Fatal(err)
-	}
-	c := jsonschema.NewCompiler()
-	if err := c.AddResource(name, doc); err != nil {
-		tb.Fatal(err)
-	}
-	sch, err := c.Compile(name)
-	if err != nil {
-		tb.Fatal(err)
-	}
-	return sch
+	return schematest.Package(tb)
 }
 
 func schemaAccepts(tb testing.TB, sch *jsonschema.Schema, path string) bool {

@@ -12,7 +12,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
-	"github.com/pathvet/pathvet/checks/schema"
+	"github.com/pathvet/pathvet/checks/schema/schematest"
 )
 
 // column returns n values spread evenly over [lo, hi], then extra.
@@ -118,7 +118,7 @@ func reportValid(t *testing.T, s *checks.Study) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := compile(t, schema.Report, "report-v1.schema.json").Validate(v); err != nil {
+	if err := schematest.Report(t).Validate(v); err != nil {
 		t.Error(err)
 	}
 }
