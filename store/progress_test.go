@@ -2,7 +2,6 @@ package store_test
 
 import (
 	"context"
-	"os"
 	"testing"
 	"time"
 
@@ -18,10 +17,7 @@ import (
 func TestWorkers_ProgressWhileRunning(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	k, _ := mustKey(t, db, "Office P", service.RoleEditor)
-	doc, err := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := demoPackage(t)
 	release := make(chan struct{})
 	screen := func(ctx context.Context, pkg, data []byte, progress store.ProgressFunc) (*checks.Report, error) {
 		for i := 1; i <= 50; i++ {

@@ -2,7 +2,6 @@ package store_test
 
 import (
 	"context"
-	"os"
 	"testing"
 	"time"
 
@@ -35,10 +34,7 @@ func dieFourTimes(t *testing.T, db *store.DB, id string) {
 func TestWorkers_DiscardedJobFailsSubmission(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	k, _ := mustKey(t, db, "Office D", service.RoleEditor)
-	doc, err := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := demoPackage(t)
 	s, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"})
 	if err != nil {
 		t.Fatal(err)

@@ -1,7 +1,6 @@
 package store_test
 
 import (
-	"os"
 	"testing"
 	"time"
 
@@ -17,10 +16,7 @@ import (
 func TestWorkers_RescueAfterHardKill(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	k, _ := mustKey(t, db, "Office R", service.RoleEditor)
-	doc, err := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := demoPackage(t)
 	s, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Package: doc, Title: "t", PackageSHA256: "h"})
 	if err != nil {
 		t.Fatal(err)

@@ -23,6 +23,17 @@ func mustKey(t *testing.T, db *store.DB, office, role string) (*service.Key, str
 	return k, token
 }
 
+// demoPackage is the tutoring-anxiety demo package, which the workers
+// screen in these tests.
+func demoPackage(t *testing.T) []byte {
+	t.Helper()
+	doc, err := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return doc
+}
+
 func newSub(k *service.Key, hash, idem string) service.NewSubmission {
 	return service.NewSubmission{Key: k, Package: []byte(`{"title": "x"}`), Title: "A study", ManuscriptID: "M-1",
 		PackageSHA256: hash, IdempotencyKey: idem}
@@ -240,10 +251,7 @@ func waitStatusWithin(
 func TestWorkers(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	k, _ := mustKey(t, db, "Office W", service.RoleEditor)
-	doc, err := os.ReadFile("../testdata/demo/tutoring-anxiety/package.json")
-	if err != nil {
-		t.Fatal(err)
-	}
+	doc := demoPackage(t)
 	screen := screenDemo
 	t.Run("ScreensAndStores", func(t *testing.T) {
 		w, err := db.StartWorkers(ctx, store.WorkerConfig{Workers: 2, Timeout: time.Minute, Screen: screen})
