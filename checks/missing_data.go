@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"sync"
 
 	"gonum.org/v1/gonum/mat"
@@ -94,9 +95,14 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	return r
 }
 
-// imputeClaims draws the imputed datasets one by one (missing.ImputeEach)
-// and keeps of each only its moments and the claims' estimates in it, so
-// that memory does not grow with the number of imputations.
+// imputeClaims draws the imputed datasets one by one and keeps of each
+// only its moments and the claims' estimates in it, so that memory does
+// not grow with the number of imputations. Without binary variables the
+// claims need only moments, which missing.ImputeMoments gives without
+// laying a dataset out; the rows are kept (missing.ImputeEach) where a
+// binary variable has missing values, whose draws are rounded row by row,
+// or is a claim's outcome, which a logistic regression of the rows
+// estimates.
 func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) error {
 	claims, binary := a.Study.Package.Claims, a.binaryVariables()
 	imputed, ests := make([]*Moments, m), make([][]est, len(claims))
@@ -105,11 +111,11 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) er
 	}
 	var mu sync.Mutex
 	done := 0
-	opt := missing.ImputeOptions{M: m, Seed: dataSeed(a.Study.Data.Columns, binary), Binary: binary}
-	err := missing.ImputeEach(ctx, a.Study.Data.Columns, r.em, opt, func(k int, data *mat.Dense) error {
-		// The method names the run (k of m), so estimates cached for one
-		// set of imputations are never read for another.
-		mo, err := imputedMoments(data, fmt.Sprintf("imputation_%d_of_%d", k+1, m))
+	// keep estimates the claims in imputation k's moments. The method
+	// names the run (k of m), so estimates cached for one set of
+	// imputations are never read for another.
+	keep := func(k int, mean []float64, cov *mat.SymDense, rows *mat.Dense) error {
+		mo, err := momentsFrom(a.Study.Data.N, mean, cov, rows, fmt.Sprintf("imputation_%d_of_%d", k+1, m))
 		if err != nil {
 			return err
 		}
@@ -122,19 +128,40 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) er
 		done++
 		a.reportProgress("missing data: imputations", done, m)
 		return nil
-	})
+	}
+	cols := a.Study.Data.Columns
+	opt := missing.ImputeOptions{M: m, Seed: dataSeed(cols, binary), Binary: binary}
+	var err error
+	if a.imputationsNeedRows(binary) {
+		err = missing.ImputeEach(ctx, cols, r.em, opt, func(k int, data *mat.Dense) error {
+			mean, cov := missing.RowMoments(data)
+			return keep(k, mean, cov, data)
+		})
+	} else {
+		err = missing.ImputeMoments(ctx, cols, r.em, opt, func(k int, mean []float64, cov *mat.SymDense) error {
+			return keep(k, mean, cov, nil)
+		})
+	}
 	if err == nil {
 		r.imputed, r.imputedEst = imputed, ests
 	}
 	return err
 }
 
-// imputedMoments are the moments of an imputed dataset, as rowMoments
-// gives them, from missing.RowMoments, which does not copy the rows.
-func imputedMoments(data *mat.Dense, method string) (*Moments, error) {
-	mean, cov := missing.RowMoments(data)
-	n, _ := data.Dims()
-	return momentsFrom(n, mean, cov, data, method)
+// imputationsNeedRows says whether the imputed datasets must be laid out
+// as rows (see imputeClaims).
+func (a *Analysis) imputationsNeedRows(binary []bool) bool {
+	for j, isBin := range binary {
+		if isBin && slices.ContainsFunc(a.Study.Data.Columns[j], math.IsNaN) {
+			return true
+		}
+	}
+	for _, c := range a.Study.Package.Claims {
+		if binary[a.Study.Index[c.To]] {
+			return true
+		}
+	}
+	return false
 }
 
 func emMoments(em *missing.EMResult, n int) *Moments {

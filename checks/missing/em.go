@@ -65,8 +65,8 @@ func EM(ctx context.Context, cols [][]float64, opt Options) (*EMResult, error) {
 }
 
 // emWeighted runs EM on the rows of cols weighted by w (nil: once each);
-// x, when not nil, holds cols as rows.
-func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Pattern, w []float64,
+// lay, when not nil, holds cols laid out by the patterns ps.
+func emWeighted(ctx context.Context, cols [][]float64, lay *layout, ps []Pattern, w []float64,
 	opt Options) (*EMResult, error) {
 	if opt.Tolerance == 0 {
 		opt.Tolerance = DefaultTolerance
@@ -82,7 +82,7 @@ func emWeighted(ctx context.Context, cols [][]float64, x *mat.Dense, ps []Patter
 	if err != nil {
 		return nil, err
 	}
-	d := newEMData(cols, x, ps, w)
+	d := newEMData(cols, lay, ps, w)
 	if w != nil && !d.observedTwice() {
 		return nil, ErrNoData
 	}

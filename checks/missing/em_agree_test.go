@@ -93,8 +93,9 @@ func TestEM_WeightsRepeatRows(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, x := range []*mat.Dense{nil, rowMajor(cols)} { // read from the columns, and from rows
-		got, err := emWeighted(context.Background(), cols, x, Patterns(cols), w, opt)
+	ps := Patterns(cols)
+	for _, lay := range []*layout{nil, newLayout(cols, ps)} { // read from the columns, and by pattern
+		got, err := emWeighted(context.Background(), cols, lay, ps, w, opt)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -53,6 +53,31 @@ type ImputeOptions struct {
 // datasets do not depend on the number of workers.
 func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt ImputeOptions,
 	use func(k int, data *mat.Dense) error) error {
+	ps := Patterns(cols)
+	lay := newLayout(cols, ps) // shared, read only
+	return runImputations(ctx, opt, func() imputeFunc {
+		w := newImputer(cols, ps, lay, rowMajor(cols))
+		return func(ctx context.Context, k int, opt ImputeOptions) error {
+			rng := imputationStream(opt.Seed, k)
+			theta, err := w.bootstrapEM(ctx, start, opt.EM, rng)
+			if err == nil {
+				err = w.draw(theta, rng)
+			}
+			if err != nil {
+				return fmt.Errorf("missing: imputation %d: %w", k+1, err)
+			}
+			roundBinary(w.data, w.cols, opt.Binary)
+			return use(k, w.data)
+		}
+	})
+}
+
+// imputeFunc draws imputation k on one worker.
+type imputeFunc func(ctx context.Context, k int, opt ImputeOptions) error
+
+// runImputations runs imputations 0..M−1 on opt.Workers goroutines, each
+// with the function newWorker makes for it, and returns the first error.
+func runImputations(ctx context.Context, opt ImputeOptions, newWorker func() imputeFunc) error {
 	if opt.M == 0 {
 		opt.M = DefaultImputations
 	}
@@ -62,7 +87,6 @@ func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt Impu
 	}
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
-	ps := Patterns(cols)
 	jobs := make(chan int)
 	errs := make([]error, opt.M)
 	var wg sync.WaitGroup
@@ -70,9 +94,9 @@ func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt Impu
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			w := newImputer(cols, ps)
+			impute := newWorker()
 			for k := range jobs {
-				if errs[k] = w.safeImpute(ctx, k, start, opt, use); errs[k] != nil {
+				if errs[k] = safeImpute(ctx, k, opt, impute); errs[k] != nil {
 					cancel()
 				}
 			}
@@ -81,6 +105,11 @@ func ImputeEach(ctx context.Context, cols [][]float64, start *EMResult, opt Impu
 	dispatch(ctx, jobs, opt.M, errs)
 	wg.Wait()
 	return firstError(errs)
+}
+
+// imputationStream is imputation k's own random stream.
+func imputationStream(seed uint64, k int) *rand.Rand {
+	return rand.New(rand.NewPCG(seed, 0x9e3779b97f4a7c15+uint64(k)))
 }
 
 // dispatch hands out imputations 0..m−1 until the context ends; those not
@@ -114,51 +143,36 @@ func firstError(errs []error) error {
 	return first
 }
 
-// imputer is one worker's state: its bootstrap weights and the dataset it
-// draws into.
+// imputer is one worker's state: its bootstrap weights and, for
+// ImputeEach, the dataset it draws into. lay, the data laid out by
+// pattern, is shared between the workers.
 type imputer struct {
 	cols [][]float64
 	ps   []Pattern
+	lay  *layout
 	w    []float64
 	data *mat.Dense
 	cond condition
 }
 
-// newImputer lays the observed values out as rows once: the imputations
-// only overwrite the missing cells.
-func newImputer(cols [][]float64, ps []Pattern) *imputer {
-	return &imputer{cols: cols, ps: ps, w: make([]float64, rows(cols)), data: rowMajor(cols)}
+// newImputer keeps data, the observed values laid out as rows, when not
+// nil: the imputations only overwrite the missing cells.
+func newImputer(cols [][]float64, ps []Pattern, lay *layout, data *mat.Dense) *imputer {
+	return &imputer{cols: cols, ps: ps, lay: lay, w: make([]float64, rows(cols)), data: data}
 }
 
-// safeImpute is impute with a panic turned into an error: a panic on a
-// worker goroutine would otherwise end the program, past the recovery of
-// whoever called ImputeEach.
-func (w *imputer) safeImpute(ctx context.Context, k int, start *EMResult, opt ImputeOptions,
-	use func(int, *mat.Dense) error) (err error) {
+// safeImpute is impute(ctx, k) with a panic turned into an error: a panic on a worker goroutine would
+// otherwise end the program, past the recovery of whoever called.
+func safeImpute(ctx context.Context, k int, opt ImputeOptions, impute imputeFunc) (err error) {
 	defer func() {
 		if p := recover(); p != nil {
 			err = fmt.Errorf("missing: imputation %d: internal error: %v", k+1, p)
 		}
 	}()
-	return w.impute(ctx, k, start, opt, use)
-}
-
-// impute draws imputation k and hands it to use.
-func (w *imputer) impute(ctx context.Context, k int, start *EMResult, opt ImputeOptions,
-	use func(int, *mat.Dense) error) error {
 	if err := ctx.Err(); err != nil {
 		return err
 	}
-	rng := rand.New(rand.NewPCG(opt.Seed, 0x9e3779b97f4a7c15+uint64(k)))
-	theta, err := w.bootstrapEM(ctx, start, opt.EM, rng)
-	if err == nil {
-		err = w.draw(theta, rng)
-	}
-	if err != nil {
-		return fmt.Errorf("missing: imputation %d: %w", k+1, err)
-	}
-	roundBinary(w.data, w.cols, opt.Binary)
-	return use(k, w.data)
+	return impute(ctx, k, opt)
 }
 
 // bootstrapEM runs EM on a resample of the rows, drawn with replacement,
@@ -175,7 +189,7 @@ func (w *imputer) bootstrapEM(ctx context.Context, start *EMResult, opt Options,
 		for range n {
 			w.w[rng.IntN(n)]++
 		}
-		res, err := emWeighted(ctx, w.cols, w.data, w.ps, w.w, opt)
+		res, err := emWeighted(ctx, w.cols, w.lay, w.ps, w.w, opt)
 		if errors.Is(err, ErrNoData) {
 			continue
 		}

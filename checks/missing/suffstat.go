@@ -8,8 +8,13 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// blockRows is how many rows one rank-k update (BLAS dsyrk) takes.
-const blockRows = 256
+// blockRows is how many rows one rank-k update (BLAS dsyrk) of rows
+// takes; chunkRows how many a transposed block holds (see crossProducts),
+// which with 30 variables stays within a core's L2 cache.
+const (
+	blockRows = 256
+	chunkRows = 1024
+)
 
 // emData is the data of one EM problem, reduced once. A pattern with many
 // rows carries the weighted sums and cross-products of its observed block,
@@ -19,10 +24,11 @@ const blockRows = 256
 type emData struct {
 	p      int
 	cols   [][]float64
-	x      *mat.Dense // cols as rows, or nil; only the observed cells are read
-	w      []float64  // row weights (bootstrap counts); nil: every row once
+	lay    *layout   // the observed values by pattern, or nil: read from cols
+	w      []float64 // row weights (bootstrap counts); nil: every row once
 	groups []*group
 	buf    []float64 // blockRows × (p+1) scratch
+	tbuf   []float64 // (p+1) × chunkRows scratch
 	cond   condition
 }
 
@@ -31,28 +37,63 @@ type group struct {
 	obs, mis []int
 	rows     []int   // rows of positive weight
 	weight   float64 // Σ w over rows
+	// pat is the pattern's index in the layout, at the positions there of
+	// rows (nil: rows are all the pattern's rows, in order).
+	pat int
+	at  []int
 	// s is Σ w [1; x_O][1; x_O]ᵀ, (|O|+1) × (|O|+1) row-major, when the
 	// pattern has enough rows to be reduced; nil otherwise.
 	s []float64
 }
 
-// newEMData groups the rows of cols by pattern ps under the weights w. x,
-// when not nil, holds the same values as rows, which are faster to read.
-func newEMData(cols [][]float64, x *mat.Dense, ps []Pattern, w []float64) *emData {
+// layout holds the observed values of each pattern together, a variable
+// at a time: those of pattern k's b-th observed variable, at its rows in
+// order, are vals[k][b·n_k : (b+1)·n_k]. Reading a pattern's rows from it
+// streams through memory, where reading them from the columns jumps.
+type layout struct {
+	vals [][]float64
+	n    []int // n_k
+}
+
+// newLayout lays the observed values of cols out by the patterns ps.
+func newLayout(cols [][]float64, ps []Pattern) *layout {
+	l := &layout{vals: make([][]float64, len(ps)), n: make([]int, len(ps))}
+	for k, pat := range ps {
+		nk := len(pat.Rows)
+		l.n[k] = nk
+		v := make([]float64, len(pat.obs)*nk)
+		for b, j := range pat.obs {
+			col, out := cols[j], v[b*nk:(b+1)*nk]
+			for r, i := range pat.Rows {
+				out[r] = col[i]
+			}
+		}
+		l.vals[k] = v
+	}
+	return l
+}
+
+// newEMData groups the rows of cols by pattern ps under the weights w. lay,
+// when not nil, is cols laid out by ps, which is faster to read.
+func newEMData(cols [][]float64, lay *layout, ps []Pattern, w []float64) *emData {
 	p := len(cols)
-	d := &emData{p: p, cols: cols, x: x, w: w, buf: make([]float64, blockRows*(p+1))}
-	for _, pat := range ps {
-		g := &group{obs: pat.obs, mis: pat.mis}
-		for _, i := range pat.Rows {
-			if wi := d.weight(i); wi > 0 {
-				g.rows, g.weight = append(g.rows, i), g.weight+wi
+	d := &emData{p: p, cols: cols, lay: lay, w: w, buf: make([]float64, blockRows*(p+1))}
+	for k, pat := range ps {
+		g := &group{obs: pat.obs, mis: pat.mis, pat: k}
+		if w == nil {
+			g.rows, g.weight = pat.Rows, float64(len(pat.Rows))
+		} else {
+			for r, i := range pat.Rows {
+				if wi := w[i]; wi > 0 {
+					g.rows, g.at, g.weight = append(g.rows, i), append(g.at, r), g.weight+wi
+				}
 			}
 		}
 		if len(g.rows) == 0 {
 			continue
 		}
 		if len(g.rows) >= 2*(p+1) { // a reduction pays once it saves a few row passes
-			g.s = d.crossProducts(g)
+			g.s = d.crossProducts(g, nil)
 		}
 		d.groups = append(d.groups, g)
 	}
@@ -66,43 +107,80 @@ func (d *emData) weight(i int) float64 {
 	return d.w[i]
 }
 
-// crossProducts returns Σ w [1; x_O][1; x_O]ᵀ over g's rows, by rank-k
-// updates on blocks of rows.
-func (d *emData) crossProducts(g *group) []float64 {
+// crossProducts returns Σ w [1; x_O][1; x_O]ᵀ over g's rows, about centre
+// when it is not nil (x_O − centre_O then). The rows are gathered a block
+// at a time, transposed (a variable per row, scaled by √w), so that the
+// rank-k update (BLAS dsyrk) runs as long dot products.
+func (d *emData) crossProducts(g *group, centre []float64) []float64 {
 	k := len(g.obs) + 1
 	s := blas64.Symmetric{N: k, Stride: k, Data: make([]float64, k*k), Uplo: blas.Upper}
-	r := 0
-	for _, i := range g.rows {
-		row := d.buf[r*k : (r+1)*k]
-		sw := math.Sqrt(d.weight(i))
-		row[0] = sw
-		d.observed(i, g.obs, row[1:])
-		for b := range g.obs {
-			row[b+1] *= sw
-		}
-		if r++; r == blockRows {
-			blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: k, Stride: k, Data: d.buf}, 1, s)
-			r = 0
-		}
-	}
-	if r > 0 {
-		blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: k, Stride: k, Data: d.buf}, 1, s)
+	d.tbuf = grow(d.tbuf, k*chunkRows)
+	for start := 0; start < len(g.rows); start += chunkRows {
+		end := min(start+chunkRows, len(g.rows))
+		block := d.tbuf[:k*(end-start)]
+		d.gather(block, g, start, end, centre)
+		blas64.Syrk(blas.NoTrans, 1, blas64.General{Rows: k, Cols: end - start, Stride: end - start, Data: block}, 1, s)
 	}
 	symmetrize(s.Data, k)
 	return s.Data
 }
 
-// observed writes the values of row i at obs into dst[:len(obs)].
-func (d *emData) observed(i int, obs []int, dst []float64) {
-	if d.x != nil {
-		x := d.x.RawRowView(i)
-		for b, j := range obs {
-			dst[b] = x[j]
+// gather writes g's rows from..to−1, transposed, into dst ((|O|+1) ×
+// (to − from), row-major): first √w, then each observed variable, less
+// centre[j] when centre is not nil, times √w.
+func (d *emData) gather(dst []float64, g *group, from, to int, centre []float64) {
+	c := to - from
+	sw := dst[:c]
+	for r, i := range g.rows[from:to] {
+		sw[r] = math.Sqrt(d.weight(i))
+	}
+	for b, j := range g.obs {
+		out, shift := dst[(b+1)*c:(b+2)*c], 0.0
+		if centre != nil {
+			shift = centre[j]
+		}
+		switch {
+		case d.lay == nil:
+			col := d.cols[j]
+			for r, i := range g.rows[from:to] {
+				out[r] = col[i] - shift
+			}
+		case g.at == nil:
+			nk := d.lay.n[g.pat]
+			for r, v := range d.lay.vals[g.pat][b*nk+from : b*nk+to] {
+				out[r] = v - shift
+			}
+		default:
+			nk := d.lay.n[g.pat]
+			col := d.lay.vals[g.pat][b*nk : (b+1)*nk]
+			for r, q := range g.at[from:to] {
+				out[r] = col[q] - shift
+			}
+		}
+		if d.w != nil {
+			for r := range out {
+				out[r] *= sw[r]
+			}
+		}
+	}
+}
+
+// observed writes the values of g's q-th row at its observed variables
+// into dst[:len(g.obs)].
+func (d *emData) observed(g *group, q int, dst []float64) {
+	if d.lay == nil {
+		i := g.rows[q]
+		for b, j := range g.obs {
+			dst[b] = d.cols[j][i]
 		}
 		return
 	}
-	for b, j := range obs {
-		dst[b] = d.cols[j][i]
+	if g.at != nil {
+		q = g.at[q]
+	}
+	v, nk := d.lay.vals[g.pat], d.lay.n[g.pat]
+	for b := range g.obs {
+		dst[b] = v[b*nk+q]
 	}
 }
 
@@ -168,22 +246,7 @@ func (d *emData) addConditionalCov(t []float64, g *group) {
 // addReduced adds A S Aᵀ to T, where A maps [1; x_O] to [1; E(x | x_O)]:
 // the identity on the observed variables, (a, B) on the missing ones.
 func (d *emData) addReduced(t []float64, g *group) {
-	p, k := d.p, len(g.obs)+1
-	a := make([]float64, (p+1)*k)
-	a[0] = 1
-	for b, j := range g.obs {
-		a[(j+1)*k+b+1] = 1
-	}
-	for x, j := range g.mis {
-		a[(j+1)*k] = d.cond.a[x]
-		copy(a[(j+1)*k+1:(j+2)*k], d.cond.b[x*(k-1):(x+1)*(k-1)])
-	}
-	am := blas64.General{Rows: p + 1, Cols: k, Stride: k, Data: a}
-	as := blas64.General{Rows: p + 1, Cols: k, Stride: k, Data: make([]float64, (p+1)*k)}
-	gs := blas64.General{Rows: k, Cols: k, Stride: k, Data: g.s}
-	tt := blas64.General{Rows: p + 1, Cols: p + 1, Stride: p + 1, Data: t}
-	blas64.Gemm(blas.NoTrans, blas.NoTrans, 1, am, gs, 0, as)
-	blas64.Gemm(blas.NoTrans, blas.Trans, 1, as, am, 1, tt)
+	addSandwich(t, d.p, reducedMap(d.p, g, &d.cond), g.s)
 }
 
 // addRows completes g's rows into the block buffer, from row r on, and
@@ -191,9 +254,9 @@ func (d *emData) addReduced(t []float64, g *group) {
 // the buffer.
 func (d *emData) addRows(sums blas64.Symmetric, g *group, r int) int {
 	p := d.p
-	for _, i := range g.rows {
+	for q, i := range g.rows {
 		row := d.buf[r*(p+1) : (r+1)*(p+1)]
-		d.observed(i, g.obs, row[1:])
+		d.observed(g, q, row[1:])
 		spread(row[1:], g.obs)
 		d.cond.predict(row[1:])
 		sw := math.Sqrt(d.weight(i))

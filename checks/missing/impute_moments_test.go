@@ -1,0 +1,146 @@
+package missing
+
+import (
+	"context"
+	"math"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat"
+)
+
+// ImputeMoments gives, imputation by imputation, the means and covariance
+// that stat.CovarianceMatrix computes from ImputeEach's completed rows
+// (the same draws from the same streams): with few patterns (the reduced
+// path), with a pattern for nearly every row (rows completed in blocks),
+// mixed, and with means far from zero, where sums about zero would lose
+// digits.
+func TestImputeMoments_AgreesWithCompletedRows(t *testing.T) {
+	for _, c := range []struct {
+		name         string
+		n, p, k      int
+		share, shift float64
+		workers      int
+	}{
+		{"few patterns", 5000, 6, 2, 0.3, 0, 2},
+		{"a pattern a row", 400, 12, 12, 0.25, 0, 1},
+		{"mixed", 3000, 9, 9, 0.05, 0, 2},
+		{"means far from zero", 4000, 5, 3, 0.2, 1e6, 2},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			cols := randomData(21, c.n, c.p, c.k, c.share)
+			for _, col := range cols {
+				for i := range col {
+					col[i] += c.shift
+				}
+			}
+			em, err := EM(context.Background(), cols, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			opt := ImputeOptions{M: 4, Seed: 3, Workers: c.workers}
+			type mo struct {
+				mean []float64
+				cov  *mat.SymDense
+			}
+			want := make([]mo, opt.M)
+			err = ImputeEach(context.Background(), cols, em, opt, func(k int, data *mat.Dense) error {
+				cov := mat.NewSymDense(c.p, nil)
+				stat.CovarianceMatrix(cov, data, nil)
+				mean := make([]float64, c.p)
+				for j := range mean {
+					mean[j] = stat.Mean(mat.Col(nil, j, data), nil)
+				}
+				want[k] = mo{mean, cov}
+				return nil
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			seen := 0
+			err = ImputeMoments(context.Background(), cols, em, opt, func(k int, mean []float64, cov *mat.SymDense) error {
+				seen++
+				w := want[k]
+				for i := range c.p {
+					sd := math.Sqrt(w.cov.At(i, i))
+					if d := math.Abs(mean[i]-w.mean[i]) / sd; d > 1e-9 {
+						t.Errorf("imputation %d: mean %d = %v, want %v", k+1, i, mean[i], w.mean[i])
+					}
+					for j := range c.p {
+						s := sd * math.Sqrt(w.cov.At(j, j))
+						if d := math.Abs(cov.At(i, j)-w.cov.At(i, j)) / s; d > 1e-9 {
+							t.Errorf("imputation %d: cov(%d, %d) = %v, want %v", k+1, i, j, cov.At(i, j), w.cov.At(i, j))
+						}
+					}
+				}
+				return nil
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if seen != opt.M {
+				t.Errorf("use called %d times, want %d", seen, opt.M)
+			}
+		})
+	}
+}
+
+// A binary variable with missing values needs its imputations rounded row
+// by row, which moments cannot do: ImputeMoments says so. A binary
+// variable that is complete is no obstacle.
+func TestImputeMoments_RefusesBinaryWithMissing(t *testing.T) {
+	cols := randomData(8, 200, 3, 1, 0.2)
+	em, err := EM(context.Background(), cols, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	noop := func(int, []float64, *mat.SymDense) error { return nil }
+	err = ImputeMoments(context.Background(), cols, em, ImputeOptions{M: 2, Binary: []bool{true, false, false}}, noop)
+	if err == nil || !strings.Contains(err.Error(), "binary") {
+		t.Fatalf("got %v, want a refusal naming the binary variable", err)
+	}
+	if err := ImputeMoments(context.Background(), cols, em, ImputeOptions{M: 2, Binary: []bool{false, true, false}}, noop); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// The moments do not depend on how many workers draw them, and a
+// cancelled context stops the imputations with its error.
+func TestImputeMoments_WorkersAndCancel(t *testing.T) {
+	cols := randomData(5, 3000, 4, 3, 0.2)
+	em, err := EM(context.Background(), cols, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	firstMeans := func(workers int) []float64 {
+		out := make([]float64, 6)
+		err := ImputeMoments(context.Background(), cols, em, ImputeOptions{M: 6, Seed: 11, Workers: workers},
+			func(k int, mean []float64, _ *mat.SymDense) error {
+				out[k] = mean[0]
+				return nil
+			})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return out
+	}
+	one, two := firstMeans(1), firstMeans(2)
+	for k := range one {
+		if one[k] != two[k] {
+			t.Errorf("imputation %d: mean %v with one worker, %v with two", k+1, one[k], two[k])
+		}
+	}
+	if one[0] == one[1] {
+		t.Error("two imputations have the same mean")
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	err = ImputeMoments(ctx, cols, em, ImputeOptions{M: 6}, func(int, []float64, *mat.SymDense) error {
+		t.Error("use called after the context ended")
+		return nil
+	})
+	if err != context.Canceled {
+		t.Errorf("got %v, want context.Canceled", err)
+	}
+}
