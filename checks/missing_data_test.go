@@ -218,3 +218,36 @@ func TestMissingData_MLNoteSaysSEIsCompleteData(t *testing.T) {
 		t.Fatalf("ML estimate %+v", ml)
 	}
 }
+
+// blankEvery empties column col (0-based) of every k-th data row of csv.
+func blankEvery(csv string, col, k int) string {
+	lines := strings.Split(strings.TrimSuffix(csv, "\n"), "\n")
+	for i := 1; i < len(lines); i++ {
+		if i%k == 0 {
+			cells := strings.Split(lines[i], ",")
+			cells[col] = ""
+			lines[i] = strings.Join(cells, ",")
+		}
+	}
+	return strings.Join(lines, "\n") + "\n"
+}
+
+// The imputations keep their rows where a claim needs them: a binary
+// outcome is estimated in each imputed dataset by a logistic regression of
+// the rows, not by moments; and a binary variable with missing values has
+// its draws rounded row by row, which moments alone cannot do.
+func TestMissingData_ImputationsKeepRowsWhereNeeded(t *testing.T) {
+	claim := `{"id": "L1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y",
+		"estimate_scale": "odds_ratio", "estimate": 2.2, "ci": [1.7, 2.8], "p_value": 0.001, "p_relation": "<"}`
+	rep := rowsPackage(t, blankEvery(logisticRows(), 0, 6), "binary", claim, "complete_cases")
+	mi := rep.Claims[0].MissingData["multiple_imputation"]
+	if mi == nil || mi.Scale != "odds_ratio" || !strings.Contains(mi.Note, "log-odds scale") {
+		t.Fatalf("binary outcome: multiple-imputation estimate %+v, want odds ratios pooled on the log-odds scale", mi)
+	}
+	claim = `{"id": "C1", "text": "x goes with z", "kind": "association", "from": "x", "to": "z", "estimate": 0.1, "p_value": 0.2}`
+	rep = rowsPackage(t, blankEvery(logisticRows(), 1, 5), "binary", claim, "complete_cases")
+	c := checkOf(rep, "missing-data")
+	if c.RunError != "" || rep.Claims[0].MissingData["multiple_imputation"] == nil {
+		t.Fatalf("binary variable with missing values: %s %q %+v", c.Status, c.RunError, c.Findings)
+	}
+}
