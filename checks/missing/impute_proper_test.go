@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"testing"
 
+	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -27,7 +28,15 @@ import (
 // lie in the central 99.9% of χ²(400), [313.4, 499.7]; improper imputation
 // puts it near 200. (σ̂² is the ML variance of the observed values; the
 // approximations are off by O(1/n_obs), about 1%, far inside the band.)
+//
+// Both ImputeEach (rows) and ImputeMoments (moments) are held to it.
 func TestImpute_ProperBetweenVariance(t *testing.T) {
+	for _, path := range []string{"rows", "moments"} {
+		t.Run(path, func(t *testing.T) { properBetweenVariance(t, path) })
+	}
+}
+
+func properBetweenVariance(t *testing.T, path string) {
 	const n, m, datasets = 200, 51, 8
 	r := rand.New(rand.NewPCG(1987, 1999))
 	s := 0.0
@@ -37,14 +46,26 @@ func TestImpute_ProperBetweenVariance(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		imps, err := impute(context.Background(), [][]float64{y}, em, ImputeOptions{M: m, Seed: uint64(d)})
-		if err != nil {
-			t.Fatal(err)
-		}
 		q, u := make([]float64, m), make([]float64, m)
-		for k, imp := range imps {
-			q[k] = stat.Mean(imp[0], nil)
-			u[k] = stat.Variance(imp[0], nil) / n
+		opt := ImputeOptions{M: m, Seed: uint64(d)}
+		if path == "rows" {
+			imps, err := impute(context.Background(), [][]float64{y}, em, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for k, imp := range imps {
+				q[k] = stat.Mean(imp[0], nil)
+				u[k] = stat.Variance(imp[0], nil) / n
+			}
+		} else {
+			err := ImputeMoments(context.Background(), [][]float64{y}, em, opt,
+				func(k int, mean []float64, cov *mat.SymDense) error {
+					q[k], u[k] = mean[0], cov.At(0, 0)/n
+					return nil
+				})
+			if err != nil {
+				t.Fatal(err)
+			}
 		}
 		pooled, err := Pool(q, u, n-1, 0.95)
 		if err != nil {
