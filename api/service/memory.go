@@ -2,15 +2,20 @@ package service
 
 import "bytes"
 
-// Working-memory model of a screening, measured: max RSS of
-// `pathvet check` on a raw-data package of 5 columns (the coding-club
-// demo's rows repeated) was 217 MB at 100,000 rows and 809 MB at 400,000,
-// about 400 bytes per cell of the CSV (EM, its bootstrap runs and the
-// imputations each hold copies of the data) over a base of some 20 MB.
-// The base here is rounded up to 64 MiB.
+// Working-memory model of a screening, measured on a two-core machine
+// (two imputation workers): max RSS of `pathvet check` on raw data whose
+// imputations must keep their rows (a binary variable with missing values;
+// the costlier of the two ways the missing-data check imputes) was 203 MB
+// at 400,000 rows × 5 columns and 878 MB at 390,000 rows × 30 (a 100 MB
+// CSV), about 70 bytes per cell: the CSV bytes, the columns, the values laid
+// out by pattern, and one completed dataset per imputation worker (8 bytes
+// a cell each, so a machine with more cores needs more). Without binary
+// variables to round or outcomes to fit by logistic regression, the same
+// 390,000 × 30 took 475 MB. The model takes 72 bytes a cell over a base
+// of 64 MiB.
 const (
 	memoryBase   = 64 << 20
-	bytesPerCell = 400
+	bytesPerCell = 72
 )
 
 // CSVShape counts the data rows (lines after the header; a last line

@@ -19,8 +19,8 @@ const deadlineSlack = time.Second
 
 // A job at its deadline really stops: the real River workers and
 // PostgreSQL, a raw-data package with missing cells whose screening takes
-// far longer than the job timeout (200,000 rows: EM, its bootstrap and 20
-// imputations), a timeout of 1.5 s. The attempt is recorded as failed by
+// far longer than the job timeout (slowPackage's 100,000 rows, about 6 s:
+// EM, its bootstrap and 20 imputations), a timeout of 1.5 s. The attempt is recorded as failed by
 // the deadline, and it ended within the slack of it (both times from the
 // queue's own record of the attempt), and the one worker slot is free
 // again: a small package queued behind it is screened.
@@ -28,9 +28,9 @@ func TestWorker_JobAtItsDeadlineReturns(t *testing.T) {
 	db, url := storetest.MustOpenDB(t)
 	_, k := storetest.MustKey(t, db, "Office D", service.RoleEditor)
 	ctx := context.Background()
+	pkg, csv := slowPackage(t, 100_000)
 	slow, _, err := db.CreateSubmission(ctx, service.NewSubmission{Key: k, Title: "slow", PackageSHA256: "slow",
-		Package: readFile(t, "../../testdata/demo/coding-club/package.json"),
-		Data:    repeatRows(t, "../../testdata/demo/coding-club/rows.csv", 200_000)})
+		Package: pkg, Data: csv})
 	if err != nil {
 		t.Fatal(err)
 	}

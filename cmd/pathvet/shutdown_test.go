@@ -5,7 +5,6 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
-	"fmt"
 	"io"
 	"net/http"
 	"net/http/httptrace"
@@ -194,9 +193,9 @@ func longPoll(t *testing.T, url, token string) <-chan pollResult {
 func TestServe_SecondSignalForcesExit(t *testing.T) {
 	db, url := storetest.MustOpenDB(t)
 	_, k := storetest.MustKey(t, db, "Office F", service.RoleEditor)
-	pkg := readFile(t, "../../testdata/demo/coding-club/package.json")
+	pkg, csv := slowPackage(t, 60_000)
 	if _, _, err := db.CreateSubmission(context.Background(), service.NewSubmission{Key: k, Package: pkg,
-		Data: repeatRows(t, "../../testdata/demo/coding-club/rows.csv", 100_000), Title: "long", PackageSHA256: "h"}); err != nil {
+		Data: csv, Title: "long", PackageSHA256: "h"}); err != nil {
 		t.Fatal(err)
 	}
 	p := startProcess(t, buildBinary(t), "work", "--database-url", url, "--workers", "1", "--shutdown-grace", "10m")
@@ -212,18 +211,4 @@ func TestServe_SecondSignalForcesExit(t *testing.T) {
 	if !errors.As(err, &exit) || exit.ExitCode() != exitInternal {
 		t.Fatalf("exit %v, want status %d; log %q", err, exitInternal, p.messages())
 	}
-}
-
-// repeatRows makes n data rows from a CSV's rows, with new ids.
-func repeatRows(t *testing.T, path string, n int) []byte {
-	t.Helper()
-	lines := strings.Split(strings.TrimSpace(string(readFile(t, path))), "\n")
-	var b strings.Builder
-	b.WriteString(lines[0] + "\n")
-	for i := range n {
-		row := lines[1+i%(len(lines)-1)]
-		_, rest, _ := strings.Cut(row, ",")
-		fmt.Fprintf(&b, "Q%07d,%s\n", i, rest)
-	}
-	return []byte(b.String())
 }
