@@ -2,6 +2,7 @@ package missing
 
 import (
 	"errors"
+	"math"
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
@@ -25,13 +26,19 @@ type condition struct {
 	a        []float64 // |M|
 	pmo      []float64 // scratch: P_MO
 	l        []float64 // scratch: the factor of C
+	// lean: only C was computed (setLean); predict then works from the
+	// precision matrix, full (p × p, both triangles), and mean.
+	lean bool
+	full []float64
+	mean []float64
+	v    []float64 // scratch: P_MO (x_O − μ_O)
 }
 
 // set computes the condition of the pattern (obs, mis) under mean and the
 // precision prec. B = −C P_MO is a product of small matrices, formed by
 // loops: BLAS call overhead outweighs them.
 func (c *condition) set(prec *mat.SymDense, mean []float64, obs, mis []int) error {
-	c.obs, c.mis = obs, mis
+	c.obs, c.mis, c.lean = obs, mis, false
 	nm, no := len(mis), len(obs)
 	c.c, c.b, c.a, c.pmo = grow(c.c, nm*nm), grow(c.b, nm*no), grow(c.a, nm), grow(c.pmo, nm*no)
 	if nm == 0 {
@@ -67,16 +74,58 @@ func (c *condition) set(prec *mat.SymDense, mean []float64, obs, mis []int) erro
 	return nil
 }
 
-// invertSym replaces the k × k positive definite matrix s (row-major,
-// both triangles) by its inverse, through the Cholesky factor (LAPACK
-// dpotrf, dpotri).
-func invertSym(s []float64, k int) error {
-	if k == 1 {
-		if !(s[0] > 0) {
-			return errNotPD
+// setLean computes only C of the pattern (obs, mis), from full, the
+// precision matrix with both triangles: for a pattern of a few rows, whose
+// conditional means predict then takes row by row as
+//
+//	E[x_M | x_O] = μ_M − C P_MO (x_O − μ_O),
+//
+// which costs |M| · |O| + |M|² a row and spares forming B and a, about
+// |M|² · |O| for the pattern.
+func (c *condition) setLean(full, mean []float64, obs, mis []int) error {
+	c.obs, c.mis, c.lean, c.full, c.mean = obs, mis, true, full, mean
+	nm, p := len(mis), len(mean)
+	c.c, c.v = grow(c.c, nm*nm), grow(c.v, nm)
+	for x, i := range mis {
+		for y, j := range mis {
+			c.c[x*nm+y] = full[i*p+j]
 		}
-		s[0] = 1 / s[0]
+	}
+	if nm == 0 {
 		return nil
+	}
+	return invertSym(c.c, nm)
+}
+
+// setFor is set for a pattern whose rows are reduced (reduced) and
+// setLean for one whose rows are predicted one by one.
+func (c *condition) setFor(reduced bool, prec *mat.SymDense, full, mean []float64, obs, mis []int) error {
+	if reduced {
+		return c.set(prec, mean, obs, mis)
+	}
+	return c.setLean(full, mean, obs, mis)
+}
+
+// fullSymmetric returns prec with both triangles, p × p row-major.
+func fullSymmetric(prec *mat.SymDense) []float64 {
+	p := prec.SymmetricDim()
+	out := make([]float64, p*p)
+	for i := range p {
+		for j := i; j < p; j++ {
+			v := prec.At(i, j)
+			out[i*p+j], out[j*p+i] = v, v
+		}
+	}
+	return out
+}
+
+// invertSym replaces the k × k positive definite matrix s (row-major,
+// both triangles) by its inverse, through the Cholesky factor: by loops up
+// to smallInverse (a pattern's few missing variables, where the LAPACK
+// calls cost more than the arithmetic), by LAPACK dpotrf and dpotri past it.
+func invertSym(s []float64, k int) error {
+	if k <= smallInverse {
+		return invertSmall(s, k)
 	}
 	sym := blas64.Symmetric{N: k, Stride: k, Data: s, Uplo: blas.Upper}
 	t, ok := lapack64.Potrf(sym)
@@ -94,9 +143,62 @@ func invertSym(s []float64, k int) error {
 	return nil
 }
 
+// smallInverse is the largest k that invertSmall inverts.
+const smallInverse = 8
+
+// invertSmall is invertSym for k ≤ smallInverse: s = L Lᵀ (Cholesky, by
+// columns), then s⁻¹ = L⁻ᵀ L⁻¹ from L⁻¹ by forward substitution. A pivot
+// that is not positive means s is not positive definite, as in dpotrf.
+func invertSmall(s []float64, k int) error {
+	var lb, ib [smallInverse * smallInverse]float64
+	l, li := lb[:k*k], ib[:k*k]
+	for j := range k {
+		d := s[j*k+j]
+		for m := range j {
+			d -= l[j*k+m] * l[j*k+m]
+		}
+		if !(d > 0) {
+			return errNotPD
+		}
+		d = math.Sqrt(d)
+		l[j*k+j] = d
+		for i := j + 1; i < k; i++ {
+			v := s[i*k+j]
+			for m := range j {
+				v -= l[i*k+m] * l[j*k+m]
+			}
+			l[i*k+j] = v / d
+		}
+	}
+	for i := range k {
+		li[i*k+i] = 1 / l[i*k+i]
+		for j := range i {
+			v := 0.0
+			for m := j; m < i; m++ {
+				v -= l[i*k+m] * li[m*k+j]
+			}
+			li[i*k+j] = v / l[i*k+i]
+		}
+	}
+	for i := range k {
+		for j := 0; j <= i; j++ {
+			v := 0.0
+			for m := i; m < k; m++ {
+				v += li[m*k+i] * li[m*k+j]
+			}
+			s[i*k+j], s[j*k+i] = v, v
+		}
+	}
+	return nil
+}
+
 // predict writes the conditional means of the missing values of the row
 // x into x[mis], from its observed values x[obs].
 func (c *condition) predict(x []float64) {
+	if c.lean {
+		c.predictLean(x)
+		return
+	}
 	no := len(c.obs)
 	for a, j := range c.mis {
 		v := c.a[a]
@@ -105,6 +207,25 @@ func (c *condition) predict(x []float64) {
 			v += row[b] * x[k]
 		}
 		x[j] = v
+	}
+}
+
+// predictLean is predict after setLean.
+func (c *condition) predictLean(x []float64) {
+	p, nm := len(c.mean), len(c.mis)
+	for a, i := range c.mis {
+		row, s := c.full[i*p:(i+1)*p], 0.0
+		for _, j := range c.obs {
+			s += row[j] * (x[j] - c.mean[j])
+		}
+		c.v[a] = s
+	}
+	for a, i := range c.mis {
+		e := c.mean[i]
+		for b, v := range c.v {
+			e -= c.c[a*nm+b] * v
+		}
+		x[i] = e
 	}
 }
 

@@ -206,8 +206,10 @@ func (w *imputer) draw(theta *EMResult, rng *rand.Rand) error {
 	if err != nil {
 		return err
 	}
+	full := fullSymmetric(prec)
 	for _, pat := range w.ps {
-		if err := w.cond.set(prec, theta.Mean, pat.obs, pat.mis); err != nil {
+		reduced := len(pat.Rows) >= 2*(len(w.cols)+1) // as in emData: B pays for itself past a few rows
+		if err := w.cond.setFor(reduced, prec, full, theta.Mean, pat.obs, pat.mis); err != nil {
 			return err
 		}
 		l, err := w.cond.factor()

@@ -46,7 +46,7 @@ func ImputeMoments(ctx context.Context, cols [][]float64, start *EMResult, opt I
 	full := newCompleted(cols, lay, ps, start.Mean)
 	return runImputations(ctx, opt, func() imputeFunc {
 		w := newImputer(cols, ps, lay, nil)
-		c := &completer{completed: full, buf: make([]float64, blockRows*(len(cols)+1))}
+		c := &completer{completed: full}
 		return func(ctx context.Context, k int, opt ImputeOptions) error {
 			rng := imputationStream(opt.Seed, k)
 			theta, err := w.bootstrapEM(ctx, start, opt.EM, rng)
@@ -97,9 +97,10 @@ func newCompleted(cols [][]float64, lay *layout, ps []Pattern, centre []float64)
 // dataset.
 type completer struct {
 	*completed
-	cond condition
-	buf  []float64 // blockRows × (p+1): completed rows of small patterns
-	tbuf []float64 // (|O|+1) × chunkRows: u, transposed
+	cond  condition
+	block rowBlock  // completed rows of small patterns, about the centre
+	x     []float64 // scratch: a row
+	tbuf  []float64 // (|O|+1) × chunkRows: u, transposed
 	zbuf []float64 // |M| × chunkRows: z, transposed
 }
 
@@ -117,11 +118,11 @@ func (c *completer) moments(th *EMResult, rng *rand.Rand) ([]float64, *mat.SymDe
 	for j := range mean {
 		mean[j] = th.Mean[j] - c.centre[j]
 	}
+	full := fullSymmetric(prec)
 	t := make([]float64, (p+1)*(p+1))
-	rowSums := blas64.Symmetric{N: p + 1, Stride: p + 1, Data: make([]float64, (p+1)*(p+1)), Uplo: blas.Upper}
-	r := 0
+	c.block.reset(p)
 	for _, g := range d.groups {
-		if err := c.cond.set(prec, mean, g.obs, g.mis); err != nil {
+		if err := c.cond.setFor(g.s != nil, prec, full, mean, g.obs, g.mis); err != nil {
 			return nil, nil, err
 		}
 		l, err := c.cond.factor()
@@ -132,15 +133,9 @@ func (c *completer) moments(th *EMResult, rng *rand.Rand) ([]float64, *mat.SymDe
 			c.addDrawnReduced(t, g, l, rng)
 			continue
 		}
-		r = c.addDrawnRows(rowSums, g, l, r, rng)
+		c.addDrawnRows(g, l, rng)
 	}
-	if r > 0 {
-		blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: c.buf}, 1, rowSums)
-	}
-	symmetrize(rowSums.Data, p+1)
-	for i, v := range rowSums.Data {
-		t[i] += v
-	}
+	c.block.addTo(t)
 	if t[0] != n {
 		return nil, nil, errors.New("internal error: the completed rows do not add up to the data")
 	}
@@ -229,25 +224,17 @@ func addSandwich(t []float64, p int, a blas64.General, s []float64) {
 }
 
 // addDrawnRows completes g's rows about the centre, conditional mean plus
-// L z, into the block buffer from row r on, adds full blocks to sums and
-// returns the rows left in the buffer.
-func (c *completer) addDrawnRows(sums blas64.Symmetric, g *group, l []float64, r int, rng *rand.Rand) int {
-	p := c.d.p
+// L z, and adds them to the row block.
+func (c *completer) addDrawnRows(g *group, l []float64, rng *rand.Rand) {
+	c.x = grow(c.x, c.d.p)
+	x := c.x
 	for q := range g.rows {
-		row := c.buf[r*(p+1) : (r+1)*(p+1)]
-		row[0] = 1
-		x := row[1:]
-		c.d.observed(g, q, x)
-		spread(x, g.obs)
+		c.d.observedInto(g, q, x)
 		for _, j := range g.obs {
 			x[j] -= c.centre[j]
 		}
 		c.cond.predict(x)
 		addNoise(x, g.mis, l, rng)
-		if r++; r == blockRows {
-			blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: c.buf}, 1, sums)
-			r = 0
-		}
+		c.block.add(x, 1)
 	}
-	return r
 }

@@ -27,8 +27,9 @@ type emData struct {
 	lay    *layout   // the observed values by pattern, or nil: read from cols
 	w      []float64 // row weights (bootstrap counts); nil: every row once
 	groups []*group
-	buf    []float64 // blockRows × (p+1) scratch
-	tbuf   []float64 // (p+1) × chunkRows scratch
+	block  rowBlock  // rows of small patterns, completed
+	x      []float64 // scratch: a row
+	tbuf   []float64 // (|O|+1) × chunkRows scratch
 	cond   condition
 }
 
@@ -77,7 +78,7 @@ func newLayout(cols [][]float64, ps []Pattern) *layout {
 // when not nil, is cols laid out by ps, which is faster to read.
 func newEMData(cols [][]float64, lay *layout, ps []Pattern, w []float64) *emData {
 	p := len(cols)
-	d := &emData{p: p, cols: cols, lay: lay, w: w, buf: make([]float64, blockRows*(p+1))}
+	d := &emData{p: p, cols: cols, lay: lay, w: w}
 	for k, pat := range ps {
 		g := &group{obs: pat.obs, mis: pat.mis, pat: k}
 		if w == nil {
@@ -150,12 +151,13 @@ func (d *emData) gather(dst []float64, g *group, from, to int, centre []float64)
 			for r, v := range d.lay.vals[g.pat][b*nk+from : b*nk+to] {
 				out[r] = v - shift
 			}
-		default:
+		default: // weighted: the rows of positive weight, scaled at once
 			nk := d.lay.n[g.pat]
 			col := d.lay.vals[g.pat][b*nk : (b+1)*nk]
 			for r, q := range g.at[from:to] {
-				out[r] = col[q] - shift
+				out[r] = (col[q] - shift) * sw[r]
 			}
+			continue
 		}
 		if d.w != nil {
 			for r := range out {
@@ -165,13 +167,13 @@ func (d *emData) gather(dst []float64, g *group, from, to int, centre []float64)
 	}
 }
 
-// observed writes the values of g's q-th row at its observed variables
-// into dst[:len(g.obs)].
-func (d *emData) observed(g *group, q int, dst []float64) {
+// observedInto writes the values of g's q-th row into x at its observed
+// variables.
+func (d *emData) observedInto(g *group, q int, x []float64) {
 	if d.lay == nil {
 		i := g.rows[q]
-		for b, j := range g.obs {
-			dst[b] = d.cols[j][i]
+		for _, j := range g.obs {
+			x[j] = d.cols[j][i]
 		}
 		return
 	}
@@ -179,16 +181,62 @@ func (d *emData) observed(g *group, q int, dst []float64) {
 		q = g.at[q]
 	}
 	v, nk := d.lay.vals[g.pat], d.lay.n[g.pat]
-	for b := range g.obs {
-		dst[b] = v[b*nk+q]
+	for b, j := range g.obs {
+		x[j] = v[b*nk+q]
 	}
 }
 
-// spread moves x[:len(obs)] to x[obs], from the last, which never
-// overwrites a value still to move since obs is increasing.
-func spread(x []float64, obs []int) {
-	for b := len(obs) - 1; b >= 0; b-- {
-		x[obs[b]] = x[b]
+// rowBlock gathers rows [√w; √w x], transposed ((p+1) × chunkRows, a
+// variable per row), and adds them to sums, Σ w [1; x][1; x]ᵀ (upper
+// triangle), by a rank-k update (BLAS dsyrk, as long dot products) each
+// time it fills.
+type rowBlock struct {
+	p, r int
+	data []float64
+	sums blas64.Symmetric
+}
+
+// reset empties the block and zeroes the sums, making them when needed.
+func (b *rowBlock) reset(p int) {
+	if b.p != p || b.data == nil {
+		b.p, b.data = p, make([]float64, (p+1)*chunkRows)
+		b.sums = blas64.Symmetric{N: p + 1, Stride: p + 1, Data: make([]float64, (p+1)*(p+1)), Uplo: blas.Upper}
+	}
+	b.r = 0
+	clear(b.sums.Data)
+}
+
+// add adds the row x of weight sw².
+func (b *rowBlock) add(x []float64, sw float64) {
+	b.data[b.r] = sw
+	for j, v := range x {
+		b.data[(j+1)*chunkRows+b.r] = v * sw
+	}
+	if b.r++; b.r == chunkRows {
+		b.flush()
+	}
+}
+
+func (b *rowBlock) flush() {
+	if b.r > 0 {
+		blas64.Syrk(blas.NoTrans, 1, blas64.General{Rows: b.p + 1, Cols: b.r, Stride: chunkRows, Data: b.data}, 1, b.sums)
+		b.r = 0
+	}
+}
+
+// addTo adds the sums of every row added since reset to t, (p+1) × (p+1)
+// with both triangles.
+func (b *rowBlock) addTo(t []float64) {
+	b.flush()
+	k := b.p + 1
+	for x := range k {
+		for y := x; y < k; y++ {
+			v := b.sums.Data[x*k+y]
+			t[x*k+y] += v
+			if y != x {
+				t[y*k+x] += v
+			}
+		}
 	}
 }
 
@@ -209,11 +257,11 @@ func (d *emData) step(mean []float64, cov *mat.SymDense) ([]float64, *mat.SymDen
 	if err != nil {
 		return nil, nil, err
 	}
+	full := fullSymmetric(prec)
 	t := make([]float64, (p+1)*(p+1))
-	rowSums := blas64.Symmetric{N: p + 1, Stride: p + 1, Data: make([]float64, (p+1)*(p+1)), Uplo: blas.Upper}
-	r := 0
+	d.block.reset(p)
 	for _, g := range d.groups {
-		if err := d.cond.set(prec, mean, g.obs, g.mis); err != nil {
+		if err := d.cond.setFor(g.s != nil, prec, full, mean, g.obs, g.mis); err != nil {
 			return nil, nil, err
 		}
 		d.addConditionalCov(t, g)
@@ -221,15 +269,9 @@ func (d *emData) step(mean []float64, cov *mat.SymDense) ([]float64, *mat.SymDen
 			d.addReduced(t, g)
 			continue
 		}
-		r = d.addRows(rowSums, g, r)
+		d.addRows(g)
 	}
-	if r > 0 {
-		blas64.Syrk(blas.Trans, 1, blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: d.buf}, 1, rowSums)
-	}
-	symmetrize(rowSums.Data, p+1)
-	for i, v := range rowSums.Data {
-		t[i] += v
-	}
+	d.block.addTo(t)
 	return moments(t, p)
 }
 
@@ -249,28 +291,15 @@ func (d *emData) addReduced(t []float64, g *group) {
 	addSandwich(t, d.p, reducedMap(d.p, g, &d.cond), g.s)
 }
 
-// addRows completes g's rows into the block buffer, from row r on, and
-// adds full blocks to sums by a rank-k update; it returns the rows left in
-// the buffer.
-func (d *emData) addRows(sums blas64.Symmetric, g *group, r int) int {
-	p := d.p
+// addRows adds g's rows, completed by their conditional means, to the
+// row block.
+func (d *emData) addRows(g *group) {
+	d.x = grow(d.x, d.p)
 	for q, i := range g.rows {
-		row := d.buf[r*(p+1) : (r+1)*(p+1)]
-		d.observed(g, q, row[1:])
-		spread(row[1:], g.obs)
-		d.cond.predict(row[1:])
-		sw := math.Sqrt(d.weight(i))
-		row[0] = sw
-		for j := 1; j <= p; j++ {
-			row[j] *= sw
-		}
-		if r++; r == blockRows {
-			block := blas64.General{Rows: r, Cols: p + 1, Stride: p + 1, Data: d.buf}
-			blas64.Syrk(blas.Trans, 1, block, 1, sums)
-			r = 0
-		}
+		d.observedInto(g, q, d.x)
+		d.cond.predict(d.x)
+		d.block.add(d.x, math.Sqrt(d.weight(i)))
 	}
-	return r
 }
 
 // moments turns T = Σ w [1; x][1; x]ᵀ into the mean and the ML covariance.
