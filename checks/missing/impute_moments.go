@@ -101,7 +101,7 @@ type completer struct {
 	block rowBlock  // completed rows of small patterns, about the centre
 	x     []float64 // scratch: a row
 	tbuf  []float64 // (|O|+1) × chunkRows: u, transposed
-	zbuf []float64 // |M| × chunkRows: z, transposed
+	zbuf  []float64 // |M| × chunkRows: z, transposed
 }
 
 // moments draws the missing values under theta, as ImputeEach's draw does,
