@@ -54,18 +54,20 @@ type Options struct {
 // (Varadhan & Roland 2008, scheme S3) extrapolates from two EM steps; the
 // rule to stop is the change of one plain EM step, as without it. With
 // complete data the first iteration gives the ML estimates. Iterations
-// counts EM steps.
+// counts EM steps. The observed values are laid out by pattern once (a
+// copy of the data), which the iterations read in order.
 //
 // EM stops with ctx's error when ctx is done.
 func EM(ctx context.Context, cols [][]float64, opt Options) (*EMResult, error) {
 	if len(cols) == 0 || rows(cols) < 2 {
 		return nil, ErrNoData
 	}
-	return emWeighted(ctx, cols, nil, Patterns(cols), nil, opt)
+	ps := Patterns(cols)
+	return emWeighted(ctx, cols, newLayout(cols, ps), ps, nil, opt)
 }
 
 // emWeighted runs EM on the rows of cols weighted by w (nil: once each);
-// lay, when not nil, holds cols laid out by the patterns ps.
+// lay holds cols laid out by the patterns ps.
 func emWeighted(ctx context.Context, cols [][]float64, lay *layout, ps []Pattern, w []float64,
 	opt Options) (*EMResult, error) {
 	if opt.Tolerance == 0 {

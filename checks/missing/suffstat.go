@@ -24,7 +24,7 @@ const (
 type emData struct {
 	p      int
 	cols   [][]float64
-	lay    *layout   // the observed values by pattern, or nil: read from cols
+	lay    *layout   // the observed values by pattern
 	w      []float64 // row weights (bootstrap counts); nil: every row once
 	groups []*group
 	block  rowBlock  // rows of small patterns, completed
@@ -74,8 +74,8 @@ func newLayout(cols [][]float64, ps []Pattern) *layout {
 	return l
 }
 
-// newEMData groups the rows of cols by pattern ps under the weights w. lay,
-// when not nil, is cols laid out by ps, which is faster to read.
+// newEMData groups the rows of cols by pattern ps under the weights w; lay
+// is cols laid out by ps, which the reductions and iterations read.
 func newEMData(cols [][]float64, lay *layout, ps []Pattern, w []float64) *emData {
 	p := len(cols)
 	d := &emData{p: p, cols: cols, lay: lay, w: w}
@@ -140,29 +140,16 @@ func (d *emData) gather(dst []float64, g *group, from, to int, centre []float64)
 		if centre != nil {
 			shift = centre[j]
 		}
-		switch {
-		case d.lay == nil:
-			col := d.cols[j]
-			for r, i := range g.rows[from:to] {
-				out[r] = col[i] - shift
-			}
-		case g.at == nil:
-			nk := d.lay.n[g.pat]
-			for r, v := range d.lay.vals[g.pat][b*nk+from : b*nk+to] {
+		nk := d.lay.n[g.pat]
+		col := d.lay.vals[g.pat][b*nk : (b+1)*nk]
+		if g.at == nil { // every row of the pattern, once
+			for r, v := range col[from:to] {
 				out[r] = v - shift
-			}
-		default: // weighted: the rows of positive weight, scaled at once
-			nk := d.lay.n[g.pat]
-			col := d.lay.vals[g.pat][b*nk : (b+1)*nk]
-			for r, q := range g.at[from:to] {
-				out[r] = (col[q] - shift) * sw[r]
 			}
 			continue
 		}
-		if d.w != nil {
-			for r := range out {
-				out[r] *= sw[r]
-			}
+		for r, q := range g.at[from:to] { // the rows of positive weight
+			out[r] = (col[q] - shift) * sw[r]
 		}
 	}
 }
@@ -170,13 +157,6 @@ func (d *emData) gather(dst []float64, g *group, from, to int, centre []float64)
 // observedInto writes the values of g's q-th row into x at its observed
 // variables.
 func (d *emData) observedInto(g *group, q int, x []float64) {
-	if d.lay == nil {
-		i := g.rows[q]
-		for _, j := range g.obs {
-			x[j] = d.cols[j][i]
-		}
-		return
-	}
 	if g.at != nil {
 		q = g.at[q]
 	}
