@@ -43,6 +43,18 @@ func TestInvertSym_SmallAgreesWithGonum(t *testing.T) {
 				t.Fatalf("k = %d: inverse\n%v\nwant\n%v", k, mat.Formatted(got), mat.Formatted(&want))
 			}
 		}
+		// Not positive definite at the last pivot only: the identity with
+		// its last diagonal element zero, then negative.
+		for _, last := range []float64{0, -1} {
+			s := make([]float64, k*k)
+			for i := range k {
+				s[i*k+i] = 1
+			}
+			s[k*k-1] = last
+			if err := invertSym(s, k); err != errNotPD {
+				t.Errorf("k = %d, last diagonal %v: got %v, want errNotPD", k, last, err)
+			}
+		}
 		// Not positive definite: a zero, then a negative eigenvalue.
 		for _, shift := range []float64{0, -1} {
 			s := make([]float64, k*k)

@@ -84,7 +84,7 @@ func emWeighted(ctx context.Context, cols [][]float64, lay *layout, ps []Pattern
 	if err != nil {
 		return nil, err
 	}
-	d := newEMData(cols, lay, ps, w)
+	d := newEMData(cols, lay, ps, w, append([]float64(nil), mean...))
 	if w != nil && !d.observedTwice() {
 		return nil, ErrNoData
 	}

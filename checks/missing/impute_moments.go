@@ -41,6 +41,9 @@ func ImputeMoments(ctx context.Context, cols [][]float64, start *EMResult, opt I
 	if rows(cols) < 2 {
 		return ErrNoData
 	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	ps := Patterns(cols)
 	lay := newLayout(cols, ps) // shared, read only
 	full := newCompleted(cols, lay, ps, start.Mean)
@@ -82,11 +85,11 @@ type completed struct {
 
 func newCompleted(cols [][]float64, lay *layout, ps []Pattern, centre []float64) *completed {
 	p := len(cols)
-	d := &emData{p: p, cols: cols, lay: lay}
+	d := &emData{p: p, cols: cols, lay: lay, centre: centre}
 	for k, pat := range ps {
 		g := &group{obs: pat.obs, mis: pat.mis, rows: pat.Rows, weight: float64(len(pat.Rows)), pat: k}
 		if len(g.rows) >= 2*(p+1) {
-			g.s = d.crossProducts(g, centre)
+			g.s = d.crossProducts(g)
 		}
 		d.groups = append(d.groups, g)
 	}
@@ -163,7 +166,7 @@ func (c *completer) addDrawnReduced(t []float64, g *group, l []float64, rng *ran
 			end := min(start+chunkRows, len(g.rows))
 			m := end - start
 			u, z := c.tbuf[:k*m], c.zbuf[:nm*m]
-			c.d.gather(u, g, start, end, c.centre)
+			c.d.gather(u, g, start, end)
 			for r := range m {
 				for x := range nm {
 					z[x*m+r] = rng.NormFloat64()

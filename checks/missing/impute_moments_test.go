@@ -2,8 +2,11 @@ package missing
 
 import (
 	"context"
+	"fmt"
 	"math"
+	"math/rand/v2"
 	"strings"
+	"sync/atomic"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
@@ -58,9 +61,9 @@ func TestImputeMoments_AgreesWithCompletedRows(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			seen := 0
+			var seen atomic.Int64
 			err = ImputeMoments(context.Background(), cols, em, opt, func(k int, mean []float64, cov *mat.SymDense) error {
-				seen++
+				seen.Add(1)
 				w := want[k]
 				for i := range c.p {
 					sd := math.Sqrt(w.cov.At(i, i))
@@ -79,8 +82,8 @@ func TestImputeMoments_AgreesWithCompletedRows(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if seen != opt.M {
-				t.Errorf("use called %d times, want %d", seen, opt.M)
+			if int(seen.Load()) != opt.M {
+				t.Errorf("use called %d times, want %d", seen.Load(), opt.M)
 			}
 		})
 	}
@@ -142,5 +145,101 @@ func TestImputeMoments_WorkersAndCancel(t *testing.T) {
 	})
 	if err != context.Canceled {
 		t.Errorf("got %v, want context.Canceled", err)
+	}
+}
+
+// patternData makes rows of p correlated normal variables, counts[k] of
+// them with the pattern pats[k] ('1' observed, '0' missing), in a shuffled
+// order.
+func patternData(seed uint64, p int, pats []string, counts []int) [][]float64 {
+	r := rand.New(rand.NewPCG(seed, 1))
+	var masks []string
+	for k, pat := range pats {
+		for range counts[k] {
+			masks = append(masks, pat)
+		}
+	}
+	r.Shuffle(len(masks), func(a, b int) { masks[a], masks[b] = masks[b], masks[a] })
+	cols := make([][]float64, p)
+	for j := range cols {
+		cols[j] = make([]float64, len(masks))
+	}
+	for i, mask := range masks {
+		f := r.NormFloat64()
+		for j := range p {
+			cols[j][i] = float64(j) + 0.6*f + r.NormFloat64()
+			if mask[j] == '0' {
+				cols[j][i] = math.NaN()
+			}
+		}
+	}
+	return cols
+}
+
+// The moments path agrees with the completed rows at its edges: one
+// variable, patterns with no observed variable (reduced and row by row),
+// two or three rows in all, patterns of exactly 2(p+1) rows (the smallest
+// reduced) and one fewer, and patterns of chunkRows rows, one fewer and
+// one more, and twice that.
+func TestImputeMoments_EdgePatterns(t *testing.T) {
+	for i, c := range []struct {
+		p      int
+		pats   []string
+		counts []int
+	}{
+		{1, []string{"1", "0"}, []int{50, 3}},
+		{1, []string{"1", "0"}, []int{50, 30}},
+		{1, []string{"1", "0"}, []int{2, 1}},
+		{1, []string{"1"}, []int{2}},
+		{3, []string{"111", "000", "100"}, []int{100, 20, 8}},
+		{3, []string{"111", "000", "100"}, []int{100, 3, 7}},
+		{3, []string{"111", "010", "001"}, []int{chunkRows, 8, 7}},
+		{3, []string{"111", "010", "001"}, []int{2 * chunkRows, chunkRows, chunkRows + 1}},
+		{3, []string{"111", "010", "001"}, []int{chunkRows - 1, 1, 2*chunkRows + 1}},
+		{9, []string{"111111111", "000000000", "101010101", "111111110"}, []int{500, 20, 20, 19}},
+	} {
+		t.Run(fmt.Sprint(i, c.pats, c.counts), func(t *testing.T) {
+			cols := patternData(uint64(i+1), c.p, c.pats, c.counts)
+			em, err := EM(context.Background(), cols, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			opt := ImputeOptions{M: 3, Seed: 7, Workers: 1}
+			want := make([][]float64, opt.M) // means, then the covariance by rows
+			err = ImputeEach(context.Background(), cols, em, opt, func(k int, data *mat.Dense) error {
+				cov := mat.NewSymDense(c.p, nil)
+				stat.CovarianceMatrix(cov, data, nil)
+				for j := range c.p {
+					want[k] = append(want[k], stat.Mean(mat.Col(nil, j, data), nil))
+				}
+				for a := range c.p {
+					for b := range c.p {
+						want[k] = append(want[k], cov.At(a, b))
+					}
+				}
+				return nil
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			err = ImputeMoments(context.Background(), cols, em, opt, func(k int, mean []float64, cov *mat.SymDense) error {
+				w := want[k]
+				sd := func(j int) float64 { return math.Sqrt(w[c.p+j*c.p+j]) }
+				for j := range c.p {
+					if d := math.Abs(mean[j]-w[j]) / sd(j); !(d < 1e-9) {
+						t.Errorf("imputation %d: mean %d = %v, want %v", k+1, j, mean[j], w[j])
+					}
+					for b := range c.p {
+						if d := math.Abs(cov.At(j, b)-w[c.p+j*c.p+b]) / (sd(j) * sd(b)); !(d < 1e-9) {
+							t.Errorf("imputation %d: cov(%d, %d) = %v, want %v", k+1, j, b, cov.At(j, b), w[c.p+j*c.p+b])
+						}
+					}
+				}
+				return nil
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+		})
 	}
 }

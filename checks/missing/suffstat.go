@@ -25,6 +25,7 @@ type emData struct {
 	p      int
 	cols   [][]float64
 	lay    *layout   // the observed values by pattern
+	centre []float64 // the sums are taken about it, so that large means lose no digits
 	w      []float64 // row weights (bootstrap counts); nil: every row once
 	groups []*group
 	block  rowBlock  // rows of small patterns, completed
@@ -75,10 +76,11 @@ func newLayout(cols [][]float64, ps []Pattern) *layout {
 }
 
 // newEMData groups the rows of cols by pattern ps under the weights w; lay
-// is cols laid out by ps, which the reductions and iterations read.
-func newEMData(cols [][]float64, lay *layout, ps []Pattern, w []float64) *emData {
+// is cols laid out by ps, which the reductions and iterations read, and the
+// sums are taken about centre (EM's starting means).
+func newEMData(cols [][]float64, lay *layout, ps []Pattern, w, centre []float64) *emData {
 	p := len(cols)
-	d := &emData{p: p, cols: cols, lay: lay, w: w}
+	d := &emData{p: p, cols: cols, lay: lay, w: w, centre: centre}
 	for k, pat := range ps {
 		g := &group{obs: pat.obs, mis: pat.mis, pat: k}
 		if w == nil {
@@ -94,7 +96,7 @@ func newEMData(cols [][]float64, lay *layout, ps []Pattern, w []float64) *emData
 			continue
 		}
 		if len(g.rows) >= 2*(p+1) { // a reduction pays once it saves a few row passes
-			g.s = d.crossProducts(g, nil)
+			g.s = d.crossProducts(g)
 		}
 		d.groups = append(d.groups, g)
 	}
@@ -108,18 +110,18 @@ func (d *emData) weight(i int) float64 {
 	return d.w[i]
 }
 
-// crossProducts returns Σ w [1; x_O][1; x_O]ᵀ over g's rows, about centre
-// when it is not nil (x_O − centre_O then). The rows are gathered a block
-// at a time, transposed (a variable per row, scaled by √w), so that the
-// rank-k update (BLAS dsyrk) runs as long dot products.
-func (d *emData) crossProducts(g *group, centre []float64) []float64 {
+// crossProducts returns Σ w [1; x_O − c_O][1; x_O − c_O]ᵀ over g's rows, c
+// the centre. The rows are gathered a block at a time, transposed (a
+// variable per row, scaled by √w), so that the rank-k update (BLAS dsyrk)
+// runs as long dot products.
+func (d *emData) crossProducts(g *group) []float64 {
 	k := len(g.obs) + 1
 	s := blas64.Symmetric{N: k, Stride: k, Data: make([]float64, k*k), Uplo: blas.Upper}
 	d.tbuf = grow(d.tbuf, k*chunkRows)
 	for start := 0; start < len(g.rows); start += chunkRows {
 		end := min(start+chunkRows, len(g.rows))
 		block := d.tbuf[:k*(end-start)]
-		d.gather(block, g, start, end, centre)
+		d.gather(block, g, start, end)
 		blas64.Syrk(blas.NoTrans, 1, blas64.General{Rows: k, Cols: end - start, Stride: end - start, Data: block}, 1, s)
 	}
 	symmetrize(s.Data, k)
@@ -128,18 +130,15 @@ func (d *emData) crossProducts(g *group, centre []float64) []float64 {
 
 // gather writes g's rows from..to−1, transposed, into dst ((|O|+1) ×
 // (to − from), row-major): first √w, then each observed variable, less
-// centre[j] when centre is not nil, times √w.
-func (d *emData) gather(dst []float64, g *group, from, to int, centre []float64) {
+// the centre, times √w. Without weights (g.at nil) √w is one.
+func (d *emData) gather(dst []float64, g *group, from, to int) {
 	c := to - from
 	sw := dst[:c]
 	for r, i := range g.rows[from:to] {
 		sw[r] = math.Sqrt(d.weight(i))
 	}
 	for b, j := range g.obs {
-		out, shift := dst[(b+1)*c:(b+2)*c], 0.0
-		if centre != nil {
-			shift = centre[j]
-		}
+		out, shift := dst[(b+1)*c:(b+2)*c], d.centre[j]
 		nk := d.lay.n[g.pat]
 		col := d.lay.vals[g.pat][b*nk : (b+1)*nk]
 		if g.at == nil { // every row of the pattern, once
@@ -229,8 +228,8 @@ func symmetrize(s []float64, k int) {
 }
 
 // step is one E and M step from (mean, cov): the expected complete-data
-// statistics T = Σ w [1; x][1; x]ᵀ, then the mean and the ML (divisor Σ w)
-// covariance they give.
+// statistics T = Σ w [1; x − c][1; x − c]ᵀ about the centre c, then the
+// mean and the ML (divisor Σ w) covariance they give.
 func (d *emData) step(mean []float64, cov *mat.SymDense) ([]float64, *mat.SymDense, error) {
 	p := d.p
 	prec, err := precision(cov)
@@ -238,10 +237,14 @@ func (d *emData) step(mean []float64, cov *mat.SymDense) ([]float64, *mat.SymDen
 		return nil, nil, err
 	}
 	full := fullSymmetric(prec)
+	mc := make([]float64, p) // the mean about the centre
+	for j := range mc {
+		mc[j] = mean[j] - d.centre[j]
+	}
 	t := make([]float64, (p+1)*(p+1))
 	d.block.reset(p)
 	for _, g := range d.groups {
-		if err := d.cond.setFor(g.s != nil, prec, full, mean, g.obs, g.mis); err != nil {
+		if err := d.cond.setFor(g.s != nil, prec, full, mc, g.obs, g.mis); err != nil {
 			return nil, nil, err
 		}
 		d.addConditionalCov(t, g)
@@ -252,7 +255,11 @@ func (d *emData) step(mean []float64, cov *mat.SymDense) ([]float64, *mat.SymDen
 		d.addRows(g)
 	}
 	d.block.addTo(t)
-	return moments(t, p)
+	next, cov, err := moments(t, p)
+	for j := range next {
+		next[j] += d.centre[j]
+	}
+	return next, cov, err
 }
 
 // addConditionalCov adds weight · C to T's block of the missing variables.
@@ -271,12 +278,15 @@ func (d *emData) addReduced(t []float64, g *group) {
 	addSandwich(t, d.p, reducedMap(d.p, g, &d.cond), g.s)
 }
 
-// addRows adds g's rows, completed by their conditional means, to the
-// row block.
+// addRows adds g's rows, about the centre and completed by their
+// conditional means, to the row block.
 func (d *emData) addRows(g *group) {
 	d.x = grow(d.x, d.p)
 	for q, i := range g.rows {
 		d.observedInto(g, q, d.x)
+		for _, j := range g.obs {
+			d.x[j] -= d.centre[j]
+		}
 		d.cond.predict(d.x)
 		d.block.add(d.x, math.Sqrt(d.weight(i)))
 	}
