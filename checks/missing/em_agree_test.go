@@ -120,14 +120,22 @@ func TestImputeEach_WorkersDoNotMatter(t *testing.T) {
 		}
 		return out
 	}
-	one, two := sums(1), sums(2)
+	sameForWorkers(t, "sum", sums)
+}
+
+// sameForWorkers fails unless figure, one number per imputation, gives the
+// same with one worker and with two, and differs between the first two
+// imputations.
+func sameForWorkers(t *testing.T, what string, figure func(workers int) []float64) {
+	t.Helper()
+	one, two := figure(1), figure(2)
 	for k := range one {
 		if one[k] != two[k] {
-			t.Errorf("imputation %d: sum %v with one worker, %v with two", k+1, one[k], two[k])
+			t.Errorf("imputation %d: %s %v with one worker, %v with two", k+1, what, one[k], two[k])
 		}
 	}
 	if one[0] == one[1] {
-		t.Error("two imputations are the same")
+		t.Errorf("the first two imputations have the same %s", what)
 	}
 }
 

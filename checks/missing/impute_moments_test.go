@@ -128,15 +128,7 @@ func TestImputeMoments_WorkersAndCancel(t *testing.T) {
 		}
 		return out
 	}
-	one, two := firstMeans(1), firstMeans(2)
-	for k := range one {
-		if one[k] != two[k] {
-			t.Errorf("imputation %d: mean %v with one worker, %v with two", k+1, one[k], two[k])
-		}
-	}
-	if one[0] == one[1] {
-		t.Error("two imputations have the same mean")
-	}
+	sameForWorkers(t, "first mean", firstMeans)
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
 	err = ImputeMoments(ctx, cols, em, ImputeOptions{M: 6}, func(int, []float64, *mat.SymDense) error {
