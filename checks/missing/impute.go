@@ -161,8 +161,9 @@ func newImputer(cols [][]float64, ps []Pattern, lay *layout, data *mat.Dense) *i
 	return &imputer{cols: cols, ps: ps, lay: lay, w: make([]float64, rows(cols)), data: data}
 }
 
-// safeImpute is impute(ctx, k) with a panic turned into an error: a panic on a worker goroutine would
-// otherwise end the program, past the recovery of whoever called.
+// safeImpute is impute(ctx, k) with a panic turned into an error: a panic
+// on a worker goroutine would otherwise end the program, past the recovery
+// of whoever called.
 func safeImpute(ctx context.Context, k int, opt ImputeOptions, impute imputeFunc) (err error) {
 	defer func() {
 		if p := recover(); p != nil {
@@ -208,8 +209,7 @@ func (w *imputer) draw(theta *EMResult, rng *rand.Rand) error {
 	}
 	full := fullSymmetric(prec)
 	for _, pat := range w.ps {
-		reduced := len(pat.Rows) >= 2*(len(w.cols)+1) // as in emData: B pays for itself past a few rows
-		if err := w.cond.setFor(reduced, prec, full, theta.Mean, pat.obs, pat.mis); err != nil {
+		if err := w.cond.setFor(reducible(len(pat.Rows), len(w.cols)), prec, full, theta.Mean, pat.obs, pat.mis); err != nil {
 			return err
 		}
 		l, err := w.cond.factor()

@@ -84,16 +84,7 @@ type completed struct {
 }
 
 func newCompleted(cols [][]float64, lay *layout, ps []Pattern, centre []float64) *completed {
-	p := len(cols)
-	d := &emData{p: p, cols: cols, lay: lay, centre: centre}
-	for k, pat := range ps {
-		g := &group{obs: pat.obs, mis: pat.mis, rows: pat.Rows, weight: float64(len(pat.Rows)), pat: k}
-		if len(g.rows) >= 2*(p+1) {
-			g.s = d.crossProducts(g)
-		}
-		d.groups = append(d.groups, g)
-	}
-	return &completed{d: d, centre: centre}
+	return &completed{d: newEMData(cols, lay, ps, nil, centre), centre: centre}
 }
 
 // completer is one worker's scratch for the moments of a completed

@@ -8,9 +8,9 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// blockRows is how many rows one rank-k update (BLAS dsyrk) of rows
-// takes; chunkRows how many a transposed block holds (see crossProducts),
-// which with 30 variables stays within a core's L2 cache.
+// chunkRows is how many rows a transposed block holds (see crossProducts
+// and rowBlock), which with 30 variables stays within a core's L2 cache;
+// blockRows how many rows rowMajor transposes at a time.
 const (
 	blockRows = 256
 	chunkRows = 1024
@@ -95,13 +95,18 @@ func newEMData(cols [][]float64, lay *layout, ps []Pattern, w, centre []float64)
 		if len(g.rows) == 0 {
 			continue
 		}
-		if len(g.rows) >= 2*(p+1) { // a reduction pays once it saves a few row passes
+		if reducible(len(g.rows), p) {
 			g.s = d.crossProducts(g)
 		}
 		d.groups = append(d.groups, g)
 	}
 	return d
 }
+
+// reducible says whether a pattern of rows rows (of p variables) is worth
+// reducing to its sums and cross-products: once that saves a few passes
+// over its rows.
+func reducible(rows, p int) bool { return rows >= 2*(p+1) }
 
 func (d *emData) weight(i int) float64 {
 	if d.w == nil {
