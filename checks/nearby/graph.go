@@ -101,16 +101,18 @@ func (g *graph) apply(e Edit) {
 	}
 }
 
-func (g *graph) undo(e Edit) {
+func (g *graph) undo(e Edit) { g.apply(e.inverse()) }
+
+// inverse is the edit that takes e back: an added arc removed, a removed
+// one added, a reversed one reversed again.
+func (e Edit) inverse() Edit {
 	switch e.Op {
 	case Add:
-		g.unlink(e.From, e.To)
+		return Edit{Op: Remove, From: e.From, To: e.To}
 	case Remove:
-		g.link(e.From, e.To)
-	case Reverse:
-		g.unlink(e.To, e.From)
-		g.link(e.From, e.To)
+		return Edit{Op: Add, From: e.From, To: e.To}
 	}
+	return Edit{Op: Reverse, From: e.To, To: e.From}
 }
 
 // updateReach recomputes which nodes each node reaches, in reverse
