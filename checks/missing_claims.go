@@ -79,7 +79,7 @@ func reestimatedText(method string, r *missingResult) string {
 	if _, ok := has[pk]; !ok {
 		return "; the claims are re-estimated by " + done + " (see below)."
 	}
-	return fmt.Sprintf("; the claims are re-estimated by %s, and below each claim's %s estimate is held against "+
+	return fmt.Sprintf("; the claims are re-estimated by %s, and below, each claim's %s estimate is held against "+
 		"its estimate by %s.", done, r.label(dk), r.label(pk))
 }
 

@@ -81,7 +81,7 @@ func TestReestimatedText_NamesTheComparison(t *testing.T) {
 	r := &missingResult{moments: map[string]*Moments{MissingMaximumLikelihood: {}, MissingMeanSubstitution: {}},
 		imputed: []*Moments{{}}}
 	got := reestimatedText(MissingMeanSubstitution, r)
-	want := "; the claims are re-estimated by maximum likelihood and multiple imputation, and below each claim's " +
+	want := "; the claims are re-estimated by maximum likelihood and multiple imputation, and below, each claim's " +
 		"mean substitution estimate is held against its estimate by multiple imputation with"
 	if !strings.HasPrefix(got, want) {
 		t.Errorf("%q\nwant prefix %q", got, want)
