@@ -123,7 +123,7 @@ func csvSource(d checks.Data, opt Options, lim Limits, ps *problems) ([]byte, bo
 // summaryData checks printed summary statistics and orders them like the
 // declared variables.
 func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *checks.Dataset {
-	before := len(ps.list)
+	before := ps.count()
 	pos := summaryOrder(d.Variables, index, ps)
 	if d.N < 3 {
 		ps.at("/data/n", "must be at least 3 for data of kind summary")
@@ -132,7 +132,7 @@ func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *chec
 	r := correlationMatrix(d.Correlations, k, ps)
 	checkVector("sds", d.SDs, k, true, ps)
 	checkVector("means", d.Means, k, false, ps)
-	if len(ps.list) > before {
+	if ps.count() > before {
 		return nil
 	}
 	ds := &checks.Dataset{Kind: checks.DataSummary, N: d.N, Cor: mat.NewSymDense(p, nil)}
@@ -156,15 +156,15 @@ func summaryOrder(names []string, index map[string]int, ps *problems) []int {
 		j, ok := index[name]
 		switch _, dup := seen[name]; {
 		case !ok:
-			ps.at(at, "%s", unknownName(name, index))
+			ps.unknown(at, name, index)
 		case dup:
-			ps.at(at, "%q is listed twice", name)
+			ps.at(at, "%s is listed twice", quoted(name))
 		}
 		seen[name], pos[i] = i, j
 	}
 	for name, j := range index {
 		if _, ok := seen[name]; !ok {
-			ps.at(pointer("variables", j, "name"), "%q has no entry in /data/variables", name)
+			ps.at(pointer("variables", j, "name"), "%s has no entry in /data/variables", quoted(name))
 		}
 	}
 	return pos
@@ -205,13 +205,13 @@ func correlationMatrix(rows [][]float64, k int, ps *problems) *mat.SymDense {
 		return nil
 	}
 	full := k > 1 && len(rows[0]) == k
-	before := len(ps.list)
+	before := ps.count()
 	checkRowLengths(rows, k, full, ps)
-	if len(ps.list) > before {
+	if ps.count() > before {
 		return nil
 	}
 	m := correlationEntries(rows, k, full, ps)
-	if len(ps.list) > before {
+	if ps.count() > before {
 		return nil
 	}
 	return positiveDefinite(m, ps)
