@@ -4,8 +4,10 @@ import (
 	"bytes"
 	"encoding/json"
 	"errors"
+	"flag"
 	"fmt"
 	"os"
+	"path/filepath"
 	"runtime"
 	"strings"
 	"testing"
@@ -172,6 +174,17 @@ func mustJSON(tb testing.TB, v any) []byte {
 	return b
 }
 
+// hostileOut names a folder to write the hostile packages to, for
+// testdata/bench/hostile.sh to send them to the CLI and the API.
+var hostileOut = flag.String("hostile-out", "", "write the hostile packages to this folder")
+
+func writeHostile(t *testing.T, h hostile) {
+	name := filepath.Join(*hostileOut, strings.ReplaceAll(h.name, " ", "-")+".json")
+	if err := os.WriteFile(name, h.doc, 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
 // TestLoad_HostilePackagesAreCheap: each hostile package under the
 // package limit is refused with the problem it was built for, in a list
 // of at most 500 problems, and its Load allocates less than 64 MiB in all
@@ -181,6 +194,9 @@ func TestLoad_HostilePackagesAreCheap(t *testing.T) {
 		t.Run(h.name, func(t *testing.T) {
 			if len(h.doc) > hostileBytes {
 				t.Fatalf("%d bytes", len(h.doc))
+			}
+			if *hostileOut != "" {
+				writeHostile(t, h)
 			}
 			var invalid *checks.InvalidPackageError
 			alloc := allocated(func() {
