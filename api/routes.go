@@ -26,7 +26,7 @@ func (s *Server) routes() {
 	// Authentication is per route, not on the group: a group's middleware
 	// would catch every path under /v1 and hide 405 behind 404.
 	v1, auth := e.Group("/v1"), s.authenticate
-	v1.POST("/submissions", s.createSubmission, auth, s.limitLargeIngests,
+	v1.POST("/submissions", s.createSubmission, auth, s.gateIngest,
 		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
 	v1.GET("/submissions", s.listSubmissions, auth)
 	v1.GET("/submissions/:id", s.getSubmission, auth)

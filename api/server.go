@@ -50,10 +50,19 @@ type Config struct {
 	Web        WebStore
 	TLSProxy   bool
 	SessionTTL time.Duration
-	// LargeIngests is how many uploads of LargeIngestBytes or more may be
-	// read at once (default 1); each can hold several times its size in
-	// memory while it is read, checked and stored.
+	// LargeIngests is how many spooled uploads of LargeIngestBytes or more
+	// may be checked and stored at once (default 1); each can hold several
+	// times its size in memory meanwhile. SlotWait is how long a spooled
+	// one waits for a slot before it is 503.
 	LargeIngests int
+	SlotWait     time.Duration
+	// UploadMinRate (bytes a second), UploadGrace and UploadIdle are the
+	// upload rules: after the grace an upload must have arrived at the
+	// rate on average, and no read of it may wait longer than UploadIdle;
+	// else it is 408.
+	UploadMinRate int64
+	UploadGrace   time.Duration
+	UploadIdle    time.Duration
 	// JobMemory is the memory one screening job may use on a worker; raw
 	// data whose estimated working memory is larger is refused (422) at
 	// ingest. 0 checks nothing.
@@ -68,6 +77,7 @@ type Server struct {
 	draining  chan struct{}
 	drainOnce sync.Once
 	large     chan struct{} // the large-upload semaphore
+	sending   keysSending   // large uploads in progress, by key
 }
 
 // Drain makes every open and later long poll answer at once with the
@@ -97,6 +107,7 @@ func New(cfg Config) *Server {
 	if cfg.LargeIngests <= 0 {
 		cfg.LargeIngests = 1
 	}
+	uploadDefaults(&cfg)
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()
 	}
@@ -113,3 +124,18 @@ func (s *Server) Echo() *echo.Echo { return s.echo }
 
 // bodyLimit is the largest request body: a package and its CSV data.
 func (s *Server) bodyLimit() int64 { return s.cfg.Limits.PackageBytes + s.cfg.Limits.CSVBytes + 1<<20 }
+
+// uploadDefaults fills in the upload rules left unset.
+func uploadDefaults(cfg *Config) {
+	for _, d := range []struct {
+		v   *time.Duration
+		def time.Duration
+	}{{&cfg.SlotWait, DefaultSlotWait}, {&cfg.UploadGrace, DefaultUploadGrace}, {&cfg.UploadIdle, DefaultUploadIdle}} {
+		if *d.v <= 0 {
+			*d.v = d.def
+		}
+	}
+	if cfg.UploadMinRate <= 0 {
+		cfg.UploadMinRate = DefaultUploadMinRate
+	}
+}

@@ -38,20 +38,21 @@ done
 # measure BUILD PACKAGE: one line, the CLI's and the API's figures.
 measure() {
   local b=$1 f=$2 port=18090
+  : >"$tmp/cli.txt"
   timeout -s KILL "$TIMEOUT" /usr/bin/time -f '%M %U %S' -o "$tmp/cli.txt" "$tmp/$b" check --quiet "$f" \
     >/dev/null 2>&1 || true
-  [ -s "$tmp/cli.txt" ] && [ "$(wc -l <"$tmp/cli.txt")" -eq 1 ] || echo "- - -" >"$tmp/cli.txt"
   export PATHVET_DATABASE_URL="$server/pathvet_hostile_${b}_$$?sslmode=disable"
   /usr/bin/time -f '%M %U %S' -o "$tmp/api.txt" "$tmp/$b" serve --workers 0 --addr 127.0.0.1:$port 2>/dev/null &
   local pid=$!
   for _ in $(seq 100); do curl -s -o /dev/null http://127.0.0.1:$port/healthz && break; sleep 0.1; done
   local status
   status=$(curl -s -o /dev/null -w '%{http_code}' --max-time "$TIMEOUT" -H "Authorization: Bearer $(cat "$tmp/$b.token")" \
-    -H 'Content-Type: application/json' --data-binary "@$f" http://127.0.0.1:$port/v1/submissions || echo cut)
+    -H 'Content-Type: application/json' --data-binary "@$f" http://127.0.0.1:$port/v1/submissions) || status=cut
   kill -KILL "$(pgrep -P $pid)" 2>/dev/null || true
   wait $pid 2>/dev/null || true
-  read -r cm cu cs <"$tmp/cli.txt"
-  local am au as
+  local cm cu cs am au as
+  cm=$(grep -Eo '^[0-9]+ [0-9.]+ [0-9.]+' "$tmp/cli.txt" | tail -1 || true)
+  read -r cm cu cs <<<"${cm:-- - -}"
   am=$(grep -Eo '^[0-9]+ [0-9.]+ [0-9.]+' "$tmp/api.txt" | tail -1 || true)
   read -r am au as <<<"${am:-- - -}"
   awk -v b="$b" -v n="$(basename "$f" .json)" -v st="$status" -v cm="$cm" -v cu="$cu" -v cs="$cs" \
