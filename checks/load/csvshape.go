@@ -8,7 +8,7 @@ import (
 // Problems with the data as a whole, each at line 1.
 const (
 	dataEmpty     = "the data are empty: the first line should name the variables, separated by commas"
-	dataNotText   = "the data %s; they should be CSV text in UTF-8"
+	dataNotText   = "the data are %s; they should be CSV text in UTF-8"
 	headerTooWide = "the header has %d fields; a package declares at most %d variables and %d ignored columns"
 	otherSep      = "the data are separated by %s, not commas: save them as CSV with commas between " +
 		"fields (and points, not commas, as decimal marks)"

@@ -57,7 +57,7 @@ func notJSON(doc []byte) string {
 		return "the package is empty: it should be one JSON object, as in testdata/template/package.json"
 	}
 	if what := notText(doc); what != "" {
-		return "the package " + what + "; it should be a JSON text file in UTF-8"
+		return "the package is " + what + "; it should be a JSON text file in UTF-8"
 	}
 	if json.Valid(doc) {
 		return ""

@@ -11,23 +11,23 @@ var utf8BOM = []byte("\xef\xbb\xbf")
 var signatures = []struct {
 	magic, what string
 }{
-	{"%PDF-", "is a PDF document"},
-	{"PK\x03\x04", "is a ZIP archive (an .xlsx spreadsheet or a .docx document is one)"},
-	{"\xd0\xcf\x11\xe0", "is an old Office file (.xls or .doc)"},
-	{"\x1f\x8b", "is gzip-compressed"},
-	{"\x89PNG", "is a PNG image"},
-	{"\xff\xd8\xff", "is a JPEG image"},
-	{"{\\rtf", "is an RTF document"},
-	{"\x00\x00\xfe\xff", "is UTF-32 text"},
-	{"\xff\xfe\x00\x00", "is UTF-32 text"},
-	{"\xfe\xff", "is UTF-16 text (big-endian)"},
-	{"\xff\xfe", "is UTF-16 text (little-endian)"},
+	{"%PDF-", "a PDF document"},
+	{"PK\x03\x04", "a ZIP archive (an .xlsx spreadsheet or a .docx document is one)"},
+	{"\xd0\xcf\x11\xe0", "an old Office file (.xls or .doc)"},
+	{"\x1f\x8b", "gzip-compressed data"},
+	{"\x89PNG", "a PNG image"},
+	{"\xff\xd8\xff", "a JPEG image"},
+	{"{\\rtf", "an RTF document"},
+	{"\x00\x00\xfe\xff", "UTF-32 text"},
+	{"\xff\xfe\x00\x00", "UTF-32 text"},
+	{"\xfe\xff", "UTF-16 text (big-endian)"},
+	{"\xff\xfe", "UTF-16 text (little-endian)"},
 }
 
 // sniffBytes is how much of the start of a file notText looks at.
 const sniffBytes = 512
 
-// notText says what b is when it is plainly not UTF-8 text, "" otherwise:
+// notText names what b is when it is plainly not UTF-8 text, "" otherwise:
 // a known kind of file by its first bytes, UTF-16 without a byte-order
 // mark (every other byte NUL), or binary data (any NUL byte in its
 // start). Text with a stray invalid byte is left to the reader, which
@@ -41,11 +41,11 @@ func notText(b []byte) string {
 	head := b[:min(len(b), sniffBytes)]
 	switch {
 	case len(head) >= 4 && head[0] != 0 && head[1] == 0 && head[2] != 0 && head[3] == 0:
-		return "is UTF-16 text (little-endian)"
+		return "UTF-16 text (little-endian)"
 	case len(head) >= 4 && head[0] == 0 && head[1] != 0 && head[2] == 0 && head[3] != 0:
-		return "is UTF-16 text (big-endian)"
+		return "UTF-16 text (big-endian)"
 	case bytes.IndexByte(head, 0) >= 0:
-		return "is binary data, not text (it holds NUL bytes)"
+		return "binary data, not text (it holds NUL bytes)"
 	}
 	return ""
 }
