@@ -1,6 +1,7 @@
 package api
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
 	"errors"
@@ -170,7 +171,7 @@ func (s *Server) checkMemory(doc, data []byte) error {
 				CSV string `json:"csv"`
 			} `json:"data"`
 		}
-		if json.Unmarshal(doc, &inline) != nil {
+		if json.Unmarshal(bytes.TrimPrefix(doc, []byte("\xef\xbb\xbf")), &inline) != nil { // the loader reads past a BOM
 			return nil // the loader says what is wrong with it
 		}
 		data = []byte(inline.Data.CSV)

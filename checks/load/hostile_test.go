@@ -68,7 +68,9 @@ func around(doc, marker string) (string, string) {
 func hostilePackages(tb testing.TB) []hostile {
 	d := demoDoc(tb)
 	h, t := around(d, `"claims": [`)
-	hs := []hostile{{"empty claims", "has ", fill(h, "{}", ",", "],"+t[strings.Index(t, `"missing_data"`):])}}
+	hs := []hostile{{"empty claims", "has ", fill(h, "{}", ",", "],"+t[strings.Index(t, `"missing_data"`):])},
+		{"empty claims, given twice", `the key "claims" appears more than once`,
+			fill(h+`], "claims": [`, "{}", ",", "],"+t[strings.Index(t, `"missing_data"`):])}}
 	h, t = around(d, `"variables": [`)
 	hs = append(hs, hostile{"empty variables", "variables; the limit is 500",
 		fill(h, "{}", ",", t[strings.Index(t, "],"):])})

@@ -22,7 +22,7 @@ type walker struct {
 	lexer
 	ps   *problems
 	lim  Limits
-	over bool // a list passed its limit
+	over bool // a list passed its limit, or a field was repeated: decode nothing
 }
 
 // Formats of the walker's problems.
@@ -134,6 +134,7 @@ func (w *walker) object(t reflect.Type, ptr string) {
 			w.skip()
 		case seen[i]:
 			w.ps.at(at, repeatedKey, quoted(key))
+			w.over = true // encoding/json would keep this value, which the walk does not count
 			w.skip()
 		default:
 			seen[i] = true
