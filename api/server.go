@@ -54,6 +54,10 @@ type Config struct {
 	// read at once (default 1); each can hold several times its size in
 	// memory while it is read, checked and stored.
 	LargeIngests int
+	// Egress checks webhook URLs as they are set (the allow-list of
+	// networks and hosts otherwise refused); nil refuses every address of a
+	// refused class.
+	Egress *service.Egress
 	// JobMemory is the memory one screening job may use on a worker; raw
 	// data whose estimated working memory is larger is refused (422) at
 	// ingest. 0 checks nothing.
@@ -96,6 +100,9 @@ func New(cfg Config) *Server {
 	}
 	if cfg.LargeIngests <= 0 {
 		cfg.LargeIngests = 1
+	}
+	if cfg.Egress == nil {
+		cfg.Egress = &service.Egress{}
 	}
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()

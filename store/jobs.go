@@ -65,6 +65,9 @@ type WorkerConfig struct {
 	// on (discarded after its last attempt, or cancelled) is marked failed;
 	// default one minute.
 	ReconcileEvery time.Duration
+	// Egress is the way out to webhook receivers (the allow-list); nil
+	// refuses every address of a refused class.
+	Egress *service.Egress
 	// OnDone, when set, is called after each job ends (for metrics).
 	OnDone func(status string, took time.Duration)
 	// afterFinish runs after the transaction that ended a screening has
@@ -213,7 +216,9 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 	if err := river.AddWorkerSafely(ws, &reconcileWorker{db: db}); err != nil {
 		return nil, err
 	}
-	if err := river.AddWorkerSafely(ws, &deliverWorker{db: db, client: webhookClient()}); err != nil {
+	deliver := &deliverWorker{db: db, client: webhookClient(cmp.Or(cfg.Egress, &service.Egress{})),
+		logger: g.logger}
+	if err := river.AddWorkerSafely(ws, deliver); err != nil {
 		return nil, err
 	}
 	every := cmp.Or(cfg.ReconcileEvery, reconcileEvery)

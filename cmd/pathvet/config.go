@@ -36,6 +36,10 @@ type Config struct {
 	LargeIngests int
 	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
 	TLSProxy bool
+	// WebhookAllow lists the networks (CIDRs, addresses) and host names a
+	// webhook may reach although they are loopback, private, link-local
+	// and so on (service.ParseAllow reads it).
+	WebhookAllow string
 	// checks replaces the pipeline the workers run (tests only).
 	checks []checks.Check
 }
@@ -59,6 +63,7 @@ func defaultConfig(getenv func(string) string) Config {
 		LargeIngests: 1,
 	}
 	c.TLSProxy = getenv("PATHVET_BEHIND_TLS") == "true"
+	c.WebhookAllow = getenv("PATHVET_WEBHOOK_ALLOW")
 	if v := getenv("PATHVET_ADDR"); v != "" {
 		c.Addr = v
 	}
@@ -103,6 +108,8 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 			"served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)",
 		)
 	}
+	fs.StringVar(&c.WebhookAllow, "webhook-allow", c.WebhookAllow, "networks (CIDRs) and host names webhooks "+
+		"may reach although loopback, private or link-local, comma-separated (PATHVET_WEBHOOK_ALLOW)")
 	fs.Int64Var(&c.JobMemoryMiB, "job-memory-mib", c.JobMemoryMiB,
 		"memory one screening job may use; larger raw data is refused with the estimate (PATHVET_JOB_MEMORY_MIB)")
 	fs.IntVar(&c.Workers, "workers", c.Workers, "screening jobs at once in this process; 0 for none (PATHVET_WORKERS)")
@@ -125,7 +132,7 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 var serveUsage = map[string]string{
 	"serve": `Usage: pathvet serve [--database-url URL] [--addr HOST:PORT] [--workers N] [--job-timeout D]
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
-       [--large-ingests N] [--job-memory-mib N]
+       [--large-ingests N] [--job-memory-mib N] [--webhook-allow LIST]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N] [--behind-tls]
 
 Serves the HTTP API and the web workspace and, unless --workers 0, screens submissions in-process.
@@ -133,7 +140,7 @@ SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
 one stops it at once.`,
 	"work": `Usage: pathvet work [--database-url URL] [--workers N] [--job-timeout D]
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
-       [--job-memory-mib N]
+       [--job-memory-mib N] [--webhook-allow LIST]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N]
 
 Screens queued submissions (no HTTP API), for scaling workers out.
@@ -152,7 +159,19 @@ func (c Config) validate() error {
 	case c.JobTimePer10MCells < 0:
 		return fmt.Errorf("--job-time-per-10m-cells must not be negative")
 	}
+	if _, err := c.egress(); err != nil {
+		return err
+	}
 	return nil
+}
+
+// egress is the webhooks' way out, with the allow-list.
+func (c Config) egress() (*service.Egress, error) {
+	a, err := service.ParseAllow(c.WebhookAllow)
+	if err != nil {
+		return nil, fmt.Errorf("--webhook-allow: %w", err)
+	}
+	return &service.Egress{Allow: a}, nil
 }
 
 // maxCells is the most raw data cells a package can have under the

@@ -66,11 +66,12 @@ func (m *Main) Run(ctx context.Context) error {
 		}
 	}
 	metrics := api.NewMetrics()
+	egress, _ := m.Config.egress() // validated above
 	if m.Config.Workers > 0 {
 		m.Workers, err = db.StartWorkers(context.WithoutCancel(ctx), store.WorkerConfig{
 			Workers: m.Config.Workers, Timeout: m.Config.JobTimeout, RescueAfter: m.Config.RescueAfter,
 			PerTenMillionCells: m.Config.JobTimePer10MCells, MaxCells: m.Config.maxCells(),
-			Logger: m.Logger, Screen: screenFunc(m.Config), OnDone: metrics.JobDone,
+			Logger: m.Logger, Screen: screenFunc(m.Config), OnDone: metrics.JobDone, Egress: egress,
 		})
 		if err != nil {
 			return err
@@ -88,6 +89,7 @@ func (m *Main) Run(ctx context.Context) error {
 			Logger:       m.Logger,
 			Metrics:      metrics,
 			LargeIngests: m.Config.LargeIngests,
+			Egress:       egress,
 			JobMemory:    m.Config.JobMemoryMiB << 20,
 		},
 	)
