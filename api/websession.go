@@ -21,7 +21,6 @@ type WebStore interface {
 	EndSession(ctx context.Context, id string) error
 	SignInWait(ctx context.Context, address string) (time.Duration, error)
 	NoteSignInFailure(ctx context.Context, address string) error
-	ClearSignInFailures(ctx context.Context, address string) error
 	ReportHistory(ctx context.Context, id string, sc service.Scope) ([]service.ReportEntry, error)
 	PreviousVersion(ctx context.Context, sub *service.Submission, sc service.Scope) (*service.Submission, []byte, error)
 	Versions(ctx context.Context, ids []string, sc service.Scope) (map[string]service.Version, error)
@@ -147,19 +146,9 @@ func (s *Server) setSessionCookie(c echo.Context, id string, maxAge int) {
 		HttpOnly: true, SameSite: http.SameSiteLaxMode, Secure: s.cfg.TLSProxy})
 }
 
-// clientAddress is the address sign-in failures are counted by: the
-// peer, or behind a TLS proxy the X-Forwarded-For entry it added (trusted
-// from private and loopback addresses only).
-func (s *Server) clientAddress(c echo.Context) string {
-	if s.cfg.TLSProxy {
-		return echo.ExtractIPFromXFFHeader()(c.Request())
-	}
-	return echo.ExtractIPDirect()(c.Request())
-}
-
 // signIn is POST /session: an office key in, a session out.
 func (s *Server) signIn(c echo.Context) error {
-	ctx, addr := c.Request().Context(), s.clientAddress(c)
+	ctx, addr := c.Request().Context(), clientAddress(c.Request(), s.cfg.TrustedProxies)
 	wait, err := s.cfg.Web.SignInWait(ctx, addr)
 	if err != nil {
 		return err
@@ -180,15 +169,15 @@ func (s *Server) signIn(c echo.Context) error {
 	if err != nil {
 		return err
 	}
-	return s.openSession(c, k, addr)
+	return s.openSession(c, k)
 }
 
-func (s *Server) openSession(c echo.Context, k *service.Key, addr string) error {
-	ctx := c.Request().Context()
-	if err := s.cfg.Web.ClearSignInFailures(ctx, addr); err != nil {
-		return err
-	}
-	id, err := s.cfg.Web.OpenSession(ctx, k, s.cfg.SessionTTL)
+// openSession opens a session for the key. The address's failures stay
+// counted: a success with one key says nothing about the guesses made
+// before it (else guesses alternated with a key of one's own would never
+// wait).
+func (s *Server) openSession(c echo.Context, k *service.Key) error {
+	id, err := s.cfg.Web.OpenSession(c.Request().Context(), k, s.cfg.SessionTTL)
 	if err != nil {
 		return err
 	}

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"time"
 
+	"github.com/pathvet/pathvet/api"
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
@@ -36,6 +37,9 @@ type Config struct {
 	LargeIngests int
 	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
 	TLSProxy bool
+	// TrustedProxies lists the proxies (CIDRs, addresses) whose
+	// X-Forwarded-For entries are believed (api.ParseProxies reads it).
+	TrustedProxies string
 	// WebhookAllow lists the networks (CIDRs, addresses) and host names a
 	// webhook may reach although they are loopback, private, link-local
 	// and so on (service.ParseAllow reads it).
@@ -64,6 +68,7 @@ func defaultConfig(getenv func(string) string) Config {
 	}
 	c.TLSProxy = getenv("PATHVET_BEHIND_TLS") == "true"
 	c.WebhookAllow = getenv("PATHVET_WEBHOOK_ALLOW")
+	c.TrustedProxies = getenv("PATHVET_TRUSTED_PROXIES")
 	if v := getenv("PATHVET_ADDR"); v != "" {
 		c.Addr = v
 	}
@@ -105,8 +110,10 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 			&c.TLSProxy,
 			"behind-tls",
 			c.TLSProxy,
-			"served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)",
+			"served behind a TLS-terminating proxy: Secure cookies (PATHVET_BEHIND_TLS)",
 		)
+		fs.StringVar(&c.TrustedProxies, "trusted-proxies", c.TrustedProxies, "proxies (CIDRs, addresses, "+
+			"comma-separated) whose X-Forwarded-For is read for the client's address (PATHVET_TRUSTED_PROXIES)")
 	}
 	fs.StringVar(&c.WebhookAllow, "webhook-allow", c.WebhookAllow, "networks (CIDRs) and host names webhooks "+
 		"may reach although loopback, private or link-local, comma-separated (PATHVET_WEBHOOK_ALLOW)")
@@ -134,6 +141,7 @@ var serveUsage = map[string]string{
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
        [--large-ingests N] [--job-memory-mib N] [--webhook-allow LIST]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N] [--behind-tls]
+       [--trusted-proxies LIST]
 
 Serves the HTTP API and the web workspace and, unless --workers 0, screens submissions in-process.
 SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
@@ -161,6 +169,9 @@ func (c Config) validate() error {
 	}
 	if _, err := c.egress(); err != nil {
 		return err
+	}
+	if _, err := api.ParseProxies(c.TrustedProxies); err != nil {
+		return fmt.Errorf("--trusted-proxies: %w", err)
 	}
 	return nil
 }
