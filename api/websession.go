@@ -8,7 +8,6 @@ import (
 	"time"
 
 	"github.com/labstack/echo/v4"
-	"github.com/labstack/echo/v4/middleware"
 
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks/render"
@@ -28,34 +27,16 @@ type WebStore interface {
 	RecentReports(ctx context.Context, sc service.Scope, since time.Time, limit int) ([][]byte, bool, error)
 }
 
-// Names of the workspace's cookies and the form field of the CSRF token.
+// Names of the workspace's cookies, the form field and header of the CSRF
+// token, and the context keys.
 const (
 	sessionCookie = "pathvet_session"
 	csrfCookie    = "pathvet_csrf"
 	csrfField     = "_csrf"
+	csrfHeader    = "X-CSRF-Token"
 	csrfContext   = "csrf"
 	sessionCtx    = "pathvet.session"
 )
-
-// csrf is Echo's CSRF middleware in its token form: every state-changing
-// form carries the token of its cookie (double submit) and is refused
-// without it.
-func (s *Server) csrf() echo.MiddlewareFunc {
-	return middleware.CSRFWithConfig(middleware.CSRFConfig{
-		TokenLookup: "form:" + csrfField, CookieName: csrfCookie, CookiePath: "/", ContextKey: csrfContext,
-		CookieHTTPOnly: true, CookieSameSite: http.SameSiteLaxMode, CookieSecure: s.cfg.TLSProxy,
-	})
-}
-
-// tokenOnly hides the browser's fetch metadata from the CSRF middleware,
-// which would otherwise let a same-origin form through without its token:
-// here the token is required of every state-changing form.
-func tokenOnly(next echo.HandlerFunc) echo.HandlerFunc {
-	return func(c echo.Context) error {
-		c.Request().Header.Del(echo.HeaderSecFetchSite)
-		return next(c)
-	}
-}
 
 // webPage turns a workspace handler's error into a page for people, with
 // the status the API would answer.
@@ -102,11 +83,6 @@ func (s *Server) page(c echo.Context, status int, write func(*strings.Builder) e
 func (s *Server) nav(c echo.Context) render.Nav {
 	k := keyOf(c)
 	return render.Nav{Office: k.OfficeName, Role: k.Role, Label: k.Label, CSRF: csrfToken(c)}
-}
-
-func csrfToken(c echo.Context) string {
-	t, _ := c.Get(csrfContext).(string)
-	return t
 }
 
 // withSession looks up the session cookie and, for a live session, puts
