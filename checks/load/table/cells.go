@@ -44,6 +44,10 @@ var (
 	pairPlus  = regexp.MustCompile(`^(\S+?)\s*±\s*(\S+)$`)
 )
 
+// maxValue is the longest cell read as a number or a pair; longer cells
+// are words.
+const maxValue = 64
+
 // parseCell reads one cell; dec is the decimal mark, or 0 to take either.
 func parseCell(s string, pos int, dec byte) cell {
 	s = strings.TrimSpace(s)
@@ -53,6 +57,7 @@ func parseCell(s string, pos int, dec byte) cell {
 		c.kind = empty
 	case dashes[s]:
 		c.kind = dash
+	case len(s) > maxValue:
 	default:
 		c.readValue(s, dec)
 	}
@@ -61,8 +66,15 @@ func parseCell(s string, pos int, dec byte) cell {
 
 // readValue reads a number with its marks, or a pair.
 func (c *cell) readValue(s string, dec byte) {
+	if x, ok := plainNumber(s, dec); ok {
+		c.kind, c.x = number, x
+		return
+	}
 	if x, marks, minus, ok := markedNumber(s, dec); ok {
 		c.kind, c.x, c.marks, c.minus = number, x, marks, minus
+		return
+	}
+	if !strings.ContainsAny(s, "(±") {
 		return
 	}
 	m := pairParen.FindStringSubmatch(s)
@@ -77,6 +89,24 @@ func (c *cell) readValue(s string, dec byte) {
 	if okX && okSD {
 		c.kind, c.x, c.sd, c.minus = pair, x, sd, minusX
 	}
+}
+
+// plainNumber reads the most common cell quickly: ASCII digits, at most
+// one point and a leading hyphen or plus, which strconv.ParseFloat reads
+// as parseNumber does. It reports false for anything else, which
+// parseNumber then reads.
+func plainNumber(s string, dec byte) (float64, bool) {
+	if dec == ',' || len(s) > 40 {
+		return 0, false
+	}
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if !(c >= '0' && c <= '9' || c == '.' || i == 0 && (c == '-' || c == '+')) {
+			return 0, false
+		}
+	}
+	x, err := strconv.ParseFloat(s, 64)
+	return x, err == nil
 }
 
 // markedNumber strips significance marks from the end of s and reads the

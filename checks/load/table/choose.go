@@ -1,12 +1,19 @@
 package table
 
+import "strings"
+
+// sampleLines is how many lines the separator and the decimal mark are
+// chosen by: more than a table's title, header and first rows.
+const sampleLines = 100
+
 // chooseSeparator takes the separator under which most lines read as clean
 // rows (values and no words after the label), then the one that reads the
 // most values; ties go to the first of tabs, semicolons, commas, wide and
-// single spaces. Single spaces are not tried when runs of spaces or tabs
+// single spaces. The first sampleLines lines are read. Single spaces are not tried when runs of spaces or tabs
 // cut at least half the lines into cells: words there belong to cells
 // rather than to labels.
 func chooseSeparator(lines []line) separator {
+	lines = lines[:min(len(lines), sampleLines)]
 	best, bestClean, bestScore := tabs, -1, 0
 	for _, sep := range separators {
 		if sep == singleSpaces && wideText(lines) {
@@ -36,7 +43,7 @@ func chooseSeparator(lines []line) separator {
 func wideText(lines []line) bool {
 	cut := 0
 	for _, l := range lines {
-		if wideRE.MatchString(l.text) {
+		if strings.Contains(l.text, "  ") || strings.Contains(l.text, "\t") {
 			cut++
 		}
 	}
@@ -44,11 +51,13 @@ func wideText(lines []line) bool {
 }
 
 // chooseDecimal is ',' when the separator is not a comma and more of the
-// rows' numbers read only with a decimal comma than only with a point.
+// rows' numbers read only with a decimal comma than only with a point
+// (among the first sampleLines lines).
 func chooseDecimal(lines []line, sep separator) byte {
 	if sep == commas {
 		return '.'
 	}
+	lines = lines[:min(len(lines), sampleLines)]
 	comma, point := 0, 0
 	for _, l := range lines {
 		rw := parseRow(l, sep, 0, false)
@@ -56,6 +65,9 @@ func chooseDecimal(lines []line, sep separator) byte {
 			continue
 		}
 		for _, c := range rw.values() {
+			if !strings.ContainsAny(c.text, ".,") {
+				continue
+			}
 			_, okPoint := parseCell(c.text, 0, '.').number()
 			_, okComma := parseCell(c.text, 0, ',').number()
 			switch {

@@ -191,8 +191,9 @@ func (m *matrix) place(i, j int) (int, *cell) {
 }
 
 // weighing names the variables whose entries in the eigenvector of the
-// matrix's smallest eigenvalue are at least half the largest in size:
-// the variables whose correlations make the matrix fail.
+// matrix's smallest eigenvalue are at least half the largest in size,
+// largest first: the variables whose correlations make the matrix fail
+// (gonum's EigenSym).
 func (r *reader) weighing(m *matrix) []string {
 	k := len(m.rows)
 	s := mat.NewSymDense(k, nil)
@@ -219,12 +220,19 @@ func (r *reader) weighing(m *matrix) []string {
 		}
 	}
 	sort.SliceStable(idx, func(a, b int) bool { return math.Abs(v[idx[a]]) > math.Abs(v[idx[b]]) })
-	names := make([]string, len(idx))
+	var names []string
 	for i, j := range idx {
-		names[i] = r.names[j]
+		if i == maxWeighing {
+			return append(names, fmt.Sprintf("and %d more", len(idx)-maxWeighing))
+		}
+		names = append(names, r.names[j])
 	}
 	return names
 }
+
+// maxWeighing is how many variables a problem names before counting the
+// rest.
+const maxWeighing = 8
 
 // Formats of the problems and guesses with the sample size.
 const (

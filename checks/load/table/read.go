@@ -43,7 +43,8 @@ func (r *reader) read(lines []line) {
 
 // Kinds of line.
 const (
-	lineData = iota
+	lineData  = iota
+	lineLoose // some values among words: a row when next to rows
 	lineHeader
 	lineNote
 	lineTitle
@@ -53,15 +54,22 @@ const (
 // lineKind says what a line is on its own.
 func lineKind(l line, sep separator, dec byte) (int, row) {
 	rw := parseRow(l, sep, dec, false)
+	hdr := rw
+	if sep == singleSpaces {
+		hdr = parseRow(l, sep, dec, true)
+	}
 	switch {
 	case noteRE.MatchString(l.text):
 		return lineNote, rw
 	case titleRE.MatchString(l.text):
 		return lineTitle, rw
-	case headerLike(parseRow(l, sep, dec, true).cells):
+	case headerLike(hdr.cells):
 		return lineHeader, rw
 	case rw.dataLike():
 		return lineData, rw
+	}
+	if values, words := rw.counts(); values > 0 && words <= values+2 {
+		return lineLoose, rw
 	}
 	return lineOther, rw
 }
@@ -85,6 +93,12 @@ func (r *reader) classify(lines []line) bool {
 		r.ps.add(0, nil, noRows)
 		return false
 	}
+	for first > 0 && kinds[first-1] == lineLoose {
+		first--
+	}
+	for last < len(lines)-1 && kinds[last+1] == lineLoose {
+		last++
+	}
 	for i := first; i <= last; i++ {
 		r.takeRow(kinds[i], rows[i])
 	}
@@ -95,10 +109,11 @@ func (r *reader) classify(lines []line) bool {
 	return r.checkCount()
 }
 
-// takeRow keeps a line between the first and last rows.
+// takeRow keeps a line between the first and last rows: a row when it
+// holds a value, else a heading.
 func (r *reader) takeRow(kind int, rw row) {
 	switch {
-	case kind != lineData:
+	case kind != lineData && kind != lineLoose:
 		r.skip(rw.line, "skipped as a heading or note between the rows")
 	case rw.descriptive():
 		r.desc = append(r.desc, rw)

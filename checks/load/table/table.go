@@ -12,8 +12,8 @@ import (
 // Limits on what Read takes.
 const (
 	// MaxBytes bounds the text: a full matrix of MaxVariables variables,
-	// printed to two decimals with marks, fits in it.
-	MaxBytes = 2 << 20
+	// each cell printed as "   −.01**" (11 bytes), fits in it.
+	MaxBytes = 4 << 20
 	// MaxVariables is the package format's limit on variables.
 	MaxVariables = 500
 	// maxProblems is how many problems are listed before the rest are
@@ -21,6 +21,12 @@ const (
 	maxProblems = 100
 	// maxLabel is the package format's limit on a label, in characters.
 	maxLabel = 1000
+	// maxLines bounds the non-blank lines: the rows, a header, a title and
+	// notes.
+	maxLines = 4 * MaxVariables
+	// maxCells bounds a line's cells: a row of the full matrix, its label,
+	// number, M and SD, with room for words in the label.
+	maxCells = 2*MaxVariables + 10
 )
 
 // Variable is one row of the table.
@@ -131,6 +137,8 @@ const (
 		"and correlations"
 	tooFewRows = "found %d row of numbers; a correlation table has at least two variables"
 	tooMany    = "has %d variables; the limit is %d"
+	longText   = "has more than %d non-blank lines, more than a table of at most %d variables has"
+	longLine   = "has %d cells; a row of a table of at most %d variables has at most %d"
 )
 
 // Read reads a printed table of means, SDs and correlations (Table 1 of a
@@ -147,7 +155,9 @@ func Read(text string) (*Table, error) {
 		r.ps.add(firstInvalidLine(text), nil, notUTF8)
 		return nil, &r.ps.e
 	}
-	r.read(splitLines(text))
+	if lines := splitLines(text, maxLines); r.bounded(lines) {
+		r.read(lines)
+	}
 	if r.ps.any() {
 		ps := r.ps.e.Problems
 		sort.SliceStable(ps, func(a, b int) bool {
@@ -156,6 +166,37 @@ func Read(text string) (*Table, error) {
 		return nil, &r.ps.e
 	}
 	return r.t, nil
+}
+
+// bounded reports the lines and the lines' cells past their limits, and
+// whether there were none. Cells are counted for every separator at once:
+// tabs, semicolons, commas and runs of spaces.
+func (r *reader) bounded(lines []line) bool {
+	if len(lines) > maxLines {
+		r.ps.add(0, nil, longText, maxLines, MaxVariables)
+		return false
+	}
+	for _, l := range lines {
+		n := 1 + max(strings.Count(l.raw, "\t"), strings.Count(l.raw, ";"), strings.Count(l.raw, ","),
+			countWords(l.text)-1)
+		if n > maxCells {
+			r.ps.add(l.no, nil, longLine, n, MaxVariables, maxCells)
+		}
+	}
+	return !r.ps.any()
+}
+
+// countWords counts the runs of characters other than spaces and tabs.
+func countWords(s string) int {
+	n, in := 0, false
+	for i := 0; i < len(s); i++ {
+		space := s[i] == ' ' || s[i] == '\t'
+		if !space && !in {
+			n++
+		}
+		in = !space
+	}
+	return n
 }
 
 // firstInvalidLine is the line of text's first byte that is not UTF-8.

@@ -58,11 +58,7 @@ func TestRead_Corpus(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.File, func(t *testing.T) {
-			text, err := os.ReadFile(filepath.Join(corpusDir, c.File))
-			if err != nil {
-				t.Fatal(err)
-			}
-			got, err := table.Read(string(text))
+			got, err := table.Read(readCorpusFile(t, c.File))
 			if c.Problems != nil {
 				wantProblems(t, err, c.Problems)
 				return
@@ -142,4 +138,12 @@ func vector(t *testing.T, what string, got, want []float64) {
 			t.Errorf("%s[%d] = %v; want %v", what, i, got[i], want[i])
 		}
 	}
+}
+
+func readCorpusFile(t testing.TB, name string) string {
+	b, err := os.ReadFile(filepath.Join(corpusDir, name))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
 }

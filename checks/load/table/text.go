@@ -1,7 +1,6 @@
 package table
 
 import (
-	"regexp"
 	"strings"
 )
 
@@ -16,17 +15,19 @@ type line struct {
 var spaceLike = strings.NewReplacer("\u00a0", " ", "\u2009", " ", "\u202f", " ", "\u2007", " ", "\r", "")
 
 // splitLines numbers the non-blank lines of text, its byte-order mark
-// dropped and odd spaces made plain.
-func splitLines(text string) []line {
+// dropped and odd spaces made plain; it stops past limit lines.
+func splitLines(text string, limit int) []line {
 	text = strings.TrimPrefix(text, "\ufeff")
 	text = strings.ReplaceAll(text, "\r\n", "\n")
 	text = strings.ReplaceAll(text, "\r", "\n")
 	var out []line
-	for i, l := range strings.Split(text, "\n") {
+	for i := 1; text != "" && len(out) <= limit; i++ {
+		l, rest, _ := strings.Cut(text, "\n")
 		raw := spaceLike.Replace(l)
 		if t := strings.TrimSpace(raw); t != "" {
-			out = append(out, line{no: i + 1, text: t, raw: raw})
+			out = append(out, line{no: i, text: t, raw: raw})
 		}
+		text = rest
 	}
 	return out
 }
@@ -59,8 +60,6 @@ func (s separator) guess() string {
 // marks every cell.
 func (s separator) delimited() bool { return s <= commas }
 
-var wideRE = regexp.MustCompile(`\t|\s{2,}`)
-
 // split cuts a line into its cells' texts.
 func (s separator) split(l line) []string {
 	t := l.text
@@ -72,9 +71,27 @@ func (s separator) split(l line) []string {
 	case commas:
 		return quoted(l.raw, ',')
 	case wideSpaces:
-		return wideRE.Split(t, -1)
+		return splitWide(t)
 	}
 	return labelFirst(fields(t))
+}
+
+// splitWide cuts t at tabs and at runs of two or more spaces.
+func splitWide(t string) []string {
+	var cells []string
+	start := 0
+	for i := 0; i < len(t); i++ {
+		if t[i] != '\t' && (t[i] != ' ' || i+1 == len(t) || t[i+1] != ' ' && t[i+1] != '\t') {
+			continue
+		}
+		j := i
+		for j < len(t) && (t[j] == ' ' || t[j] == '\t') {
+			j++
+		}
+		cells = append(cells, t[start:i])
+		start, i = j, j-1
+	}
+	return append(cells, t[start:])
 }
 
 // splitHeader cuts a header line into its cells' texts: with single
