@@ -20,7 +20,7 @@ func (st *start) fromSummary(text []byte) error {
 	vars := make([]*obj, len(tb.Variables))
 	for i, v := range tb.Variables {
 		vars[i] = newObj("name", v.Name)
-		if v.Label != v.Name {
+		if v.Label != "" && v.Label != v.Name {
 			vars[i].set("label", v.Label)
 		}
 		vars[i].set("scale", "continuous")

@@ -336,12 +336,16 @@ b = dict(NOISE, labels=["Recall, week 1", "Recall (week 1)", "2nd recall"],
 p = Printer(b, marks=None)
 lines = ["\tM\tSD\t1\t2\t3"]
 lines += ["\t".join([b["labels"][i], num(b["means"][i], 1), num(b["sds"][i], 1)] + p.lower_row(i)) for i in range(3)]
-case("noise-same-names", "\n".join(lines) + "\nN = 812\n", b, guesses=["both give the name recall_week_1"])
+case("noise-same-names", "\n".join(lines) + "\nN = 812\n", b, guesses=["gives the name recall_week_1, as the label of line 2 does: it is named recall_week_1_2"])
 
 # 27. No header at all: the label, M, SD and the matrix, PDF spacing.
 p = Printer(NOISE)
 rows = [[labelled(NOISE, i), num(NOISE["means"][i]), num(NOISE["sds"][i])] + p.lower_row(i) for i in range(3)]
 case("noise-no-header-wide", pad(rows) + "\nN = 812\n", NOISE, p.count, ["read as M, then SD: no header names them"])
+
+# 28. A bare matrix without names or labels: the variables are named var_1, var_2, ...
+case("noise-csv-no-names", "1,,\n-0.22,1,\n-0.14,0.41,1\n", NOISE, means=False, sds=False, n=False,
+     names=["var_1", "var_2", "var_3"], labels=["", "", ""], guesses=["rows without a label to name their variable: 3"])
 
 # --- Malformed tables, with their exact problems -----------------------------
 
@@ -349,8 +353,7 @@ HEAD = "Variable  M  SD  1  2  3\n"
 bad("bad-letter", HEAD + "1. Noise  59.3  6.1  —\n2. Sleep  7.4  0.9  −.22  —\n3. Recall  52.0  11.0  x  .41  —\n",
     ['line 4, cell 4 ("x"): expected the correlation of recall and noise: a number such as .45 or −0.22'])
 bad("bad-short-row", HEAD + "1. Noise  59.3  6.1  —\n2. Sleep  7.4  0.9  —\n3. Recall  52.0  11.0  −.14  .41  —\n",
-    ["line 3: has 3 values after its label; expected 4: M, SD, then row 2 of a lower triangle with its diagonal "
-     "(2 cells)"])
+    ["line 3: has 3 values; expected 4: M, SD, then row 2 of a lower triangle with its diagonal (2 cells)"])
 bad("bad-not-symmetric", "a,b,c\n1,0.2,0.1\n0.25,1,0.3\n0.1,0.3,1\n",
     ['line 3, cell 1 ("0.25"): the correlation of b and a is 0.25, but line 2, cell 2 is 0.2: '
      'the matrix is not symmetric'])
@@ -396,6 +399,14 @@ bad("bad-utf8", "", ["line 3: is not valid UTF-8 text"],
     raw=b"a,b\n1,\n0.2\xff,1\n")
 bad("bad-diagonal-word", "\tM\tSD\t1\t2\nNoise\t59.3\t6.1\tn/a\nSleep\t7.4\t0.9\t-.22\t1\n",
     ['line 2, cell 4 ("n/a"): expected the diagonal of noise: —, 1 or nothing'])
+
+bad("bad-typo-last-row", "a,b,c\n1\n0.2,1\n0.1,x,y\n",
+    ['line 4, cell 2 ("x"): expected the correlation of c and b: a number such as .45 or −0.22',
+     'line 4, cell 3 ("y"): expected the diagonal of c: —, 1 or nothing'])
+bad("bad-means-row", "Variable  1  2  3\n1. Noise  —\n2. Sleep  −.22  —\n3. Recall  −.14  .41  —\nM  59.3  7.4\n",
+    ["line 5: a row of means has 2 values; expected one for each of the 3 variables"])
+bad("bad-only-descriptive-rows", "M  59.3  7.4\nSD  6.1  0.9\n",
+    ["table: found no row of numbers; a correlation table has at least two variables"])
 
 with open("cases.json", "w") as f:
     json.dump(cases, f, indent=1, ensure_ascii=False)

@@ -122,7 +122,8 @@ func (r *reader) absent(i int, c *cell, expected string, isSD bool) bool {
 		what = "SD"
 	}
 	if c.kind == empty || c.kind == dash {
-		r.guess("no %s printed for %s (%s): the %ss are left out", what, r.names[i], where(r.rows[i].line.no, c), what)
+		r.guess("no %s printed for %s (%s): the %s are left out", what, r.names[i], where(r.rows[i].line.no, c),
+			plural[what])
 		return false
 	}
 	r.ps.add(r.rows[i].line.no, c, "%s", expected)
@@ -141,10 +142,13 @@ func (r *reader) count(c *cell) {
 	}
 }
 
+// plural names the means and the SDs.
+var plural = map[string]string{"M": "means", "SD": "SDs"}
+
 // Formats of the problems with rows of means or SDs.
 const (
-	descLength = "a row of %ss has %d values; expected one for each of the %d variables"
-	descTwice  = "a row of %ss, but a column of the table gives them already"
+	descLength = "a row of %s has %s; expected one for each of the %d variables"
+	descTwice  = "a row of %s, but the table's columns give them already"
 )
 
 // descriptiveRows reads rows of means or SDs printed below the matrix.
@@ -158,13 +162,13 @@ func (r *reader) descriptiveRows(b *body) {
 		vals := rw.filled()
 		switch {
 		case *target != nil || b.roles[roleMean] && !isSD || b.roles[roleSD] && isSD || b.roles[rolePair]:
-			r.ps.add(rw.line.no, nil, descTwice, what)
+			r.ps.add(rw.line.no, nil, descTwice, plural[what])
 		case len(vals) != k:
-			r.ps.add(rw.line.no, nil, descLength, what, len(vals), k)
+			r.ps.add(rw.line.no, nil, descLength, plural[what], count(len(vals), "value"), k)
 		default:
 			*target = r.descriptiveRow(vals, expected, isSD)
-			r.guess("line %d read as the %ss, one for each variable in order (its label is %q)",
-				rw.line.no, what, rw.label)
+			r.guess("line %d read as the %s, one for each variable in order (its label is %q)",
+				rw.line.no, plural[what], rw.label)
 		}
 	}
 }

@@ -40,9 +40,9 @@ func (b *body) place(i int, ro role, c *cell) {
 // Formats of the problems with the header and the rows' lengths.
 const (
 	pastHeader    = "lies past the header's last column"
-	namedColumns  = "names %d columns, but %d rows follow; expected a name for each row's variable"
+	namedColumns  = "names %s, but %d rows follow; expected a name for each row's variable"
 	columnPastEnd = "numbers column %d, but %d rows follow"
-	rowLength     = "has %d values after its label; expected %d: %s"
+	rowLength     = "has %s; expected %d: %s"
 )
 
 // positional places the cells of a table whose separator marks every cell
@@ -77,7 +77,7 @@ func (r *reader) positional() *body {
 func (r *reader) checkHeader() {
 	h, k := r.header, len(r.rows)
 	if h.names != nil && len(h.names) != k && len(h.names) != k-1 {
-		r.ps.add(h.line, nil, namedColumns, len(h.names), k)
+		r.ps.add(h.line, nil, namedColumns, count(len(h.names), "column"), k)
 	}
 	for _, ro := range h.cols() {
 		if h.names == nil && ro.col >= k {

@@ -21,6 +21,7 @@ const (
 	entryOf        = "the correlation of %s and %s "
 	diagonalOf     = "the diagonal entry of %s "
 	matrixIs       = "the correlation matrix %s"
+	matrixHas      = "the correlation matrix: %s"
 	weighing       = "; the variables weighing most on its eigenvector: %s"
 )
 
@@ -166,7 +167,10 @@ func (r *reader) otherHalf(grid [][]*cell, s shape) {
 // table's line and cell, naming the variables.
 func (r *reader) fault(m *matrix, f load.MatrixProblem) {
 	if f.Row < 0 || f.Col < 0 {
-		detail := fmt.Sprintf(matrixIs, f.Detail)
+		detail := fmt.Sprintf(matrixHas, f.Detail)
+		if strings.HasPrefix(f.Detail, "is ") || strings.HasPrefix(f.Detail, "has ") {
+			detail = fmt.Sprintf(matrixIs, f.Detail)
+		}
 		if strings.Contains(f.Detail, "positive definite") {
 			detail += fmt.Sprintf(weighing, strings.Join(r.weighing(m), ", "))
 		}

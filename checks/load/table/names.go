@@ -40,9 +40,9 @@ func nameOf(label string) string {
 // Formats of the problems and guesses with labels.
 const (
 	labelTooLong = "a label has at most %d characters (the package format's limit); this one has %d"
-	noLabels     = "%d of the rows have no label to name their variable: each is named var_ and its row's number; " +
+	noLabels     = "rows without a label to name their variable: %d; each is named var_ and its row's number: " +
 		"rename them in the package"
-	renamedTwice = "the labels of lines %d and %d both give the name %s: the second is named %s"
+	renamedTwice = "the label of line %d gives the name %s, as the label of line %d does: it is named %s"
 )
 
 // variableNames names the rows' variables after their labels, else the
@@ -91,7 +91,7 @@ func (r *reader) unique(name string, line int, seen map[string]int) string {
 		_, taken = seen[out]
 	}
 	if out != name {
-		r.guess(renamedTwice, first, line, name, out)
+		r.guess(renamedTwice, line, name, first, out)
 	}
 	seen[out] = line
 	return out

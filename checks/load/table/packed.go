@@ -176,7 +176,7 @@ func (r *reader) packed() *body {
 		cols := l.columns(i, k)
 		want := len(l.pre) + len(cols) + len(l.post)
 		if v = r.labelNumbers(i, v, want); len(v) != want {
-			r.ps.add(r.rows[i].line.no, nil, rowLength, len(v), want, l.describe(i, k))
+			r.ps.add(r.rows[i].line.no, nil, rowLength, count(len(v), "value"), want, l.describe(i, k))
 			b.bad[i] = true
 			continue
 		}

@@ -175,7 +175,7 @@ func abbreviate(s string, n int) string {
 func (r *reader) checkCount() bool {
 	switch k := len(r.rows); {
 	case k < 2:
-		r.ps.add(0, nil, tooFewRows, k)
+		r.ps.add(0, nil, tooFewRows, count(k, "row"))
 	case k > MaxVariables:
 		r.ps.add(0, nil, tooMany, k, MaxVariables)
 	default:

@@ -135,7 +135,7 @@ const (
 	notUTF8  = "is not valid UTF-8 text"
 	noRows   = "no rows of numbers found: expected one row per variable, its label first, then its M, SD " +
 		"and correlations"
-	tooFewRows = "found %d row of numbers; a correlation table has at least two variables"
+	tooFewRows = "found %s of numbers; a correlation table has at least two variables"
 	tooMany    = "has %d variables; the limit is %d"
 	longText   = "has more than %d non-blank lines, more than a table of at most %d variables has"
 	longLine   = "has %d cells; a row of a table of at most %d variables has at most %d"
@@ -207,6 +207,17 @@ func firstInvalidLine(text string) int {
 		}
 	}
 	return 0
+}
+
+// count words a count of things: "no row", "1 row", "2 rows".
+func count(n int, thing string) string {
+	switch n {
+	case 0:
+		return "no " + thing
+	case 1:
+		return "1 " + thing
+	}
+	return fmt.Sprintf("%d %ss", n, thing)
 }
 
 // guess notes what was taken for granted.
