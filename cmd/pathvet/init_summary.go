@@ -34,16 +34,17 @@ func (st *start) fromSummary(text []byte) error {
 // summarySection is the data section of kind summary, n a placeholder
 // when the table gives none.
 func summarySection(tb *table.Table) *obj {
+	data := tb.Data()
 	var n any = load.Placeholder + " the sample size"
-	if tb.N > 0 {
-		n = tb.N
+	if data.N > 0 {
+		n = data.N
 	}
-	d := newObj("kind", "summary", "n", n, "variables", tb.Names(), "correlations", tb.Correlations)
-	if tb.SDs != nil {
-		d.set("sds", tb.SDs)
+	d := newObj("kind", data.Kind, "n", n, "variables", data.Variables, "correlations", data.Correlations)
+	if data.SDs != nil {
+		d.set("sds", data.SDs)
 	}
-	if tb.Means != nil {
-		d.set("means", tb.Means)
+	if data.Means != nil {
+		d.set("means", data.Means)
 	}
 	return d
 }

@@ -149,16 +149,7 @@ func parseNumber(s string, dec byte) (float64, bool, bool) {
 		}
 		return parseNumber(s, ',')
 	}
-	neg, enDash := false, false
-	for _, m := range minusSigns {
-		if rest, ok := strings.CutPrefix(s, m); ok {
-			s, neg, enDash = rest, true, m == "–"
-			break
-		}
-	}
-	if !neg {
-		s = strings.TrimPrefix(s, "+")
-	}
+	s, neg, enDash := cutSign(s)
 	digits, ok := plainDigits(s, dec)
 	if !ok {
 		return 0, false, false
@@ -171,6 +162,17 @@ func parseNumber(s string, dec byte) (float64, bool, bool) {
 		x = -x
 	}
 	return x, enDash, true
+}
+
+// cutSign cuts a leading sign off s: a minus sign (and whether it was an
+// en dash) or a plus.
+func cutSign(s string) (string, bool, bool) {
+	for _, m := range minusSigns {
+		if rest, ok := strings.CutPrefix(s, m); ok {
+			return rest, true, m == "–"
+		}
+	}
+	return strings.TrimPrefix(s, "+"), false, false
 }
 
 // plainDigits rewrites a number's digits as "123.45", or reports that s is

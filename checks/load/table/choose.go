@@ -19,23 +19,29 @@ func chooseSeparator(lines []line) separator {
 		if sep == singleSpaces && wideText(lines) {
 			continue
 		}
-		clean, score := 0, 0
-		for _, l := range lines {
-			kind, rw := lineKind(l, sep, 0)
-			if kind != lineData {
-				continue
-			}
-			values, words := rw.counts()
-			if values > 0 && words == 0 {
-				clean++
-			}
-			score += values - words
-		}
+		clean, score := separatorScore(lines, sep)
 		if clean > bestClean || clean == bestClean && score > bestScore {
 			best, bestClean, bestScore = sep, clean, score
 		}
 	}
 	return best
+}
+
+// separatorScore counts the lines that read as clean rows under sep, and
+// the rows' values less their words.
+func separatorScore(lines []line, sep separator) (clean, score int) {
+	for _, l := range lines {
+		kind, rw := lineKind(l, sep, 0)
+		if kind != lineData {
+			continue
+		}
+		values, words := rw.counts()
+		if values > 0 && words == 0 {
+			clean++
+		}
+		score += values - words
+	}
+	return clean, score
 }
 
 // wideText reports whether runs of spaces or tabs cut at least half the
@@ -60,26 +66,32 @@ func chooseDecimal(lines []line, sep separator) byte {
 	lines = lines[:min(len(lines), sampleLines)]
 	comma, point := 0, 0
 	for _, l := range lines {
-		rw := parseRow(l, sep, 0, false)
-		if !rw.dataLike() {
-			continue
-		}
-		for _, c := range rw.values() {
-			if !strings.ContainsAny(c.text, ".,") {
-				continue
-			}
-			_, okPoint := parseCell(c.text, 0, '.').number()
-			_, okComma := parseCell(c.text, 0, ',').number()
-			switch {
-			case okComma && !okPoint:
-				comma++
-			case okPoint && !okComma:
-				point++
-			}
+		if rw := parseRow(l, sep, 0, false); rw.dataLike() {
+			c, p := decimalVotes(rw.values())
+			comma, point = comma+c, point+p
 		}
 	}
 	if comma > point {
 		return ','
 	}
 	return '.'
+}
+
+// decimalVotes counts the cells that read as numbers only with a decimal
+// comma, and only with a point.
+func decimalVotes(cells []cell) (comma, point int) {
+	for _, c := range cells {
+		if !strings.ContainsAny(c.text, ".,") {
+			continue
+		}
+		_, okPoint := parseCell(c.text, 0, '.').number()
+		_, okComma := parseCell(c.text, 0, ',').number()
+		switch {
+		case okComma && !okPoint:
+			comma++
+		case okPoint && !okComma:
+			point++
+		}
+	}
+	return comma, point
 }

@@ -199,31 +199,11 @@ func (m *matrix) place(i, j int) (int, *cell) {
 // largest first: the variables whose correlations make the matrix fail
 // (gonum's EigenSym).
 func (r *reader) weighing(m *matrix) []string {
-	k := len(m.rows)
-	s := mat.NewSymDense(k, nil)
-	for i, row := range m.rows {
-		for j := 0; j <= i; j++ {
-			s.SetSym(i, j, row[j])
-		}
-	}
-	var eig mat.EigenSym
-	if !eig.Factorize(s, true) {
+	v := smallestEigenvector(m.rows)
+	if v == nil {
 		return []string{"(its eigenvectors could not be computed)"}
 	}
-	var vecs mat.Dense
-	eig.VectorsTo(&vecs)
-	v := mat.Col(nil, 0, &vecs)
-	top := 0.0
-	for _, x := range v {
-		top = math.Max(top, math.Abs(x))
-	}
-	idx := make([]int, 0, k)
-	for i, x := range v {
-		if math.Abs(x) >= top/2 {
-			idx = append(idx, i)
-		}
-	}
-	sort.SliceStable(idx, func(a, b int) bool { return math.Abs(v[idx[a]]) > math.Abs(v[idx[b]]) })
+	idx := heaviest(v)
 	var names []string
 	for i, j := range idx {
 		if i == maxWeighing {
@@ -232,6 +212,42 @@ func (r *reader) weighing(m *matrix) []string {
 		names = append(names, r.names[j])
 	}
 	return names
+}
+
+// smallestEigenvector is the eigenvector of the smallest eigenvalue of the
+// symmetric matrix whose lower triangle rows gives (gonum's EigenSym, whose
+// values come in ascending order); nil when it cannot be computed.
+func smallestEigenvector(rows [][]float64) []float64 {
+	s := mat.NewSymDense(len(rows), nil)
+	for i, row := range rows {
+		for j := 0; j <= i; j++ {
+			s.SetSym(i, j, row[j])
+		}
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(s, true) {
+		return nil
+	}
+	var vecs mat.Dense
+	eig.VectorsTo(&vecs)
+	return mat.Col(nil, 0, &vecs)
+}
+
+// heaviest are the indices of v's entries at least half the largest in
+// size, largest first.
+func heaviest(v []float64) []int {
+	top := 0.0
+	for _, x := range v {
+		top = math.Max(top, math.Abs(x))
+	}
+	var idx []int
+	for i, x := range v {
+		if math.Abs(x) >= top/2 {
+			idx = append(idx, i)
+		}
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return math.Abs(v[idx[a]]) > math.Abs(v[idx[b]]) })
+	return idx
 }
 
 // maxWeighing is how many variables a problem names before counting the

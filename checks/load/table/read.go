@@ -1,6 +1,9 @@
 package table
 
-import "fmt"
+import (
+	"fmt"
+	"slices"
+)
 
 // reader reads one table.
 type reader struct {
@@ -79,25 +82,13 @@ func lineKind(l line, sep separator, dec byte) (int, row) {
 func (r *reader) classify(lines []line) bool {
 	kinds := make([]int, len(lines))
 	rows := make([]row, len(lines))
-	first, last := -1, -1
 	for i, l := range lines {
 		kinds[i], rows[i] = lineKind(l, r.sep, r.dec)
-		if kinds[i] == lineData {
-			last = i
-			if first < 0 {
-				first = i
-			}
-		}
 	}
+	first, last := span(kinds)
 	if first < 0 {
 		r.ps.add(0, nil, noRows)
 		return false
-	}
-	for first > 0 && kinds[first-1] == lineLoose {
-		first--
-	}
-	for last < len(lines)-1 && kinds[last+1] == lineLoose {
-		last++
 	}
 	for i := first; i <= last; i++ {
 		r.takeRow(kinds[i], rows[i])
@@ -107,6 +98,28 @@ func (r *reader) classify(lines []line) bool {
 		r.skip(l, "read as a note below the table")
 	}
 	return r.checkCount()
+}
+
+// span is the first and last line of the table's rows: from the first to
+// the last line that reads as a row, widened by the lines next to them
+// that hold some values among words; -1 when no line reads as a row.
+func span(kinds []int) (int, int) {
+	first, last := slices.Index(kinds, lineData), 0
+	if first < 0 {
+		return -1, -1
+	}
+	for i, k := range kinds {
+		if k == lineData {
+			last = i
+		}
+	}
+	for first > 0 && kinds[first-1] == lineLoose {
+		first--
+	}
+	for last < len(kinds)-1 && kinds[last+1] == lineLoose {
+		last++
+	}
+	return first, last
 }
 
 // takeRow keeps a line between the first and last rows: a row when it
