@@ -28,7 +28,8 @@ lists every placeholder still to fill in.
 text copied from a PDF, a word processor or a spreadsheet: cells set apart
 by spaces, tabs, commas or semicolons; numbered rows with their labels; M
 and SD columns in either order, or "M (SD)" in one cell; the lower or upper
-triangle or the full matrix, its diagonal a dash, 1 or empty; marks such as
+triangle or the full matrix, its diagonal a dash, 1, empty or reliabilities
+in parentheses ("(.84)", written to the variables); marks such as
 * and † after the figures; "N = 812" in a note. A bare header of names over
 the matrix is read too. The labels become the variables' names (and stay
 as their labels); n, means and SDs are written when the table prints them;

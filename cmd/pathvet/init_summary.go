@@ -24,6 +24,9 @@ func (st *start) fromSummary(text []byte) error {
 			vars[i].set("label", v.Label)
 		}
 		vars[i].set("scale", "continuous")
+		if tb.Reliabilities != nil && tb.Reliabilities[i] > 0 {
+			vars[i].set("reliability", tb.Reliabilities[i])
+		}
 	}
 	st.pkg.set("variables", vars)
 	st.pkg.set("data", summarySection(tb))
@@ -87,6 +90,9 @@ func readList(tb *table.Table) string {
 	}
 	if tb.N > 0 {
 		parts = append(parts, fmt.Sprintf("n = %d", tb.N))
+	}
+	if tb.Reliabilities != nil {
+		parts = append(parts, "reliabilities (written to the variables that have one)")
 	}
 	if len(parts) == 0 {
 		return " only"

@@ -119,7 +119,7 @@ func TestInit_Summary(t *testing.T) {
 		"a,b,c\n1,0.2,0.1\n0.2,1,0.3\n0.1,0.3,1\n": "",
 		"a,b,c\n1,0.2,0.1\n0.25,1,0.3\n0.1,0.3,1\n": `line 3, cell 1 ("0.25"): the correlation of b and a is 0.25, ` +
 			"but line 2, cell 2 is 0.2: the matrix is not symmetric",
-		"a,b,c\n1\n0.2,x\n0.1,0.3,1\n": `line 3, cell 2 ("x"): expected the diagonal of b: —, 1 or nothing`,
+		"a,b,c\n1\n0.2,x\n0.1,0.3,1\n": `line 3, cell 2 ("x"): expected the diagonal of b: —, 1, nothing, or a reliability`,
 		"a,b\n1\n":                     "table: found 1 row of numbers; a correlation table has at least two variables",
 	} {
 		os.WriteFile(table, []byte(text), 0o644)
@@ -165,6 +165,22 @@ func TestInit_SummaryTable(t *testing.T) {
 	}
 	if n := strings.Count(strings.TrimSpace(errs), "\n") + 1; n != len(want) {
 		t.Errorf("check lists %d problems, want exactly %d:\n%s", n, len(want), errs)
+	}
+}
+
+// Reliabilities printed on the diagonal go to the variables that have one.
+func TestInit_SummaryReliabilities(t *testing.T) {
+	pkg := filepath.Join(t.TempDir(), "p.json")
+	code, out, errs := runCLI("init", "--summary", "../../testdata/tables/garden-reliabilities-wide.txt", "--out", pkg)
+	if code != exitOK || !strings.Contains(out, "reliabilities (written to the variables that have one)") {
+		t.Fatalf("%d %s\n%s", code, errs, out)
+	}
+	var rel []any
+	for _, v := range readJSONFile(t, pkg)["variables"].([]any) {
+		rel = append(rel, v.(map[string]any)["reliability"])
+	}
+	if fmt.Sprint(rel) != "[0.81 0.77 0.79 0.9 <nil>]" { // as printed: (.81) (.77) (.79) (.90) —
+		t.Errorf("reliabilities %v", rel)
 	}
 }
 

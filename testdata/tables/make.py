@@ -110,14 +110,14 @@ cases = []
 
 
 def case(name, text, b, marks=None, guesses=(), means=True, sds=True, n=True, labels=None, names=None,
-         raw=None):
+         raw=None, reliabilities=None):
     path = name + ".txt"
     with open(path, "wb") as f:
         f.write(raw if raw is not None else text.encode())
     c = {"file": path, "names": names or b["names"], "labels": labels or b["labels"],
          "correlations": b["lower"], "means": b["means"] if means else None,
          "sds": b["sds"] if sds else None, "n": b["n"] if n else 0,
-         "marks": marks or {}, "guesses": list(guesses)}
+         "marks": marks or {}, "guesses": list(guesses), "reliabilities": reliabilities}
     cases.append(c)
 
 
@@ -347,6 +347,17 @@ case("noise-no-header-wide", pad(rows) + "\nN = 812\n", NOISE, p.count, ["read a
 case("noise-csv-no-names", "1,,\n-0.22,1,\n-0.14,0.41,1\n", NOISE, means=False, sds=False, n=False,
      names=["var_1", "var_2", "var_3"], labels=["", "", ""], guesses=["rows without a label to name their variable: 3"])
 
+# 29. Reliabilities in parentheses on the diagonal (none for age), PDF spacing.
+alphas = [0.81, 0.77, 0.79, 0.9, None]
+p = Printer(GARDEN)
+rows = [["Variable", "M", "SD", "1", "2", "3", "4", "5"]]
+rows += [[labelled(GARDEN, i), num(GARDEN["means"][i]), num(GARDEN["sds"][i])] +
+         p.lower_row(i, diag="—" if alphas[i] is None else f"({alphas[i]:.2f})".replace("0.", "."))
+         for i in range(5)]
+case("garden-reliabilities-wide", pad(rows) + "\nNote. N = 1204. Reliabilities (α) on the diagonal.\n", GARDEN,
+     p.count, ["read as the variables' reliabilities (first at line 2, cell 4"],
+     reliabilities=[a or 0 for a in alphas])
+
 # --- Malformed tables, with their exact problems -----------------------------
 
 HEAD = "Variable  M  SD  1  2  3\n"
@@ -398,15 +409,18 @@ bad("bad-named-columns", "a,b,c,d\n1,,\n0.2,1,\n0.1,0.3,1\n",
 bad("bad-utf8", "", ["line 3: is not valid UTF-8 text"],
     raw=b"a,b\n1,\n0.2\xff,1\n")
 bad("bad-diagonal-word", "\tM\tSD\t1\t2\nNoise\t59.3\t6.1\tn/a\nSleep\t7.4\t0.9\t-.22\t1\n",
-    ['line 2, cell 4 ("n/a"): expected the diagonal of noise: —, 1 or nothing'])
+    ['line 2, cell 4 ("n/a"): expected the diagonal of noise: —, 1, nothing, or a reliability in parentheses such as (.84)'])
 
 bad("bad-typo-last-row", "a,b,c\n1\n0.2,1\n0.1,x,y\n",
     ['line 4, cell 2 ("x"): expected the correlation of c and b: a number such as .45 or −0.22',
-     'line 4, cell 3 ("y"): expected the diagonal of c: —, 1 or nothing'])
+     'line 4, cell 3 ("y"): expected the diagonal of c: —, 1, nothing, or a reliability in parentheses such as (.84)'])
 bad("bad-means-row", "Variable  1  2  3\n1. Noise  —\n2. Sleep  −.22  —\n3. Recall  −.14  .41  —\nM  59.3  7.4\n",
     ["line 5: a row of means has 2 values; expected one for each of the 3 variables"])
 bad("bad-only-descriptive-rows", "M  59.3  7.4\nSD  6.1  0.9\n",
     ["table: found no row of numbers; a correlation table has at least two variables"])
+
+bad("bad-reliability", "Variable  1  2\n1. Noise  (1.20)\n2. Sleep  −.22  (.77)\n",
+    ['line 2, cell 2 ("(1.20)"): the reliability of noise is 1.2; a reliability lies in (0, 1]'])
 
 with open("cases.json", "w") as f:
     json.dump(cases, f, indent=1, ensure_ascii=False)

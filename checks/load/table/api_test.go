@@ -85,7 +85,8 @@ var varName = regexp.MustCompile(`^[A-Za-z][A-Za-z0-9_]{0,63}$`)
 // FuzzRead feeds arbitrary text to the reader: it must return a table or
 // a *table.Error, never panic; a table must be what the package format
 // takes (unique valid names, a lower triangle with a unit diagonal and
-// entries in [-1, 1], one mean and SD per variable or none, SDs above 0);
+// entries in [-1, 1], one mean and SD per variable or none, SDs above 0,
+// reliabilities in (0, 1] or 0 for none);
 // a problem's line lies in the text. Seeds: the corpus.
 func FuzzRead(f *testing.F) {
 	for _, c := range corpus(f) {
@@ -145,6 +146,14 @@ func checkTable(t *testing.T, tb *table.Table) {
 	for _, s := range tb.SDs {
 		if !(s > 0) {
 			t.Fatalf("SD %v", s)
+		}
+	}
+	if tb.Reliabilities != nil && len(tb.Reliabilities) != k {
+		t.Fatalf("%d reliabilities for %d variables", len(tb.Reliabilities), k)
+	}
+	for _, r := range tb.Reliabilities {
+		if !(r >= 0 && r <= 1) {
+			t.Fatalf("reliability %v", r)
 		}
 	}
 }

@@ -15,6 +15,7 @@ const (
 	dash        // "—", "–", "-" and the like: a diagonal or nothing
 	number      // one number, its marks stripped
 	pair        // "M (SD)" or "M ± SD" in one cell
+	paren       // a number in parentheses: on a diagonal, a reliability
 	text        // anything else
 )
 
@@ -75,6 +76,12 @@ func (c *cell) readValue(s string, dec byte) {
 		return
 	}
 	if !strings.ContainsAny(s, "(±") {
+		return
+	}
+	if inner, ok := strings.CutPrefix(s, "("); ok && strings.HasSuffix(inner, ")") {
+		if x, _, _, ok := markedNumber(strings.TrimSpace(inner[:len(inner)-1]), dec); ok {
+			c.kind, c.x = paren, x
+		}
 		return
 	}
 	m := pairParen.FindStringSubmatch(s)
@@ -215,7 +222,9 @@ func allDigits(s string) bool {
 
 // value reports whether the cell holds something a table's body holds: a
 // number, a pair or a dash.
-func (c cell) value() bool { return c.kind == number || c.kind == pair || c.kind == dash }
+func (c cell) value() bool {
+	return c.kind == number || c.kind == pair || c.kind == dash || c.kind == paren
+}
 
 // number is the cell's number (a pair's M) and whether it has one.
 func (c cell) number() (float64, bool) { return c.x, c.kind == number || c.kind == pair }

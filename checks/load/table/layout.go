@@ -90,7 +90,7 @@ func (r *reader) checkHeader() {
 func (r *reader) otherColumns() {
 	for _, ro := range r.header.roles {
 		if ro.kind == roleOther && ro.cell.kind != empty {
-			r.guess("the column headed %q (cell %d) is not read", ro.cell.text, ro.cell.pos)
+			r.guess("the column headed %q (cell %d of line %d) is not read", ro.cell.text, ro.cell.pos, r.header.line)
 		}
 	}
 }

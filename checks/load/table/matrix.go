@@ -17,7 +17,8 @@ const (
 	notCorrelation = "expected the correlation of %s and %s: a number such as .45 or −0.22"
 	shortRow       = "the row ends before the correlation of %s and %s"
 	notEmpty       = "expected nothing here: the %s half of the matrix is empty"
-	notDiagonal    = "expected the diagonal of %s: —, 1 or nothing"
+	notDiagonal    = "expected the diagonal of %s: —, 1, nothing, or a reliability in parentheses such as (.84)"
+	notReliability = "the reliability of %s is %g; a reliability lies in (0, 1]"
 	entryOf        = "the correlation of %s and %s "
 	diagonalOf     = "the diagonal entry of %s "
 	matrixIs       = "the correlation matrix %s"
@@ -134,6 +135,9 @@ func (r *reader) entry(b *body, s shape, i, j int) (float64, *cell) {
 		return 0, c
 	case i == j && (c == nil || c.kind == empty || c.kind == dash):
 		return 1, c
+	case i == j && c.kind == paren:
+		r.reliability(gi, c)
+		return 1, c
 	case i == j && c.kind != number:
 		r.ps.add(line, c, notDiagonal, x)
 	case c == nil:
@@ -145,6 +149,21 @@ func (r *reader) entry(b *body, s shape, i, j int) (float64, *cell) {
 		return c.x, c
 	}
 	return 0, c
+}
+
+// reliability keeps the figure in parentheses on variable i's diagonal as
+// its reliability (a paper's Cronbach's α or test-retest figure).
+func (r *reader) reliability(i int, c *cell) {
+	if !(c.x > 0 && c.x <= 1) {
+		r.ps.add(c.line, c, notReliability, r.names[i], c.x)
+		return
+	}
+	if r.t.Reliabilities == nil {
+		r.t.Reliabilities = make([]float64, len(r.rows))
+		r.guess("the figures in parentheses on the diagonal are read as the variables' reliabilities "+
+			"(first at %s: %q); the diagonal is 1", where(c.line, c), c.text)
+	}
+	r.t.Reliabilities[i] = c.x
 }
 
 // otherHalf reports words or pairs in the half of a triangle that should

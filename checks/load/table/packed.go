@@ -86,7 +86,7 @@ func (l layout) fits(vals []cell, i, k int) (bool, bool) {
 		return true, false
 	}
 	d := vals[len(l.pre)+indexOf(cols, i)]
-	return true, d.kind == dash || d.kind == number && math.Abs(d.x-1) <= 1e-6
+	return true, d.kind == dash || d.kind == paren || d.kind == number && math.Abs(d.x-1) <= 1e-6
 }
 
 func indexOf(s []int, x int) int {

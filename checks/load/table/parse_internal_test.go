@@ -77,7 +77,9 @@ func TestParseCell(t *testing.T) {
 		{"Mean", text, 0, 0, nil},
 		{"n/a", text, 0, 0, nil},
 		{"*", text, 0, 0, nil},
-		{"(6.1)", text, 0, 0, nil},
+		{"(6.1)", paren, 6.1, 0, nil},
+		{"(.84)", paren, 0.84, 0, nil},
+		{"(x)", text, 0, 0, nil},
 	} {
 		got := parseCell(c.text, 1, '.')
 		if got.kind != c.kind || got.x != c.x || got.sd != c.sd || !slices.Equal(got.marks, c.marks) {

@@ -42,7 +42,11 @@ type Table struct {
 	// row i has i+1 entries, the last 1.
 	Correlations [][]float64
 	Means, SDs   []float64 // nil when the table prints none
-	N            int       // 0 when no line gives it
+	// Reliabilities are the figures printed in parentheses on the
+	// diagonal ("(.84)", usually Cronbach's α), 0 for a variable whose
+	// diagonal has none; nil when no diagonal has one.
+	Reliabilities []float64
+	N             int // 0 when no line gives it
 	// Guesses lists, in words, what the reader took for granted and the
 	// user should confirm: the separator, which column is M and which SD,
 	// the triangle, the lines it skipped.

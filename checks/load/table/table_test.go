@@ -29,6 +29,8 @@ type corpusCase struct {
 	Marks        map[string]int `json:"marks"`
 	Guesses      []string       `json:"guesses"`
 	Problems     []string       `json:"problems"`
+	// Reliabilities printed on the diagonal, 0 where none; null when none.
+	Reliabilities []float64 `json:"reliabilities"`
 }
 
 const corpusDir = "../../../testdata/tables"
@@ -113,6 +115,7 @@ func wantTable(t *testing.T, got *table.Table, c corpusCase) {
 	}
 	vector(t, "means", got.Means, c.Means)
 	vector(t, "sds", got.SDs, c.SDs)
+	vector(t, "reliabilities", got.Reliabilities, c.Reliabilities)
 	if got.N != c.N {
 		t.Errorf("n %d; want %d", got.N, c.N)
 	}
