@@ -65,8 +65,8 @@ func (st *start) summaryNotes(tb *table.Table) {
 		w.WriteString("The table gives no sample size: fill in data.n.\n")
 	}
 	if tb.Means == nil || tb.SDs == nil {
-		w.WriteString("Add \"sds\" and \"means\" to data, one per variable in the table's order, if the paper prints\n" +
-			"them elsewhere; without SDs only standardized results are given.\n")
+		w.WriteString("Add \"sds\" and \"means\" to data, one per variable in the table's order, if the\n" +
+			"paper prints them elsewhere; without SDs only standardized results are given.\n")
 	}
 	w.WriteString("\nWhat the reader took for granted (check each against the paper):\n")
 	for _, g := range tb.Guesses {

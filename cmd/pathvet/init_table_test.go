@@ -75,7 +75,8 @@ func TestInit_TableRoundTrip(t *testing.T) {
 	}
 	started := readJSONFile(t, pkgPath)
 	if !reflect.DeepEqual(started["data"], demo["data"]) {
-		t.Fatalf("data read from the table:\n%v\nwant the demo's:\n%v\ntable:\n%s", started["data"], demo["data"], text)
+		t.Fatalf("data read from the table:\n%v\nwant the demo's:\n%v\ntable:\n%s",
+			started["data"], demo["data"], text)
 	}
 	merged := withDemoParts(t, started, demo)
 	b, _ := json.Marshal(merged)

@@ -119,8 +119,9 @@ func TestInit_Summary(t *testing.T) {
 		"a,b,c\n1,0.2,0.1\n0.2,1,0.3\n0.1,0.3,1\n": "",
 		"a,b,c\n1,0.2,0.1\n0.25,1,0.3\n0.1,0.3,1\n": `line 3, cell 1 ("0.25"): the correlation of b and a is 0.25, ` +
 			"but line 2, cell 2 is 0.2: the matrix is not symmetric",
-		"a,b,c\n1\n0.2,x\n0.1,0.3,1\n": `line 3, cell 2 ("x"): expected the diagonal of b: —, 1, nothing, or a reliability`,
-		"a,b\n1\n":                     "table: found 1 row of numbers; a correlation table has at least two variables",
+		"a,b,c\n1\n0.2,x\n0.1,0.3,1\n": `line 3, cell 2 ("x"): expected the diagonal of b: —, 1, nothing, or a ` +
+			"reliability",
+		"a,b\n1\n": "table: found 1 row of numbers; a correlation table has at least two variables",
 	} {
 		os.WriteFile(table, []byte(text), 0o644)
 		code, _, errs := runCLI("init", "--summary", table, "--out", pkg, "--force")
@@ -157,7 +158,8 @@ func TestInit_SummaryTable(t *testing.T) {
 		t.Errorf("package: %v", p)
 	}
 	code, _, errs = runCLI("check", pkg)
-	want := []string{"/title: is still to be filled in", "/design: is still to be filled in", "/claims: has no claims yet"}
+	want := []string{"/title: is still to be filled in", "/design: is still to be filled in",
+		"/claims: has no claims yet"}
 	for _, w := range want {
 		if code != exitInvalid || !strings.Contains(errs, w) {
 			t.Errorf("check: %d, want %q in\n%s", code, w, errs)

@@ -336,7 +336,8 @@ b = dict(NOISE, labels=["Recall, week 1", "Recall (week 1)", "2nd recall"],
 p = Printer(b, marks=None)
 lines = ["\tM\tSD\t1\t2\t3"]
 lines += ["\t".join([b["labels"][i], num(b["means"][i], 1), num(b["sds"][i], 1)] + p.lower_row(i)) for i in range(3)]
-case("noise-same-names", "\n".join(lines) + "\nN = 812\n", b, guesses=["gives the name recall_week_1, as the label of line 2 does: it is named recall_week_1_2"])
+case("noise-same-names", "\n".join(lines) + "\nN = 812\n", b,
+     guesses=["gives the name recall_week_1, as the label of line 2 does: it is named recall_week_1_2"])
 
 # 27. No header at all: the label, M, SD and the matrix, PDF spacing.
 p = Printer(NOISE)
@@ -345,7 +346,8 @@ case("noise-no-header-wide", pad(rows) + "\nN = 812\n", NOISE, p.count, ["read a
 
 # 28. A bare matrix without names or labels: the variables are named var_1, var_2, ...
 case("noise-csv-no-names", "1,,\n-0.22,1,\n-0.14,0.41,1\n", NOISE, means=False, sds=False, n=False,
-     names=["var_1", "var_2", "var_3"], labels=["", "", ""], guesses=["rows without a label to name their variable: 3"])
+     names=["var_1", "var_2", "var_3"], labels=["", "", ""],
+     guesses=["rows without a label to name their variable: 3"])
 
 # 29. Reliabilities in parentheses on the diagonal (none for age), PDF spacing.
 alphas = [0.81, 0.77, 0.79, 0.9, None]
@@ -409,7 +411,8 @@ bad("bad-named-columns", "a,b,c,d\n1,,\n0.2,1,\n0.1,0.3,1\n",
 bad("bad-utf8", "", ["line 3: is not valid UTF-8 text"],
     raw=b"a,b\n1,\n0.2\xff,1\n")
 bad("bad-diagonal-word", "\tM\tSD\t1\t2\nNoise\t59.3\t6.1\tn/a\nSleep\t7.4\t0.9\t-.22\t1\n",
-    ['line 2, cell 4 ("n/a"): expected the diagonal of noise: —, 1, nothing, or a reliability in parentheses such as (.84)'])
+    ['line 2, cell 4 ("n/a"): expected the diagonal of noise: —, 1, nothing, or a reliability in parentheses '
+     'such as (.84)'])
 
 bad("bad-typo-last-row", "a,b,c\n1\n0.2,1\n0.1,x,y\n",
     ['line 4, cell 2 ("x"): expected the correlation of c and b: a number such as .45 or −0.22',

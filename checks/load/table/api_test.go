@@ -16,8 +16,8 @@ import (
 func TestRead_TooLarge(t *testing.T) {
 	_, err := table.Read(strings.Repeat("a", table.MaxBytes+1))
 	var te *table.Error
-	if !errors.As(err, &te) || !te.TooLarge || len(te.Problems) != 1 ||
-		te.Problems[0].String() != fmt.Sprintf("table: the text is %d bytes; the limit is %d", table.MaxBytes+1, table.MaxBytes) {
+	want := fmt.Sprintf("table: the text is %d bytes; the limit is %d", table.MaxBytes+1, table.MaxBytes)
+	if !errors.As(err, &te) || !te.TooLarge || len(te.Problems) != 1 || te.Problems[0].String() != want {
 		t.Fatalf("%#v", err)
 	}
 }
@@ -42,11 +42,13 @@ func TestRead_ManyProblems(t *testing.T) {
 // Texts no table can be are refused before they are read cell by cell:
 // too many lines, a line of too many cells (counted for each separator).
 func TestRead_Bounds(t *testing.T) {
+	const cells = "line 2: has 1011 cells; a row of a table of at most 500 variables has at most 1010"
 	for text, want := range map[string]string{
-		strings.Repeat("1\n", 2001):              "table: has more than 2000 non-blank lines, more than a table of at most 500 variables has",
-		"a\n" + strings.Repeat("1,", 1010):       "line 2: has 1011 cells; a row of a table of at most 500 variables has at most 1010",
-		"a\n" + strings.Repeat(".1  ", 1011):     "line 2: has 1011 cells; a row of a table of at most 500 variables has at most 1010",
-		"a\n" + strings.Repeat("\t", 1010) + "x": "line 2: has 1011 cells; a row of a table of at most 500 variables has at most 1010",
+		strings.Repeat("1\n", 2001): "table: has more than 2000 non-blank lines, more than a table of at most 500 " +
+			"variables has",
+		"a\n" + strings.Repeat("1,", 1010):       cells,
+		"a\n" + strings.Repeat(".1  ", 1011):     cells,
+		"a\n" + strings.Repeat("\t", 1010) + "x": cells,
 	} {
 		_, err := table.Read(text)
 		var te *table.Error

@@ -3,6 +3,7 @@ package table
 import (
 	"regexp"
 	"slices"
+	"strings"
 	"testing"
 )
 
@@ -49,7 +50,8 @@ func TestParseNumber(t *testing.T) {
 	for _, c := range numberCases {
 		x, enDash, ok := parseNumber(c.text, c.dec)
 		if ok != c.ok || ok && (x != c.x || enDash != c.enDsh) {
-			t.Errorf("parseNumber(%q, %q) = %v, %v, %v; want %v, %v, %v", c.text, c.dec, x, enDash, ok, c.x, c.enDsh, c.ok)
+			t.Errorf("parseNumber(%q, %q) = %v, %v, %v; want %v, %v, %v",
+				c.text, c.dec, x, enDash, ok, c.x, c.enDsh, c.ok)
 		}
 	}
 }
@@ -98,8 +100,11 @@ func TestNameOf(t *testing.T) {
 		"  Self-esteem  ":          "self_esteem",
 		"Ωμέγα":                    "",
 		"Travels > 45 min (1=yes)": "travels_45_min_1_yes",
-		"a_very_long_label_that_goes_on_and_on_past_the_limit_of_sixty_four_characters": "a_very_long_label_that_goes_on_and_on_past_the_limit_of_sixty_fo",
-		"abcdefghijklmnopqrstuvwxyzabcdefghijklmnopqrstuvwxyzabcdefghijkl_m":            "abcdefghijklmnopqrstuvwxyzabcdefghijklmnopqrstuvwxyzabcdefghijkl",
+		// Cut at 64 characters, a trailing underscore dropped.
+		"a_very_long_label_that_goes_on_and_on_past_the_limit_of_sixty_four_characters": "a_very_long_label_that_" +
+			"goes_on_and_on_past_the_limit_of_sixty_fo",
+		strings.Repeat("ab", 32) + "_m": strings.Repeat("ab", 32),
+		strings.Repeat("a", 63) + "_b":  strings.Repeat("a", 63),
 	} {
 		if got := nameOf(label); got != want {
 			t.Errorf("nameOf(%q) = %q; want %q", label, got, want)
