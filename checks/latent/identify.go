@@ -1,0 +1,101 @@
+package latent
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// singularTol is the smallest eigenvalue of the scaled information
+// D^−½ H D^−½ (a correlation-like matrix, D its diagonal) below which H is
+// taken as singular.
+const singularTol = 1e-8
+
+// nullTol is the share of a null vector's length above which a parameter
+// is named as moving in it.
+const nullTol = 0.05
+
+// checkCounts applies the counting rules before any fitting: every latent
+// has three indicators, or two and an arrow or covariance to another
+// structural node (the t-rule's local form and the two-indicator rule,
+// Bollen 1989, ch. 7), and df = p(p + 1)/2 − q ≥ 0.
+func (l *layout) checkCounts() error {
+	for j, items := range l.spec.Indicators {
+		if len(items) == 1 || (len(items) == 2 && !l.connected(l.spec.Latent(j))) {
+			return &UnidentifiedError{Reason: TooFewIndicators, Latent: j, Indicators: len(items)}
+		}
+	}
+	if df := l.df(); df < 0 {
+		return &UnidentifiedError{Reason: NegativeDF, DF: df}
+	}
+	return nil
+}
+
+// connected reports whether structural node v has a parent, a child, or
+// a free covariance with another source.
+func (l *layout) connected(v int) bool {
+	for _, par := range l.params {
+		switch {
+		case par.Kind == Path && (par.To == v || par.From == v):
+			return true
+		case par.Kind == Covariance && l.roles.structural[par.To] && (par.To == v || par.From == v):
+			return true
+		}
+	}
+	return false
+}
+
+// checkInformation returns an *UnidentifiedError naming the parameters
+// of H's (numerical) null space, or nil when H is nonsingular.
+func (l *layout) checkInformation(h *mat.SymDense) error {
+	q := h.SymmetricDim()
+	scaled := mat.NewSymDense(q, nil)
+	var dead []int
+	for a := range q {
+		if !(h.At(a, a) > 0) {
+			dead = append(dead, a)
+		}
+		for b := 0; b <= a; b++ {
+			scaled.SetSym(a, b, h.At(a, b)/math.Sqrt(h.At(a, a)*h.At(b, b)))
+		}
+	}
+	if len(dead) > 0 {
+		return l.unidentified(dead)
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(scaled, true) {
+		return l.unidentified(nil)
+	}
+	vals := eig.Values(nil)
+	var vecs mat.Dense
+	eig.VectorsTo(&vecs)
+	involved := map[int]bool{}
+	for k, ev := range vals {
+		if ev >= singularTol {
+			continue
+		}
+		for a := range q {
+			if math.Abs(vecs.At(a, k)) > nullTol {
+				involved[a] = true
+			}
+		}
+	}
+	if len(involved) == 0 {
+		return nil
+	}
+	var idx []int
+	for a := range q {
+		if involved[a] {
+			idx = append(idx, a)
+		}
+	}
+	return l.unidentified(idx)
+}
+
+func (l *layout) unidentified(idx []int) error {
+	e := &UnidentifiedError{Reason: SingularInformation}
+	for _, a := range idx {
+		e.Params = append(e.Params, l.params[a])
+	}
+	return e
+}
