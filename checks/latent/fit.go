@@ -158,4 +158,3 @@ func (ev *evaluator) checkStart(theta []float64) error {
 	ev.l.information(st, h)
 	return ev.l.checkInformation(h)
 }
-

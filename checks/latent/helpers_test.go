@@ -63,7 +63,7 @@ func covariance(x *mat.Dense, lik Likelihood) (*mat.SymDense, int) {
 type reference struct {
 	Source string `json:"source"`
 	Models map[string]struct {
-		Data    string   `json:"data"`
+		Data    string  `json:"data"`
 		Wishart refCase `json:"wishart"`
 		Normal  refCase `json:"normal"`
 	} `json:"models"`
