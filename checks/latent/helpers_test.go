@@ -144,39 +144,29 @@ func close(got, want, abs, rel float64) bool {
 	return scalar.EqualWithinAbsOrRel(got, want, abs, rel)
 }
 
-// randomCovariance simulates the covariance implied by a spec with
-// random loadings in [0.5, 1.5], paths in ±[0.2, 0.7], residual
-// variances in [0.3, 1] and unit source variances, plus noise of a
-// Wishart draw of n cases (so the model does not fit exactly).
+// randomCovariance is the sample covariance of n cases drawn from the
+// model of spec at a random θ (randomTheta), so that the model fits up to
+// sampling error.
 func randomCovariance(spec Spec, r *rand.Rand, n int) *mat.SymDense {
 	l, err := newLayout(spec)
 	if err != nil {
 		panic(err)
 	}
-	theta := make([]float64, len(l.params))
-	for i, par := range l.params {
-		switch {
-		case par.Kind == Loading:
-			theta[i] = 0.5 + r.Float64()
-		case par.Kind == Path:
-			theta[i] = (0.2 + 0.5*r.Float64()) * float64(1-2*r.IntN(2))
-		case par.Kind == Variance:
-			theta[i] = 0.3 + 0.7*r.Float64()
-		}
-	}
-	st := l.newState(theta, mat.NewSymDense(l.p, nil), 0)
+	st := l.newState(randomTheta(l, r), mat.NewSymDense(l.p, nil), 0)
 	var ch mat.Cholesky
-	ch.Factorize(st.sigma)
+	if !ch.Factorize(st.sigma) {
+		panic("random model not positive definite")
+	}
 	var lo mat.TriDense
 	ch.LTo(&lo)
 	x := mat.NewDense(n, l.p, nil)
-	z := make([]float64, l.p)
+	z := mat.NewVecDense(l.p, nil)
+	row := mat.NewVecDense(l.p, nil)
 	for i := range n {
-		for k := range z {
-			z[k] = r.NormFloat64()
+		for k := range l.p {
+			z.SetVec(k, r.NormFloat64())
 		}
-		row := mat.NewVecDense(l.p, nil)
-		row.MulVec(&lo, mat.NewVecDense(l.p, z))
+		row.MulVec(&lo, z)
 		x.SetRow(i, row.RawVector().Data)
 	}
 	s, _ := covariance(x, Wishart)
@@ -184,3 +174,59 @@ func randomCovariance(spec Spec, r *rand.Rand, n int) *mat.SymDense {
 }
 
 func isNaN(x float64) bool { return math.IsNaN(x) }
+
+// randomSpec is k latents with 3 or 4 items each, an observed structural
+// variable when withObserved, a random DAG among the structural nodes
+// (each pair joined with probability density, in node order) and a
+// residual covariance between the first items of the first two latents.
+func randomSpec(r *rand.Rand, k int, density float64, withObserved bool) Spec {
+	var s Spec
+	for range k {
+		n := 3 + r.IntN(2)
+		items := make([]int, n)
+		for i := range items {
+			items[i] = s.Observed + i
+		}
+		s.Observed += n
+		s.Indicators = append(s.Indicators, items)
+	}
+	structural := []int{}
+	if withObserved {
+		structural = append(structural, s.Observed)
+		s.Observed++
+	}
+	for j := range k {
+		structural = append(structural, s.Observed+j)
+	}
+	r.Shuffle(len(structural), func(i, j int) { structural[i], structural[j] = structural[j], structural[i] })
+	s.Parents = make([][]int, s.Nodes())
+	for i, v := range structural {
+		for _, u := range structural[:i] {
+			if r.Float64() < density {
+				s.Parents[v] = append(s.Parents[v], u)
+			}
+		}
+	}
+	if k >= 2 {
+		s.ResidualCovariances = [][2]int{{s.Indicators[0][1], s.Indicators[1][1]}}
+	}
+	return s
+}
+
+// randomTheta is a parameter vector of spec in the ranges randomCovariance uses.
+func randomTheta(l *layout, r *rand.Rand) []float64 {
+	theta := make([]float64, len(l.params))
+	for i, par := range l.params {
+		switch par.Kind {
+		case Loading:
+			theta[i] = 0.5 + r.Float64()
+		case Path:
+			theta[i] = (0.2 + 0.5*r.Float64()) * float64(1-2*r.IntN(2))
+		case Variance:
+			theta[i] = 0.3 + 0.7*r.Float64()
+		case Covariance:
+			theta[i] = 0.1 * (r.Float64() - 0.5)
+		}
+	}
+	return theta
+}
