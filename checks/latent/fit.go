@@ -105,7 +105,7 @@ func Fit(ctx context.Context, s *mat.SymDense, n int, spec Spec, opts *Options) 
 	if err != nil {
 		return nil, err
 	}
-	ev := &evaluator{l: l, s: s, logDetS: chS.LogDet()}
+	ev := &evaluator{l: l, s: s, logDetS: chS.LogDet(), h: mat.NewSymDense(len(theta), nil)}
 	if err := ev.checkStart(theta); err != nil {
 		return nil, err
 	}
@@ -137,6 +137,18 @@ type evaluator struct {
 	logDetS float64
 	x       []float64
 	st      *state
+	// h is the information at hAt (nil: not computed).
+	h   *mat.SymDense
+	hAt *state
+}
+
+// information returns H at st, computing it once per state.
+func (ev *evaluator) information(st *state) *mat.SymDense {
+	if ev.hAt != st {
+		ev.l.information(st, ev.h)
+		ev.hAt = st
+	}
+	return ev.h
 }
 
 func (ev *evaluator) at(x []float64) *state {
@@ -154,7 +166,5 @@ func (ev *evaluator) checkStart(theta []float64) error {
 	if !st.pd {
 		return &NotConvergedError{Cause: msgStartNotPD, GradientNorm: math.NaN()}
 	}
-	h := mat.NewSymDense(len(theta), nil)
-	ev.l.information(st, h)
-	return ev.l.checkInformation(h)
+	return ev.l.checkInformation(ev.information(st))
 }

@@ -19,10 +19,14 @@ import (
 const refDir = "../../testdata/reference/latent"
 
 // readColumns reads the named columns of a CSV file written by
-// testdata/reference/latent/make_reference.R.
+// testdata/reference/latent/make_reference.R (a name in that directory)
+// or testdata/bench/latent_reference.R (an absolute path).
 func readColumns(tb testing.TB, file string, names []string) *mat.Dense {
 	tb.Helper()
-	f, err := os.Open(filepath.Join(refDir, file))
+	if !filepath.IsAbs(file) {
+		file = filepath.Join(refDir, file)
+	}
+	f, err := os.Open(file)
 	if err != nil {
 		tb.Fatal(err)
 	}

@@ -48,6 +48,17 @@ func (l *layout) connected(v int) bool {
 // checkInformation returns an *UnidentifiedError naming the parameters
 // of H's (numerical) null space, or nil when H is nonsingular.
 func (l *layout) checkInformation(h *mat.SymDense) error {
+	var ch mat.Cholesky
+	inv := mat.NewSymDense(h.SymmetricDim(), nil)
+	if ch.Factorize(h) && ch.InverseTo(inv) == nil && wellConditioned(h, inv) {
+		return nil
+	}
+	return l.nullSpace(h)
+}
+
+// nullSpace names the parameters that move in the eigenvectors of the
+// scaled information whose eigenvalues are below singularTol.
+func (l *layout) nullSpace(h *mat.SymDense) error {
 	q := h.SymmetricDim()
 	scaled := mat.NewSymDense(q, nil)
 	var dead []int
@@ -98,4 +109,16 @@ func (l *layout) unidentified(idx []int) error {
 		e.Params = append(e.Params, l.params[a])
 	}
 	return e
+}
+
+// wellConditioned reports whether the scaled information D^−½ H D^−½ has
+// no eigenvalue below singularTol, from its inverse D^½ H⁻¹ D^½: its
+// largest eigenvalue, at most the trace, must stay below 1/singularTol.
+// (A cheap sufficient test; when it fails checkInformation decides.)
+func wellConditioned(h, inv *mat.SymDense) bool {
+	trace := 0.0
+	for a := range h.SymmetricDim() {
+		trace += h.At(a, a) * inv.At(a, a)
+	}
+	return trace < 1/singularTol
 }

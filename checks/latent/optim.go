@@ -44,7 +44,7 @@ func (ev *evaluator) minimize(ctx context.Context, theta []float64, o Options) (
 // checks ctx at every iteration.
 func (ev *evaluator) score(ctx context.Context, theta []float64, o Options) (*state, int, error) {
 	q := len(theta)
-	g, h := make([]float64, q), mat.NewSymDense(q, nil)
+	g := make([]float64, q)
 	st := ev.at(theta)
 	for it := 0; ; it++ {
 		if err := ctx.Err(); err != nil {
@@ -52,8 +52,7 @@ func (ev *evaluator) score(ctx context.Context, theta []float64, o Options) (*st
 		}
 		ev.l.gradient(st, ev.s, g)
 		gn := floats.Norm(g, math.Inf(1))
-		ev.l.information(st, h)
-		d := solveRidge(h, g)
+		d := solveRidge(ev.information(st), g)
 		dec := floats.Dot(g, d) / 2
 		switch {
 		case dec <= o.Tolerance:

@@ -1,6 +1,7 @@
 package latent
 
 import (
+	"cmp"
 	"context"
 	"math"
 
@@ -54,7 +55,7 @@ type Construct struct {
 func (l *layout) result(ctx context.Context, st *state, ev *evaluator, n int, o Options, iters int) (*Result, error) {
 	r := &Result{Spec: l.spec, N: n, Likelihood: o.Likelihood, Iterations: iters,
 		Coef: st.a, Cov: st.pm, Implied: st.sigma, ImpliedAll: st.c, effects: st.e}
-	if err := l.standardErrors(r, st, o.multiplier(n)); err != nil {
+	if err := l.standardErrors(r, ev.information(st), o.multiplier(n)); err != nil {
 		return nil, err
 	}
 	l.standardize(r)
@@ -66,22 +67,18 @@ func (l *layout) result(ctx context.Context, st *state, ev *evaluator, n int, o 
 	return r, nil
 }
 
-// standardErrors inverts the expected information at θ̂:
-// Cov(θ̂) = 2 H⁻¹ / n*.
-func (l *layout) standardErrors(r *Result, st *state, nstar float64) error {
+// standardErrors inverts the expected information H at θ̂:
+// Cov(θ̂) = 2 H⁻¹ / n*. A singular H (empirical underidentification) is
+// an *UnidentifiedError naming the parameters of its null space.
+func (l *layout) standardErrors(r *Result, h *mat.SymDense, nstar float64) error {
 	q := len(l.params)
-	h := mat.NewSymDense(q, nil)
-	l.information(st, h)
-	if err := l.checkInformation(h); err != nil {
-		return err
-	}
 	var ch mat.Cholesky
-	if !ch.Factorize(h) {
-		return l.unidentified(nil)
-	}
 	r.Vcov = mat.NewSymDense(q, nil)
-	if err := ch.InverseTo(r.Vcov); err != nil {
-		return l.unidentified(nil)
+	inverted := ch.Factorize(h) && ch.InverseTo(r.Vcov) == nil
+	if !inverted || !wellConditioned(h, r.Vcov) {
+		if err := l.nullSpace(h); err != nil || !inverted {
+			return cmp.Or(err, l.unidentified(nil))
+		}
 	}
 	r.Vcov.ScaleSym(2/nstar, r.Vcov)
 	r.CoefSE, r.CovSE = nanDense(l.m), nanSym(l.m)
