@@ -9,10 +9,10 @@ import (
 	"github.com/pathvet/pathvet/checks/effects"
 )
 
-// EffectEstimate is an effect with its delta-method SE and two-sided
-// normal p.
+// EffectEstimate is an effect with its delta-method SE, two-sided normal
+// p, and its value in the standardized solution, Estimate sd(from)/sd(to).
 type EffectEstimate struct {
-	Estimate, SE, P float64
+	Estimate, SE, P, Std float64
 }
 
 // Effect returns the effect of structural node from on structural node to
@@ -40,7 +40,7 @@ func Effect(r *Result, from, to int, through []int) (EffectEstimate, error) {
 		}
 		value *= seg
 	}
-	return r.delta(value, grad), nil
+	return r.delta(value, grad, from, to), nil
 }
 
 // IndirectEffect is the total effect of from on to less the direct path,
@@ -55,7 +55,7 @@ func IndirectEffect(r *Result, from, to int) (EffectEstimate, error) {
 			grad[k]--
 		}
 	}
-	return r.delta(r.effects.At(to, from)-r.Coef.At(to, from), grad), nil
+	return r.delta(r.effects.At(to, from)-r.Coef.At(to, from), grad, from, to), nil
 }
 
 // totalGradient is ∂T(to ← from)/∂θ: T(to ← i) T(j ← from) for a path
@@ -70,14 +70,15 @@ func (r *Result) totalGradient(from, to int) []float64 {
 	return g
 }
 
-func (r *Result) delta(value float64, grad []float64) EffectEstimate {
+func (r *Result) delta(value float64, grad []float64, from, to int) EffectEstimate {
 	g := mat.NewVecDense(len(grad), grad)
 	se := math.Sqrt(mat.Inner(g, r.Vcov, g))
 	p := math.NaN()
 	if se > 0 {
 		p = 2 * effects.NormalSF(math.Abs(value)/se)
 	}
-	return EffectEstimate{Estimate: value, SE: se, P: p}
+	std := value * math.Sqrt(r.ImpliedAll.At(from, from)/r.ImpliedAll.At(to, to))
+	return EffectEstimate{Estimate: value, SE: se, P: p, Std: std}
 }
 
 func (r *Result) checkEffectNodes(chain []int) error {

@@ -72,7 +72,10 @@ func (o Options) multiplier(n int) float64 {
 	return float64(n - 1)
 }
 
-const msgStartNotPD = "the starting values give an implied covariance matrix that is not positive definite"
+const (
+	msgStartNotPD = "the starting values give an implied covariance matrix that is not positive definite"
+	msgSample     = "latent: a %d × %d sample matrix of %d cases for %d observed variables (at least 3 cases)"
+)
 
 // Fit estimates spec by maximum likelihood from the sample covariance s
 // of n cases: it minimizes
@@ -86,26 +89,14 @@ const msgStartNotPD = "the starting values give an implied covariance matrix tha
 // is returned with its Problems.
 func Fit(ctx context.Context, s *mat.SymDense, n int, spec Spec, opts *Options) (*Result, error) {
 	o := opts.defaults()
-	l, err := newLayout(spec)
+	l, ev, err := prepare(s, n, spec)
 	if err != nil {
-		return nil, err
-	}
-	if s.SymmetricDim() != l.p || n < 3 {
-		return nil, fmt.Errorf("latent: a %d × %d matrix of %d cases for %d observed variables",
-			s.SymmetricDim(), s.SymmetricDim(), n, l.p)
-	}
-	var chS mat.Cholesky
-	if !chS.Factorize(s) {
-		return nil, ErrNotPositiveDefinite
-	}
-	if err := l.checkCounts(); err != nil {
 		return nil, err
 	}
 	theta, err := l.start(s, o)
 	if err != nil {
 		return nil, err
 	}
-	ev := &evaluator{l: l, s: s, logDetS: chS.LogDet(), h: mat.NewSymDense(len(theta), nil)}
 	if err := ev.checkStart(theta); err != nil {
 		return nil, err
 	}
@@ -114,6 +105,26 @@ func Fit(ctx context.Context, s *mat.SymDense, n int, spec Spec, opts *Options) 
 		return nil, err
 	}
 	return l.result(ctx, st, ev, n, o, iters)
+}
+
+// prepare validates the model and the sample and applies the counting
+// rules of identification.
+func prepare(s *mat.SymDense, n int, spec Spec) (*layout, *evaluator, error) {
+	l, err := newLayout(spec)
+	if err != nil {
+		return nil, nil, err
+	}
+	if s.SymmetricDim() != l.p || n < 3 {
+		return nil, nil, fmt.Errorf(msgSample, s.SymmetricDim(), s.SymmetricDim(), n, l.p)
+	}
+	var chS mat.Cholesky
+	if !chS.Factorize(s) {
+		return nil, nil, ErrNotPositiveDefinite
+	}
+	if err := l.checkCounts(); err != nil {
+		return nil, nil, err
+	}
+	return l, &evaluator{l: l, s: s, logDetS: chS.LogDet(), h: mat.NewSymDense(len(l.params), nil)}, nil
 }
 
 func (l *layout) start(s *mat.SymDense, o Options) ([]float64, error) {

@@ -57,8 +57,26 @@ func (l *layout) checkInformation(h *mat.SymDense) error {
 }
 
 // nullSpace names the parameters that move in the eigenvectors of the
-// scaled information whose eigenvalues are below singularTol.
+// scaled information whose eigenvalues are below singularTol (or that
+// carry no information at all); nil when there are none.
 func (l *layout) nullSpace(h *mat.SymDense) error {
+	scaled, dead := scaleInformation(h)
+	if len(dead) > 0 {
+		return l.unidentified(dead)
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(scaled, true) {
+		return l.unidentified(nil)
+	}
+	if idx := nullParams(&eig); len(idx) > 0 {
+		return l.unidentified(idx)
+	}
+	return nil
+}
+
+// scaleInformation returns D^−½ H D^−½ and the parameters whose diagonal
+// entry is not positive.
+func scaleInformation(h *mat.SymDense) (*mat.SymDense, []int) {
 	q := h.SymmetricDim()
 	scaled := mat.NewSymDense(q, nil)
 	var dead []int
@@ -70,37 +88,25 @@ func (l *layout) nullSpace(h *mat.SymDense) error {
 			scaled.SetSym(a, b, h.At(a, b)/math.Sqrt(h.At(a, a)*h.At(b, b)))
 		}
 	}
-	if len(dead) > 0 {
-		return l.unidentified(dead)
-	}
-	var eig mat.EigenSym
-	if !eig.Factorize(scaled, true) {
-		return l.unidentified(nil)
-	}
+	return scaled, dead
+}
+
+// nullParams lists, in order, the parameters whose entry in an
+// eigenvector of a small eigenvalue exceeds nullTol.
+func nullParams(eig *mat.EigenSym) []int {
 	vals := eig.Values(nil)
 	var vecs mat.Dense
 	eig.VectorsTo(&vecs)
-	involved := map[int]bool{}
-	for k, ev := range vals {
-		if ev >= singularTol {
-			continue
-		}
-		for a := range q {
-			if math.Abs(vecs.At(a, k)) > nullTol {
-				involved[a] = true
+	var idx []int
+	for a := range vals {
+		for k, ev := range vals {
+			if ev < singularTol && math.Abs(vecs.At(a, k)) > nullTol {
+				idx = append(idx, a)
+				break
 			}
 		}
 	}
-	if len(involved) == 0 {
-		return nil
-	}
-	var idx []int
-	for a := range q {
-		if involved[a] {
-			idx = append(idx, a)
-		}
-	}
-	return l.unidentified(idx)
+	return idx
 }
 
 func (l *layout) unidentified(idx []int) error {

@@ -39,30 +39,32 @@ func (l *layout) indices(ctx context.Context, r *Result, ev *evaluator, st *stat
 	f := &r.Fit
 	f.FML, f.FreeParams, f.DF = st.f, len(l.params), l.df()
 	f.ChiSquare = math.Max(nstar*st.f, 0)
-	f.P, f.TLI = math.NaN(), math.NaN()
 	f.BaselineChiSquare = nstar * (sumLogDiag(ev.s) - ev.logDetS)
 	f.BaselineDF = l.p * (l.p - 1) / 2
+	f.SRMR = srmr(ev.s, r.Implied)
+	q := float64(f.FreeParams)
+	f.AIC = f.ChiSquare + 2*q
+	f.BIC = f.ChiSquare + q*math.Log(float64(r.N))
+	return f.againstBaseline(ctx, nstar)
+}
+
+// againstBaseline fills p, RMSEA and its interval, TLI and CFI.
+func (f *Indices) againstBaseline(ctx context.Context, nstar float64) error {
 	t, df, tb, dfb := f.ChiSquare, float64(f.DF), f.BaselineChiSquare, float64(f.BaselineDF)
-	if f.DF > 0 {
-		f.P = effects.ChiSquaredSF(t, df)
-		f.RMSEA = math.Sqrt(math.Max(t-df, 0) / (df * nstar))
-		// RMSEAInterval scales by df (n − 1); n = n* + 1 makes it df n*.
-		ci, err := sem.RMSEAInterval(ctx, t, f.DF, int(nstar)+1)
-		if err != nil {
-			return err
-		}
-		f.RMSEACI = ci
-		f.TLI = (tb/dfb - t/df) / (tb/dfb - 1)
-	}
-	f.CFI = 1
+	f.P, f.TLI, f.CFI = math.NaN(), math.NaN(), 1
 	if den := math.Max(math.Max(tb-dfb, t-df), 0); den > 0 {
 		f.CFI = 1 - math.Max(t-df, 0)/den
 	}
-	f.SRMR = srmr(ev.s, r.Implied)
-	q := float64(f.FreeParams)
-	f.AIC = t + 2*q
-	f.BIC = t + q*math.Log(float64(r.N))
-	return nil
+	if f.DF <= 0 {
+		return nil
+	}
+	f.P = effects.ChiSquaredSF(t, df)
+	f.RMSEA = math.Sqrt(math.Max(t-df, 0) / (df * nstar))
+	f.TLI = (tb/dfb - t/df) / (tb/dfb - 1)
+	// RMSEAInterval scales by df (n − 1); n = n* + 1 makes it df n*.
+	ci, err := sem.RMSEAInterval(ctx, t, f.DF, int(nstar)+1)
+	f.RMSEACI = ci
+	return err
 }
 
 func sumLogDiag(s *mat.SymDense) float64 {

@@ -45,33 +45,37 @@ func (l *layout) fill(theta []float64, a *mat.Dense, pm *mat.SymDense) {
 // because the arrows form a DAG: it is unit triangular in a topological
 // order.
 func (l *layout) newState(theta []float64, s *mat.SymDense, logDetS float64) *state {
-	st := &state{a: mat.NewDense(l.m, l.m, nil), pm: mat.NewSymDense(l.m, nil)}
+	st := &state{a: mat.NewDense(l.m, l.m, nil), pm: mat.NewSymDense(l.m, nil), f: math.Inf(1)}
 	l.fill(theta, st.a, st.pm)
-	var ia mat.Dense
-	ia.Sub(eye(l.m), st.a)
-	st.e = &mat.Dense{}
-	if err := st.e.Inverse(&ia); err != nil {
-		st.f = math.Inf(1)
+	if !l.implied(st) {
 		return st
 	}
-	var ep mat.Dense
-	ep.Mul(st.e, st.pm)
-	var c mat.Dense
-	c.Mul(&ep, st.e.T())
-	st.c = symmetrize(&c)
-	st.sigma = mat.NewSymDense(l.p, nil)
-	st.sigma.CopySym(st.c.SliceSym(0, l.p))
-	st.f = math.Inf(1)
 	if st.pd = st.chol.Factorize(st.sigma); !st.pd {
 		return st
 	}
 	st.w = mat.NewSymDense(l.p, nil)
-	if err := st.chol.InverseTo(st.w); err != nil {
+	if st.chol.InverseTo(st.w) != nil {
 		st.pd = false
 		return st
 	}
 	st.f = fml(s, st.w, st.chol.LogDet(), logDetS)
 	return st
+}
+
+// implied computes E, C and Σ(θ); false if I − A is singular.
+func (l *layout) implied(st *state) bool {
+	var ia, ep, c mat.Dense
+	ia.Sub(eye(l.m), st.a)
+	st.e = &mat.Dense{}
+	if st.e.Inverse(&ia) != nil {
+		return false
+	}
+	ep.Mul(st.e, st.pm)
+	c.Mul(&ep, st.e.T())
+	st.c = symmetrize(&c)
+	st.sigma = mat.NewSymDense(l.p, nil)
+	st.sigma.CopySym(st.c.SliceSym(0, l.p))
+	return true
 }
 
 // fml is the maximum likelihood discrepancy (Jöreskog 1967)

@@ -73,16 +73,7 @@ func newLayout(spec Spec) (*layout, error) {
 		return nil, err
 	}
 	l := &layout{spec: spec, roles: r, p: spec.Observed, m: spec.Nodes()}
-	for j, items := range spec.Indicators {
-		for _, v := range items[1:] {
-			l.params = append(l.params, Param{Loading, v, spec.Latent(j)})
-		}
-	}
-	for v := range l.m {
-		for _, u := range spec.parentsOf(v) {
-			l.params = append(l.params, Param{Path, v, u})
-		}
-	}
+	l.addCoefficients()
 	for v := range l.m {
 		l.params = append(l.params, Param{Variance, v, v})
 		if r.structural[v] && len(spec.parentsOf(v)) == 0 {
@@ -94,6 +85,20 @@ func newLayout(spec Spec) (*layout, error) {
 	}
 	l.addSourceCovariances()
 	return l, nil
+}
+
+// addCoefficients lists the loadings of the non-markers, then the paths.
+func (l *layout) addCoefficients() {
+	for j, items := range l.spec.Indicators {
+		for _, v := range items[1:] {
+			l.params = append(l.params, Param{Loading, v, l.spec.Latent(j)})
+		}
+	}
+	for v := range l.m {
+		for _, u := range l.spec.parentsOf(v) {
+			l.params = append(l.params, Param{Path, v, u})
+		}
+	}
 }
 
 func (l *layout) addSourceCovariances() {

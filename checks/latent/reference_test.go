@@ -23,6 +23,12 @@ var referenceModels = map[string]named{
 		effects: map[string][]string{"ind": {"visual", "speed", "textual"}, "tot": {"visual", "speed"},
 			"age_speed": {"ageyr", "speed"}},
 	},
+	"hs_observed_outcome": {
+		columns:    []string{"x1", "x2", "x3", "x4", "x5", "x6", "ageyr"},
+		latents:    []string{"visual", "textual"},
+		indicators: [][]string{{"x1", "x2", "x3"}, {"x4", "x5", "x6"}},
+		parents:    map[string][]string{"ageyr": {"visual", "textual"}},
+	},
 	"poldem":          poldem(map[string][]string{"dem60": {"ind60"}, "dem65": {"ind60", "dem60"}}),
 	"poldem_reversed": poldem(map[string][]string{"dem60": {"dem65"}, "ind60": {"dem60", "dem65"}}),
 }
@@ -135,7 +141,7 @@ func referenceValue(t *testing.T, m named, res *Result, p refParam) ([3]float64,
 		if err != nil {
 			t.Fatal(err)
 		}
-		return [3]float64{got.Estimate, got.SE, p.StdAll}, true // the standardized effect is not compared
+		return [3]float64{got.Estimate, got.SE, got.Std}, true
 	}
 	t.Errorf("unknown row %v", p)
 	return [3]float64{}, false

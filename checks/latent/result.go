@@ -71,9 +71,8 @@ func (l *layout) result(ctx context.Context, st *state, ev *evaluator, n int, o 
 // Cov(θ̂) = 2 H⁻¹ / n*. A singular H (empirical underidentification) is
 // an *UnidentifiedError naming the parameters of its null space.
 func (l *layout) standardErrors(r *Result, h *mat.SymDense, nstar float64) error {
-	q := len(l.params)
 	var ch mat.Cholesky
-	r.Vcov = mat.NewSymDense(q, nil)
+	r.Vcov = mat.NewSymDense(len(l.params), nil)
 	inverted := ch.Factorize(h) && ch.InverseTo(r.Vcov) == nil
 	if !inverted || !wellConditioned(h, r.Vcov) {
 		if err := l.nullSpace(h); err != nil || !inverted {
@@ -81,11 +80,17 @@ func (l *layout) standardErrors(r *Result, h *mat.SymDense, nstar float64) error
 		}
 	}
 	r.Vcov.ScaleSym(2/nstar, r.Vcov)
+	l.fillEstimates(r)
+	return nil
+}
+
+// fillEstimates lays the estimates and SEs out by parameter and by node.
+func (l *layout) fillEstimates(r *Result) {
 	r.CoefSE, r.CovSE = nanDense(l.m), nanSym(l.m)
 	for j := range l.spec.Indicators {
 		r.CoefSE.Set(l.marker(j), l.spec.Latent(j), 0)
 	}
-	r.Params = make([]Estimate, q)
+	r.Params = make([]Estimate, len(l.params))
 	for i, par := range l.params {
 		se := math.Sqrt(r.Vcov.At(i, i))
 		est := r.Cov.At(par.To, par.From)
@@ -97,7 +102,6 @@ func (l *layout) standardErrors(r *Result, h *mat.SymDense, nstar float64) error
 		}
 		r.Params[i] = Estimate{Param: par, Estimate: est, SE: se}
 	}
-	return nil
 }
 
 // standardize is the solution with every node scaled to unit implied
@@ -111,29 +115,37 @@ func (l *layout) standardize(r *Result) {
 		sd[v] = math.Sqrt(r.ImpliedAll.At(v, v))
 	}
 	r.StdCoef = mat.NewDense(l.m, l.m, nil)
+	r.StdCoef.Apply(func(to, from int, b float64) float64 {
+		if b == 0 {
+			return 0 // no arrow
+		}
+		return b * sd[from] / sd[to]
+	}, r.Coef)
 	r.StdCov = mat.NewSymDense(l.m, nil)
 	for to := range l.m {
-		for from := range l.m {
-			if b := r.Coef.At(to, from); b != 0 {
-				r.StdCoef.Set(to, from, b*sd[from]/sd[to])
-			}
-		}
 		for from := 0; from <= to; from++ {
-			c := r.Cov.At(to, from)
-			if to == from {
-				r.StdCov.SetSym(to, to, c/(sd[to]*sd[to]))
-			} else if c != 0 {
-				r.StdCov.SetSym(to, from, c/math.Sqrt(r.Cov.At(to, to)*r.Cov.At(from, from)))
-			}
+			r.StdCov.SetSym(to, from, standardCov(r.Cov, sd, to, from))
 		}
 	}
 	for i, e := range r.Params {
+		r.Params[i].Std = r.StdCov.At(e.To, e.From)
 		if e.inA() {
 			r.Params[i].Std = r.StdCoef.At(e.To, e.From)
-		} else {
-			r.Params[i].Std = r.StdCov.At(e.To, e.From)
 		}
 	}
+}
+
+// standardCov is a variance over the node's implied variance, a
+// covariance over the root of its two terms' own variances.
+func standardCov(cov *mat.SymDense, sd []float64, to, from int) float64 {
+	c := cov.At(to, from)
+	switch {
+	case to == from:
+		return c / (sd[to] * sd[to])
+	case c == 0:
+		return 0
+	}
+	return c / math.Sqrt(cov.At(to, to)*cov.At(from, from))
 }
 
 func nanDense(m int) *mat.Dense {

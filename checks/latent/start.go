@@ -53,6 +53,25 @@ func (l *layout) measurementStart(s *mat.SymDense, a *mat.Dense, pm *mat.SymDens
 // compositeCovariance returns Φ⁰ = D^½ R D^½ over the structural nodes
 // (m × m, other entries zero).
 func (l *layout) compositeCovariance(s *mat.SymDense, a *mat.Dense, d []float64) *mat.SymDense {
+	wt := l.compositeWeights(a)
+	var sw, k mat.Dense
+	sw.Mul(s, wt)
+	k.Mul(wt.T(), &sw)
+	phi := mat.NewSymDense(l.m, nil)
+	for u := range l.m {
+		for v := 0; v <= u; v++ {
+			if l.roles.structural[u] && l.roles.structural[v] {
+				r := k.At(u, v) / math.Sqrt(k.At(u, u)*k.At(v, v))
+				phi.SetSym(u, v, r*math.Sqrt(d[u]*d[v]))
+			}
+		}
+	}
+	return phi
+}
+
+// compositeWeights is p × m: a latent's column weights its items by
+// λ⁰_i/Σλ⁰², an observed structural node's column picks it.
+func (l *layout) compositeWeights(a *mat.Dense) *mat.Dense {
 	wt := mat.NewDense(l.p, l.m, nil)
 	for j, items := range l.spec.Indicators {
 		lat, ss := l.spec.Latent(j), 0.0
@@ -68,19 +87,7 @@ func (l *layout) compositeCovariance(s *mat.SymDense, a *mat.Dense, d []float64)
 			wt.Set(v, v, 1)
 		}
 	}
-	var sw, kd mat.Dense
-	sw.Mul(s, wt)
-	kd.Mul(wt.T(), &sw)
-	phi := mat.NewSymDense(l.m, nil)
-	for u := range l.m {
-		for v := 0; v <= u; v++ {
-			if l.roles.structural[u] && l.roles.structural[v] {
-				r := kd.At(u, v) / math.Sqrt(kd.At(u, u)*kd.At(v, v))
-				phi.SetSym(u, v, r*math.Sqrt(d[u]*d[v]))
-			}
-		}
-	}
-	return phi
+	return wt
 }
 
 // structuralStart sets the structural part from a covariance Φ of the

@@ -39,6 +39,11 @@ models <- list(
     ind := a*b
     tot := c + a*b
     age_speed := g*b"),
+  # An observed variable as the outcome of two latents.
+  hs_observed_outcome = list(data = hs, syntax = "
+    visual  =~ x1 + x2 + x3
+    textual =~ x4 + x5 + x6
+    ageyr ~ visual + textual"),
   poldem = list(data = poldem, syntax = "
     ind60 =~ x1 + x2 + x3
     dem60 =~ y1 + y2 + y3 + y4
