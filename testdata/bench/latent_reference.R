@@ -1,6 +1,6 @@
 # The R SEM reference's side of testdata/bench/latent.sh (Debian's R SEM
-# package; this line and the library() call are the only places it is
-# named). With "write DIR" it simulates the 10-construct x 4-item data set
+# package: r-cran- followed by the name in the library() call, the only
+# place it is named). With "write DIR" it simulates the 10-construct x 4-item data set
 # (N = 500, seed 19) into DIR/big.csv; with "time DIR" it times, per fit,
 # what checks/latent's benchmarks time: the fit from the sample
 # covariance (estimates, expected-information SEs, chi-square) and the fit

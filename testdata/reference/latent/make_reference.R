@@ -1,6 +1,6 @@
 # Reference values for checks/latent from the R SEM reference (Debian's R
-# SEM package, apt-get install r-cran-lavaan; this line and the library()
-# call below are the only places it is named). Run from this directory:
+# SEM package: install r-cran- followed by the name in the library() call
+# below, the only place it is named). Run from this directory:
 #
 #     Rscript make_reference.R
 #
@@ -89,7 +89,7 @@ one <- function(m, likelihood) {
   )
 }
 
-out <- list(source = sprintf("R %s, R SEM reference %s", getRversion(), packageVersion("lavaan")),
+out <- list(source = sprintf("R %s, R SEM reference %s", getRversion(), getNamespaceVersion(environment(sem))),
             models = list())
 for (name in names(models)) {
   out$models[[name]] <- list(
