@@ -67,3 +67,41 @@ func TestInformation_IsHessianAtExactFit(t *testing.T) {
 		}
 	}
 }
+
+// The exact Hessian against central differences of the analytic
+// gradient, away from the minimum and with S ≠ Σ(θ), where it differs
+// from the expected information.
+func TestHessian_FiniteDifferences(t *testing.T) {
+	r := rand.New(rand.NewPCG(19, 3))
+	for trial := range 10 {
+		spec := randomSpec(r, 2+r.IntN(3), 0.5, trial%2 == 0)
+		l, err := newLayout(spec)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s := randomCovariance(spec, r, 100)
+		var ch mat.Cholesky
+		ch.Factorize(s)
+		theta := randomTheta(l, r)
+		grad := func(g, x []float64) { l.gradient(l.newState(x, s, ch.LogDet()), s, g) }
+		q := len(theta)
+		want := mat.NewDense(q, q, nil)
+		fd.Jacobian(want, grad, theta, &fd.JacobianSettings{Formula: fd.Central, Step: 1e-6})
+		got, exp := mat.NewSymDense(q, nil), mat.NewSymDense(q, nil)
+		l.hessian(l.newState(theta, s, ch.LogDet()), s, got)
+		l.information(l.newState(theta, s, ch.LogDet()), exp)
+		differs := false
+		for a := range q {
+			for b := range q {
+				if !close(got.At(a, b), want.At(a, b), 1e-6, 1e-5) {
+					t.Errorf("trial %d, H[%v, %v] = %.10g, differences %.10g", trial, l.params[a], l.params[b],
+						got.At(a, b), want.At(a, b))
+				}
+				differs = differs || !close(exp.At(a, b), want.At(a, b), 1e-3, 1e-3)
+			}
+		}
+		if !differs {
+			t.Errorf("trial %d: the expected information is the Hessian here; the test shows nothing", trial)
+		}
+	}
+}

@@ -22,6 +22,7 @@ type state struct {
 	pd    bool    // Σ(θ) is positive definite
 	f     float64 // F_ML, +Inf when Σ(θ) is not positive definite
 	u, v  *mat.Dense
+	omega *mat.Dense // Σ⁻¹ (Σ − S) Σ⁻¹ (omegaOf)
 }
 
 // fill sets A and P from θ: markers at 1, the free entries from theta.
@@ -124,14 +125,23 @@ func (l *layout) gradient(st *state, s *mat.SymDense, grad []float64) {
 	if st.u == nil {
 		l.directions(st)
 	}
-	var d, wd, omega, ou mat.Dense
-	d.Sub(st.sigma, s)
-	wd.Mul(st.w, &d)
-	omega.Mul(&wd, st.w)
-	ou.Mul(&omega, st.u)
+	var ou mat.Dense
+	ou.Mul(st.omegaOf(s), st.u)
 	for k := range grad {
 		grad[k] = 2 * mat.Dot(st.v.ColView(k), ou.ColView(k))
 	}
+}
+
+// omegaOf returns Ω = Σ⁻¹ (Σ − S) Σ⁻¹, computed once per state.
+func (st *state) omegaOf(s *mat.SymDense) *mat.Dense {
+	if st.omega == nil {
+		var d, wd mat.Dense
+		d.Sub(st.sigma, s)
+		wd.Mul(st.w, &d)
+		st.omega = &mat.Dense{}
+		st.omega.Mul(&wd, st.w)
+	}
+	return st.omega
 }
 
 // information is the expected second derivative of F_ML,
@@ -144,18 +154,24 @@ func (l *layout) information(st *state, h *mat.SymDense) {
 	if st.u == nil {
 		l.directions(st)
 	}
-	var wu, wv, muu, mvv, mvu mat.Dense
-	wu.Mul(st.w, st.u)
-	wv.Mul(st.w, st.v)
-	muu.Mul(st.u.T(), &wu)
-	mvv.Mul(st.v.T(), &wv)
-	mvu.Mul(st.v.T(), &wu)
-	q := len(l.params)
-	for a := range q {
+	muu, mvv, mvu := st.bilinear(st.w)
+	for a := range len(l.params) {
 		for b := 0; b <= a; b++ {
 			h.SetSym(a, b, 2*(mvu.At(a, b)*mvu.At(b, a)+muu.At(a, b)*mvv.At(a, b)))
 		}
 	}
+}
+
+// bilinear returns Uᵀ X U, Vᵀ X V and Vᵀ X U (q × q).
+func (st *state) bilinear(x mat.Matrix) (muu, mvv, mvu *mat.Dense) {
+	var xu, xv mat.Dense
+	xu.Mul(x, st.u)
+	xv.Mul(x, st.v)
+	muu, mvv, mvu = &mat.Dense{}, &mat.Dense{}, &mat.Dense{}
+	muu.Mul(st.u.T(), &xu)
+	mvv.Mul(st.v.T(), &xv)
+	mvu.Mul(st.v.T(), &xu)
+	return muu, mvv, mvu
 }
 
 func eye(n int) *mat.Dense {

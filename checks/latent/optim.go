@@ -35,37 +35,60 @@ func (ev *evaluator) minimize(ctx context.Context, theta []float64, o Options) (
 	return st, iters + n, err
 }
 
-// score is Fisher scoring (Jennrich & Sampson 1976; Lee & Jennrich 1979):
+// score is Fisher scoring (Jennrich & Sampson 1976; Lee & Jennrich 1979),
 //
 //	θ ← θ − α H(θ)⁻¹ ∇F_ML(θ),
 //
-// with α halved from 1 until F_ML does not rise beyond its rounding. It
-// stops when the largest gradient entry is within the tolerance, and
-// checks ctx at every iteration.
+// with α halved from 1 until F_ML does not rise beyond its rounding. Once
+// the scoring step's predicted decrease ½ gᵀH⁻¹g is below newtonFrom it
+// steps by Newton's method on the exact Hessian instead, where that is
+// positive definite (scoring converges only linearly when the model does
+// not fit). It stops when the predicted decrease is within the
+// tolerance, and checks ctx at every iteration.
 func (ev *evaluator) score(ctx context.Context, theta []float64, o Options) (*state, int, error) {
-	q := len(theta)
-	g := make([]float64, q)
+	g := make([]float64, len(theta))
 	st := ev.at(theta)
 	for it := 0; ; it++ {
 		if err := ctx.Err(); err != nil {
 			return nil, it, err
 		}
 		ev.l.gradient(st, ev.s, g)
-		gn := floats.Norm(g, math.Inf(1))
 		d := solveRidge(ev.information(st), g)
 		dec := floats.Dot(g, d) / 2
 		switch {
 		case dec <= o.Tolerance:
 			return st, it, nil
 		case it >= o.MaxIterations || math.IsNaN(dec):
-			return nil, it, &NotConvergedError{Iterations: it, GradientNorm: gn, Cause: msgIterations}
+			return nil, it, &NotConvergedError{Iterations: it, GradientNorm: floats.Norm(g, math.Inf(1)),
+				Cause: msgIterations}
+		case dec < newtonFrom:
+			d = ev.newtonStep(st, g, d)
 		}
 		next, ok := ev.descend(theta, st.f, d)
 		if !ok {
-			return nil, it, &NotConvergedError{Iterations: it, GradientNorm: gn, Cause: msgNoDescent}
+			return nil, it, &NotConvergedError{Iterations: it, GradientNorm: floats.Norm(g, math.Inf(1)),
+				Cause: msgNoDescent}
 		}
 		theta, st = next, ev.at(next)
 	}
+}
+
+// newtonFrom is the predicted decrease below which score tries Newton
+// steps.
+const newtonFrom = 1e-3
+
+// newtonStep solves ∇²F d = g with the exact Hessian, or returns the
+// scoring step when the Hessian is not positive definite.
+func (ev *evaluator) newtonStep(st *state, g, scoring []float64) []float64 {
+	q := len(g)
+	h := mat.NewSymDense(q, nil)
+	ev.l.hessian(st, ev.s, h)
+	var ch mat.Cholesky
+	d := make([]float64, q)
+	if !ch.Factorize(h) || ch.SolveVecTo(mat.NewVecDense(q, d), mat.NewVecDense(q, g)) != nil {
+		return scoring
+	}
+	return d
 }
 
 // descend halves the step until F_ML(θ − α d) ≤ F_ML(θ) + its rounding.
