@@ -34,8 +34,10 @@
 // times 2) is H_ab = tr(Σ⁻¹ ∂_aΣ Σ⁻¹ ∂_bΣ) (Browne 1974; Bollen 1989,
 // Structural Equations with Latent Variables, ch. 4). The default
 // optimizer is Fisher scoring with step halving (Jennrich & Sampson 1976;
-// Lee & Jennrich 1979); Options.Method selects gonum's BFGS instead,
-// whose end point scoring polishes. Iterations stop when the scoring
+// Lee & Jennrich 1979), which near the minimum takes Newton steps on the
+// exact Hessian of F_ML (hessian; scoring alone converges linearly when
+// the model misfits); Options.Method selects gonum's BFGS instead, whose
+// end point scoring polishes. Iterations stop when the scoring
 // step's predicted decrease ½ gᵀH⁻¹g is at most Options.Tolerance, a
 // criterion free of the data's units. Starting values follow the
 // composite-correlation rule (defaultStart) or, for a refit of another

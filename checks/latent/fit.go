@@ -25,10 +25,11 @@ const (
 type Method int
 
 const (
-	// Scoring is Fisher scoring: gonum's Newton method with the expected
-	// information H in place of the Hessian (Jennrich & Sampson 1976).
+	// Scoring is Fisher scoring with step halving, switching to Newton
+	// steps on the exact Hessian near the minimum (score).
 	Scoring Method = iota
-	// QuasiNewton is gonum's BFGS on the analytic gradient.
+	// QuasiNewton is gonum's BFGS on the analytic gradient, its end point
+	// polished by Scoring.
 	QuasiNewton
 )
 
