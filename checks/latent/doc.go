@@ -44,7 +44,8 @@
 // structural graph over the same measurement model, the warm fit's
 // measurement estimates and structural values regressed from its implied
 // covariance of the structural nodes (exact for a Markov-equivalent DAG).
-// Standard errors: Cov(θ̂) = 2 H(θ̂)⁻¹ / n*.
+// Standard errors: Cov(θ̂) = 2 H(θ̂)⁻¹ / n*, H the expected information
+// or, with Options.Information, the exact Hessian (observed information).
 //
 // # Results
 //
@@ -88,5 +89,5 @@
 // Debian's R SEM package) fits Holzinger & Swineford (1939) and Bollen's
 // (1989) political democracy data; TestFit_Reference holds every fit
 // measure, estimate, SE, standardized value and defined effect to 1e-4
-// relative.
+// relative, and the SEs from the observed information too.
 package latent

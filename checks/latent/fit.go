@@ -33,10 +33,22 @@ const (
 	QuasiNewton
 )
 
+// Information is the matrix whose inverse gives the standard errors.
+type Information int
+
+const (
+	// Expected: Cov(θ̂) = 2 H⁻¹/n* with H the expected information at θ̂
+	// (Σ⁻¹ ⊗ Σ⁻¹ in the derivatives of Σ).
+	Expected Information = iota
+	// Observed: the exact Hessian of F_ML at θ̂ (hessian) in place of H.
+	Observed
+)
+
 // Options tune Fit; the zero value is the default.
 type Options struct {
-	Likelihood Likelihood
-	Method     Method
+	Likelihood  Likelihood
+	Method      Method
+	Information Information
 	// Warm starts from a fit of the same measurement model (another
 	// structural graph): its measurement estimates, and structural values
 	// from its implied covariance of the structural nodes.

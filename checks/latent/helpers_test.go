@@ -86,6 +86,7 @@ type refParam struct {
 	RHS    string  `json:"rhs"`
 	Est    float64 `json:"est"`
 	SE     float64 `json:"se"`
+	SEObs  float64 `json:"se_observed"`
 	StdAll float64 `json:"std_all"`
 }
 

@@ -3,7 +3,6 @@ package latent
 import (
 	"context"
 	"errors"
-	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/floats"
@@ -13,7 +12,7 @@ import (
 
 const (
 	msgIterations = "the iteration limit was reached"
-	msgNoDescent  = "no step along the scoring direction lowers F_ML"
+	msgNoDescent  = "no step along the search direction lowers F_ML"
 	// maxHalvings bounds the step halvings of one scoring iteration.
 	maxHalvings = 40
 )
@@ -149,9 +148,10 @@ func (ev *evaluator) bfgs(ctx context.Context, theta []float64, o Options) ([]fl
 	case ctx.Err() != nil:
 		return nil, 0, ctx.Err()
 	case res == nil:
-		return nil, 0, fmt.Errorf("latent: BFGS: %w", err)
+		return nil, 0, &NotConvergedError{GradientNorm: math.NaN(), Cause: "BFGS: " + err.Error()}
 	case err != nil && !errors.Is(err, optimize.ErrLinesearcherFailure):
-		return nil, res.MajorIterations, fmt.Errorf("latent: BFGS: %w", err)
+		return nil, res.MajorIterations, &NotConvergedError{Iterations: res.MajorIterations,
+			GradientNorm: floats.Norm(res.Gradient, math.Inf(1)), Cause: "BFGS: " + err.Error()}
 	}
 	return res.X, res.MajorIterations, nil
 }

@@ -146,3 +146,29 @@ func referenceValue(t *testing.T, m named, res *Result, p refParam) ([3]float64,
 	t.Errorf("unknown row %v", p)
 	return [3]float64{}, false
 }
+
+// The SEs from the observed information (the exact Hessian of F_ML)
+// against the reference's se_observed, both likelihood conventions.
+func TestFit_ReferenceObservedInformation(t *testing.T) {
+	ref := loadReference(t)
+	for name, m := range referenceModels {
+		rm := ref.Models[name]
+		x := readColumns(t, rm.Data, m.columns)
+		for _, lik := range []Likelihood{Wishart, Normal} {
+			rc := rm.Wishart
+			if lik == Normal {
+				rc = rm.Normal
+			}
+			s, n := covariance(x, lik)
+			res, err := Fit(bg, s, n, m.spec(), &Options{Likelihood: lik, Information: Observed})
+			if err != nil {
+				t.Fatalf("%s/%d: %v", name, lik, err)
+			}
+			for _, p := range rc.Params {
+				if got, _ := referenceValue(t, m, res, p); !close(got[1], p.SEObs, refAbs, refRel) {
+					t.Errorf("%s/%d: %s %s %s: SE %.8g, reference %.8g", name, lik, p.LHS, p.Op, p.RHS, got[1], p.SEObs)
+				}
+			}
+		}
+	}
+}

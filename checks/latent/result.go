@@ -55,7 +55,12 @@ type Construct struct {
 func (l *layout) result(ctx context.Context, st *state, ev *evaluator, n int, o Options, iters int) (*Result, error) {
 	r := &Result{Spec: l.spec, N: n, Likelihood: o.Likelihood, Iterations: iters,
 		Coef: st.a, Cov: st.pm, Implied: st.sigma, ImpliedAll: st.c, effects: st.e}
-	if err := l.standardErrors(r, ev.information(st), o.multiplier(n)); err != nil {
+	h := ev.information(st)
+	if o.Information == Observed {
+		h = mat.NewSymDense(len(l.params), nil)
+		l.hessian(st, ev.s, h)
+	}
+	if err := l.standardErrors(r, h, o.multiplier(n)); err != nil {
 		return nil, err
 	}
 	l.standardize(r)
@@ -67,8 +72,8 @@ func (l *layout) result(ctx context.Context, st *state, ev *evaluator, n int, o 
 	return r, nil
 }
 
-// standardErrors inverts the expected information H at θ̂:
-// Cov(θ̂) = 2 H⁻¹ / n*. A singular H (empirical underidentification) is
+// standardErrors inverts H at θ̂, the expected information or the
+// Hessian (Options.Information): Cov(θ̂) = 2 H⁻¹ / n*. A singular H (empirical underidentification) is
 // an *UnidentifiedError naming the parameters of its null space.
 func (l *layout) standardErrors(r *Result, h *mat.SymDense, nstar float64) error {
 	var ch mat.Cholesky

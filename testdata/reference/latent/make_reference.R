@@ -11,7 +11,8 @@
 # with the R package, and reference.json: for each model and for both
 # likelihood conventions ("wishart": S with divisor N - 1 and
 # T = (N - 1) F_ML; "normal": S with divisor N and T = N F_ML) the fit
-# measures, every parameter's estimate and SE (expected information),
+# measures, every parameter's estimate and SE (from the expected and,
+# as se_observed, from the observed information),
 # the standardized solution (all variables standardized; residual
 # covariances as residual correlations) and the defined effects with
 # delta-method SEs.
@@ -78,6 +79,8 @@ measures <- c("npar", "chisq", "df", "pvalue", "cfi", "tli", "rmsea", "rmsea.ci.
 one <- function(m, likelihood) {
   fit <- sem(m$syntax, data = m$data, likelihood = likelihood, information = "expected",
              se = "standard", fixed.x = FALSE)
+  observed <- sem(m$syntax, data = m$data, likelihood = likelihood, information = "observed",
+                  se = "standard", fixed.x = FALSE)
   pe <- parameterEstimates(fit)
   std <- standardizedSolution(fit)
   list(
@@ -85,7 +88,7 @@ one <- function(m, likelihood) {
     n = nobs(fit),
     fit = as.list(fitMeasures(fit, measures)),
     params = data.frame(lhs = pe$lhs, op = pe$op, rhs = pe$rhs, est = pe$est, se = pe$se,
-                        std_all = std$est.std)
+                        se_observed = parameterEstimates(observed)$se, std_all = std$est.std)
   )
 }
 
