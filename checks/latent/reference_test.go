@@ -49,8 +49,9 @@ func poldem(parents map[string][]string) named {
 
 // fitMeasures maps the reference's fit measures to Indices.
 var fitMeasures = map[string]func(Indices) float64{
-	"npar": func(f Indices) float64 { return float64(f.FreeParams) }, "chisq": func(f Indices) float64 { return f.ChiSquare },
-	"df": func(f Indices) float64 { return float64(f.DF) }, "pvalue": func(f Indices) float64 { return f.P },
+	"npar":  func(f Indices) float64 { return float64(f.FreeParams) },
+	"chisq": func(f Indices) float64 { return f.ChiSquare },
+	"df":    func(f Indices) float64 { return float64(f.DF) }, "pvalue": func(f Indices) float64 { return f.P },
 	"cfi": func(f Indices) float64 { return f.CFI }, "tli": func(f Indices) float64 { return f.TLI },
 	"rmsea": func(f Indices) float64 { return f.RMSEA }, "srmr": func(f Indices) float64 { return f.SRMR },
 	"rmsea.ci.lower": func(f Indices) float64 { return f.RMSEACI[0] },

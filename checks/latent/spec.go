@@ -56,6 +56,8 @@ func (e *SpecError) Error() string {
 	return fmt.Sprintf("latent: %s[%d]: %s", e.Field, e.Index, e.Msg)
 }
 
+const msgCrossLoading = "variable %d already measures latent %d (cross-loadings are not supported)"
+
 // roles tells what each node is.
 type roles struct {
 	latentOf   []int  // latentOf[v] is the latent that v measures, −1 when none
@@ -93,8 +95,7 @@ func (s Spec) indicatorRoles() (*roles, error) {
 			case v < 0 || v >= s.Observed:
 				return nil, &SpecError{"Indicators", j, fmt.Sprintf("indicator %d is not an observed variable", v)}
 			case r.latentOf[v] >= 0:
-				return nil, &SpecError{"Indicators", j,
-					fmt.Sprintf("variable %d already measures latent %d (cross-loadings are not supported)", v, r.latentOf[v])}
+				return nil, &SpecError{"Indicators", j, fmt.Sprintf(msgCrossLoading, v, r.latentOf[v])}
 			}
 			r.latentOf[v] = j
 		}
