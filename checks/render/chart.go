@@ -97,7 +97,8 @@ func nullValue(c checks.ClaimReport) float64 {
 
 // StabilityChart draws one claim's estimates as dots and intervals on a
 // common axis with the no-effect line: a filled dot is significant at
-// alpha, a hollow one is not; a range bar spans the equivalent graphs.
+// alpha, a hollow one is not; a range bar spans the equivalent graphs;
+// the no-effect line runs through each row's marks, not its label.
 // Each class of g.nearby_graphs within |ΔBIC| < 2, and g.search_best,
 // adds a range row named by its edit (drawnClasses). Row labels wrap onto
 // as many lines as they need; none is shrunk or cut.
@@ -121,9 +122,11 @@ func StabilityChart(c checks.ClaimReport, alpha float64, g *checks.GraphReport) 
 		`<desc id="%[1]s-d">%[3]s</desc>`,
 		esc(id), esc(c.ID), esc(chartWords(rows)))
 	x0 := sc.At(null)
-	fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="4" x2="%.1f" y2="%.1f"/>`, x0, x0, h-axisH+4)
 	y := 0.0
 	for i, r := range rows {
+		top := y + float64(len(lines[i]))*lineH + 2 // the no-effect line stops short of the labels
+		fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`,
+			x0, top, x0, y+rowHeight(lines[i]))
 		drawRow(&b, sc, r, lines[i], y, alpha)
 		y += rowHeight(lines[i])
 	}

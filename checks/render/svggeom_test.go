@@ -168,6 +168,8 @@ func (d *svgDrawing) readShape(t *testing.T, el string, a map[string]string, nod
 		d.heads++
 	case el == "rect" && class == "range":
 		d.marks = append(d.marks, Box{num(t, a["x"]), num(t, a["y"]), num(t, a["width"]), num(t, a["height"])})
+	case el == "line" && class == "null":
+		d.marks = append(d.marks, Box{num(t, a["x1"]) - 0.5, num(t, a["y1"]), 1, num(t, a["y2"]) - num(t, a["y1"])})
 	case el == "circle":
 		r := num(t, a["r"])
 		d.marks = append(d.marks, Box{num(t, a["cx"]) - r, num(t, a["cy"]) - r, 2 * r, 2 * r})
