@@ -117,6 +117,7 @@ func drawTag(b *strings.Builder, a drawnArc, r Route) {
 		return
 	}
 	t := *r.Tag
+	t.W = min(t.W, tagWidth([]string{a.Tag})) // the room fits the widest tag any drawing hangs here
 	fmt.Fprintf(b, `<g class="tag %s">`, a.Kind)
 	q := nearestOnBox(r.Pole, t)
 	fmt.Fprintf(b, `<path class="pole" d="M%.1f,%.1f L%.1f,%.1f"/>`, r.Pole.X, r.Pole.Y, q.X, q.Y)
