@@ -124,9 +124,11 @@ func StabilityChart(c checks.ClaimReport, alpha float64, g *checks.GraphReport) 
 	x0 := sc.At(null)
 	y := 0.0
 	for i, r := range rows {
-		top := y + float64(len(lines[i]))*lineH + 2 // the no-effect line stops short of the labels
-		fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`,
-			x0, top, x0, y+rowHeight(lines[i]))
+		top := y + float64(len(lines[i]))*lineH + 2         // the no-effect line stops short of the labels
+		if r.P.Est != nil || (r.Lo != nil && r.Hi != nil) { // and of the words "not computed"
+			fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`,
+				x0, top, x0, y+rowHeight(lines[i]))
+		}
 		drawRow(&b, sc, r, lines[i], y, alpha)
 		y += rowHeight(lines[i])
 	}

@@ -3,6 +3,8 @@ package render
 import (
 	"strings"
 	"testing"
+
+	"github.com/pathvet/pathvet/checks"
 )
 
 // TestChartGeometry: every claim's chart of every demo and calibration
@@ -81,5 +83,22 @@ func TestWrapText(t *testing.T) {
 		if joined != tc.s {
 			t.Errorf("%q wrapped to %q", tc.s, lines)
 		}
+	}
+}
+
+// TestChartWithoutEstimates: a row whose estimate was not computed says
+// so clear of the no-effect line, also when that line stands at the left
+// end of the axis (an alternative's estimate of 0.4 puts zero there).
+func TestChartWithoutEstimates(t *testing.T) {
+	r := loadGolden(t, "coding-club")
+	est := 0.4
+	for _, c := range r.Claims {
+		c.Declared, c.AcrossEquivalents, c.MissingData = nil, nil, nil
+		c.UnderAlternatives = []checks.AlternativeEstimate{{Name: "other", Estimate: &est}}
+		svg := string(StabilityChart(c, r.SignificanceLevel, nil))
+		if !strings.Contains(svg, ">not computed</text>") {
+			t.Errorf("claim %s: no row says its estimate was not computed", c.ID)
+		}
+		checkChart(t, "claim "+c.ID+" without estimates", parseDrawing(t, svg))
 	}
 }

@@ -45,7 +45,7 @@ func (d drawing) svg() template.HTML {
 		`style="max-width:%.0[4]fpx;min-width:%.0[5]fpx" role="img" aria-labelledby="%[1]s-t %[1]s-d">`+
 		`<title id="%[1]s-t">%[6]s</title><desc id="%[1]s-d">%[7]s</desc>`,
 		d.id, l.Width, l.Height, math.Ceil(l.Width*maxScale), minWidth(l.Width, smallestText),
-		esc(d.title), esc(d.description))
+		esc(d.title), esc(d.description+layoutWords(d.l)))
 	for _, t := range l.Tiers {
 		drawTier(&b, t)
 	}
@@ -61,6 +61,24 @@ func (d drawing) svg() template.HTML {
 	}
 	b.WriteString(tags.String() + `</svg>`)
 	return template.HTML(b.String())
+}
+
+// layoutWords say in words what a drawing's rows and shapes add: each
+// tier's variables and each construct's items.
+func layoutWords(l *Layout) string {
+	var parts []string
+	for _, t := range l.Tiers {
+		parts = append(parts, t.Label+": "+strings.Join(t.Variables, ", "))
+	}
+	for _, n := range l.Nodes {
+		if n.Latent {
+			parts = append(parts, n.Name+" is a construct measured by "+strings.Join(n.Items, ", "))
+		}
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return ". " + strings.Join(parts, "; ")
 }
 
 // smallestText is the smallest font size a drawing uses.

@@ -28,6 +28,9 @@ func TestLatentsDrawn(t *testing.T) {
 			t.Errorf("%s: ellipse %v, %d items", n.name, n.ellipse, len(n.items))
 		}
 	}
+	if !strings.Contains(svg, "anxiety is a construct measured by worry_1, worry_2, tension_3</desc>") {
+		t.Errorf("the drawing's words do not name the construct's items")
+	}
 	for _, it := range in.Latents[0].Items {
 		if !strings.Contains(svg, `<text class="item"`) || !strings.Contains(svg, ">"+it+"</text>") ||
 			strings.Contains(svg, `data-name="`+it+`"`) {
@@ -74,6 +77,9 @@ func TestTiersDrawn(t *testing.T) {
 	}
 	svg := string(drawing{l: l, arcs: arcs, id: "w"}.svg())
 	checkDrawing(t, "waves", svg)
+	if !strings.Contains(svg, "wave 1: x1, x1b; wave 2: m2, m2b; tier 3: y3</desc>") {
+		t.Errorf("the drawing's words do not name the tiers")
+	}
 	if strings.Count(svg, `class="tierlabel"`) != 3 || !strings.Contains(svg, ">wave 2</text>") {
 		t.Errorf("tier labels not drawn")
 	}
@@ -95,6 +101,32 @@ func TestNearbyReusesLayout(t *testing.T) {
 					t.Errorf("%s nearby %d: %s not where the declared drawing has it", name, i+1, base[k].name)
 				}
 			}
+		}
+	}
+}
+
+// TestLayOutSmall: no variables, or variables without arrows, lay out
+// inside a viewBox of their own.
+func TestLayOutSmall(t *testing.T) {
+	for _, in := range []LayoutInput{{}, {Nodes: []string{"lonely"}}, {Nodes: []string{"a", "b"}, Tiers: [][]string{{}, {"a", "b"}}}} {
+		l, err := LayOut(in)
+		if err != nil {
+			t.Fatalf("%+v: %v", in, err)
+		}
+		checkDrawing(t, strings.Join(in.Nodes, ","), string(drawing{l: l, id: "s"}.svg()))
+		if l.Width <= 0 || l.Height <= 0 {
+			t.Errorf("%+v: a drawing %g × %g", in, l.Width, l.Height)
+		}
+	}
+}
+
+// TestDrawingDeterministic: the same report draws the same bytes.
+func TestDrawingDeterministic(t *testing.T) {
+	for name, r := range reportsToDraw(t) {
+		a, err1 := graphView(r)
+		b, err2 := graphView(r)
+		if err1 != nil || err2 != nil || (a != nil && (a.Declared != b.Declared || a.Other != b.Other)) {
+			t.Errorf("%s: two drawings of one report differ", name)
 		}
 	}
 }

@@ -65,7 +65,7 @@ func buildProper(l *Layout, arcs [][2]int, rank []int, rev []bool, in []LayoutAr
 	for _, r := range rank {
 		rows = max(rows, r+1)
 	}
-	rows = max(rows, len(l.Tiers))
+	rows = max(rows, len(l.Tiers), 1)
 	l.Rows = rows
 	p.ranks = make([][]int, max(2*rows-1, 1))
 	for i, r := range rank {
