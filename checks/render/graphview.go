@@ -1,6 +1,7 @@
 package render
 
 import (
+	"errors"
 	"fmt"
 	"html/template"
 	"slices"
@@ -48,11 +49,15 @@ func graphView(r *checks.Report) (*GraphView, error) {
 	for i, n := range cs {
 		edited[i] = editedArcs(arcs, n.Edits, g.Nodes)
 	}
+	v := &GraphView{Arrows: arrowWords(arcs, exo), OtherCaption: caption}
 	l, err := LayOut(layoutInput(g, append([][]drawnArc{arcs, oa}, edited...)))
+	if errors.Is(err, ErrTooLarge) {
+		v.Note = fmt.Sprintf(tooLargeNote, len(g.Nodes), len(g.Declared))
+		return v, nil
+	}
 	if err != nil {
 		return nil, err
 	}
-	v := &GraphView{Arrows: arrowWords(arcs, exo), OtherCaption: caption}
 	v.Declared = drawing{l: l, arcs: arcs, exo: exo, id: "declared-graph", title: "The declared graph",
 		description: strings.Join(v.Arrows, "; ")}.svg()
 	v.Other = drawing{l: l, arcs: oa, exo: exo, id: "plausible-cpdag", title: caption,
@@ -73,6 +78,8 @@ const (
 	plausibleCaption  = "The plausible equivalents: the CPDAG with background knowledge applied"
 	wholeClassCaption = "The whole equivalence class (no equivalent graph respects the background knowledge)"
 	againstWords      = ", the other way round in every graph that respects the background knowledge"
+	tooLargeNote      = "The declared graph, %d variables and %d arrows, is too dense to draw legibly here; " +
+		"its arrows are listed in words below."
 )
 
 // layoutInput is what the report's drawings are laid out from. Tiers and

@@ -1,6 +1,7 @@
 package render
 
 import (
+	"errors"
 	"fmt"
 	"strings"
 )
@@ -126,12 +127,40 @@ func LayOut(in LayoutInput) (*Layout, error) {
 	}
 	l.initTiers(in)
 	rank, rev := ranks(len(l.Nodes), arcs, tierOf)
+	if n := properSize(rank, arcs, len(l.Tiers) == 0); n > MaxLayoutItems {
+		return nil, fmt.Errorf("%w: %d variables and %d arrows would make %d items to order, more than %d",
+			ErrTooLarge, len(l.Nodes), len(arcs), n, MaxLayoutItems)
+	}
 	l.sizeNodes(arcs, rank, rev)
 	p := buildProper(l, arcs, rank, rev, in.Arcs)
 	p.order()
 	p.placeX()
 	l.finish(p, in)
 	return l, nil
+}
+
+// MaxLayoutItems bounds the variables and virtual nodes a layout orders:
+// past it the ordering would take seconds, and the drawing would be too
+// dense to read.
+const MaxLayoutItems = 4000
+
+// ErrTooLarge is the error of a graph too large to draw.
+var ErrTooLarge = errors.New("render: the graph is too large to draw")
+
+// properSize is how many items the layered graph would have: every
+// variable, and for each arrow one virtual node in every rank it crosses
+// (two a row: the tag rank and the variables' rank).
+func properSize(rank []int, arcs [][2]int, compact bool) int {
+	if compact {
+		rank = compactRanks(rank)
+	}
+	n := len(rank)
+	for _, a := range arcs {
+		if d := rank[a[0]] - rank[a[1]]; d != 0 {
+			n += 2*max(d, -d) - 1
+		}
+	}
+	return n
 }
 
 // Errors of a layout's input.

@@ -1,8 +1,11 @@
 package render
 
 import (
+	"fmt"
 	"strings"
 	"testing"
+
+	"github.com/pathvet/pathvet/checks"
 )
 
 // TestLatentsDrawn: a construct is one ellipse with its items listed as
@@ -128,5 +131,37 @@ func TestDrawingDeterministic(t *testing.T) {
 		if err1 != nil || err2 != nil || (a != nil && (a.Declared != b.Declared || a.Other != b.Other)) {
 			t.Errorf("%s: two drawings of one report differ", name)
 		}
+	}
+}
+
+// TestTooLargeToDraw: a graph past MaxLayoutItems is not laid out; the
+// page says why and lists its arrows in words instead.
+func TestTooLargeToDraw(t *testing.T) {
+	r := loadGolden(t, "coding-club")
+	g := *r.Graph
+	g.Nodes, g.Declared, g.NearbyGraphs, g.SearchBest = nil, nil, nil, nil
+	g.CPDAG, g.PlausibleCPDAG, g.Exogenous, g.Background = checks.EdgeSets{}, nil, nil, nil
+	for i := range 90 {
+		g.Nodes = append(g.Nodes, fmt.Sprintf("v%02d", i))
+		for j := range i {
+			if (i+j)%3 == 0 {
+				g.Declared = append(g.Declared, [2]string{fmt.Sprintf("v%02d", j), fmt.Sprintf("v%02d", i)})
+			}
+		}
+	}
+	r.Graph = &g
+	v, err := graphView(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v.Declared != "" || !strings.Contains(v.Note, "90 variables and") || len(v.Arrows) != len(g.Declared) {
+		t.Fatalf("a graph of %d arrows: drawn %v, note %q", len(g.Declared), v.Declared != "", v.Note)
+	}
+	var b strings.Builder
+	if err := WritePage(&b, r, PageOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), "<li>v00 → v03, ") {
+		t.Errorf("the page does not list the arrows in words")
 	}
 }

@@ -9,6 +9,9 @@ import (
 // et al. 1993 use 24).
 const orderSweeps = 24
 
+// transposePasses bounds the passes of one transposition.
+const transposePasses = 12
+
 // order reduces crossings: starting from an order by barycentres of the
 // rows above, it sweeps down and up, each row sorted by the mean position
 // of its neighbours in the row just swept (Sugiyama et al. 1981), then
@@ -48,12 +51,13 @@ func (p *proper) sweep(pos []float64, down bool) {
 	if !down {
 		slices.Reverse(rs)
 	}
+	bc := make([]float64, len(p.items))
 	for _, r := range rs[1:] {
 		links := p.up
 		if !down {
 			links = p.down
 		}
-		p.sortRow(r, links, pos)
+		p.sortRow(r, links, pos, bc)
 		for k, id := range p.ranks[r] {
 			pos[id] = float64(k)
 		}
@@ -70,10 +74,9 @@ func (p *proper) positions(pos []float64) {
 
 // sortRow orders a row by barycentre, leaving items without links in
 // their slots.
-func (p *proper) sortRow(r int, links [][]link, pos []float64) {
+func (p *proper) sortRow(r int, links [][]link, pos, bc []float64) {
 	row := p.ranks[r]
 	var moving []int
-	bc := map[int]float64{}
 	for _, id := range row {
 		if len(links[id]) == 0 {
 			continue
@@ -100,7 +103,7 @@ func (p *proper) sortRow(r int, links [][]link, pos []float64) {
 func (p *proper) transpose() {
 	pos := make([]float64, len(p.items))
 	p.positions(pos)
-	for improved, pass := true, 0; improved && pass < len(p.items); pass++ {
+	for improved, pass := true, 0; improved && pass < transposePasses; pass++ {
 		improved = false
 		for _, row := range p.ranks {
 			for k := 0; k+1 < len(row); k++ {
