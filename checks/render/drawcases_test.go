@@ -80,7 +80,7 @@ func randomGraph(rng *rand.Rand, n int, density float64, tiers, latents, cyclic 
 		for j := i + 1; j < n; j++ {
 			if rng.Float64() < density/float64(n) || (cyclic && rng.Float64() < 0.3/float64(n)) {
 				u, v := order[i], order[j]
-				if cyclic && rng.IntN(4) == 0 {
+				if (cyclic && rng.IntN(4) == 0) || (tiers && rng.IntN(8) == 0) {
 					u, v = v, u
 				}
 				arcs = append(arcs, drawnArc{From: in.Nodes[u], To: in.Nodes[v],
