@@ -115,7 +115,8 @@ func (db *DB) Keys(ctx context.Context, office string) ([]*service.Key, error) {
 	return out, dbError(err, "keys")
 }
 
-// RevokeKey revokes a live key: its token stops working at once.
+// RevokeKey revokes a live key: its token stops working at once (a
+// server's read cache forgets it when the announcement arrives).
 func (db *DB) RevokeKey(ctx context.Context, id int64) error {
 	tag, err := db.Pool.Exec(
 		ctx,
