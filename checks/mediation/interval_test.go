@@ -110,12 +110,15 @@ func TestMonteCarlo_WorkersAndContext(t *testing.T) {
 
 // bootData simulates rows from a random model with means far from zero
 // (so the sums about the full-data means matter) and picks a connected
-// path.
-func bootData(r *rand.Rand, rows int) (*Model, [][]float64, Path) {
+// path, the total indirect effect when total is set.
+func bootData(r *rand.Rand, rows int, total bool) (*Model, [][]float64, Path) {
 	for {
 		n := 3 + r.IntN(4)
 		m := randomModel(r, n, 0.5+0.4*r.Float64())
 		p := randomPath(r, m)
+		if total {
+			p.Through = nil
+		}
 		if ok, _ := HasPath(m.Parents, p); !ok {
 			continue
 		}
@@ -130,33 +133,41 @@ func bootData(r *rand.Rand, rows int) (*Model, [][]float64, Path) {
 // Every bootstrap draw against the oracle (naiveBootstrap: the same rows
 // laid out and refitted by QR), on 12 random models with 40 to 300 rows
 // (blocks of 256 rows cut through the larger ones) and 150 resamples
-// (batches of 64 cut through them). Tolerance 1e-9 relative.
+// (batches of 64 cut through them): every third the total indirect
+// effect, every other one standardized. Tolerance 1e-9 relative.
 func TestBootstrap_AgainstNaiveResampling(t *testing.T) {
 	r := rand.New(rand.NewPCG(18, 5))
+	kinds := map[string]bool{}
 	for i := range 12 {
 		rows := 40 + r.IntN(261)
-		m, cols, p := bootData(r, rows)
-		iv, err := Bootstrap(context.Background(), cols, m.Parents, p, BootOptions{Seed: uint64(i), Resamples: 150})
+		m, cols, p := bootData(r, rows, i%3 == 0)
+		std := i%2 == 1
+		iv, err := Bootstrap(context.Background(), cols, m.Parents, p,
+			BootOptions{Seed: uint64(i), Resamples: 150, Standardized: std})
 		if err != nil {
 			t.Fatal(err)
 		}
-		want := naiveBootstrap(cols, m.Parents, p, uint64(i), 150)
+		kinds[fmt.Sprint(len(p.Through), std)] = true
+		want := naiveBootstrap(cols, m.Parents, p, uint64(i), 150, std)
 		for k := range want {
 			if !scalar.EqualWithinAbsOrRel(iv.Draws[k], want[k], 1e-9, 1e-9) {
-				t.Fatalf("model %d (%v, %d rows, %+v): draw %d is %v, resampled rows give %v",
-					i, m.Parents, rows, p, k, iv.Draws[k], want[k])
+				t.Fatalf("model %d (%v, %d rows, %+v, standardized %v): draw %d is %v, resampled rows give %v",
+					i, m.Parents, rows, p, std, k, iv.Draws[k], want[k])
 			}
 		}
-		if iv.Lo != Percentile(want, 0.025) && !scalar.EqualWithinAbsOrRel(iv.Lo, Percentile(want, 0.025), 1e-9, 1e-9) {
-			t.Fatalf("model %d: lower end %v", i, iv.Lo)
+		if lo := Percentile(want, 0.025); !scalar.EqualWithinAbsOrRel(iv.Lo, lo, 1e-9, 1e-9) {
+			t.Fatalf("model %d: lower end %v, resampled rows give %v", i, iv.Lo, lo)
 		}
+	}
+	if !kinds["0 false"] || !kinds["0 true"] || !kinds["1 true"] {
+		t.Fatalf("cases covered: %v", kinds)
 	}
 }
 
 // The bootstrap gives the same draws on one worker and on two, tells its
 // progress in order up to the total, and stops on a cancelled context.
 func TestBootstrap_WorkersProgressContext(t *testing.T) {
-	m, cols, p := bootData(rand.New(rand.NewPCG(18, 6)), 500)
+	m, cols, p := bootData(rand.New(rand.NewPCG(18, 6)), 500, false)
 	var seen []int
 	one, err1 := Bootstrap(context.Background(), cols, m.Parents, p, BootOptions{Seed: 9, Resamples: 300, Workers: 1,
 		Progress: func(done, total int) { seen = append(seen, done*1000+total) }})

@@ -5,6 +5,7 @@ import (
 	"slices"
 
 	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat"
 )
 
 // randomModel is a random recursive model on n nodes: arcs forward in a
@@ -159,8 +160,10 @@ func qrFit(cols [][]float64, idx []int, y int, x []int) []float64 {
 // naiveBootstrap is the oracle for Bootstrap's draws: resample r takes
 // the rows its own stream picks (the same stream and the same n draws of a
 // row as Bootstrap), lays them out, refits every equation by QR and
-// computes the effect from T; no weights, no moments, no evaluator.
-func naiveBootstrap(cols [][]float64, parents [][]int, p Path, seed uint64, resamples int) []float64 {
+// computes the effect from T; no weights, no moments, no evaluator. With
+// standardized, each effect is multiplied by the ratio of the resampled
+// rows' SDs of From and To.
+func naiveBootstrap(cols [][]float64, parents [][]int, p Path, seed uint64, resamples int, standardized bool) []float64 {
 	n := len(cols[0])
 	out := make([]float64, resamples)
 	for r := range resamples {
@@ -182,9 +185,20 @@ func naiveBootstrap(cols [][]float64, parents [][]int, p Path, seed uint64, resa
 			panic(err)
 		}
 		out[r] = est.Effect
+		if standardized {
+			out[r] *= resampledSD(cols[p.From], idx) / resampledSD(cols[p.To], idx)
+		}
 	}
 	slices.Sort(out)
 	return out
+}
+
+func resampledSD(c []float64, idx []int) float64 {
+	v := make([]float64, len(idx))
+	for k, i := range idx {
+		v[k] = c[i]
+	}
+	return stat.StdDev(v, nil)
 }
 
 // simulate draws n rows from the model with unit-variance normal errors
