@@ -124,7 +124,7 @@ func (b *booter) worker(draws []float64) func(k, lo, hi int) error {
 	r := b.rows
 	batch := r.batchSize()
 	w, sums := make([]float64, batch*r.n), make([]float64, batch*r.q)
-	prod := make([]float64, rowsPerBlock*r.q)
+	z, prod := make([]float64, rowsPerBlock*r.p), make([]float64, rowsPerBlock*r.q)
 	cov := mat.NewSymDense(r.p, nil)
 	beta, t := make([]float64, len(b.eval.arcs)), make([]float64, len(b.eval.nodes))
 	return func(_, lo, hi int) error {
@@ -135,7 +135,7 @@ func (b *booter) worker(draws []float64) func(k, lo, hi int) error {
 			rng := stream(b.opt.Seed, lo+d)
 			counts(w[d*r.n:(d+1)*r.n], rng)
 		}
-		r.weightedMoments(w, m, sums, prod)
+		r.weightedMoments(w, m, sums, z, prod)
 		for d := range m {
 			draws[lo+d] = math.NaN()
 			if r.covariance(sums[d*r.q:(d+1)*r.q], cov) {

@@ -19,14 +19,14 @@ const (
 	maxBatch     = 64
 )
 
-// standardRows holds the variables a bootstrap refits, as rows, each
-// centred at its full-data mean and divided by its full-data SD, so that
-// the weighted sums of products keep their digits however large the
-// means.
+// standardRows reads the variables a bootstrap refits, each centred at
+// its full-data mean and divided by its full-data SD as it is read, so
+// that the weighted sums of products keep their digits however large the
+// means. It keeps no copy of the data.
 type standardRows struct {
-	z      []float64 // n × p, row-major
+	cols   [][]float64 // the caller's columns, read only
 	n, p   int
-	vars   []int     // the node of each column
+	vars   []int     // the node of each variable
 	mean   []float64 // full-data means
 	sd     []float64 // full-data SDs (divisor n − 1)
 	q      int       // sums per resample: 1 + p + p(p+1)/2
@@ -37,20 +37,16 @@ type standardRows struct {
 // finite and every column must vary.
 func newStandardRows(cols [][]float64, vars []int) (*standardRows, error) {
 	n := len(cols[vars[0]])
-	s := &standardRows{n: n, p: len(vars), vars: vars, z: make([]float64, n*len(vars))}
-	for a, v := range vars {
-		c := cols[v]
-		if len(c) != n {
-			return nil, fmt.Errorf("mediation: column %d has %d rows, column %d has %d", v, len(c), vars[0], n)
+	s := &standardRows{cols: cols, n: n, p: len(vars), vars: vars}
+	for _, v := range vars {
+		if len(cols[v]) != n {
+			return nil, fmt.Errorf("mediation: column %d has %d rows, column %d has %d", v, len(cols[v]), vars[0], n)
 		}
-		mu, sd, err := meanSD(c, v)
+		mu, sd, err := meanSD(cols[v], v)
 		if err != nil {
 			return nil, err
 		}
 		s.mean, s.sd = append(s.mean, mu), append(s.sd, sd)
-		for i, x := range c {
-			s.z[i*s.p+a] = (x - mu) / sd
-		}
 	}
 	for a := range s.p {
 		for b := a; b < s.p; b++ {
@@ -88,13 +84,18 @@ func (s *standardRows) batchSize() int { return max(1, min(maxBatch, weightBudge
 //
 //	S += W[:, rows] · P[rows, :],  P[i,:] = (1, z_i, z_ia z_ib …),
 //
-// so the work is that of a general matrix multiply (gonum's BLAS). prod
-// is scratch of rowsPerBlock × q.
-func (s *standardRows) weightedMoments(w []float64, batch int, sums, prod []float64) {
+// so the work is that of a general matrix multiply (gonum's BLAS). z and
+// prod are scratch of rowsPerBlock × p and rowsPerBlock × q.
+func (s *standardRows) weightedMoments(w []float64, batch int, sums, z, prod []float64) {
 	for lo := 0; lo < s.n; lo += rowsPerBlock {
 		hi := min(lo+rowsPerBlock, s.n)
-		for i := lo; i < hi; i++ {
-			row, out := s.z[i*s.p:(i+1)*s.p], prod[(i-lo)*s.q:(i-lo+1)*s.q]
+		for a, v := range s.vars {
+			for i, x := range s.cols[v][lo:hi] {
+				z[i*s.p+a] = (x - s.mean[a]) / s.sd[a]
+			}
+		}
+		for i := range hi - lo {
+			row, out := z[i*s.p:(i+1)*s.p], prod[i*s.q:(i+1)*s.q]
 			out[0] = 1
 			copy(out[1:], row)
 			for k, ab := range s.triIdx {
