@@ -76,7 +76,7 @@ emit_model <- function(name, syntax, last) {
   set.seed(18)
   bfit <- sem(syntax, data = d, se = "bootstrap", bootstrap = 2000)
   bpe <- parameterEstimates(bfit, boot.ci.type = "perc", level = 0.95)
-  BOOT <- lavInspect(bfit, "boot")
+  BOOT <- inspect(bfit, "boot")
   draws <- t(apply(BOOT, 1, bfit@Model@def.function))
   defs <- pe[pe$op == ":=", ]
   cat(sprintf('    ], "largest_cross_equation_cov": %s, "boot_resamples": %d, "defined": [\n', num(off), nrow(BOOT)))
