@@ -18,7 +18,8 @@ const MaxOrderStates = 1 << 20
 // ErrTooConstrained is returned when the orders of one clique that respect
 // background knowledge would take more than MaxOrderStates states, or
 // exceed 2^64 before the factorials of the classes, to count exactly.
-var ErrTooConstrained = errors.New("dag: background knowledge constrains too many nodes of one clique to count exactly")
+var ErrTooConstrained = errors.New(
+	"dag: background knowledge constrains too many nodes of one clique to count exactly")
 
 // ClassSize returns the number of DAGs in the Markov equivalence class
 // whose CPDAG is c: the product over the chain components of c of the

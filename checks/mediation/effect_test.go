@@ -152,7 +152,8 @@ func TestDeltaSE_ByHand(t *testing.T) {
 	// x=0 m=1 y=2: a = 0.5, b = 0.7, c′ = 0.2.
 	b := mat.NewDense(3, 3, []float64{0, 0.5, 0.2, 0, 0, 0.7, 0, 0, 0})
 	m := &Model{B: b, Parents: [][]int{nil, {0}, {0, 1}},
-		Cov: []*mat.SymDense{nil, mat.NewSymDense(1, []float64{0.04}), mat.NewSymDense(2, []float64{0.03, 0.01, 0.01, 0.09})}}
+		Cov: []*mat.SymDense{nil, mat.NewSymDense(1, []float64{0.04}),
+			mat.NewSymDense(2, []float64{0.03, 0.01, 0.01, 0.09})}}
 	got, err := Effect(m, Path{From: 0, To: 2, Through: []int{1}})
 	want := math.Sqrt(0.7*0.7*0.04 + 0.5*0.5*0.09)
 	if err != nil || !scalar.EqualWithinAbsOrRel(got.Effect, 0.35, 1e-15, 1e-15) ||
@@ -180,7 +181,8 @@ func TestEffect_Errors(t *testing.T) {
 		m    *Model
 		p    Path
 	}{
-		{"cycle", &Model{B: mat.NewDense(2, 2, []float64{0, 1, 1, 0}), Parents: [][]int{{1}, {0}}}, Path{From: 0, To: 1}},
+		{"cycle", &Model{B: mat.NewDense(2, 2, []float64{0, 1, 1, 0}), Parents: [][]int{{1}, {0}}},
+			Path{From: 0, To: 1}},
 		{"coefficient off the arcs", &Model{B: mat.NewDense(2, 2, []float64{0, 1, 0, 0}), Parents: [][]int{nil, nil}},
 			Path{From: 0, To: 1}},
 		{"bad parent", &Model{B: mat.NewDense(2, 2, nil), Parents: [][]int{nil, {5}}}, Path{From: 0, To: 1}},

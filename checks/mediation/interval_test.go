@@ -200,7 +200,8 @@ func TestBootstrap_SingularResamples(t *testing.T) {
 	}
 	z[3] = 1
 	parents := [][]int{nil, nil, {0, 1}, {0, 2}} // x=0 z=1 m=2 y=3: z is a covariate of m
-	iv, err := Bootstrap(context.Background(), [][]float64{x, z, mm, y}, parents, Path{From: 0, To: 3, Through: []int{2}},
+	p := Path{From: 0, To: 3, Through: []int{2}}
+	iv, err := Bootstrap(context.Background(), [][]float64{x, z, mm, y}, parents, p,
 		BootOptions{Seed: 4, Resamples: 400})
 	if err != nil {
 		t.Fatal(err)

@@ -57,10 +57,13 @@ func newStandardRows(cols [][]float64, vars []int) (*standardRows, error) {
 	return s, nil
 }
 
+// badValue names a value the bootstrap cannot use.
+const badValue = "mediation: column %d, row %d: value %v (the bootstrap needs complete rows)"
+
 func meanSD(c []float64, v int) (mu, sd float64, err error) {
 	for i, x := range c {
 		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return 0, 0, fmt.Errorf("mediation: column %d, row %d: value %v (the bootstrap needs complete rows)", v, i+1, x)
+			return 0, 0, fmt.Errorf(badValue, v, i+1, x)
 		}
 		mu += x
 	}

@@ -59,7 +59,7 @@ func randomPath(r *rand.Rand, m *Model) Path {
 				for u := x; u != y; {
 					var next []int
 					for _, v := range perm {
-						if v == y && slices.Contains(m.Parents[y], u) || reach[v][y] && slices.Contains(m.Parents[v], u) {
+						if slices.Contains(m.Parents[v], u) && (v == y || reach[v][y]) {
 							next = append(next, v)
 						}
 					}
@@ -163,7 +163,8 @@ func qrFit(cols [][]float64, idx []int, y int, x []int) []float64 {
 // computes the effect from T; no weights, no moments, no evaluator. With
 // standardized, each effect is multiplied by the ratio of the resampled
 // rows' SDs of From and To.
-func naiveBootstrap(cols [][]float64, parents [][]int, p Path, seed uint64, resamples int, standardized bool) []float64 {
+func naiveBootstrap(cols [][]float64, parents [][]int, p Path, seed uint64, resamples int,
+	standardized bool) []float64 {
 	n := len(cols[0])
 	out := make([]float64, resamples)
 	for r := range resamples {

@@ -41,7 +41,8 @@ func TestEffect_AgreesWithReference(t *testing.T) {
 			}
 			std, err := StandardizedEffect(m, p, sd)
 			if err != nil || !scalar.EqualWithinAbsOrRel(std.Effect, def.EstStdAll, 1e-12, 1e-9) {
-				t.Errorf("%s %s standardized: %v (%v); reference %v", rm.Name, def.Label, std.Effect, err, def.EstStdAll)
+				t.Errorf("%s %s standardized: %v (%v); reference %v",
+					rm.Name, def.Label, std.Effect, err, def.EstStdAll)
 			}
 		}
 	}
@@ -98,7 +99,8 @@ func TestFitModel_AgreesWithReference(t *testing.T) {
 			}
 			want := mat.NewSymDense(len(eq.X), slices.Clone(eq.VCov))
 			if rm.saturated && !mat.EqualApprox(m.Cov[j], want, 1e-9*mat.Max(want)) {
-				t.Errorf("%s: %s: covariance %v, reference %v", rm.Name, eq.Y, mat.Formatted(m.Cov[j]), mat.Formatted(want))
+				t.Errorf("%s: %s: covariance %v, reference %v",
+					rm.Name, eq.Y, mat.Formatted(m.Cov[j]), mat.Formatted(want))
 			}
 		}
 		for _, def := range rm.Defined {

@@ -58,7 +58,8 @@ func TestMediatorConfounding_Simulation(t *testing.T) {
 			t.Errorf("γ = %v, ρ = %v: ACME(ρ) = %v, truth %v", tc.gamma, tc.rho, got, tc.truth)
 		}
 		if naive := c.ACME(0); math.Abs(naive-tc.truth) < 0.1 {
-			t.Errorf("γ = %v, ρ = %v: the naive estimate %v is near the truth; the test shows nothing", tc.gamma, tc.rho, naive)
+			t.Errorf("γ = %v, ρ = %v: the naive estimate %v is near the truth; the test shows nothing",
+				tc.gamma, tc.rho, naive)
 		}
 		if z := c.ACME(c.RhoAtZero); math.Abs(z) > 1e-12 {
 			t.Errorf("ACME at its zero crossing: %v", z)
