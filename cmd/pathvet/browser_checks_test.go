@@ -53,6 +53,7 @@ func checkReport(t *testing.T, ctx context.Context, f *browserFixture) {
 	}
 	mustContain(t, ctx, "#history", "Since the previous version")
 	mustContain(t, ctx, ".caution", "not a verdict")
+	checkDrawingText(t, ctx, "submission at 1280 px", false)
 	screenshot(t, ctx, "submission-1280.png")
 	viewShot(t, ctx, "#claims", "claims-and-graph-1280.png")
 }
@@ -101,6 +102,9 @@ func checkNarrow(t *testing.T, ctx context.Context, f *browserFixture) {
 		)
 		if over > 0 {
 			t.Errorf("%s at 390 px scrolls sideways by %d px", path, over)
+		}
+		if path != "/" {
+			checkDrawingText(t, ctx, path+" at 390 px", true)
 		}
 		switch path {
 		case "/submissions/" + f.club.ID:
