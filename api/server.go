@@ -6,6 +6,7 @@ package api
 import (
 	"context"
 	"log/slog"
+	"net/netip"
 	"sync"
 	"time"
 
@@ -24,7 +25,7 @@ type Store interface {
 	Submissions(ctx context.Context, f service.Filter) ([]*service.Submission, string, error)
 	DeleteSubmission(ctx context.Context, id string, sc service.Scope) error
 	Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
-	LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error)
+	LatestReport(ctx context.Context, id string, sc service.Scope, have int64) (*service.StoredReport, error)
 	SetWebhook(ctx context.Context, officeID int64, url string) (*service.Webhook, error)
 	Webhook(ctx context.Context, officeID int64) (*service.Webhook, error)
 	DeleteWebhook(ctx context.Context, officeID int64) error
@@ -45,11 +46,14 @@ type Config struct {
 	Metrics      *Metrics
 	// Web is the web workspace's storage; without it the workspace's
 	// routes are not served. TLSProxy: the server sits behind a
-	// TLS-terminating proxy (Secure cookies; the client address from
-	// X-Forwarded-For). SessionTTL is how long a sign-in lasts.
+	// TLS-terminating proxy (Secure cookies). SessionTTL is how long a
+	// sign-in lasts.
 	Web        WebStore
 	TLSProxy   bool
 	SessionTTL time.Duration
+	// TrustedProxies are the proxies whose X-Forwarded-For entries are
+	// believed (clientAddress); from any other peer the header is ignored.
+	TrustedProxies []netip.Prefix
 	// LargeIngests is how many spooled uploads of LargeIngestBytes or more
 	// may be checked and stored at once (default 1); each can hold several
 	// times its size in memory meanwhile. SlotWait is how long a spooled
@@ -63,6 +67,10 @@ type Config struct {
 	UploadMinRate int64
 	UploadGrace   time.Duration
 	UploadIdle    time.Duration
+	// Egress checks webhook URLs as they are set (the allow-list of
+	// networks and hosts otherwise refused); nil refuses every address of a
+	// refused class.
+	Egress *service.Egress
 	// JobMemory is the memory one screening job may use on a worker; raw
 	// data whose estimated working memory is larger is refused (422) at
 	// ingest. 0 checks nothing.
@@ -108,6 +116,9 @@ func New(cfg Config) *Server {
 		cfg.LargeIngests = 1
 	}
 	uploadDefaults(&cfg)
+	if cfg.Egress == nil {
+		cfg.Egress = &service.Egress{}
+	}
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()
 	}

@@ -1,6 +1,3 @@
-// Package render draws a screening report for people: the text view, the
-// HTML page with its SVG graph and chart, and the letter of questions.
-// Its only input is the report (package checks, types only).
 package render
 
 import (
