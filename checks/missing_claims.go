@@ -3,7 +3,6 @@ package checks
 import (
 	"fmt"
 	"math"
-	"strings"
 )
 
 // methodFindings judge the declared method against the missingness.
@@ -43,12 +42,6 @@ func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 
 // Long message formats of the missing-data findings.
 const (
-	// mlSENote: the ML estimate is the estimator run on the EM mean and
-	// covariance as if they came from n complete rows, so its SE, interval
-	// and p are complete-data ones, too small where data are missing.
-	mlSENote = "point estimate from the EM mean and covariance; its SE, interval and p-value treat them as if " +
-		"from n complete rows, so they understate the uncertainty where values are missing (no " +
-		"observed-information correction)"
 	unsoundText = " biases coefficients and understates their uncertainty (Little & Rubin, " +
 		"Statistical Analysis with Missing Data)"
 	unstatedFormat = "The package does not say how missing values were handled, and %.1f%% of the data cells " +
@@ -137,9 +130,8 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	ests := map[string]est{}
 	for key, m := range r.moments {
 		ests[key] = a.estimateWith(m, c, pa)
-		if e := ests[key]; key == MissingMaximumLikelihood && e.ok() && e.method != MethodZero {
-			e.note = strings.TrimPrefix(e.note+"; "+mlSENote, "; ")
-			ests[key] = e
+		if key == MissingMaximumLikelihood {
+			ests[key] = a.mlInference(c, ests[key], r)
 		}
 	}
 	if len(r.imputed) > 0 {
