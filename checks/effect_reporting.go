@@ -92,7 +92,7 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 	if f := a.consistency(c, pr, decl); f != nil {
 		fs, bad = append(fs, *f), true
 	}
-	fs = append(fs, a.recomputedFinding(c, decl)...)
+	fs = append(fs, a.reportedFinding(i, c, decl)...)
 	if c.AssertsAbsence {
 		fs = append(fs, a.absenceFinding(i, c, decl)...)
 	}
@@ -247,35 +247,6 @@ func printedSE(c Claim, pr printed, logScale bool, df float64) (s, hs float64, o
 		return (u - l) / (2 * q), (hl + hu) / (2 * q), true
 	}
 	return 0, 0, false
-}
-
-// recomputedFinding sets the reported estimate beside the recomputed one
-// and flags a reported estimate outside the recomputed interval.
-func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
-	if c.Estimate == nil || !decl.ok() || decl.method == MethodZero || decl.scale != claimScale(c) ||
-		math.IsNaN(decl.lo) {
-		return nil
-	}
-	if *c.Estimate >= decl.lo && *c.Estimate <= decl.hi {
-		return nil
-	}
-	adjustment := "the declared graph's adjustment set"
-	if a.Study.Declared == nil || !a.claimInGraph(c) || c.Kind == KindAssociation {
-		adjustment = "the claim's own adjustment set"
-	}
-	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %g, but %s give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
-			"obtained.",
-		c.ID,
-		*c.Estimate,
-		a.dataBasis("the data"),
-		figure(decl.value),
-		pText(decl.p),
-		100*claimLevel(c),
-		figure(decl.lo),
-		figure(decl.hi),
-		adjustment,
-	)}}
 }
 
 // dataBasis names the data a recomputed estimate comes from: the complete

@@ -115,7 +115,7 @@ func TestEffectReporting_OutsideRecomputedInterval(t *testing.T) {
 		flagged  bool
 	}{{0.35, false}, {0.6, true}, {-0.3, true}} {
 		cl := Claim{ID: "R", Estimate: &c.estimate, EstimateScale: "standardized"}
-		if fs := (&Analysis{Study: &Study{}}).recomputedFinding(cl, decl); (len(fs) > 0) != c.flagged {
+		if fs := (&Analysis{Study: &Study{}}).reportedFinding(0, cl, decl); (len(fs) > 0) != c.flagged {
 			t.Errorf("estimate %v: findings %v, want flagged %v", c.estimate, fs, c.flagged)
 		}
 	}
