@@ -136,3 +136,37 @@ func TestEffectReporting_ReportedDirectionContradicted(t *testing.T) {
 		t.Errorf("claim of no effect: %+v", f)
 	}
 }
+
+// An odds-ratio claim whose arrow can point the other way: in the
+// equivalent graph with y → x the effect is no effect, an odds ratio of 1
+// (not 0), and the sentences say "no effect (odds ratio 1)", not "zero".
+func TestOddsRatio_NoEffectIsOne(t *testing.T) {
+	doc := `{"format_version": 1, "title": "t", "design": "observational",
+		"variables": [{"name": "x", "scale": "continuous"}, {"name": "y", "scale": "binary"}],
+		"graph": {"edges": [{"from": "x", "to": "y"}]},
+		"claims": [{"id": "L1", "text": "x raises the odds of y", "kind": "direct_effect", "from": "x", "to": "y",
+		"estimate_scale": "odds_ratio", "estimate": 2.0, "ci": [1.6, 2.6], "headline": true}],
+		"data": {"kind": "rows", "ignore_columns": ["z"], "csv": ` + fmt.Sprintf("%q", logisticRows()) + `}}`
+	s, err := load.Load([]byte(doc), load.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := mustRun(t, s)
+	ae := r.Claims[0].AcrossEquivalents
+	if ae == nil || ae.Estimates != 2 || ae.Min == nil || *ae.Min != 1 || ae.Max == nil || *ae.Max < 1.5 {
+		t.Fatalf("across equivalents %+v: want the odds ratio and no effect (1) as its bounds", ae)
+	}
+	var text []string
+	for _, c := range r.Checks {
+		for _, f := range c.Findings {
+			if f.Claim == "L1" {
+				text = append(text, f.Message)
+			}
+		}
+	}
+	all := strings.Join(text, "\n")
+	if !strings.Contains(all, "no effect (odds ratio 1) in 1 of the 2 plausible members") ||
+		!strings.Contains(all, "is none, an odds ratio of 1") || strings.Contains(all, " zero") {
+		t.Errorf("findings:\n%s", all)
+	}
+}

@@ -265,3 +265,29 @@ func TestRaisedFindings(t *testing.T) {
 		t.Errorf("%+v", fs)
 	}
 }
+
+// A range across graphs names an odds ratio of exactly 1 that graphs
+// without the effect give as no effect, and nothing else.
+func TestBoundText_OddsRatioNoEffect(t *testing.T) {
+	one, zero, two := 1.0, 0.0, 2.11
+	for _, c := range []struct {
+		x     *float64
+		scale string
+		zeros int
+		want  string
+	}{
+		{&one, "odds_ratio", 1, "no effect (odds ratio 1)"},
+		{&one, "odds_ratio", 0, "1.00"},
+		{&two, "odds_ratio", 1, "2.11"},
+		{&zero, "standardized", 1, "0.00"},
+		{nil, "odds_ratio", 1, "n/a"},
+	} {
+		if got := boundText(c.x, c.scale, c.zeros); got != c.want {
+			t.Errorf("boundText(%v, %s, %d) = %q, want %q", c.x, c.scale, c.zeros, got, c.want)
+		}
+	}
+	if noEffect("odds_ratio") != "no effect (odds ratio 1)" || noEffect("standardized") != "zero" ||
+		valueText(est{method: MethodZero, scale: "odds_ratio"}) != "no effect (odds ratio 1)" {
+		t.Error("no-effect wording")
+	}
+}
