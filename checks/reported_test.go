@@ -170,3 +170,16 @@ func TestOddsRatio_NoEffectIsOne(t *testing.T) {
 		t.Errorf("findings:\n%s", all)
 	}
 }
+
+// A package whose only causal claim asserts no effect makes causal claims:
+// the E-value check says there is nothing to explain away, and why.
+func TestConfounding_OnlyNoEffectClaims(t *testing.T) {
+	s := MustLoad(t, "../testdata/demo/sleep-attention/package.json")
+	s.Package.Claims = s.Package.Claims[:1] // S1, "does not predict", asserts no effect
+	s.Printed = s.Printed[:1]
+	c := checkOf(mustRun(t, s), "confounding-sensitivity")
+	if c.Status != checks.StatusNotApplicable ||
+		c.Summary != "The only causal claim, S1, asserts no effect, so there is nothing for confounding to explain away." {
+		t.Errorf("%s: %q", c.Status, c.Summary)
+	}
+}

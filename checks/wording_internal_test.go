@@ -291,3 +291,38 @@ func TestBoundText_OddsRatioNoEffect(t *testing.T) {
 		t.Error("no-effect wording")
 	}
 }
+
+// The E-value summary names the claims it covers and says why a causal
+// claim has none, for one claim and for several of each kind.
+func TestConfoundingSummary_NamesClaims(t *testing.T) {
+	for _, c := range []struct {
+		g    eValueGroups
+		want []string
+		not  []string
+	}{
+		{eValueGroups{computed: []string{"C1", "C2", "C3"}, absent: []string{"C4"}},
+			[]string{"For each causal claim (C1, C2 and C3)", "C4 asserts no effect", "it has no E-value"},
+			[]string{"of the 3"}},
+		{eValueGroups{computed: []string{"C1"}, absent: []string{"C2", "C3"}},
+			[]string{"For the causal claim C1,", "C2 and C3 assert no effect", "they have no E-value"}, nil},
+		{eValueGroups{computed: []string{"C1", "C2"}, weak: []string{"C2"}, missing: []string{"C3"},
+			contradicted: []string{"C4"}},
+			[]string{"For the causal claim C2, an unmeasured", "C3 has no E-value, so how much confounding would " +
+				"explain it away", "C4 has no E-value: the declared graph itself gives it no effect"},
+			[]string{"asserts no effect"}},
+		{eValueGroups{computed: []string{"C1", "C2"}, weak: []string{"C1", "C2"}},
+			[]string{"For the causal claims C1 and C2, an unmeasured"}, nil},
+	} {
+		got := confoundingSummary(c.g)
+		for _, w := range c.want {
+			if !strings.Contains(got, w) {
+				t.Errorf("%+v: %q lacks %q", c.g, got, w)
+			}
+		}
+		for _, w := range c.not {
+			if strings.Contains(got, w) {
+				t.Errorf("%+v: %q has %q", c.g, got, w)
+			}
+		}
+	}
+}
