@@ -2,9 +2,12 @@ package checks
 
 import (
 	"errors"
+	"math"
 	"math/big"
 	"strings"
 	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
 
 	"github.com/pathvet/pathvet/checks/missing"
 	"github.com/pathvet/pathvet/checks/sem"
@@ -324,5 +327,29 @@ func TestConfoundingSummary_NamesClaims(t *testing.T) {
 				t.Errorf("%+v: %q has %q", c.g, got, w)
 			}
 		}
+	}
+}
+
+// The power of Fisher's z to detect a partial correlation of 0.5, against
+// the closed form Φ(δ − z) + Φ(−δ − z), δ = atanh(0.5) sqrt(n − k − 3),
+// z = 1.959963984540054 (the normal's 97.5th percentile), to 1e-9; no
+// test where n − k − 3 < 1.
+func TestLargeEffectPower(t *testing.T) {
+	phi := func(x float64) float64 { return 0.5 * math.Erfc(-x/math.Sqrt2) }
+	for _, c := range []struct{ n, k int }{{5, 0}, {5, 1}, {6, 0}, {15, 0}, {16, 0}, {40, 3}} {
+		d := math.Atanh(0.5) * math.Sqrt(float64(c.n-c.k-3))
+		want := phi(d-1.959963984540054) + phi(-d-1.959963984540054)
+		if got := largeEffectPower(c.n, c.k, 0.05); !scalar.EqualWithinAbs(got, want, 1e-9) {
+			t.Errorf("n %d, k %d: %v, closed form %v", c.n, c.k, got, want)
+		}
+	}
+	if largeEffectPower(4, 1, 0.05) != 0 || largeEffectPower(3, 0, 0.05) != 0 {
+		t.Error("no test below n − k − 3 = 1")
+	}
+	if p := largeEffectPower(5, 0, 0.05); math.Abs(p-0.12) > 0.005 {
+		t.Errorf("n 5: %v, want about 0.12 (README)", p)
+	}
+	if p := largeEffectPower(5, 1, 0.05); math.Abs(p-0.09) > 0.005 {
+		t.Errorf("n 5, k 1: %v, want about 0.09 (README)", p)
 	}
 }

@@ -78,8 +78,12 @@ func WriteLetter(w io.Writer, r *checks.Report) error {
 	if r.ManuscriptID != "" {
 		fmt.Fprintf(&b, " (manuscript %s)", mdEscape(r.ManuscriptID))
 	}
-	fmt.Fprintf(&b, "\n\nAn automated statistical screen (pathvet %s, %s) scored this submission %d of 100: %s.\n\n",
+	fmt.Fprintf(&b, "\n\nAn automated statistical screen (pathvet %s, %s) scored this submission %d of 100: %s.",
 		r.ToolVersion, r.GeneratedAt.UTC().Format("2 January 2006"), r.Score, bandWords(r.Band))
+	if r.ScoreCap != nil {
+		b.WriteString(" " + mdEscape(r.ScoreCap.Reason))
+	}
+	b.WriteString("\n\n")
 	fmt.Fprintf(&b, "> %s\n\n", mdEscape(r.Caution))
 	qs := Questions(r)
 	if len(qs) == 0 {
