@@ -27,8 +27,7 @@ func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 		sev, tail := SeverityInfo, ""
 		rejected := r.mcar.P < alpha
 		if rejected && (method == MissingCompleteCases || method == MissingAvailableCases || method == "") {
-			sev, tail = StatusWarn, " An analysis of complete or available cases is then unbiased only under "+
-				"assumptions the data argue against."
+			sev, tail = StatusWarn, littleRejectedTail
 		}
 		verdict := "does not reject"
 		if rejected {
@@ -48,6 +47,15 @@ const (
 		"are missing (%d of %d rows are complete)."
 	noneMissingFormat = "The package says no values are missing, but %.1f%% of the data cells are " +
 		"(%d of %d rows are complete)."
+	// littleRejectedTail says what a rejection of MCAR shows, and no more:
+	// the complete cases are no random subset of the rows, yet a
+	// complete-case regression stays unbiased when the missingness depends
+	// on its predictors alone (Little & Rubin, Statistical Analysis with
+	// Missing Data, 2nd ed., sec. 3.2), which the test cannot tell.
+	littleRejectedTail = " That speaks against missing completely at random only: the complete or available " +
+		"cases are then no random subset of the rows, but a complete-case regression stays unbiased when the " +
+		"missingness depends on its predictors alone, which the test cannot tell; say why the analysis of " +
+		"complete or available cases holds, or re-analyse by multiple imputation or maximum likelihood."
 	littleFormat = "Little's test %s at the %g level that values are missing completely at random " +
 		"(χ² = %.2f on %d df, %s).%s"
 	uncomparedFormat = "%s could not be estimated by %s (%s), so whether its conclusion depends on how " +

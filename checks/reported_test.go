@@ -183,3 +183,36 @@ func TestConfounding_OnlyNoEffectClaims(t *testing.T) {
 		t.Errorf("%s: %q", c.Status, c.Summary)
 	}
 }
+
+// Little's test rejecting MCAR says what it shows and no more: y is
+// missing where z is high (missing at random given z), so the test
+// rejects; a complete-case regression of y on x and z would still be
+// unbiased (Little & Rubin 2002, sec. 3.2), and the sentence must not say
+// the data argue against the assumptions it needs.
+func TestMissingData_LittleSaysOnlyMCAR(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 1))
+	var b strings.Builder
+	b.WriteString("x,y,z\n")
+	for range 300 {
+		x, z := r.NormFloat64(), r.NormFloat64()
+		y := fmt.Sprintf("%.3f", 0.5*x+0.5*z+r.NormFloat64())
+		if z > 0.3 {
+			y = ""
+		}
+		fmt.Fprintf(&b, "%.3f,%s,%.3f\n", x, y, z)
+	}
+	claim := `{"id": "C1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y",
+		"adjust_for": ["z"], "estimate": 0.5, "p_value": 0.001, "p_relation": "<"}`
+	rep := rowsPackage(t, b.String(), "continuous", claim, "complete_cases")
+	var msg string
+	for _, f := range checkOf(rep, "missing-data").Findings {
+		if strings.HasPrefix(f.Message, "Little's test rejects") {
+			msg = f.Message
+		}
+	}
+	if !strings.Contains(msg, "That speaks against missing completely at random only") ||
+		!strings.Contains(msg, "stays unbiased when the missingness depends on its predictors alone") ||
+		strings.Contains(msg, "argue against") {
+		t.Errorf("Little's test: %q", msg)
+	}
+}
