@@ -2,9 +2,14 @@ package checks_test
 
 import (
 	"fmt"
+	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
+
+	"gonum.org/v1/gonum/floats/scalar"
+	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
@@ -214,5 +219,88 @@ func TestMissingData_LittleSaysOnlyMCAR(t *testing.T) {
 		!strings.Contains(msg, "stays unbiased when the missingness depends on its predictors alone") ||
 		strings.Contains(msg, "argue against") {
 		t.Errorf("Little's test: %q", msg)
+	}
+}
+
+// A nearby class reached only by reversing an arrow out of a binary
+// variable (z → b → y, b binary, z → b fixed: reversing b → y makes the
+// v-structure z → b ← y, which changes b's equation) is scored by a linear
+// equation for b, so its ΔBIC is approximate and a headline claim that
+// changes there is a warning, not a failure (README, nearby-graphs).
+func TestNearbyGraphs_ReversalOutOfBinaryWarns(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 5))
+	var b strings.Builder
+	b.WriteString("b,y,z\n")
+	for range 200 {
+		z, bb := r.NormFloat64(), 0
+		if r.Float64() < 1/(1+math.Exp(-0.4*z)) {
+			bb = 1
+		}
+		fmt.Fprintf(&b, "%d,%.4f,%.4f\n", bb, 0.4*float64(bb)+r.NormFloat64(), z)
+	}
+	doc := `{"format_version": 1, "title": "t", "design": "observational",
+		"variables": [{"name": "b", "scale": "binary"}, {"name": "y", "scale": "continuous"},
+		{"name": "z", "scale": "continuous"}],
+		"graph": {"edges": [{"from": "z", "to": "b"}, {"from": "b", "to": "y"}],
+		"fixed_edges": [{"from": "z", "to": "b"}]},
+		"claims": [{"id": "H1", "text": "b raises y", "kind": "direct_effect", "from": "b", "to": "y",
+		"headline": true, "estimate": 0.3, "std_error": 0.1}],
+		"data": {"kind": "rows", "csv": ` + fmt.Sprintf("%q", b.String()) + `}}`
+	s, err := load.Load([]byte(doc), load.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := checkOf(mustRun(t, s), "nearby-graphs")
+	seen := false
+	for _, f := range c.Findings {
+		if f.Claim == "H1" && strings.Contains(f.Message, "with the arrow b → y reversed") {
+			seen = true
+			if f.Severity != checks.StatusWarn || !strings.Contains(f.Message, "approximate") {
+				t.Errorf("%s: %s", f.Severity, f.Message)
+			}
+		}
+	}
+	if !seen || c.Status != checks.StatusWarn {
+		t.Errorf("nearby-graphs %s, findings %+v", c.Status, c.Findings)
+	}
+}
+
+// Pooling correlations over imputations on Fisher's z scale: with x and y
+// complete and only z (outside the claim) missing, every imputed dataset
+// gives the same r, so B = 0 and the pooled interval is the closed form
+// tanh(atanh r ± t_{.975, ν} / sqrt(n − 3)) (Fisher 1921: Var z = 1/(n − 3)
+// given no variable; Rubin 1987 with B = 0; Barnard & Rubin 1999:
+// ν = (ν_com + 1)/(ν_com + 3) ν_com, ν_com = n − 2), computed here with
+// gonum's stat and t quantile, to 1e-9.
+func TestMissingData_PooledCorrelationFisherVariance(t *testing.T) {
+	r := rand.New(rand.NewPCG(40, 2))
+	n := 40
+	var b strings.Builder
+	b.WriteString("x,y,z\n")
+	xs, ys := make([]float64, n), make([]float64, n)
+	for i := range n {
+		xs[i] = math.Round(r.NormFloat64()*1e4) / 1e4
+		ys[i] = math.Round((0.5*xs[i]+r.NormFloat64())*1e4) / 1e4
+		z := fmt.Sprintf("%.4f", r.NormFloat64())
+		if i%8 == 0 {
+			z = ""
+		}
+		fmt.Fprintf(&b, "%.4f,%.4f,%s\n", xs[i], ys[i], z)
+	}
+	claim := `{"id": "R1", "text": "x goes with y", "kind": "association", "from": "x", "to": "y",
+		"estimate_scale": "correlation", "estimate": 0.4, "p_value": 0.01}`
+	mi := rowsPackage(t, b.String(), "continuous", claim, "complete_cases").Claims[0].MissingData["multiple_imputation"]
+	if mi == nil || mi.Estimate == nil || len(mi.CI) != 2 {
+		t.Fatalf("multiple imputation %+v", mi)
+	}
+	rho := stat.Correlation(xs, ys, nil)
+	dfCom := float64(n - 2)
+	nu := (dfCom + 1) / (dfCom + 3) * dfCom
+	q := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: nu}.Quantile(0.975)
+	se := 1 / math.Sqrt(float64(n-3))
+	lo, hi := math.Tanh(math.Atanh(rho)-q*se), math.Tanh(math.Atanh(rho)+q*se)
+	if !scalar.EqualWithinAbs(*mi.Estimate, rho, 1e-9) || !scalar.EqualWithinAbs(mi.CI[0], lo, 1e-9) ||
+		!scalar.EqualWithinAbs(mi.CI[1], hi, 1e-9) {
+		t.Errorf("pooled r %v [%v, %v], closed form %v [%v, %v]", *mi.Estimate, mi.CI[0], mi.CI[1], rho, lo, hi)
 	}
 }
