@@ -304,3 +304,27 @@ func TestMissingData_PooledCorrelationFisherVariance(t *testing.T) {
 		t.Errorf("pooled r %v [%v, %v], closed form %v [%v, %v]", *mi.Estimate, mi.CI[0], mi.CI[1], rho, lo, hi)
 	}
 }
+
+// A claim of no effect weighed on the data is weighed both ways where the
+// data hold a likely code: as read (−99 counted as x's value) the estimate
+// does not tell, with −99 read as missing it is a significant effect
+// (the same data with "-99" declared, TestEffectReporting_LikelyCodeBothWays).
+func TestEffectReporting_AbsenceBothWays(t *testing.T) {
+	doc := fmt.Sprintf(`{"format_version": 1, "title": "t", "design": "observational",
+		"variables": [{"name": "x", "scale": "continuous"}, {"name": "y", "scale": "continuous"},
+		{"name": "z", "scale": "continuous"}],
+		"claims": [{"id": "A1", "text": "x does not go with y", "kind": "association", "from": "x", "to": "y",
+		"asserts_absence": true, "p_value": 0.4}], "missing_data": {"method": "complete_cases"},
+		"data": {"kind": "rows", "csv": %q}}`, codedRows())
+	s, err := load.Load([]byte(doc), load.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := mustRun(t, s)
+	f := reportingFinding(r, "A1 says there is no effect")
+	if f == nil || r.Claims[0].Absence == nil || r.Claims[0].Absence.Verdict == "effect_found" ||
+		!strings.Contains(f.Message, `With -99 in column "x" read as missing, the data give 0.49 (p < .001) instead, `+
+			`a significant effect, against "no effect".`) {
+		t.Errorf("absence %+v, finding %+v", r.Claims[0].Absence, f)
+	}
+}
