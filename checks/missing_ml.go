@@ -3,6 +3,7 @@ package checks
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/pathvet/pathvet/checks/effects"
 	"github.com/pathvet/pathvet/checks/missing"
@@ -37,12 +38,12 @@ func (a *Analysis) mlInference(c Claim, e est, r *missingResult) est {
 			"partial correlations only"))
 	}
 	if r.mlCovErr != nil {
-		return e.failed(fmt.Errorf(mlNoSEFormat, r.mlCovErr))
+		return e.failed(fmt.Errorf(mlNoSEFormat, strings.TrimPrefix(r.mlCovErr.Error(), "missing: ")))
 	}
 	y, x := a.Study.Index[c.To], append([]int{a.Study.Index[c.From]}, e.adjusted...)
 	_, se, err := missing.DeltaSE(r.em.Cov, r.mlCov, y, x, kind)
 	if err != nil {
-		return e.failed(fmt.Errorf(mlNoSEFormat, err))
+		return e.failed(fmt.Errorf(mlNoSEFormat, strings.TrimPrefix(err.Error(), "missing: ")))
 	}
 	q := effects.TQuantile(0.5+claimLevel(c)/2, effects.Normal)
 	e.se, e.df = se, effects.Normal

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"os"
 	"strings"
 	"testing"
@@ -111,4 +112,51 @@ func claimByID(r *checks.Report, id string) checks.ClaimReport {
 		}
 	}
 	return checks.ClaimReport{}
+}
+
+// Past the information's bound (more than 40 variables) the ML estimates
+// have no SE, say why, and the comparison that needs them says it could
+// not be made, never using a complete-data SE.
+func TestMissingData_MLStandardErrors_TooWide(t *testing.T) {
+	r := rand.New(rand.NewPCG(41, 1))
+	const p, n = 42, 120
+	var vars, head []string
+	for j := range p {
+		vars = append(vars, fmt.Sprintf(`{"name": "v%d", "scale": "continuous"}`, j))
+		head = append(head, fmt.Sprintf("v%d", j))
+	}
+	var b strings.Builder
+	b.WriteString(strings.Join(head, ",") + "\n")
+	for i := range n {
+		f := r.NormFloat64()
+		cells := make([]string, p)
+		for j := range p {
+			cells[j] = fmt.Sprintf("%.4f", 0.5*f+r.NormFloat64())
+		}
+		if i%5 == 0 {
+			cells[1] = ""
+		}
+		b.WriteString(strings.Join(cells, ",") + "\n")
+	}
+	doc := fmt.Sprintf(`{"format_version": 1, "title": "t", "design": "observational", "variables": [%s],
+		"claims": [{"id": "C1", "text": "v0 goes with v1", "kind": "association", "from": "v0", "to": "v1",
+		"estimate": 0.2, "p_value": 0.01}], "missing_data": {"method": "multiple_imputation"},
+		"data": {"kind": "rows", "csv": %q}}`, strings.Join(vars, ", "), b.String())
+	s, err := load.Load([]byte(doc), load.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep := mustRun(t, s)
+	ml := rep.Claims[0].MissingData["maximum_likelihood"]
+	if ml == nil || ml.StdError != nil || ml.PValue != nil ||
+		ml.Error != "no standard error: the observed information is too large to compute: 42 variables, past 40" {
+		t.Fatalf("ML estimate %+v", ml)
+	}
+	found := false
+	for _, f := range checkOf(rep, "missing-data").Findings {
+		found = found || f.Claim == "C1" && strings.Contains(f.Message, "could not be estimated by maximum likelihood")
+	}
+	if !found {
+		t.Errorf("findings %+v", checkOf(rep, "missing-data").Findings)
+	}
 }
