@@ -102,6 +102,8 @@ case("corr-not-positive-definite", "/data/correlations: is not positive definite
 case("corr-shape", "/data/correlations/2", False, setp(["data", "correlations", 2], [0.1, 0.4]))
 case("summary-variable-missing", "/variables/3/name", False, lambda d: d["data"].update(
     {"variables": ["a", "b", "c"], "correlations": [[1], [0.2, 1], [0.1, 0.4, 1]]}))
+case("summary-empty-matrix", "/data/correlations: has no rows", False, lambda d: d["data"].update(
+    {"variables": [], "correlations": []}), also=['/variables/0/name: "a" has no entry in /data/variables'])
 case("summary-sds-length", "/data/sds", False, setp(["data", "sds"], [1, 2]))
 case("summary-with-csv", "/data/csv", True, setp(["data", "csv"], rows))
 case("rows-without-data", "/data", False, lambda d: d.__setitem__("data", {"kind": "rows"}))
