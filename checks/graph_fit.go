@@ -120,7 +120,7 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	res.Summary = fitSummary(res.Status, mf.fit, tests, a.Alpha)
 	if tooFew != nil {
-		res.Summary = fmt.Sprintf(fitTooFewSummary, count(m.N, "case", "cases"), best) +
+		res.Summary = tooFewFitSummary(m.N, best) +
 			strings.TrimPrefix(res.Summary, "The declared graph fits the data only loosely: ")
 	}
 	return res, nil

@@ -40,11 +40,11 @@ const (
 	reportedOppositeFormat = "%s reports %s, a %s estimate, but %s give a %s one, %s, with %s: the data " +
 		"contradict the reported direction; ask how the reported figure was obtained."
 	codesMatchMissingFormat = "%s reports %s, which the data %s with %s read as missing: %s. With %s " +
-		"counted as real values, the data give %s instead. Declare %s in /data/missing_codes, so that every " +
-		"estimate reads %s as missing."
+		"counted as real values, the data give another figure: %s. Declare %s in /data/missing_codes, so that " +
+		"every estimate reads %s as missing."
 	codesMatchValuesFormat = "%s reports %s, which the data %s with %s counted as real values: %s. With %s " +
-		"read as missing, the data give %s instead: if %s, the reported figure appears to count %s as %s; " +
-		"ask the authors."
+		"read as missing, the data give another figure: %s. If %s, the reported figure appears to count %s as " +
+		"%s; ask the authors."
 	codesMatchNeitherFormat = "%s reports %s, but the data give %s with %s counted as real values, and %s with " +
 		"%s read as missing (both with %s); ask how the reported figure was obtained."
 )

@@ -82,7 +82,7 @@ func TestEffectReporting_LikelyCodeBothWays(t *testing.T) {
 			`Declare "-99" in /data/missing_codes`}},
 		{"matches the code counted as a value", raw, checks.StatusWarn, []string{
 			`which the data give with -99 in column "x" counted as real values`,
-			`if -99 is a missing code, the reported figure appears to count it as a measurement`}},
+			`If -99 is a missing code, the reported figure appears to count it as a measurement`}},
 	} {
 		r := codedPackage(t, *c.estimate.Estimate, c.estimate.CI[0], c.estimate.CI[1], "")
 		f := reportingFinding(r, "C1 reports")

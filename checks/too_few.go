@@ -24,15 +24,18 @@ const (
 
 // Sentences of the too-few-cases rule.
 const (
-	fitTooFewFormat = "With %s, %s cannot tell: %s would detect a missing arrow even of a large partial " +
-		"correlation (0.5; Cohen 1988) with probability at most %.2f at the %g level, so that the data do not " +
-		"contradict the graph says little about it."
+	fitTooFewFormat = "With %s, %s cannot tell: %s, so that the data do not contradict the graph says " +
+		"little about it."
+	fitPowerFormat = "%s would detect a missing arrow even of a large partial correlation (0.5; Cohen 1988) " +
+		"with probability at most %.2f at the %g level"
+	fitNoTest        = "so few cases leave no degrees of freedom for a test by Fisher's z (n − k − 3 < 1)"
 	tooFewSummary    = "With so few cases, the data can hardly tell the size or sign of %s; see the findings."
-	fitTooFewSummary = "With %s, the tests of the declared graph's implications have almost no power (at most " +
-		"%.2f against a large missing arrow): the fit test cannot tell whether the data contradict the graph. "
-	claimTooFewFormat = "With %s and %s adjusted for, the data can hardly tell %s's size or sign: a test of it " +
-		"would detect even a large effect (a partial correlation of 0.5; Cohen 1988) with probability %.2f at " +
-		"the %g level%s."
+	fitTooFewSummary = "With %s, the tests of the declared graph's implications have %s: the fit test cannot " +
+		"tell whether the data contradict the graph. "
+	claimTooFewFormat = "With %s and %s adjusted for, the data can hardly tell %s's size or sign: %s%s."
+	tooFewPowerFormat = "a test of it would detect even a large effect (a partial correlation of 0.5; Cohen 1988) " +
+		"with probability %.2f at the %g level"
+	tooFewNoTest   = "so few cases leave no degrees of freedom for a test of it by Fisher's z (n − k − 3 < 1)"
 	scoreCapFormat = "The score is capped at %d (moderate concern), from %d: with so few cases the tests cannot " +
 		"tell (%s), and a screen that cannot look does not look clean."
 )
@@ -79,6 +82,15 @@ func tooFewOnly(fs []Finding) (only bool, claims int) {
 	return only && claims > 0, claims
 }
 
+// tooFewFitSummary opens graph-fit's summary where its tests cannot tell.
+func tooFewFitSummary(n int, best float64) string {
+	power := fmt.Sprintf("almost no power (at most %.2f against a large missing arrow)", best)
+	if best == 0 {
+		power = "no degrees of freedom left (n − k − 3 < 1)"
+	}
+	return fmt.Sprintf(fitTooFewSummary, count(n, "case", "cases"), power)
+}
+
 // largeEffectPower is the power of the two-sided Fisher-z test at alpha of
 // a partial correlation given k variables, from n cases, to detect a
 // partial correlation of largeEffect (Cohen 1988, ch. 3):
@@ -112,8 +124,12 @@ func (a *Analysis) fitTooFew(tests []implicationTest, n int) (*Finding, float64)
 	if len(tests) == 1 {
 		which, each = "the test of the graph's one implied independence", "it"
 	}
+	how := fmt.Sprintf(fitPowerFormat, each, best, a.Alpha)
+	if best == 0 {
+		how = fitNoTest
+	}
 	return &Finding{Severity: StatusWarn, Message: fmt.Sprintf(fitTooFewFormat, count(n, "case", "cases"),
-		which, each, best, a.Alpha),
+		which, how),
 		Details: map[string]any{"power_large_effect": num(best), tooFewKey: true}}, best
 }
 
@@ -135,7 +151,11 @@ func (a *Analysis) claimTooFew(c Claim, e est) *Finding {
 	if !math.IsNaN(e.lo) && !math.IsNaN(e.hi) {
 		interval = fmt.Sprintf(" (recomputed %g%% interval %s to %s)", 100*claimLevel(c), figure(e.lo), figure(e.hi))
 	}
+	how := fmt.Sprintf(tooFewPowerFormat, pw, a.Alpha)
+	if pw == 0 {
+		how = tooFewNoTest
+	}
 	return &Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(claimTooFewFormat,
-		count(e.n, "case", "cases"), adj, c.ID, pw, a.Alpha, interval),
+		count(e.n, "case", "cases"), adj, c.ID, how, interval),
 		Details: map[string]any{"power_large_effect": num(pw), tooFewKey: true}}
 }

@@ -83,3 +83,26 @@ func TestTooFewCases_NotForEnoughCases(t *testing.T) {
 		}
 	}
 }
+
+// With four cases the implication given one variable has no degrees of
+// freedom left for Fisher's z (n − k − 3 = 0): the sentence says so rather
+// than quote a power of 0.
+func TestTooFewCases_NoTestAtAll(t *testing.T) {
+	doc := strings.Replace(fiveRows, `\n5,5.2,4.0\n`, `\n`, 1)
+	s, err := load.Load([]byte(doc), load.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := mustRun(t, s)
+	fit := checkOf(r, "graph-fit")
+	msg := ""
+	for _, f := range fit.Findings {
+		if f.Details["too_few_cases"] == true {
+			msg = f.Message
+		}
+	}
+	if !strings.Contains(msg, "With 4 cases, the test of the graph's one implied independence cannot tell: so few "+
+		"cases leave no degrees of freedom for a test by Fisher's z") || r.Score > checks.MaxScoreTooFewCases {
+		t.Errorf("graph-fit %s %q %+v; score %d", fit.Status, fit.Summary, fit.Findings, r.Score)
+	}
+}
