@@ -12,8 +12,8 @@ import (
 // Notes of the maximum-likelihood estimates (see mlInference).
 const (
 	mlNoteFormat = "point estimate from the EM mean and covariance of all %d rows; SE by the delta method " +
-		"from the observed information of the saturated normal model; %s under the normal, as full-information " +
-		"maximum likelihood gives them"
+		"from the observed information of the saturated normal model, as full-information maximum likelihood " +
+		"gives it; %s under the normal"
 	mlNoteCoefficient  = "p-value and interval"
 	mlNoteCorrelation  = "p-value and interval on Fisher's z scale (SE / (1 − r²))"
 	mlNotConvergedNote = "; EM stopped after %d steps without meeting its tolerance, so the information may " +
