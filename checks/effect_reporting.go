@@ -68,8 +68,8 @@ func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
 	case only: // the declared warning speaks of reporting, which is not at fault
 		res.Summary = fmt.Sprintf(tooFewSummary, map[bool]string{true: "the claim", false: "the claims"}[n == 1])
 	case n > 0:
-		res.Summary = effectReportingSummaries[res.Status] + " " +
-			strings.TrimSuffix(fmt.Sprintf(tooFewSummary, plural(n, "one claim", "some claims")), "; see the findings.") + "."
+		few := fmt.Sprintf(tooFewSummary, plural(n, "one claim", "some claims"))
+		res.Summary = effectReportingSummaries[res.Status] + " " + strings.TrimSuffix(few, "; see the findings.") + "."
 	}
 	return res, nil
 }
