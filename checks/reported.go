@@ -67,27 +67,36 @@ func (a *Analysis) reportedFinding(i int, c Claim, decl est) []Finding {
 		}
 		return []Finding{a.singleFinding(i, c, decl, asRead)}
 	}
-	recoded := a.standing(c, rec)
-	sev := StatusWarn
-	var msg string
+	if f := a.codesFinding(i, c, decl, rec, codes); f != nil {
+		return []Finding{*f}
+	}
+	return nil
+}
+
+// codesFinding holds claim i's reported estimate to both readings of the
+// likely codes, decl as the data are read and rec with the codes read as
+// missing, and says which reading it matches; nil where it matches both.
+func (a *Analysis) codesFinding(i int, c Claim, decl, rec est, codes []Suspect) *Finding {
+	asRead, recoded := a.standing(c, decl), a.standing(c, rec)
 	fa, fr := directed(recomputedFigure(c, decl), asRead), directed(recomputedFigure(c, rec), recoded)
+	f := &Finding{Severity: StatusWarn, Claim: c.ID}
 	switch ph := codesPhrases(codes); {
 	case !asRead.bad() && !recoded.bad():
 		return nil
 	case !recoded.bad():
-		sev, msg = SeverityInfo, fmt.Sprintf(codesMatchMissingFormat, c.ID, a.reportedFigure(i, c),
+		f.Severity, f.Message = SeverityInfo, fmt.Sprintf(codesMatchMissingFormat, c.ID, a.reportedFigure(i, c),
 			matchVerb(recoded), ph.codes, fr, ph.theCodes, fa, ph.declare, ph.pronoun)
 	case !asRead.bad():
-		msg = fmt.Sprintf(codesMatchValuesFormat, c.ID, a.reportedFigure(i, c), matchVerb(asRead), ph.codes, fa,
-			ph.theCodes, fr, ph.ifCodes, ph.pronoun, ph.measured)
+		f.Message = fmt.Sprintf(codesMatchValuesFormat, c.ID, a.reportedFigure(i, c), matchVerb(asRead), ph.codes,
+			fa, ph.theCodes, fr, ph.ifCodes, ph.pronoun, ph.measured)
 	default:
 		if asRead == standsOpposite || recoded == standsOpposite {
-			sev = headlineSeverity(c)
+			f.Severity = headlineSeverity(c)
 		}
-		msg = fmt.Sprintf(codesMatchNeitherFormat, c.ID, a.reportedFigure(i, c), fa, ph.codes, fr, ph.theCodes,
-			a.adjustmentName(c))
+		f.Message = fmt.Sprintf(codesMatchNeitherFormat, c.ID, a.reportedFigure(i, c), fa, ph.codes, fr,
+			ph.theCodes, a.adjustmentName(c))
 	}
-	return []Finding{{Severity: sev, Claim: c.ID, Message: msg}}
+	return f
 }
 
 // singleFinding is the finding of a reported estimate outside the
