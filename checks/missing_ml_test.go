@@ -160,3 +160,44 @@ func TestMissingData_MLStandardErrors_TooWide(t *testing.T) {
 		t.Errorf("findings %+v", checkOf(rep, "missing-data").Findings)
 	}
 }
+
+// The audit's case: a package that handles missing data by multiple
+// imputation, whose headline claim is not significant by it (p ≈ .07), is
+// not failed by a maximum-likelihood comparison whose SE treats the EM
+// moments as complete rows: x is missing in about half the rows (more
+// where z is high), so the complete-data SE on 200 rows is far too small;
+// the observed-information SE (TestMissingData_MLStandardErrors_Reference)
+// agrees with multiple imputation that the claim is not significant.
+func TestMissingData_MLAgreesWithImputationOnHeavyMissingness(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 17))
+	var b strings.Builder
+	b.WriteString("x,y,z\n")
+	for range 200 {
+		z := r.NormFloat64()
+		x := 0.6*z + 0.8*r.NormFloat64()
+		y := 0.12*x + 0.5*z + r.NormFloat64()
+		cell := fmt.Sprintf("%.4f", x)
+		if share := 0.25 + 0.5*math.Max(math.Copysign(1, z), 0); r.Float64() < share {
+			cell = ""
+		}
+		fmt.Fprintf(&b, "%s,%.4f,%.4f\n", cell, y, z)
+	}
+	doc := fmt.Sprintf(`{"format_version": 1, "title": "t", "design": "observational",
+		"variables": [{"name": "x", "scale": "continuous"}, {"name": "y", "scale": "continuous"},
+		{"name": "z", "scale": "continuous"}],
+		"graph": {"edges": [{"from": "z", "to": "x"}, {"from": "x", "to": "y"}, {"from": "z", "to": "y"}],
+		"fixed_edges": [{"from": "x", "to": "y"}]},
+		"claims": [{"id": "H1", "text": "x goes with y", "kind": "direct_effect", "from": "x", "to": "y",
+		"headline": true, "estimate": 0.1, "p_value": 0.1}], "missing_data": {"method": "multiple_imputation"},
+		"data": {"kind": "rows", "csv": %q}}`, b.String())
+	s, err := load.Load([]byte(doc), load.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep := mustRun(t, s)
+	md, c := rep.Claims[0].MissingData, checkOf(rep, "missing-data")
+	mi, ml := *md["multiple_imputation"].PValue, *md["maximum_likelihood"].PValue
+	if c.Status == checks.StatusFail || mi < 0.05 || ml < 0.05 || math.Abs(ml-mi) > 0.03 {
+		t.Errorf("missing-data %s: MI p %.3f, ML p %.3f (SE %v)", c.Status, mi, ml, *md["maximum_likelihood"].StdError)
+	}
+}
