@@ -27,7 +27,10 @@ func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 		sev, tail := SeverityInfo, ""
 		rejected := r.mcar.P < alpha
 		if rejected && (method == MissingCompleteCases || method == MissingAvailableCases || method == "") {
-			sev, tail = StatusWarn, littleRejectedTail
+			sev, tail = StatusWarn, fmt.Sprintf(littleRejectedTail, "")
+			if method == "" {
+				tail = fmt.Sprintf(littleRejectedTail, "if the paper analysed them, ")
+			}
 		}
 		verdict := "does not reject"
 		if rejected {
@@ -54,7 +57,7 @@ const (
 	// Missing Data, 2nd ed., sec. 3.2), which the test cannot tell.
 	littleRejectedTail = " That speaks against missing completely at random only: the complete or available " +
 		"cases are then no random subset of the rows, but a complete-case regression stays unbiased when the " +
-		"missingness depends on its predictors alone, which the test cannot tell; say why the analysis of " +
+		"missingness depends on its predictors alone, which the test cannot tell; %ssay why the analysis of " +
 		"complete or available cases holds, or re-analyse by multiple imputation or maximum likelihood."
 	littleFormat = "Little's test %s at the %g level that values are missing completely at random " +
 		"(χ² = %.2f on %d df, %s).%s"
