@@ -77,8 +77,12 @@ func WriteLetter(w io.Writer, r *checks.Report) error {
 	if r.ManuscriptID != "" {
 		fmt.Fprintf(&b, " (manuscript %s)", MarkdownText(r.ManuscriptID))
 	}
-	fmt.Fprintf(&b, "\n\nAn automated statistical screen (pathvet %s, %s) scored this submission %d of 100: %s.\n\n",
+	fmt.Fprintf(&b, "\n\nAn automated statistical screen (pathvet %s, %s) scored this submission %d of 100: %s.",
 		r.ToolVersion, r.GeneratedAt.UTC().Format("2 January 2006"), r.Score, bandWords(r.Band))
+	if r.ScoreCap != nil {
+		b.WriteString(" " + MarkdownText(r.ScoreCap.Reason))
+	}
+	b.WriteString("\n\n")
 	fmt.Fprintf(&b, "> %s\n\n", MarkdownText(r.Caution))
 	qs := Questions(r)
 	if len(qs) == 0 {
