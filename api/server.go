@@ -6,6 +6,7 @@ package api
 import (
 	"context"
 	"log/slog"
+	"net/netip"
 	"sync"
 	"time"
 
@@ -45,15 +46,22 @@ type Config struct {
 	Metrics      *Metrics
 	// Web is the web workspace's storage; without it the workspace's
 	// routes are not served. TLSProxy: the server sits behind a
-	// TLS-terminating proxy (Secure cookies; the client address from
-	// X-Forwarded-For). SessionTTL is how long a sign-in lasts.
+	// TLS-terminating proxy (Secure cookies). SessionTTL is how long a
+	// sign-in lasts.
 	Web        WebStore
 	TLSProxy   bool
 	SessionTTL time.Duration
+	// TrustedProxies are the proxies whose X-Forwarded-For entries are
+	// believed (clientAddress); from any other peer the header is ignored.
+	TrustedProxies []netip.Prefix
 	// LargeIngests is how many uploads of LargeIngestBytes or more may be
 	// read at once (default 1); each can hold several times its size in
 	// memory while it is read, checked and stored.
 	LargeIngests int
+	// Egress checks webhook URLs as they are set (the allow-list of
+	// networks and hosts otherwise refused); nil refuses every address of a
+	// refused class.
+	Egress *service.Egress
 	// JobMemory is the memory one screening job may use on a worker; raw
 	// data whose estimated working memory is larger is refused (422) at
 	// ingest. 0 checks nothing.
@@ -96,6 +104,9 @@ func New(cfg Config) *Server {
 	}
 	if cfg.LargeIngests <= 0 {
 		cfg.LargeIngests = 1
+	}
+	if cfg.Egress == nil {
+		cfg.Egress = &service.Egress{}
 	}
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()

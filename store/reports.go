@@ -13,34 +13,54 @@ import (
 )
 
 // Claim marks a submission running for one more attempt and returns its
-// package and data. A submission deleted meanwhile is not found.
+// package and data. A submission deleted meanwhile, or one that already
+// ended (a job run again after the transaction that ended it committed),
+// is not found: the job has nothing left to do.
 func (db *DB) Claim(ctx context.Context, id string) (pkg, data []byte, err error) {
 	err = db.Pool.QueryRow(ctx, `UPDATE submissions SET status = 'running', attempts = attempts + 1, updated_at = $2,
-		`+clearProgress+` WHERE id = $1 RETURNING package, data`, id, db.now()).Scan(&pkg, &data)
+		`+clearProgress+` WHERE id = $1 AND status IN ('queued', 'running') RETURNING package, data`, id, db.now()).
+		Scan(&pkg, &data)
 	return pkg, data, dbError(err, "submission")
 }
 
-// SaveReport stores a report and marks the submission done.
+// SaveReport stores a report and marks the submission done, queueing its
+// webhook delivery, in one transaction.
 func (db *DB) SaveReport(ctx context.Context, id string, rep *checks.Report, took time.Duration) error {
+	return db.finishWith(ctx, id, rep, took, func(pgx.Tx) error { return nil })
+}
+
+// finishWith is SaveReport with more work in its transaction: the worker
+// completes the job there, so that the report, its webhook delivery and
+// the job's completion commit together or not at all.
+func (db *DB) finishWith(ctx context.Context, id string, rep *checks.Report, took time.Duration,
+	also func(pgx.Tx) error) error {
 	b, err := json.Marshal(rep)
 	if err != nil {
 		return err
 	}
-	now := db.now()
 	err = pgx.BeginTxFunc(ctx, db.Pool, pgx.TxOptions{}, func(tx pgx.Tx) error {
-		if _, err := tx.Exec(ctx, `INSERT INTO reports (submission_id, report, score, band, tool_version,
-			duration_ms, created_at) VALUES ($1, $2, $3, $4, $5, $6, $7)`,
-			id, string(b), rep.Score, rep.Band, rep.ToolVersion, took.Milliseconds(), now); err != nil {
+		if err := db.saveReport(ctx, tx, id, rep, b, took); err != nil {
 			return err
 		}
-		_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2, `+clearProgress+`,
-			latest_score = $3, latest_band = $4, report_count = report_count + 1 WHERE id = $1`, id, now, rep.Score, rep.Band)
-		if err != nil {
-			return err
-		}
-		return db.notify(ctx, tx, id)
+		return also(tx)
 	})
 	return dbError(err, "report")
+}
+
+func (db *DB) saveReport(ctx context.Context, tx pgx.Tx, id string, rep *checks.Report, b []byte,
+	took time.Duration) error {
+	now := db.now()
+	if _, err := tx.Exec(ctx, `INSERT INTO reports (submission_id, report, score, band, tool_version,
+		duration_ms, created_at) VALUES ($1, $2, $3, $4, $5, $6, $7)`,
+		id, string(b), rep.Score, rep.Band, rep.ToolVersion, took.Milliseconds(), now); err != nil {
+		return err
+	}
+	_, err := tx.Exec(ctx, `UPDATE submissions SET status = 'done', error = '', updated_at = $2, `+clearProgress+`,
+		latest_score = $3, latest_band = $4, report_count = report_count + 1 WHERE id = $1`, id, now, rep.Score, rep.Band)
+	if err != nil {
+		return err
+	}
+	return db.notify(ctx, tx, id)
 }
 
 // MarkFailed records that screening a submission failed for good, with
