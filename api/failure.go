@@ -42,8 +42,8 @@ var failures = []struct {
 			"more memory.",
 		Short: "the worker stopped before it finished; screen it again"}},
 	{"invalid package", failure{
-		What: "The stored package did not pass the package checks when the worker read it.",
-		Todo: "Correct the problems listed below and send the package again as a new submission.",
+		What:  "The stored package did not pass the package checks when the worker read it.",
+		Todo:  "Correct the problems listed below and send the package again as a new submission.",
 		Short: "the stored package did not pass the package checks"}},
 	{"internal error", failure{
 		What: "pathvet met an internal error while screening it.",
