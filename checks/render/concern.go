@@ -26,8 +26,8 @@ type Concern struct {
 
 // LedgerLine is one check's deduction.
 type LedgerLine struct {
-	ID, Title, Verdict string
-	Off                int
+	ID, Title, Status, Verdict string
+	Off                        int
 }
 
 // concernOf states a report's concern in words.
@@ -44,7 +44,8 @@ func concernOf(r *checks.Report) Concern {
 			rest = append(rest, ch)
 			continue
 		}
-		c.Lines = append(c.Lines, LedgerLine{ID: ch.ID, Title: ch.Title, Verdict: verdict(ch.Status), Off: ch.Deduction})
+		c.Lines = append(c.Lines, LedgerLine{ID: ch.ID, Title: ch.Title, Status: ch.Status,
+			Verdict: verdict(ch.Status), Off: ch.Deduction})
 	}
 	sort.SliceStable(c.Lines, func(i, j int) bool { return c.Lines[i].Off > c.Lines[j].Off })
 	c.Gist = verdictTally(r.Checks) + "; " + pointsOff(c.Off, r.Score) + "."

@@ -61,6 +61,7 @@ type checkView struct {
 type findingView struct {
 	checks.Finding
 	Group, Lead string
+	Question    int // the question for the authors made from it, or 0
 }
 
 // findingLead is the word before a finding on the page.
@@ -92,13 +93,17 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
 			SVG: StabilityChart(c, r.SignificanceLevel, r.Graph)})
 	}
+	asked := map[questionSource]int{}
+	for _, q := range v.Questions {
+		asked[q.from] = q.N
+	}
 	for _, c := range ByConcern(r.Checks) {
 		c.Summary, c.RunError = Prose(c.Summary), Prose(c.RunError)
 		cv := checkView{CheckResult: c, Verdict: verdict(c.Status)}
-		for _, f := range c.Findings {
+		for i, f := range c.Findings {
 			f.Message = Prose(f.Message)
 			cv.Findings = append(cv.Findings, findingView{Finding: f, Group: findingGroup(f.Severity),
-				Lead: findingLead[findingGroup(f.Severity)]})
+				Lead: findingLead[findingGroup(f.Severity)], Question: asked[questionSource{c.ID, i}]})
 		}
 		v.Checks = append(v.Checks, cv)
 	}
