@@ -63,6 +63,7 @@ func checkReport(t *testing.T, ctx context.Context, f *browserFixture) {
 	checkDrawingText(t, ctx, "submission at 1280 px", false)
 	checkCSP(t, ctx, "submission page")
 	screenshot(t, ctx, "submission-1280.png")
+	viewShot(t, ctx, ".masthead", "concern-1280.png")
 	viewShot(t, ctx, "#claims", "claims-and-graph-1280.png")
 }
 

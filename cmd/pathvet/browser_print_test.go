@@ -140,20 +140,29 @@ func claimsStayATable(t *testing.T, ctx context.Context, what string) {
 }
 
 // TestBrowser_PrintOffline prints each demo's offline page (pathvet check
-// --format html) in headless Chromium.
+// --format html) in headless Chromium, and shows the calibration package
+// whose headline arrow a graph one edit away removes (the README's
+// picture of a drawn edit).
 func TestBrowser_PrintOffline(t *testing.T) {
 	ctx := newBrowser(t)
 	dir := t.TempDir()
 	for _, demo := range []string{"tutoring-anxiety", "coding-club", "sleep-attention"} {
-		out := filepath.Join(dir, demo+".html")
-		if code, _, errOut := runCLI("check", "--format", "html", "--out", out,
-			"../../testdata/demo/"+demo+"/package.json"); code != exitOK {
-			t.Fatalf("%s: exit %d: %s", demo, code, errOut)
-		}
-		do(t, ctx, chromedp.EmulateViewport(1280, 1000), chromedp.Navigate("file://"+out))
+		openOffline(t, ctx, dir, "../../testdata/demo/"+demo+"/package.json")
 		claimsStayATable(t, ctx, demo)
 		checkPrint(t, ctx, demo+" (offline page)", fmt.Sprintf("offline-%s.pdf", demo))
 	}
+	openOffline(t, ctx, dir, "../../testdata/calibration/nearby-headline/package.json")
+	viewShot(t, ctx, ".nearbygraphs", "nearby-1280.png")
+}
+
+// openOffline writes a package's offline page and opens it at 1280 px.
+func openOffline(t *testing.T, ctx context.Context, dir, pkg string) {
+	t.Helper()
+	out := filepath.Join(dir, filepath.Base(filepath.Dir(pkg))+".html")
+	if code, _, errOut := runCLI("check", "--format", "html", "--out", out, pkg); code != exitOK {
+		t.Fatalf("%s: exit %d: %s", pkg, code, errOut)
+	}
+	do(t, ctx, chromedp.EmulateViewport(1280, 1000), chromedp.Navigate("file://"+out))
 }
 
 // checkWorkspacePrint prints each demo's workspace page, the tutoring
