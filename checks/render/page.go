@@ -93,11 +93,19 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
 			SVG: StabilityChart(c, r.SignificanceLevel, r.Graph)})
 	}
+	v.Checks = checkViews(r.Checks, v.Questions)
+	return v, nil
+}
+
+// checkViews are the checks worst first, each finding with its group and
+// lead word and the number of the question made from it.
+func checkViews(cs []checks.CheckResult, qs []Question) []checkView {
 	asked := map[questionSource]int{}
-	for _, q := range v.Questions {
+	for _, q := range qs {
 		asked[q.from] = q.N
 	}
-	for _, c := range ByConcern(r.Checks) {
+	var out []checkView
+	for _, c := range ByConcern(cs) {
 		c.Summary, c.RunError = Prose(c.Summary), Prose(c.RunError)
 		cv := checkView{CheckResult: c, Verdict: verdict(c.Status)}
 		for i, f := range c.Findings {
@@ -105,9 +113,9 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 			cv.Findings = append(cv.Findings, findingView{Finding: f, Group: findingGroup(f.Severity),
 				Lead: findingLead[findingGroup(f.Severity)], Question: asked[questionSource{c.ID, i}]})
 		}
-		v.Checks = append(v.Checks, cv)
+		out = append(out, cv)
 	}
-	return v, nil
+	return out
 }
 
 // shellView is a page of the workspace in the project's frame.

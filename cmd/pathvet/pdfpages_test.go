@@ -136,68 +136,69 @@ func (m matrix) times(n matrix) matrix {
 		m[4]*n[0] + m[5]*n[2] + n[4], m[4]*n[1] + m[5]*n[3] + n[5]}
 }
 
+// textState is the part of a content stream's state the text runs need:
+// the transformation, the text matrices and the font, and the q stack.
+type textState struct {
+	ctm, tm, tlm matrix
+	font         string
+	stack        []savedState // q saves the transformation and the font, Q restores them
+	fonts        map[string]string
+	runs         []textRun
+}
+
+type savedState struct {
+	ctm  matrix
+	font string
+}
+
 // textRuns runs a content stream's graphics and text state and returns
 // where each text-showing operator puts its text.
 func textRuns(data []byte, fonts map[string]string) []textRun {
-	var runs []textRun
-	ctm, tm, tlm := identity, identity, identity
-	type saved struct {
-		ctm  matrix
-		font string
-	}
-	var stack []saved // q saves the transformation and the text state's font, Q restores them
+	st := &textState{ctm: identity, tm: identity, tlm: identity, fonts: fonts}
 	var nums []float64
-	var name, font string
+	var name string
 	for _, tok := range pdfTokens(data) {
 		switch {
 		case tok.num:
 			nums = append(nums, tok.val)
-			continue
 		case tok.name:
 			name = tok.text
-			continue
-		case tok.operand:
-			continue
+		case !tok.operand:
+			st.apply(tok.text, nums, name)
+			nums = nums[:0]
 		}
-		six := func() (matrix, bool) {
-			if len(nums) < 6 {
-				return matrix{}, false
-			}
-			var m matrix
-			copy(m[:], nums[len(nums)-6:])
-			return m, true
-		}
-		switch tok.text {
-		case "q":
-			stack = append(stack, saved{ctm, font})
-		case "Q":
-			if len(stack) > 0 {
-				ctm, font, stack = stack[len(stack)-1].ctm, stack[len(stack)-1].font, stack[:len(stack)-1]
-			}
-		case "cm":
-			if m, ok := six(); ok {
-				ctm = m.times(ctm)
-			}
-		case "BT":
-			tm, tlm = identity, identity
-		case "Tm":
-			if m, ok := six(); ok {
-				tm, tlm = m, m
-			}
-		case "Td", "TD":
-			if len(nums) >= 2 {
-				tlm = matrix{1, 0, 0, 1, nums[len(nums)-2], nums[len(nums)-1]}.times(tlm)
-				tm = tlm
-			}
-		case "Tf":
-			font = fonts[name]
-		case "Tj", "TJ", "'", "\"":
-			at := tm.times(ctm)
-			runs = append(runs, textRun{X: at[4], Y: at[5], Font: font})
-		}
-		nums = nums[:0]
 	}
-	return runs
+	return st.runs
+}
+
+// apply runs one operator with its numeric operands and the last name.
+func (s *textState) apply(op string, nums []float64, name string) {
+	var m matrix
+	six := len(nums) >= 6
+	if six {
+		copy(m[:], nums[len(nums)-6:])
+	}
+	switch {
+	case op == "q":
+		s.stack = append(s.stack, savedState{s.ctm, s.font})
+	case op == "Q" && len(s.stack) > 0:
+		last := s.stack[len(s.stack)-1]
+		s.ctm, s.font, s.stack = last.ctm, last.font, s.stack[:len(s.stack)-1]
+	case op == "cm" && six:
+		s.ctm = m.times(s.ctm)
+	case op == "BT":
+		s.tm, s.tlm = identity, identity
+	case op == "Tm" && six:
+		s.tm, s.tlm = m, m
+	case (op == "Td" || op == "TD") && len(nums) >= 2:
+		s.tlm = matrix{1, 0, 0, 1, nums[len(nums)-2], nums[len(nums)-1]}.times(s.tlm)
+		s.tm = s.tlm
+	case op == "Tf":
+		s.font = s.fonts[name]
+	case op == "Tj" || op == "TJ" || op == "'" || op == "\"":
+		at := s.tm.times(s.ctm)
+		s.runs = append(s.runs, textRun{X: at[4], Y: at[5], Font: s.font})
+	}
 }
 
 type pdfToken struct {
