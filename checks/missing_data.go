@@ -49,7 +49,7 @@ type missingResult struct {
 	mcar    *missing.MCARTest
 	// mlCov is the covariance of EM's (μ̂, vech Σ̂), the inverse of the
 	// observed information; mlCovErr why it could not be had.
-	mlCov    *mat.SymDense
+	mlCov    *missing.Covariance
 	mlCovErr error
 	// moments by method key: complete_cases, maximum_likelihood, the
 	// declared single imputation; and one per imputed dataset.

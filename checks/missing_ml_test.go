@@ -114,12 +114,12 @@ func claimByID(r *checks.Report, id string) checks.ClaimReport {
 	return checks.ClaimReport{}
 }
 
-// Past the information's bound (more than 40 variables) the ML estimates
+// Past the information's bound (more than 45 variables) the ML estimates
 // have no SE, say why, and the comparison that needs them says it could
 // not be made, never using a complete-data SE.
 func TestMissingData_MLStandardErrors_TooWide(t *testing.T) {
 	r := rand.New(rand.NewPCG(41, 1))
-	const p, n = 42, 120
+	const p, n = 47, 120
 	var vars, head []string
 	for j := range p {
 		vars = append(vars, fmt.Sprintf(`{"name": "v%d", "scale": "continuous"}`, j))
@@ -149,7 +149,7 @@ func TestMissingData_MLStandardErrors_TooWide(t *testing.T) {
 	rep := mustRun(t, s)
 	ml := rep.Claims[0].MissingData["maximum_likelihood"]
 	if ml == nil || ml.StdError != nil || ml.PValue != nil ||
-		ml.Error != "no standard error: the observed information is too large to compute: 42 variables, past 40" {
+		ml.Error != "no standard error: the observed information is too large to compute: 47 variables, past 45" {
 		t.Fatalf("ML estimate %+v", ml)
 	}
 	found := false

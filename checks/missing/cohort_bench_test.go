@@ -76,3 +76,20 @@ func cohortMissing(b *testing.B, impute func(cols [][]float64, em *EMResult) err
 		}
 	}
 }
+
+// BenchmarkCohortInformation is the ML estimates' covariance from the
+// observed information (EstimateCovariance) at the EM estimate, EM run
+// once before the timing.
+func BenchmarkCohortInformation(b *testing.B) {
+	cols := cohort(b)
+	em, err := EM(context.Background(), cols, Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := EstimateCovariance(context.Background(), cols, em); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

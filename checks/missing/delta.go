@@ -2,7 +2,9 @@ package missing
 
 import (
 	"errors"
+	"maps"
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -28,13 +30,14 @@ const (
 //	SE² = ∇gᵀ V ∇g,
 //
 // with V = acov the covariance of the estimates (μ̂, vech Σ̂), indexed as
-// CovParam does (EstimateCovariance). The gradients, with W = Σ_xx⁻¹, w
+// CovParam does (EstimateCovariance), the form taken by a triangular
+// solve (Covariance.Quadratic). The gradients, with W = Σ_xx⁻¹, w
 // its row for x[0] and dΣ⁻¹ = −Σ⁻¹ dΣ Σ⁻¹:
 //
 //	∂β₀/∂σ_{x_a y} = w_a,  ∂β₀/∂σ_{x_a x_b} = −(w_a β_b + w_b β_a)  (a ≠ b; −w_a β_a for a = b)
 //	standardized: (σ₀/σ_y) ∂β₀, plus β₀/(2 σ₀ σ_y) on σ_00 and −β₀ σ₀/(2 σ_y³) on σ_yy
 //	partial: dr = −dP_0y / s + P_0y (dP_00 P_yy + P_00 dP_yy) / (2 s³),  s = sqrt(P_00 P_yy)
-func DeltaSE(sigma, acov *mat.SymDense, y int, x []int, kind Coefficient) (value, se float64, err error) {
+func DeltaSE(sigma *mat.SymDense, acov *Covariance, y int, x []int, kind Coefficient) (value, se float64, err error) {
 	var grad map[int]float64
 	switch kind {
 	case PartialCorrelation:
@@ -45,12 +48,12 @@ func DeltaSE(sigma, acov *mat.SymDense, y int, x []int, kind Coefficient) (value
 	if err != nil {
 		return math.NaN(), math.NaN(), err
 	}
-	v := 0.0
-	for a, ga := range grad {
-		for b, gb := range grad {
-			v += ga * acov.At(a, b) * gb
-		}
+	idx := slices.Sorted(maps.Keys(grad))
+	g := make([]float64, len(idx))
+	for k, i := range idx {
+		g[k] = grad[i]
 	}
+	v := acov.Quadratic(idx, g)
 	if !(v >= 0) {
 		return value, math.NaN(), errors.New("missing: the delta-method variance is not positive")
 	}
