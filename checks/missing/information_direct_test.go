@@ -49,7 +49,8 @@ func directInformation(tb testing.TB, cols [][]float64, em *EMResult) *mat.SymDe
 						if CovParam(p, obs[k], obs[l]) > CovParam(p, obs[i], obs[j]) {
 							continue
 						}
-						t := a.At(i, k)*c.At(j, l) + a.At(i, l)*c.At(j, k) + a.At(j, k)*c.At(i, l) + a.At(j, l)*c.At(i, k)
+						t := a.At(i, k)*c.At(j, l) + a.At(i, l)*c.At(j, k) +
+							a.At(j, k)*c.At(i, l) + a.At(j, l)*c.At(i, k)
 						add(CovParam(p, obs[i], obs[j]), CovParam(p, obs[k], obs[l]), w(i, j)*w(k, l)*t)
 					}
 				}
