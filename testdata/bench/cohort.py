@@ -8,6 +8,8 @@ Usage: cohort.py write DIR CASE [ROWS]  -- DIR/package.json, DIR/rows.csv
            in 5 columns (32 patterns); "cells": 10% of all cells missing
            completely at random (nearly every row its own pattern)
        cohort.py em DIR                 -- prints "numpy_em SECONDS ITERATIONS"
+       cohort.py compare A.json B.json  -- how many numbers two reports hold and
+           the largest relative difference between them (generated_at aside)
 """
 import io
 import json
@@ -108,10 +110,34 @@ def time_em(out):
     print(f"numpy_em {time.perf_counter() - start:.4f} {it}")
 
 
+def compare(a, b):
+    worst, count = [0.0, "-"], [0]
+
+    def walk(x, y, path):
+        if isinstance(x, dict) and isinstance(y, dict) and x.keys() == y.keys():
+            for k in x:
+                walk(x[k], y[k], f"{path}/{k}")
+        elif isinstance(x, list) and isinstance(y, list) and len(x) == len(y):
+            for i, (u, v) in enumerate(zip(x, y)):
+                walk(u, v, f"{path}/{i}")
+        elif isinstance(x, float) and isinstance(y, (int, float)) or isinstance(y, float) and isinstance(x, int):
+            count[0] += 1
+            d = abs(x - y) / max(abs(x), abs(y), 1e-300)
+            if d > worst[0]:
+                worst[:] = [d, path]
+        elif x != y and path != "/generated_at":
+            raise SystemExit(f"reports differ at {path}: {str(x)[:80]!r} against {str(y)[:80]!r}")
+
+    walk(json.load(open(a)), json.load(open(b)), "")
+    print(f"reports agree: {count[0]} numbers, largest relative difference {worst[0]:.3g} at {worst[1]}")
+
+
 if __name__ == "__main__":
     if sys.argv[1] == "write":
         write(sys.argv[2], sys.argv[3], int(sys.argv[4]) if len(sys.argv) > 4 else 100_000)
     elif sys.argv[1] == "em":
         time_em(sys.argv[2])
+    elif sys.argv[1] == "compare":
+        compare(sys.argv[2], sys.argv[3])
     else:
         raise SystemExit(__doc__)

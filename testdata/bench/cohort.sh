@@ -7,14 +7,17 @@
 #   (b) pathvet's EM alone,
 #   (c) pathvet's EM + Little's test + multiple imputation (m = 20),
 #   (d) the whole `pathvet check` of the package,
+#   (e) the ML standard errors' observed information and its factor, EM
+#       run before the timing,
 # each as its own process under /usr/bin/time -v (peak memory). (a)-(c)
-# print the time of the computation alone (data already in memory); the
-# wall time of the process includes reading the CSV.
-# With BASE=<git revision>, it also times (b) and (c) of that revision on
-# the "cells" data (its own BenchmarkEM/MI shapes at 100,000 × 30) beside
-# this tree's, to show the change.
+# and (e) print the time of the computation alone (data already in
+# memory); the wall time of the process includes reading the CSV.
+# With BASE=<git revision>, it also runs (d) with that revision's pathvet
+# beside this tree's, and the benchmarks BASE_BENCH (default: BenchmarkEM
+# and BenchmarkMI at 100,000 × 30, 10% of the cells missing) of both
+# trees, to show the change.
 # Needs Debian's python3-numpy (/usr/bin/python3).
-# Usage: [CASES="patterns cells"] [BASE=REV] bash testdata/bench/cohort.sh [ROWS]
+# Usage: [CASES="patterns cells"] [BASE=REV [BASE_BENCH=REGEXP]] bash testdata/bench/cohort.sh [ROWS]
 #        (from the repository root)
 set -euo pipefail
 cd "$(dirname "$0")/../.."
@@ -24,6 +27,11 @@ trap 'rm -rf "$dir"' EXIT
 py=/usr/bin/python3
 go build -o "$dir/pathvet" ./cmd/pathvet
 go test -c -o "$dir/missing.test" ./checks/missing
+if [ -n "${BASE:-}" ]; then
+  mkdir -p "$dir/base"
+  git archive "$BASE" | tar -x -C "$dir/base"
+  (cd "$dir/base" && go build -o "$dir/pathvet-base" ./cmd/pathvet)
+fi
 
 # measure NAME COMMAND...: prints NAME, the computation's own seconds (from
 # the command's output, when it prints them), the process's wall and CPU
@@ -51,14 +59,18 @@ for case in ${CASES:-patterns cells}; do
   measure "(b) pathvet EM" "$dir/missing.test" -test.run XXX -test.bench '^BenchmarkCohortEM$' -test.benchtime 1x
   measure "(c) EM + Little + MI (m = 20)" "$dir/missing.test" -test.run XXX -test.bench '^BenchmarkCohortMissing$' -test.benchtime 1x
   measure "(d) pathvet check" "$dir/pathvet" check --quiet --format json --out "$dir/report.json" "$dir/$case/package.json"
+  if [ -n "${BASE:-}" ]; then
+    measure "(d) pathvet check, $BASE" "$dir/pathvet-base" check --quiet --format json \
+      --out "$dir/report-base.json" "$dir/$case/package.json"
+    echo "$case      $($py testdata/bench/cohort.py compare "$dir/report-base.json" "$dir/report.json")"
+  fi
+  measure "(e) ML information" "$dir/missing.test" -test.run XXX -test.bench '^BenchmarkCohortInformation$' -test.benchtime 1x
 done
 
 if [ -n "${BASE:-}" ]; then
-  mkdir -p "$dir/base"
-  git archive "$BASE" | tar -x -C "$dir/base"
   for tree in "$dir/base" .; do
     label=$([ "$tree" = . ] && echo "this tree" || echo "$BASE")
-    (cd "$tree" && go test ./checks/missing -run XXX -bench '^Benchmark(EM|MI)$/n=100000/p=30' -benchtime 1x) |
+    (cd "$tree" && go test ./checks/missing -run XXX -bench "${BASE_BENCH:-^Benchmark(EM|MI)$/n=100000/p=30}" -benchtime 1x) |
       awk -v l="$label" '/^Benchmark/ {printf "%-40s %-12s %8.2f s\n", $1, l, $3 / 1e9}'
   done
 fi
