@@ -11,6 +11,7 @@ import (
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/store"
 )
 
 // Config is the configuration of the server and workers: built here from
@@ -44,8 +45,11 @@ type Config struct {
 	// webhook may reach although they are loopback, private, link-local
 	// and so on (service.ParseAllow reads it).
 	WebhookAllow string
-	// checks replaces the pipeline the workers run (tests only).
-	checks []checks.Check
+	// checks replaces the pipeline the workers run, and wrapScreen, when
+	// set, wraps their screening, to watch what an attempt does (tests
+	// only).
+	checks     []checks.Check
+	wrapScreen func(store.ScreenFunc) store.ScreenFunc
 }
 
 // defaultConfig reads PATHVET_* variables over the defaults.

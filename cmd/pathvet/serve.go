@@ -35,8 +35,14 @@ type Main struct {
 }
 
 // screenFunc is the job the workers run: load the stored package and run
-// the pipeline on it, passing its progress on.
+// the pipeline on it, passing its progress on (wrapped by cfg.wrapScreen
+// when a test set it).
 func screenFunc(cfg Config) store.ScreenFunc {
+	if cfg.wrapScreen != nil {
+		wrap := cfg.wrapScreen
+		cfg.wrapScreen = nil
+		return wrap(screenFunc(cfg))
+	}
 	return func(ctx context.Context, pkg, data []byte, progress store.ProgressFunc) (*checks.Report, error) {
 		if err := service.CheckMemory(data, cfg.JobMemoryMiB<<20); err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
