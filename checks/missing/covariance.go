@@ -48,16 +48,6 @@ func (c *Covariance) Quadratic(idx []int, g []float64) float64 {
 	return floats.Dot(z, z)
 }
 
-// At is V_ij, the covariance of parameters i and j: z_iᵀ z_j with Uᵀ z_i = e_i.
-func (c *Covariance) At(i, j int) float64 {
-	fi, zi := c.solve([]int{i}, []float64{1})
-	fj, zj := c.solve([]int{j}, []float64{1})
-	if fi < fj {
-		fi, zi, fj, zj = fj, zj, fi, zi
-	}
-	return floats.Dot(zi, zj[fi-fj:])
-}
-
 // solve is z of Uᵀ z = g (g as in Quadratic) from the first parameter g
 // touches, the entries of z before it being zero.
 func (c *Covariance) solve(idx []int, g []float64) (first int, z []float64) {
