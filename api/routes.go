@@ -5,6 +5,8 @@ import (
 
 	"github.com/labstack/echo/v4"
 	"github.com/labstack/echo/v4/middleware"
+
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 // routes registers every route of the API, in one place.
@@ -58,6 +60,14 @@ func (s *Server) webRoutes() {
 	e.GET("/submissions/:id/letter.md", s.webLetter, signedIn...)
 	e.POST("/submissions/:id/rerun", s.webRerun, signedIn...)
 	e.POST("/submissions/:id/delete", s.webDelete, signedIn...)
+	e.GET("/submissions/:id/package.json", s.webPackage, signedIn...)
+	// The new-screening form takes an upload as large as the API does.
+	form := []echo.MiddlewareFunc{s.webPage, s.limitLargeIngests,
+		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}),
+		s.withSession, s.csrf, requireSession}
+	e.GET("/submissions/new", s.newScreening, signedIn...)
+	e.POST("/submissions/new", s.postScreening, form...)
+	e.GET(render.ScreeningScriptPath, s.screeningScript, s.webPage)
 }
 
 func (s *Server) healthz(c echo.Context) error {
