@@ -40,7 +40,7 @@ func (f *fakeStore) DeleteSubmission(context.Context, string, service.Scope) err
 func (f *fakeStore) Rerun(context.Context, string, service.Scope) (*service.Submission, error) {
 	return nil, f.err
 }
-func (f *fakeStore) LatestReport(context.Context, string, service.Scope) ([]byte, error) {
+func (f *fakeStore) LatestReport(context.Context, string, service.Scope, int64) (*service.StoredReport, error) {
 	return nil, f.err
 }
 

@@ -25,7 +25,7 @@ type Store interface {
 	Submissions(ctx context.Context, f service.Filter) ([]*service.Submission, string, error)
 	DeleteSubmission(ctx context.Context, id string, sc service.Scope) error
 	Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
-	LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error)
+	LatestReport(ctx context.Context, id string, sc service.Scope, have int64) (*service.StoredReport, error)
 	SetWebhook(ctx context.Context, officeID int64, url string) (*service.Webhook, error)
 	Webhook(ctx context.Context, officeID int64) (*service.Webhook, error)
 	DeleteWebhook(ctx context.Context, officeID int64) error

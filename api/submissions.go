@@ -3,7 +3,6 @@ package api
 import (
 	"encoding/json"
 	"fmt"
-	"io"
 	"net/http"
 	"strconv"
 	"time"
@@ -13,7 +12,6 @@ import (
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
-	"github.com/pathvet/pathvet/checks/render"
 )
 
 // SubmissionView is a submission as the API shows it.
@@ -242,31 +240,4 @@ func (s *Server) rerunSubmission(c echo.Context) error {
 		return err
 	}
 	return c.JSON(http.StatusAccepted, view(sub))
-}
-
-// getReport serves the newest report: JSON by default, the text view with
-// ?format=text, the HTML view with ?format=html.
-func (s *Server) getReport(c echo.Context) error {
-	b, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
-	if err != nil {
-		return err
-	}
-	format := c.QueryParam("format")
-	if format == "" || format == "json" {
-		return c.JSONBlob(http.StatusOK, b)
-	}
-	write, ok := map[string]struct {
-		ctype string
-		fn    func(io.Writer, *checks.Report) error
-	}{"text": {echo.MIMETextPlainCharsetUTF8, render.WriteText}, "html": {echo.MIMETextHTMLCharsetUTF8, writeHTML}}[format]
-	if !ok {
-		return problemError(http.StatusBadRequest, "format must be json, text or html.")
-	}
-	var rep checks.Report
-	if err := json.Unmarshal(b, &rep); err != nil {
-		return err
-	}
-	c.Response().Header().Set(echo.HeaderContentType, write.ctype)
-	c.Response().WriteHeader(http.StatusOK)
-	return write.fn(c.Response(), &rep)
 }

@@ -24,3 +24,24 @@ func PostWebhook(db *DB, e *service.Egress, target string, timeout time.Duration
 	}
 	return code, deliveryFailure(err)
 }
+
+// CacheHits counts the lookups the read cache answered.
+func CacheHits(db *DB) int {
+	db.cache.mu.Lock()
+	defer db.cache.mu.Unlock()
+	return db.cache.hits
+}
+
+// CacheListening reports whether the read cache listens (and so serves
+// entries).
+func CacheListening(db *DB) bool {
+	_, ok := db.cache.generation()
+	return ok
+}
+
+// SetCacheTTL changes how long the cache keeps an entry.
+func SetCacheTTL(db *DB, ttl time.Duration) {
+	db.cache.mu.Lock()
+	defer db.cache.mu.Unlock()
+	db.cache.ttl = ttl
+}

@@ -134,3 +134,29 @@ func count(t *testing.T, db *store.DB, q string) int {
 	}
 	return n
 }
+
+// A delivery that fails is recorded by its class, not the error's text
+// (which names the resolver's address here).
+func TestDelivery_RecordsTheClass(t *testing.T) {
+	db, _ := storetest.MustOpenDB(t)
+	_, s := submissionWithWebhook(t, db)
+	if err := db.MarkFailed(ctx, s.ID, "a reason"); err != nil {
+		t.Fatal(err)
+	}
+	w, err := db.StartWorkers(ctx, store.WorkerConfig{Workers: 1, Timeout: time.Minute, Screen: screenDemo})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer w.Stop(ctx)
+	var last string
+	for range 300 {
+		if err := db.Pool.QueryRow(ctx, `SELECT last_error FROM webhook_deliveries WHERE attempts > 0`).
+			Scan(&last); err == nil {
+			break
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+	if last != "DNS lookup failed" {
+		t.Fatalf("the delivery's last error is %q, want its class", last)
+	}
+}

@@ -3,7 +3,6 @@ package store
 import (
 	"context"
 	"encoding/json"
-	"errors"
 	"time"
 
 	"github.com/jackc/pgx/v5"
@@ -103,19 +102,58 @@ func (db *DB) NoteAttemptError(ctx context.Context, id, reason string) error {
 	return dbError(err, "submission")
 }
 
-// LatestReport returns the newest report of a submission the scope may see.
-func (db *DB) LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error) {
-	if _, err := db.Submission(ctx, id, sc); err != nil {
+// latestReportSQL reads, in one statement, whether the scope may see the
+// submission, who may (its office and sender), and its newest report's id
+// and bytes; the bytes are not read when the id is the one the caller
+// holds ($5).
+const latestReportSQL = `SELECT s.office_id, s.submitter_key_id, r.id,
+	CASE WHEN r.id = $5 THEN NULL ELSE r.report END
+FROM submissions s LEFT JOIN LATERAL (SELECT id, report FROM reports WHERE submission_id = s.id
+	ORDER BY id DESC LIMIT 1) r ON true
+WHERE` + scopeSQL + ` AND s.id = $4`
+
+// LatestReport returns the newest report of a submission the scope may
+// see, its JSON as stored; the JSON is nil when the report's id is have
+// (a client that holds it needs only to hear that it is still current).
+// After CacheReads it answers from memory what it has read before
+// (readCache).
+func (db *DB) LatestReport(ctx context.Context, id string, sc service.Scope, have int64) (
+	*service.StoredReport, error) {
+	if !uuidRE.MatchString(id) {
+		return nil, service.Errorf(service.ENotFound, "submission not found")
+	}
+	if r, ok, err := db.cachedReport(id, sc, have); ok {
+		return r, err
+	}
+	gen, keep := db.cache.generation()
+	read := have
+	if keep {
+		read = 0 // read the bytes, to keep them
+	}
+	e, err := db.latestReport(ctx, id, sc, read)
+	if err != nil {
 		return nil, err
 	}
-	var b string
-	err := db.Pool.QueryRow(ctx, `SELECT report FROM reports WHERE submission_id = $1
-		ORDER BY id DESC LIMIT 1`, id).Scan(&b)
-	if errors.Is(err, pgx.ErrNoRows) {
-		return nil, service.Errorf(service.ENotFound, "no report yet: the submission has not been screened")
+	if keep {
+		db.cache.putReport(id, e, gen, db.now())
 	}
+	if e.report.ID == have {
+		return &service.StoredReport{ID: have}, nil
+	}
+	return &e.report, nil
+}
+
+func (db *DB) latestReport(ctx context.Context, id string, sc service.Scope, have int64) (reportEntry, error) {
+	var e reportEntry
+	var rid *int64
+	err := db.Pool.QueryRow(ctx, latestReportSQL, sc.OfficeID, sc.Editor, sc.KeyID, id, have).
+		Scan(&e.officeID, &e.senderKeyID, &rid, &e.report.JSON)
 	if err != nil {
-		return nil, dbError(err, "report")
+		return e, dbError(err, "submission")
 	}
-	return []byte(b), nil
+	if rid == nil {
+		return e, service.Errorf(service.ENotFound, "no report yet: the submission has not been screened")
+	}
+	e.report.ID = *rid
+	return e, nil
 }

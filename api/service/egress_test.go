@@ -92,8 +92,10 @@ func TestEgress_CheckURL(t *testing.T) {
 		{"LiteralIPv6Loopback", "http://[::1]:8080/", Egress{}, EInvalid},
 		{"OnePrivateOfTwo", "https://h.example/", Egress{Lookup: fixedLookup("8.8.8.8", "10.0.0.5")}, EInvalid},
 		{"AllowedNet", "https://h.example/", Egress{Allow: allowNet, Lookup: fixedLookup("10.20.3.4")}, ""},
-		{"OutsideAllowedNet", "https://h.example/", Egress{Allow: allowNet, Lookup: fixedLookup("10.21.0.1")}, EInvalid},
-		{"AllowedHost", "https://hooks.office.internal/", Egress{Allow: allowHost, Lookup: fixedLookup("10.9.9.9")}, ""},
+		{"OutsideAllowedNet", "https://h.example/", Egress{Allow: allowNet, Lookup: fixedLookup("10.21.0.1")},
+			EInvalid},
+		{"AllowedHost", "https://hooks.office.internal/", Egress{Allow: allowHost, Lookup: fixedLookup("10.9.9.9")},
+			""},
 		{"NotAURL", "ftp://x/", Egress{}, EInvalid},
 		{"NoHost", "https:///x", Egress{}, EInvalid},
 		{"Unknown", "https://nowhere.invalid/", Egress{Lookup: func(context.Context, string) ([]netip.Addr, error) {

@@ -54,8 +54,8 @@ func checkReport(t *testing.T, ctx context.Context, f *browserFixture) {
 	}
 	mustContain(t, ctx, "#history", "Since the previous version")
 	mustContain(t, ctx, ".caution", "not a verdict")
-	checkDrawingText(t, ctx, "submission at 1280 px", false)
 	checkCSP(t, ctx, "submission page")
+	checkDrawingText(t, ctx, "submission at 1280 px", false)
 	screenshot(t, ctx, "submission-1280.png")
 	viewShot(t, ctx, "#claims", "claims-and-graph-1280.png")
 }
@@ -98,10 +98,10 @@ func checkNarrow(t *testing.T, ctx context.Context, f *browserFixture) {
 		if over > 0 {
 			t.Errorf("%s at 390 px scrolls sideways by %d px", path, over)
 		}
+		checkCSP(t, ctx, path+" at 390 px")
 		if path != "/" {
 			checkDrawingText(t, ctx, path+" at 390 px", true)
 		}
-		checkCSP(t, ctx, path+" at 390 px")
 		switch path {
 		case "/submissions/" + f.club.ID:
 			screenshot(t, ctx, "submission-390.png")

@@ -80,6 +80,7 @@ func (m *Main) Run(ctx context.Context) error {
 	if !m.serve {
 		return nil
 	}
+	db.CacheReads(context.WithoutCancel(ctx)) // keys and reports, read on every request; Close stops it
 	return m.listen(m.apiConfig(metrics, egress))
 }
 
