@@ -52,6 +52,7 @@ func (s *Server) newScreening(c echo.Context) error {
 			return err
 		}
 		f, earlier = formFromPackage(e), e
+		f.useEarlier(e)
 	}
 	return s.screeningPage(c, http.StatusOK, f, &built{errs: newFieldErrors()}, earlier, "")
 }
@@ -65,8 +66,13 @@ func (s *Server) postScreening(c echo.Context) error {
 	}
 	var earlier *earlierVersion
 	if f.From != "" {
-		if earlier, err = s.earlier(c, f.From); err != nil {
-			return err
+		earlier, err = s.earlier(c, f.From)
+		switch {
+		case service.ErrorCode(err) == service.ENotFound:
+			f.From = ""
+			return s.screeningPage(c, http.StatusNotFound, f, &built{errs: newFieldErrors()}, nil, msgEarlierGone)
+		case err != nil:
+			return s.keepForm(c, f, err)
 		}
 	}
 	switch c.FormValue("action") {
@@ -76,6 +82,7 @@ func (s *Server) postScreening(c echo.Context) error {
 		return s.screen(c, f, earlier)
 	}
 	b := s.build(f, earlier)
+	defer b.close()
 	b.preview = true
 	return s.screeningPage(c, http.StatusOK, f, b, earlier, "")
 }
@@ -97,24 +104,43 @@ func (s *Server) addClaim(c echo.Context, f *screenForm, earlier *earlierVersion
 // sends the form back with every problem beside its field (422).
 func (s *Server) screen(c echo.Context, f *screenForm, earlier *earlierVersion) error {
 	b := s.build(f, earlier)
+	defer b.close()
 	if b.errs.any() || b.n == nil {
-		defer b.close()
 		return s.screeningPage(c, http.StatusUnprocessableEntity, f, b, earlier, "")
 	}
-	defer b.close()
 	n := *b.n
 	n.Key, n.IdempotencyKey = keyOf(c), f.idempotencyKey()
 	sub, _, err := s.cfg.Store.CreateSubmission(c.Request().Context(), n)
-	if service.ErrorCode(err) == service.EConflict {
+	switch {
+	case service.ErrorCode(err) == service.EConflict:
 		f.Key = newFormKey()
-		return s.screeningPage(c, http.StatusConflict, f, b, earlier, "This form was screened before, "+
-			"with other figures; the changed package was not screened. Press Screen again to screen it "+
-			"as a new submission.")
-	}
-	if err != nil {
-		return err
+		return s.screeningPage(c, http.StatusConflict, f, b, earlier, msgScreenedBefore)
+	case err != nil:
+		return s.keepForm(c, f, err)
 	}
 	return c.Redirect(http.StatusSeeOther, "/submissions/"+sub.ID)
+}
+
+const msgEarlierGone = "The earlier version this form was filled from is no longer there, so nothing can be " +
+	"carried over from it; the form is kept as it was, and screening it makes a submission of its own."
+
+const msgScreenedBefore = "This form was screened before, with other figures; the changed package was not " +
+	"screened. Press Screen again to screen it as a new submission."
+
+// keepForm answers an error of the store with the form as it was sent
+// and the problem above it (a database that does not answer is 503 with
+// Retry-After: nothing was stored, and Screen may be pressed again); an
+// internal error is the workspace's error page.
+func (s *Server) keepForm(c echo.Context, f *screenForm, err error) error {
+	p, internal := problemFor(err)
+	if internal {
+		return err
+	}
+	if p.Status == http.StatusServiceUnavailable {
+		c.Response().Header().Set("Retry-After", retryAfter)
+		p.Detail = "The database did not answer, so nothing was stored; press the button again in a moment."
+	}
+	return s.screeningPage(c, p.Status, f, &built{errs: newFieldErrors()}, nil, p.Detail)
 }
 
 // screeningPage writes the form with its problems and, after Preview,

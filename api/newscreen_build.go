@@ -2,7 +2,6 @@ package api
 
 import (
 	"bytes"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"strconv"
@@ -176,11 +175,8 @@ func skippedWords(rows *guess.Rows) string {
 // estimate, load.Load with the server's limits) and maps every problem
 // to its field. The submission it gives is kept for the store.
 func (s *Server) check(b *built) {
-	doc, err := json.Marshal(b.pkg)
-	if err != nil {
-		b.errs.add(fieldForm, err.Error())
-		return
-	}
+	doc := []byte(packageJSON(b.pkg)) // stored as the preview shows it
+	var err error
 	if b.csv != nil {
 		if b.sp, err = newSpool(bytes.NewReader(b.csv), s.cfg.Limits.CSVBytes); err != nil {
 			b.placeError(err)

@@ -20,45 +20,66 @@ func (b *built) carryVariables(e *earlierVersion) {
 	if b.rows != nil && b.rowsEarlier && e.pkg.Data.Kind == checks.DataRows {
 		b.pkg.Variables = slices.Clone(e.pkg.Variables)
 		b.pkg.Data.MissingCodes, b.pkg.Data.IgnoreColumns = e.pkg.Data.MissingCodes, e.pkg.Data.IgnoreColumns
-		b.carried = append(b.carried, "with the earlier version's rows, its variables, missing codes and "+
-			"ignored columns as it declared them")
+		b.carryWords("with the earlier version's rows, its variables, missing codes and ignored columns as it " +
+			"declared them")
 		return
 	}
 	old := map[string]checks.Variable{}
 	for _, v := range e.pkg.Variables {
 		old[v.Name] = v
 	}
-	var labels, scales, rels, exo []string
+	n := noted{}
 	for i := range b.pkg.Variables {
-		v := &b.pkg.Variables[i]
-		o, ok := old[v.Name]
-		if !ok {
-			continue
-		}
-		labels = carryString(&v.Label, o.Label, v.Label == "", labels, v.Name)
-		scales = carryString(&v.Scale, o.Scale, o.Scale != v.Scale, scales, v.Name)
-		if v.Reliability == nil && o.Reliability != nil {
-			r := *o.Reliability
-			v.Reliability, rels = &r, append(rels, v.Name)
-		}
-		if o.Exogenous && !v.Exogenous {
-			v.Exogenous, exo = true, append(exo, v.Name)
+		if o, ok := old[b.pkg.Variables[i].Name]; ok {
+			carryVariable(&b.pkg.Variables[i], o, n)
 		}
 	}
 	b.reorder(e.pkg.Variables)
-	b.carryWords(ofNames("the label of ", "the labels of ", labels), ofNames("the scale of ", "the scales of ", scales),
-		ofNames("the reliability of ", "the reliabilities of ", rels),
-		ofNames("that nothing causes ", "that nothing causes ", exo))
+	b.carryWords(n.words(variableNotes)...)
 }
 
-// carryString sets *dst to the earlier value when it is wanted and there
-// is one, and notes the variable.
-func carryString(dst *string, old string, want bool, noted []string, name string) []string {
-	if !want || old == "" {
-		return noted
+// variableNotes word what was carried for variables: {key, for one, for
+// many}.
+var variableNotes = [][3]string{{"label", "the label of ", "the labels of "},
+	{"scale", "the scale of ", "the scales of "}, {"reliability", "the reliability of ", "the reliabilities of "},
+	{"exogenous", "that nothing causes ", "that nothing causes "}}
+
+func carryVariable(v *checks.Variable, o checks.Variable, n noted) {
+	if v.Label == "" && o.Label != "" {
+		v.Label = o.Label
+		n.add("label", v.Name)
 	}
-	*dst = old
-	return append(noted, name)
+	if o.Scale != "" && o.Scale != v.Scale {
+		v.Scale = o.Scale
+		n.add("scale", v.Name)
+	}
+	if v.Reliability == nil && o.Reliability != nil {
+		r := *o.Reliability
+		v.Reliability = &r
+		n.add("reliability", v.Name)
+	}
+	if o.Exogenous && !v.Exogenous {
+		v.Exogenous = true
+		n.add("exogenous", v.Name)
+	}
+}
+
+// noted lists, by what was carried, the variables or claims it was
+// carried for.
+type noted map[string][]string
+
+func (n noted) add(what, name string) { n[what] = append(n[what], name) }
+
+// words are the notes in the order given, each naming its variables or
+// claims.
+func (n noted) words(order [][3]string) []string {
+	var out []string
+	for _, o := range order {
+		if w := ofNames(o[1], o[2], n[o[0]]); w != "" {
+			out = append(out, w)
+		}
+	}
+	return out
 }
 
 // reorder puts the variables in the earlier version's order when they
@@ -116,8 +137,15 @@ func (b *built) carryGraph(old *checks.Graph) {
 		g.EquivalentsDiscussed = true
 		b.carryWords("that the paper discusses the graphs that fit equally well")
 	}
+	b.carryFixed(old.FixedEdges)
+}
+
+// carryFixed keeps the arrows whose direction the paper fixes that are
+// still in the graph.
+func (b *built) carryFixed(fixed []checks.Edge) {
+	g := b.pkg.Graph
 	var dropped []string
-	for _, f := range old.FixedEdges {
+	for _, f := range fixed {
 		if slices.Contains(g.Edges, f) {
 			g.FixedEdges = append(g.FixedEdges, f)
 			continue
@@ -155,35 +183,46 @@ func (b *built) carryClaims(old []checks.Claim) {
 	for _, c := range old {
 		by[c.ID] = c
 	}
-	var scale, se, adjust, level, absence []string
+	n := noted{}
 	for i := range b.pkg.Claims {
-		c := &b.pkg.Claims[i]
-		o, ok := by[c.ID]
-		if !ok {
-			continue
-		}
-		scale = carryString(&c.EstimateScale, o.EstimateScale, c.EstimateScale == "", scale, c.ID)
-		if c.StdError == nil && o.StdError != nil {
-			c.StdError, se = o.StdError, append(se, c.ID)
-		}
-		if len(o.AdjustFor) > 0 && len(c.AdjustFor) == 0 {
-			c.AdjustFor, adjust = o.AdjustFor, append(adjust, c.ID)
-		}
-		if c.CILevel == nil && o.CILevel != nil && c.CI != nil {
-			c.CILevel, level = o.CILevel, append(level, c.ID)
-		}
-		if o.AssertsAbsence && !c.AssertsAbsence {
-			c.AssertsAbsence, absence = true, append(absence, c.ID)
-		}
-		if o.PRelation == "=" && c.PRelation == "" && c.PValue != nil {
-			c.PRelation = "="
+		if o, ok := by[b.pkg.Claims[i].ID]; ok {
+			carryClaim(&b.pkg.Claims[i], o, n)
 		}
 	}
-	b.carryWords(ofNames("the estimate scale of ", "the estimate scales of ", scale),
-		ofNames("the standard error of ", "the standard errors of ", se),
-		ofNames("the adjustment set of ", "the adjustment sets of ", adjust),
-		ofNames("the interval level of ", "the interval levels of ", level),
-		ofNames("that the paper says there is no effect, for ", "that the paper says there is no effect, for ", absence))
+	b.carryWords(n.words(claimNotes)...)
+}
+
+// claimNotes word what was carried for claims.
+var claimNotes = [][3]string{{"scale", "the estimate scale of ", "the estimate scales of "},
+	{"se", "the standard error of ", "the standard errors of "},
+	{"adjust", "the adjustment set of ", "the adjustment sets of "},
+	{"level", "the interval level of ", "the interval levels of "},
+	{"absence", "that the paper says there is no effect, for ", "that the paper says there is no effect, for "}}
+
+func carryClaim(c *checks.Claim, o checks.Claim, n noted) {
+	if c.EstimateScale == "" && o.EstimateScale != "" {
+		c.EstimateScale = o.EstimateScale
+		n.add("scale", c.ID)
+	}
+	if c.StdError == nil && o.StdError != nil {
+		c.StdError = o.StdError
+		n.add("se", c.ID)
+	}
+	if len(o.AdjustFor) > 0 && len(c.AdjustFor) == 0 {
+		c.AdjustFor = o.AdjustFor
+		n.add("adjust", c.ID)
+	}
+	if c.CILevel == nil && o.CILevel != nil && c.CI != nil {
+		c.CILevel = o.CILevel
+		n.add("level", c.ID)
+	}
+	if o.AssertsAbsence && !c.AssertsAbsence {
+		c.AssertsAbsence = true
+		n.add("absence", c.ID)
+	}
+	if o.PRelation == "=" && c.PRelation == "" && c.PValue != nil {
+		c.PRelation = "=" // the default written out, as the earlier version did
+	}
 }
 
 func (b *built) carryWords(words ...string) {

@@ -115,35 +115,39 @@ func printedTable(p *checks.Package) string {
 	}
 	var b strings.Builder
 	b.WriteString("Variable")
-	for _, h := range []struct {
-		name string
-		has  bool
-	}{{"M", d.Means != nil}, {"SD", d.SDs != nil}} {
-		if h.has {
-			b.WriteString("\t" + h.name)
-		}
+	if d.Means != nil {
+		b.WriteString("\tM")
+	}
+	if d.SDs != nil {
+		b.WriteString("\tSD")
 	}
 	for j := range d.Variables {
 		fmt.Fprintf(&b, "\t%d", j+1)
 	}
 	b.WriteString("\n")
-	for i, name := range d.Variables {
-		fmt.Fprintf(&b, "%d. %s", i+1, name)
-		if d.Means != nil {
-			b.WriteString("\t" + numText(&d.Means[i]))
-		}
-		if d.SDs != nil {
-			b.WriteString("\t" + numText(&d.SDs[i]))
-		}
-		for j := 0; j < i; j++ {
-			b.WriteString("\t" + numText(&d.Correlations[i][j]))
-		}
-		if r := rel[name]; r != nil {
-			b.WriteString("\t(" + numText(r) + ")\n")
-		} else {
-			b.WriteString("\t—\n")
-		}
+	for i := range d.Variables {
+		printedRow(&b, d, i, rel[d.Variables[i]])
 	}
 	fmt.Fprintf(&b, "\nN = %d\n", d.N)
 	return b.String()
+}
+
+// printedRow prints variable i's row: its number and name, M and SD, its
+// correlations with the variables before it, and its diagonal.
+func printedRow(b *strings.Builder, d checks.Data, i int, rel *float64) {
+	fmt.Fprintf(b, "%d. %s", i+1, d.Variables[i])
+	if d.Means != nil {
+		b.WriteString("\t" + numText(&d.Means[i]))
+	}
+	if d.SDs != nil {
+		b.WriteString("\t" + numText(&d.SDs[i]))
+	}
+	for j := 0; j < i; j++ {
+		b.WriteString("\t" + numText(&d.Correlations[i][j]))
+	}
+	if rel != nil {
+		b.WriteString("\t(" + numText(rel) + ")\n")
+		return
+	}
+	b.WriteString("\t—\n")
 }

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"mime/multipart"
 	"net/http"
 	"net/url"
 	"slices"
@@ -107,20 +108,7 @@ func readClaimRows(v url.Values) []claimRow {
 func (f *screenForm) readRows(r *http.Request) error {
 	if r.MultipartForm != nil {
 		if fh := r.MultipartForm.File["rows_file"]; len(fh) > 0 && fh[0].Size > 0 {
-			if fh[0].Size > formRowsBytes {
-				f.rowsErr = fmt.Sprintf("%s is %s; the form takes raw rows up to %s. Send larger data "+
-					"through the API (a multipart upload), or start from pathvet init --data.",
-					fh[0].Filename, sizeWords(fh[0].Size), sizeWords(formRowsBytes))
-				return nil
-			}
-			file, err := fh[0].Open()
-			if err != nil {
-				return fmt.Errorf("api: open the uploaded rows: %w", err)
-			}
-			defer file.Close()
-			b, err := io.ReadAll(file)
-			f.Rows = &formRows{Name: fh[0].Filename, Data: b}
-			return err
+			return f.readUpload(fh[0])
 		}
 	}
 	if kept := r.PostForm.Get("rows_kept"); kept != "" && !f.rowsDrop {
@@ -131,6 +119,26 @@ func (f *screenForm) readRows(r *http.Request) error {
 		f.Rows = &formRows{Name: r.PostForm.Get("rows_name"), Data: b}
 	}
 	return nil
+}
+
+// Messages of the raw rows.
+const msgRowsTooLarge = "%s is %s; the form takes raw rows up to %s. Send larger data through the API " +
+	"(a multipart upload), or start from pathvet init --data."
+
+// readUpload reads an attached CSV, when it is not too large for the form.
+func (f *screenForm) readUpload(fh *multipart.FileHeader) error {
+	if fh.Size > formRowsBytes {
+		f.rowsErr = fmt.Sprintf(msgRowsTooLarge, fh.Filename, sizeWords(fh.Size), sizeWords(formRowsBytes))
+		return nil
+	}
+	file, err := fh.Open()
+	if err != nil {
+		return fmt.Errorf("api: open the uploaded rows: %w", err)
+	}
+	defer file.Close()
+	b, err := io.ReadAll(file)
+	f.Rows = &formRows{Name: fh.Filename, Data: b}
+	return err
 }
 
 // useEarlier takes the earlier version's rows when nothing else is

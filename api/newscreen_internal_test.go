@@ -1,16 +1,25 @@
 package api
 
 import (
+	"crypto/sha256"
+	"encoding/base64"
 	"encoding/json"
+	"errors"
+	"net/http"
+	"net/http/httptest"
 	"os"
 	"reflect"
+	"regexp"
 	"slices"
 	"strings"
 	"testing"
 
+	"github.com/labstack/echo/v4"
+
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 // noiseTable is testdata/tables/noise-pdf-wide.txt: invented figures as a
@@ -105,108 +114,6 @@ func TestBuild_ClaimRows(t *testing.T) {
 	}
 }
 
-// Every problem is filed beside the field it came from: the form's own
-// checks, and the loader's JSON pointers mapped back to the form's rows
-// and lines.
-func TestBuild_ProblemsBesideTheirFields(t *testing.T) {
-	for _, tc := range []struct {
-		name        string
-		edit        func(*screenForm)
-		field, want string
-	}{
-		{"no title", func(f *screenForm) { f.Title = " " }, fieldTitle, "is required"},
-		{"no design", func(f *screenForm) { f.Design = "" }, fieldDesign, "is required"},
-		{"bad cell", func(f *screenForm) { f.Table = strings.Replace(f.Table, ".41***", "x", 1) },
-			fieldTable, `line 6, cell 5 ("x")`},
-		{"no n", func(f *screenForm) { f.Table = strings.Replace(f.Table, "N = 812. ", "", 1) }, fieldN,
-			msgNoN},
-		{"n disagrees", func(f *screenForm) { f.N = "800" }, fieldN, "The table's note says N = 812"},
-		{"n not a number", func(f *screenForm) { f.N = "812a" }, fieldN, `"812a" is not`},
-		{"no data", func(f *screenForm) { f.Table = "" }, fieldTable, msgNoData},
-		{"both data", func(f *screenForm) { f.Rows = &formRows{Data: []byte("a,b\n1,2\n")} }, fieldTable,
-			msgBothData},
-		{"cycle", func(f *screenForm) { f.Arrows += "\nrecall_score -> noise_exposure_db" }, fieldArrows,
-			"has a cycle"},
-		{"an arrow twice", func(f *screenForm) { f.Arrows += "\nrecall score <- x\nSleep duration (h) -> recall_score" },
-			fieldArrows, "line 6: "},
-		{"claim from unknown", func(f *screenForm) { f.Claims[0].From = "nois" }, "c1-from",
-			`"nois" is neither a variable's name nor its label`},
-		{"claim estimate", func(f *screenForm) { f.Claims[0].Estimate = "minus .2" }, "c1-estimate",
-			`"minus .2" is not a number`},
-		{"claim half interval", func(f *screenForm) { f.Claims[0].CIHigh = "" }, "c1-ci_high", msgHalfCI},
-		{"claim p", func(f *screenForm) { f.Claims[0].P = "1.5" }, "c1-p", "1"},
-		{"claim p words", func(f *screenForm) { f.Claims[0].P = "n.s." }, "c1-p", `"n.s." is not a p-value`},
-		{"claim outside its interval", func(f *screenForm) { f.Claims[0].Estimate = "0.5" }, "c1-estimate",
-			"lies outside its own interval"},
-		{"claim twice", func(f *screenForm) { f.Claims = append(f.Claims, f.Claims[0]) }, "c2-id", "C1"},
-		{"claim without kind", func(f *screenForm) { f.Claims[0].Kind = "" }, "c1-kind", ""},
-		{"no claims", func(f *screenForm) { f.Claims = []claimRow{{Kind: "direct_effect"}} }, fieldClaims, ""},
-		{"missing method", func(f *screenForm) { f.MissingMethod = "guessing" }, fieldMissing, "must be one of"},
-	} {
-		t.Run(tc.name, func(t *testing.T) {
-			f := noiseForm(t)
-			tc.edit(f)
-			b := formServer().build(f, nil)
-			defer b.close()
-			got := strings.Join(b.errs.by[tc.field], " | ")
-			if got == "" || !strings.Contains(got, tc.want) {
-				t.Errorf("%s: %q, want %q; all: %v", tc.field, got, tc.want, b.errs.by)
-			}
-			if b.n != nil && tc.field != fieldN && tc.field != fieldArrows && !strings.HasPrefix(tc.field, "c1-") {
-				t.Errorf("the API's checks accepted a package with this problem")
-			}
-		})
-	}
-}
-
-// The loader's pointers and CSV places lead to the form's fields: an edge
-// to its line of the arrows box, a claim to its row (rows left empty are
-// not counted in the package), a CSV cell to the raw rows.
-func TestPlace_Pointers(t *testing.T) {
-	b := &built{errs: newFieldErrors(), edgeLines: []int{1, 4}, claimRows: []int{2, 5}, rows: nil}
-	for ptr, want := range map[string]string{
-		"/title": fieldTitle + ": d", "/manuscript_id": fieldMS + ": d", "/design": fieldDesign + ": d",
-		"/missing_data/method": fieldMissing + ": d", "/graph/edges/1/to": fieldArrows + ": line 4: d",
-		"/graph/edges": fieldArrows + ": d", "/claims": fieldClaims + ": d", "/claims/1/from": "c5-from: d",
-		"/claims/0/ci": "c2-ci_low: d", "/claims/0/ci/1": "c2-ci_high: d", "/claims/1/p_relation": "c5-p: d",
-		"/claims/0": "c2: d", "/claims/1/std_error": "c5: d (at /claims/1/std_error in the package)",
-		"/data/correlations":           fieldTable + ": d (at /data/correlations in the package)",
-		"/alternatives/0/edges/0/from": fieldForm + ": d (at /alternatives/0/edges/0/from in the package)",
-	} {
-		f, m := b.place(checks.Problem{Pointer: ptr, Detail: "d"})
-		if got := f + ": " + m; got != want {
-			t.Errorf("%s: %q, want %q", ptr, got, want)
-		}
-	}
-	b.earlier = true
-	if _, m := b.place(checks.Problem{Pointer: "/target_trial/population", Detail: "d"}); !strings.Contains(m,
-		"carried over from the earlier version") {
-		t.Errorf("a carried part: %q", m)
-	}
-	if f, m := b.place(checks.Problem{Line: 5, Column: 3, Detail: "d"}); f != fieldRows ||
-		m != "data line 5, column 3: d" {
-		t.Errorf("a CSV cell: %s %q", f, m)
-	}
-}
-
-// The summary lists the problems in the order of the form, whatever the
-// order they were found in.
-func TestFieldErrors_Summary(t *testing.T) {
-	e := newFieldErrors()
-	for _, f := range []string{"c2-p", fieldArrows, "c10-id", fieldTitle, "c2", fieldForm, "c2-id"} {
-		e.add(f, "x")
-	}
-	var got []string
-	for _, p := range e.summary() {
-		got = append(got, p.Label)
-	}
-	want := []string{"The package", "Working title", "Arrows", "Claim 2", "Claim 2, ID", "Claim 2, p-value",
-		"Claim 10, ID"}
-	if !slices.Equal(got, want) {
-		t.Errorf("summary %v, want %v", got, want)
-	}
-}
-
 // Raw rows: the variables and data section init --data would write, the
 // CSV sent beside the package, and n refused.
 func TestBuild_Rows(t *testing.T) {
@@ -235,54 +142,66 @@ func TestBuild_Rows(t *testing.T) {
 	}
 }
 
-// A new version filled from an earlier one and screened unchanged is the
-// earlier package again: the table printed from its figures reads back
-// to them, and what the form has no field for is carried over.
-func TestNewVersion_Unchanged(t *testing.T) {
-	for _, dir := range []string{"tutoring-anxiety", "sleep-attention", "coding-club"} {
-		t.Run(dir, func(t *testing.T) {
-			e := demoEarlier(t, dir)
-			f := formFromPackage(e)
-			b := formServer().build(f, e)
-			defer b.close()
-			if b.errs.any() || b.n == nil {
-				t.Fatalf("problems: %v", b.errs.summary())
-			}
-			want, err := load.Load(demoDoc(t, dir), load.Options{CSV: e.rows})
-			if err != nil {
-				t.Fatal(err)
-			}
-			if b.n.PackageSHA256 != want.SHA256 {
-				got, _ := json.MarshalIndent(b.pkg, "", " ")
-				t.Errorf("hash %s, want the demo's %s; package:\n%s\nform table:\n%s", b.n.PackageSHA256,
-					want.SHA256, got, f.Table)
-			}
-		})
+// n from the field stands in for a table's missing note.
+func TestBuild_NFromField(t *testing.T) {
+	f := noiseForm(t)
+	f.Table, f.N = strings.Replace(f.Table, "N = 812. ", "", 1), "1,204"
+	b := formServer().build(f, nil)
+	defer b.close()
+	if b.errs.any() || b.pkg.Data.N != 1204 || !b.nFromField {
+		t.Errorf("n %d (from the field: %v), problems %v", b.pkg.Data.N, b.nFromField, b.errs.by)
 	}
 }
 
-func demoDoc(t *testing.T, dir string) []byte {
-	b, err := os.ReadFile("../testdata/demo/" + dir + "/package.json")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return b
-}
+var styleElemRE = regexp.MustCompile(`(?s)<style>(.*?)</style>`)
 
-// demoEarlier is a demo as an earlier version: its rows, when it has
-// them, as the data part the API stored.
-func demoEarlier(t *testing.T, dir string) *earlierVersion {
-	var p checks.Package
-	if err := json.Unmarshal(demoDoc(t, dir), &p); err != nil {
+// The page's policy lets its two stylesheets through by their hashes and
+// script from this server only: no inline script, no style attributes.
+func TestScreeningPolicy_AllowsThePage(t *testing.T) {
+	var b strings.Builder
+	if err := render.WriteNewScreening(&b, render.NewScreening{Form: render.ScreenForm{Claims: []render.ClaimInput{{N: 1}}}}); err != nil {
 		t.Fatal(err)
 	}
-	e := &earlierVersion{sub: &service.Submission{ID: "00000000-0000-0000-0000-000000000001"}, pkg: &p}
-	if p.Data.File != "" {
-		rows, err := os.ReadFile("../testdata/demo/" + dir + "/" + p.Data.File)
-		if err != nil {
-			t.Fatal(err)
+	styles := styleElemRE.FindAllStringSubmatch(b.String(), -1)
+	if len(styles) != 2 {
+		t.Fatalf("%d style elements, want the shared one and the page's", len(styles))
+	}
+	for _, st := range styles {
+		sum := sha256.Sum256([]byte(st[1]))
+		src := "'sha256-" + base64.StdEncoding.EncodeToString(sum[:]) + "'"
+		if !strings.Contains(screeningPolicy, src) {
+			t.Errorf("the policy %q lacks the stylesheet's hash %s", screeningPolicy, src)
 		}
-		e.rows, p.Data.File = rows, ""
 	}
-	return e
+	for _, want := range []string{"default-src 'none'", "script-src 'self';", "form-action 'self'",
+		"frame-ancestors 'none'"} {
+		if !strings.Contains(screeningPolicy, want) {
+			t.Errorf("the policy lacks %s", want)
+		}
+	}
+	if strings.Contains(screeningPolicy, "unsafe") {
+		t.Errorf("the policy allows something unsafe: %s", screeningPolicy)
+	}
+}
+
+// A store that does not answer keeps the form: 503 with Retry-After,
+// what was typed on the page, and a word that nothing was stored.
+func TestKeepForm_Unavailable(t *testing.T) {
+	s := formServer()
+	e := echo.New()
+	c := e.NewContext(httptest.NewRequest(http.MethodPost, "/submissions/new", nil), httptest.NewRecorder())
+	c.Set(keyContext, &service.Key{ID: 1, OfficeID: 1, Role: service.RoleEditor, OfficeName: "Office K"})
+	f := noiseForm(t)
+	if err := s.keepForm(c, f, service.Errorf(service.EUnavailable, "database down")); err != nil {
+		t.Fatal(err)
+	}
+	rr := c.Response().Writer.(*httptest.ResponseRecorder)
+	body := rr.Body.String()
+	if rr.Code != http.StatusServiceUnavailable || rr.Header().Get("Retry-After") == "" ||
+		!strings.Contains(body, "nothing was stored") || !strings.Contains(body, `value="Noise and recall (invented)"`) {
+		t.Errorf("%d %v %.300s", rr.Code, rr.Header(), body)
+	}
+	if err := s.keepForm(c, f, errors.New("a bug")); err == nil {
+		t.Error("an internal error was shown in the form")
+	}
 }

@@ -78,6 +78,10 @@ func (b *built) tableGuesses() []string {
 	return append(g, "every scale is set to continuous: a printed table does not show a variable's scale")
 }
 
+// earlierScale says why a variable's scale is not the one its column
+// suggests.
+const earlierScale = "as the earlier version declares it; the rows alone suggest %s (%s)"
+
 // rowVariables are the declared variables with the scale guessed from
 // their column and its missing cells.
 func (b *built) rowVariables() []render.PreviewVariable {
@@ -92,7 +96,7 @@ func (b *built) rowVariables() []render.PreviewVariable {
 			c := b.rows.Columns[i]
 			pv.Why, pv.Missing = c.Why, c.Missing
 			if c.Scale != v.Scale && c.Scale != "" {
-				pv.Why = fmt.Sprintf("as the earlier version declares it; the rows alone suggest %s (%s)", c.Scale, c.Why)
+				pv.Why = fmt.Sprintf(earlierScale, c.Scale, c.Why)
 			}
 		}
 		out = append(out, pv)

@@ -238,25 +238,14 @@ var (
 // a bare predicate, and the arrows and claims it refers to by their line
 // and row rather than their JSON pointers.
 func (b *built) reword(field, msg string) string {
-	msg = edgeRefRE.ReplaceAllStringFunc(msg, func(ref string) string {
-		if i, err := strconv.Atoi(ref[len("/graph/edges/"):]); err == nil && i < len(b.edgeLines) {
-			return fmt.Sprintf("the arrow on line %d", b.edgeLines[i])
-		}
-		return ref
-	})
-	msg = claimRefRE.ReplaceAllStringFunc(msg, func(ref string) string {
-		if i, err := strconv.Atoi(ref[len("/claims/"):]); err == nil && i < len(b.claimRows) {
-			return fmt.Sprintf("claim %d", b.claimRows[i])
-		}
-		return ref
-	})
+	msg = b.unpoint(msg)
 	subject := subjects[field]
 	if _, sub, ok := strings.Cut(field, "-"); ok && strings.HasPrefix(field, "c") {
 		subject = subjects[sub]
 	}
 	if loc, rest, ok := strings.Cut(msg, ": "); ok && strings.HasPrefix(loc, "line ") {
 		if subject != "" && predicateRE.MatchString(rest) {
-			return loc + ": " + "the arrow " + rest
+			return loc + ": the arrow " + rest
 		}
 		return msg
 	}
@@ -264,4 +253,21 @@ func (b *built) reword(field, msg string) string {
 		return subject + " " + msg
 	}
 	return msg
+}
+
+// unpoint names the edges and claims a message points to by the line and
+// row of the form they came from.
+func (b *built) unpoint(msg string) string {
+	msg = edgeRefRE.ReplaceAllStringFunc(msg, func(ref string) string {
+		if i, err := strconv.Atoi(ref[len("/graph/edges/"):]); err == nil && i < len(b.edgeLines) {
+			return fmt.Sprintf("the arrow on line %d", b.edgeLines[i])
+		}
+		return ref
+	})
+	return claimRefRE.ReplaceAllStringFunc(msg, func(ref string) string {
+		if i, err := strconv.Atoi(ref[len("/claims/"):]); err == nil && i < len(b.claimRows) {
+			return fmt.Sprintf("claim %d", b.claimRows[i])
+		}
+		return ref
+	})
 }

@@ -161,7 +161,8 @@ var designOptions = []option{{"", "choose the design"}, {"observational", "obser
 	{"randomized", "randomized"}, {"quasi_experimental", "quasi-experimental"}}
 
 var methodOptions = []option{{"", "not stated in the paper"}, {"none", "none: no values were missing"},
-	{"complete_cases", "complete cases (listwise deletion)"}, {"available_cases", "available cases (pairwise deletion)"},
+	{"complete_cases", "complete cases (listwise deletion)"},
+	{"available_cases", "available cases (pairwise deletion)"},
 	{"mean_substitution", "mean substitution"}, {"single_regression", "single regression imputation"},
 	{"carry_forward", "last value carried forward"}, {"multiple_imputation", "multiple imputation"},
 	{"maximum_likelihood", "maximum likelihood (full-information ML or EM)"}, {"other", "other"}}

@@ -98,8 +98,10 @@ func TestNewScreeningProblemsBesideFields(t *testing.T) {
 	page := newScreeningPage(t, aFilledForm())
 	for _, want := range []string{
 		`aria-invalid="true" aria-describedby="f-table-err f-table-hint">1. Noise  x</textarea>` +
-			`<div class="ns-err" id="f-table-err"><p><strong>Problem:</strong> line 1, cell 2 (&#34;x&#34;): expected a number</p></div>`,
-		`id="c2-from" name="claim_from" value="" autocomplete="off" aria-invalid="true" aria-describedby="c2-from-err">`,
+			`<div class="ns-err" id="f-table-err"><p><strong>Problem:</strong> ` +
+			`line 1, cell 2 (&#34;x&#34;): expected a number</p></div>`,
+		`id="c2-from" name="claim_from" value="" autocomplete="off" aria-invalid="true" ` +
+			`aria-describedby="c2-from-err">`,
 		`<a href="#f-table">Table 1</a>: line 1, cell 2`, `value="A &lt;study&gt;"`,
 		`<input type="checkbox" id="c1-headline" name="claim_headline" value="1" checked>`,
 		`<input type="hidden" name="rows_kept" value="YSxiCg==">`, "2 problems to fix",

@@ -17,6 +17,8 @@ var keptRE = regexp.MustCompile(`name="rows_kept" value="([^"]+)"`)
 // would guess, the page keeps the rows for the next step, Screen sends
 // them beside the package as the API's data part, and the download is
 // one document with the rows inline that hashes as the submission does.
+// (rows.csv of the sleep-attention demo: 300 rows under its header,
+// 4,400 bytes, as wc -l and ls count them.)
 func TestWeb_NewScreeningFromRows(t *testing.T) {
 	db, dburl := storetest.MustOpenDB(t)
 	m := startMain(t, dburl)
@@ -106,5 +108,13 @@ func TestWeb_NewVersion(t *testing.T) {
 	if code, page := other.get("/submissions/new?from=" + first.ID); code != http.StatusNotFound ||
 		!strings.Contains(page, "Not found") {
 		t.Errorf("another office's earlier version: %d", code)
+	}
+	if code, _, _ := api.call(http.MethodDelete, "/v1/submissions/"+first.ID, "", nil); code != http.StatusNoContent {
+		t.Fatalf("delete: %d", code)
+	}
+	code, _, page = w.postMultipart("/submissions/new", with(fields, "action", "preview"), "", nil)
+	if code != http.StatusNotFound || !strings.Contains(page, "no longer there") ||
+		!strings.Contains(page, `value="Peer tutoring and maths anxiety`) || strings.Contains(page, `name="from"`) {
+		t.Errorf("the form after its earlier version was deleted: %d %.500s", code, page)
 	}
 }

@@ -102,7 +102,8 @@ func TestWeb_NewScreeningFromTable(t *testing.T) {
 	if code != http.StatusOK || !strings.Contains(page, "Ready to screen") {
 		t.Fatalf("preview: %d %.2000s", code, page)
 	}
-	if got, want := decodePackage(t, previewPackage(t, page)), decodePackage(t, byHand); !reflect.DeepEqual(got, want) {
+	got, want := decodePackage(t, previewPackage(t, page)), decodePackage(t, byHand)
+	if !reflect.DeepEqual(got, want) {
 		gb, _ := json.Marshal(got)
 		wb, _ := json.Marshal(want)
 		t.Errorf("the page's package:\n%s\ninit --summary's, filled in:\n%s", gb, wb)
@@ -145,7 +146,8 @@ func checkScreenOnce(t *testing.T, m *Main, db *store.DB, w *webClient, form []f
 		!strings.Contains(page, "screened before") || !strings.Contains(page, `value="Changed"`) {
 		t.Errorf("a changed form under the same key: %d %.500s", code, page)
 	}
-	if code, page := w.get("/submissions/" + loc[1]); code != http.StatusOK || !strings.Contains(page, "table class=\"claims") ||
+	code, page = w.get("/submissions/" + loc[1])
+	if code != http.StatusOK || !strings.Contains(page, `table class="claims`) ||
 		!strings.Contains(page, "/submissions/"+loc[1]+"/package.json") {
 		t.Errorf("the submission's page: %d", code)
 	}

@@ -74,8 +74,9 @@ func (c *Column) codeText(v float64) []string {
 
 // Formats of the notes on a column's marks, codes and extreme values.
 const (
-	markNote    = "%q in %s, %s: a missing mark, listed in missing_codes"
-	codeNote    = "%s in %s, %s: looks like a missing code, listed in missing_codes; remove it if these are real values"
+	markNote = "%q in %s, %s: a missing mark, listed in missing_codes"
+	codeNote = "%s in %s, %s: looks like a missing code, listed in missing_codes; " +
+		"remove it if these are real values"
 	extremeNote = "%s in %s, %s: far outside the other values (quartiles %.4g and %.4g); check that these are real"
 )
 

@@ -11,10 +11,11 @@ import (
 
 // clubCSV is invented: an id of text, a club membership (0/1) with the
 // code 99 once, a 1–5 rating, a score with −99 in two rows and a far-out
-// 400 in two, a grade with "." once, and a column named "2nd wave".
+// 400 in two, a grade with "." once, a count of siblings 0, 1 or 2, and a
+// column named "2nd wave".
 func clubCSV() string {
 	var b strings.Builder
-	b.WriteString("id,club,rating,score,grade,2nd wave\n")
+	b.WriteString("id,club,rating,score,grade,siblings,2nd wave\n")
 	for i := range 40 {
 		club, score, grade := fmt.Sprint(i%2), fmt.Sprint(50+(i*7)%23), fmt.Sprint(1+i%3)
 		switch i {
@@ -27,13 +28,14 @@ func clubCSV() string {
 		case 9:
 			grade = "."
 		}
-		fmt.Fprintf(&b, "P%d,%s,%d,%s,%s,%d\n", i, club, 1+(i*2)%5, score, grade, i)
+		fmt.Fprintf(&b, "P%d,%s,%d,%s,%s,%d,%d\n", i, club, 1+(i*2)%5, score, grade, i%3, i)
 	}
 	return b.String()
 }
 
 // Each column's guess, by the rules of doc.go (counts by construction of
-// clubCSV: 40 rows; rating takes the values 1..5, each 8 times; score 22
+// clubCSV: 40 rows; rating takes the values 1..5, each 8 times; siblings
+// 0, 1 and 2, at least 13 times each (so not binary); score 22
 // distinct values of 50 + 7i mod 23 and 400, as R's
 // length(unique(...)) counts them).
 func TestRead_Guesses(t *testing.T) {
@@ -46,11 +48,12 @@ func TestRead_Guesses(t *testing.T) {
 		got[c.Name] = c.Scale + "|" + c.Why + "|" + c.Skip
 	}
 	want := map[string]string{
-		"id":     `||it holds text ("P0" on line 2)`,
-		"club":   "binary|only 0 and 1|",
-		"rating": "ordinal|5 distinct whole numbers|",
-		"score":  "continuous|23 distinct values|",
-		"grade":  "ordinal|3 distinct whole numbers|",
+		"id":       `||it holds text ("P0" on line 2)`,
+		"club":     "binary|only 0 and 1|",
+		"rating":   "ordinal|5 distinct whole numbers|",
+		"score":    "continuous|23 distinct values|",
+		"grade":    "ordinal|3 distinct whole numbers|",
+		"siblings": "ordinal|3 distinct whole numbers|",
 		"2nd wave": "||its name is not a variable name (letters, digits and _, starting with a letter); " +
 			"rename it in the CSV to use it",
 	}
@@ -63,7 +66,7 @@ func TestRead_Guesses(t *testing.T) {
 		!slices.Equal(rows.MissingCodes, []string{"-99", ".", "99"}) || rows.Missing != 4 {
 		t.Errorf("rows %d, ignore %v, codes %v, missing %d", rows.N, rows.Ignore, rows.MissingCodes, rows.Missing)
 	}
-	if len(rows.Variables) != 4 || rows.Variables[0].Name != "club" || rows.Variables[0].Scale != "binary" {
+	if len(rows.Variables) != 5 || rows.Variables[0].Name != "club" || rows.Variables[0].Scale != "binary" {
 		t.Errorf("variables %+v", rows.Variables)
 	}
 }
