@@ -147,6 +147,7 @@ func checkBadCell(t *testing.T, ctx context.Context) {
 		t.Errorf("the table is not described by its error: %q", v)
 	}
 	checkCSP(t, ctx, "the form with a bad cell")
+	viewShot(t, ctx, "main", "new-screening-problems-1280.png")
 	viewShot(t, ctx, "#f-table", "new-screening-error-1280.png")
 	do(t, ctx, chromedp.SetValue(chromedp.ID("f-table"), gardenTable(t)))
 }
