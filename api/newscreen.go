@@ -103,6 +103,11 @@ func (s *Server) addClaim(c echo.Context, f *screenForm, earlier *earlierVersion
 // and stores and queues it: 303 to the submission's page. A problem
 // sends the form back with every problem beside its field (422).
 func (s *Server) screen(c echo.Context, f *screenForm, earlier *earlierVersion) error {
+	release, err := s.largeSlot(c.Request().Context(), f.size())
+	if err != nil {
+		return s.keepForm(c, f, err)
+	}
+	defer release()
 	b := s.build(f, earlier)
 	defer b.close()
 	if b.errs.any() || b.n == nil {
@@ -127,10 +132,11 @@ const msgEarlierGone = "The earlier version this form was filled from is no long
 const msgScreenedBefore = "This form was screened before, with other figures; the changed package was not " +
 	"screened. Press Screen again to screen it as a new submission."
 
-// keepForm answers an error of the store with the form as it was sent
-// and the problem above it (a database that does not answer is 503 with
-// Retry-After: nothing was stored, and Screen may be pressed again); an
-// internal error is the workspace's error page.
+// keepForm answers an error with the form as it was sent and the
+// problem above it (503, the database not answering or the server busy
+// with large uploads, with Retry-After: nothing was stored, and the
+// button may be pressed again); an internal error is the workspace's
+// error page.
 func (s *Server) keepForm(c echo.Context, f *screenForm, err error) error {
 	p, internal := problemFor(err)
 	if internal {
@@ -138,7 +144,7 @@ func (s *Server) keepForm(c echo.Context, f *screenForm, err error) error {
 	}
 	if p.Status == http.StatusServiceUnavailable {
 		c.Response().Header().Set("Retry-After", retryAfter)
-		p.Detail = "The database did not answer, so nothing was stored; press the button again in a moment."
+		p.Detail = strings.TrimSuffix(p.Detail, ".") + ". Nothing was stored."
 	}
 	return s.screeningPage(c, p.Status, f, &built{errs: newFieldErrors()}, nil, p.Detail)
 }

@@ -59,13 +59,27 @@ type formRows struct {
 	Earlier bool
 }
 
-// readScreenForm reads the posted form (multipart, or URL-encoded when
-// nothing is attached).
+// readForm reads the posted form whole (multipart, or URL-encoded when
+// nothing is attached; files past 32 MiB wait on disk) before its token
+// is checked: an upload that breaks the upload rules is refused as the
+// API refuses one (408), and the read deadline is lifted once it is in.
+func (s *Server) readForm(next echo.HandlerFunc) echo.HandlerFunc {
+	return func(c echo.Context) error {
+		err := c.Request().ParseMultipartForm(32 << 20)
+		switch {
+		case errors.Is(err, errTooSlow):
+			return s.tooSlow(c)
+		case err != nil && !errors.Is(err, http.ErrNotMultipart):
+			return bodyError(err)
+		}
+		bodyRead(c)
+		return next(c)
+	}
+}
+
+// readScreenForm reads the fields of the form readForm parsed.
 func (s *Server) readScreenForm(c echo.Context) (*screenForm, error) {
 	r := c.Request()
-	if err := r.ParseMultipartForm(32 << 20); err != nil && !errors.Is(err, http.ErrNotMultipart) {
-		return nil, problemError(http.StatusBadRequest, "The form cannot be read: "+err.Error())
-	}
 	v := r.PostForm
 	f := &screenForm{Title: v.Get("title"), ManuscriptID: v.Get("manuscript_id"), Design: v.Get("design"),
 		MissingMethod: v.Get("missing_method"), Table: v.Get("table"), N: v.Get("n"), Arrows: v.Get("arrows"),
@@ -147,6 +161,15 @@ func (f *screenForm) useEarlier(e *earlierVersion) {
 	if f.Rows == nil && !f.rowsDrop && f.rowsErr == "" && e != nil && e.rows != nil {
 		f.Rows = &formRows{Name: "the earlier version's rows", Data: e.rows, Earlier: true}
 	}
+}
+
+// size is what the form hands the checks: the table's text and the rows.
+func (f *screenForm) size() int64 {
+	n := int64(len(f.Table))
+	if f.Rows != nil {
+		n += int64(len(f.Rows.Data))
+	}
+	return n
 }
 
 // idempotencyKey is the key the store sees: the form's, marked as the

@@ -198,7 +198,7 @@ func TestKeepForm_Unavailable(t *testing.T) {
 	rr := c.Response().Writer.(*httptest.ResponseRecorder)
 	body := rr.Body.String()
 	if rr.Code != http.StatusServiceUnavailable || rr.Header().Get("Retry-After") == "" ||
-		!strings.Contains(body, "nothing was stored") || !strings.Contains(body, `value="Noise and recall (invented)"`) {
+		!strings.Contains(body, "database down. Nothing was stored") || !strings.Contains(body, `value="Noise and recall (invented)"`) {
 		t.Errorf("%d %v %.300s", rr.Code, rr.Header(), body)
 	}
 	if err := s.keepForm(c, f, errors.New("a bug")); err == nil {

@@ -29,7 +29,7 @@ func (s *Server) routes() {
 	// Authentication is per route, not on the group: a group's middleware
 	// would catch every path under /v1 and hide 405 behind 404.
 	v1, auth := e.Group("/v1"), s.authenticate
-	v1.POST("/submissions", s.createSubmission, auth, s.limitLargeIngests,
+	v1.POST("/submissions", s.createSubmission, auth, s.gateIngest,
 		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
 	v1.GET("/submissions", s.listSubmissions, auth)
 	v1.GET("/submissions/:id", s.getSubmission, auth)
@@ -61,10 +61,11 @@ func (s *Server) webRoutes() {
 	e.POST("/submissions/:id/rerun", s.webRerun, signedIn...)
 	e.POST("/submissions/:id/delete", s.webDelete, signedIn...)
 	e.GET("/submissions/:id/package.json", s.webPackage, signedIn...)
-	// The new-screening form takes an upload as large as the API does.
-	form := []echo.MiddlewareFunc{s.webPage, s.limitLargeIngests,
+	// The new-screening form takes an upload as large as the API does,
+	// under the API's upload rules, read whole before its token is checked.
+	form := []echo.MiddlewareFunc{s.webPage, s.withSession, requireSession, s.gateIngest,
 		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}),
-		s.withSession, s.csrf, requireSession}
+		s.readForm, s.csrf}
 	e.GET("/submissions/new", s.newScreening, signedIn...)
 	e.POST("/submissions/new", s.postScreening, form...)
 	e.GET(render.ScreeningScriptPath, s.screeningScript, s.webPage)

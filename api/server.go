@@ -54,10 +54,19 @@ type Config struct {
 	// TrustedProxies are the proxies whose X-Forwarded-For entries are
 	// believed (clientAddress); from any other peer the header is ignored.
 	TrustedProxies []netip.Prefix
-	// LargeIngests is how many uploads of LargeIngestBytes or more may be
-	// read at once (default 1); each can hold several times its size in
-	// memory while it is read, checked and stored.
+	// LargeIngests is how many spooled uploads of LargeIngestBytes or more
+	// may be checked and stored at once (default 1); each can hold several
+	// times its size in memory meanwhile. SlotWait is how long a spooled
+	// one waits for a slot before it is 503.
 	LargeIngests int
+	SlotWait     time.Duration
+	// UploadMinRate (bytes a second), UploadGrace and UploadIdle are the
+	// upload rules: after the grace an upload must have arrived at the
+	// rate on average, and no read of it may wait longer than UploadIdle;
+	// else it is 408.
+	UploadMinRate int64
+	UploadGrace   time.Duration
+	UploadIdle    time.Duration
 	// Egress checks webhook URLs as they are set (the allow-list of
 	// networks and hosts otherwise refused); nil refuses every address of a
 	// refused class.
@@ -76,6 +85,7 @@ type Server struct {
 	draining  chan struct{}
 	drainOnce sync.Once
 	large     chan struct{} // the large-upload semaphore
+	sending   keysSending   // large uploads in progress, by key
 }
 
 // Drain makes every open and later long poll answer at once with the
@@ -105,6 +115,7 @@ func New(cfg Config) *Server {
 	if cfg.LargeIngests <= 0 {
 		cfg.LargeIngests = 1
 	}
+	uploadDefaults(&cfg)
 	if cfg.Egress == nil {
 		cfg.Egress = &service.Egress{}
 	}
@@ -124,3 +135,18 @@ func (s *Server) Echo() *echo.Echo { return s.echo }
 
 // bodyLimit is the largest request body: a package and its CSV data.
 func (s *Server) bodyLimit() int64 { return s.cfg.Limits.PackageBytes + s.cfg.Limits.CSVBytes + 1<<20 }
+
+// uploadDefaults fills in the upload rules left unset.
+func uploadDefaults(cfg *Config) {
+	for _, d := range []struct {
+		v   *time.Duration
+		def time.Duration
+	}{{&cfg.SlotWait, DefaultSlotWait}, {&cfg.UploadGrace, DefaultUploadGrace}, {&cfg.UploadIdle, DefaultUploadIdle}} {
+		if *d.v <= 0 {
+			*d.v = d.def
+		}
+	}
+	if cfg.UploadMinRate <= 0 {
+		cfg.UploadMinRate = DefaultUploadMinRate
+	}
+}

@@ -2,6 +2,7 @@ package api
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"net/http"
 	"strconv"
@@ -87,16 +88,31 @@ func mustJSON(v any) []byte {
 
 // createSubmission takes a package as JSON (data inline or as summary
 // statistics) or as multipart parts "package" and "data", checks it, and
-// stores and queues it: 202 with the new submission. A data part is
-// spooled to a file, parsed, and streamed from the file into the store.
+// stores and queues it: 202 with the new submission. The body is read
+// first (a data part spooled to a file) under the upload rules; then a
+// large upload takes its slot, and is parsed and streamed from the file
+// into the store.
 func (s *Server) createSubmission(c echo.Context) error {
 	doc, data, err := s.readPackage(c)
 	if data != nil {
 		defer data.Close()
 	}
+	if errors.Is(err, errTooSlow) {
+		return s.tooSlow(c)
+	}
 	if err != nil {
 		return err
 	}
+	bodyRead(c)
+	size := int64(len(doc))
+	if data != nil {
+		size += data.size
+	}
+	release, err := s.largeSlot(c.Request().Context(), size)
+	if err != nil {
+		return err
+	}
+	defer release()
 	n, err := s.checkPackage(doc, data)
 	if err != nil {
 		return err

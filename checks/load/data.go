@@ -124,7 +124,7 @@ func csvSource(d checks.Data, opt Options, lim Limits, ps *problems) ([]byte, bo
 // summaryData checks printed summary statistics and orders them like the
 // declared variables.
 func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *checks.Dataset {
-	before := len(ps.list)
+	before := ps.count()
 	pos := summaryOrder(d.Variables, index, ps)
 	if d.N < 3 {
 		ps.at("/data/n", "must be at least 3 for data of kind summary")
@@ -133,7 +133,7 @@ func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *chec
 	r := correlationMatrix(d.Correlations, k, ps)
 	checkVector("sds", d.SDs, k, true, ps)
 	checkVector("means", d.Means, k, false, ps)
-	if len(ps.list) > before || r == nil {
+	if ps.count() > before || r == nil {
 		return nil
 	}
 	ds := &checks.Dataset{Kind: checks.DataSummary, N: d.N, Cor: mat.NewSymDense(p, nil)}
@@ -157,15 +157,15 @@ func summaryOrder(names []string, index map[string]int, ps *problems) []int {
 		j, ok := index[name]
 		switch _, dup := seen[name]; {
 		case !ok:
-			ps.at(at, "%s", unknownName(name, index))
+			ps.unknown(at, name, index)
 		case dup:
-			ps.at(at, "%q is listed twice", name)
+			ps.at(at, "%s is listed twice", quoted(name))
 		}
 		seen[name], pos[i] = i, j
 	}
 	for name, j := range index {
 		if _, ok := seen[name]; !ok {
-			ps.at(pointer("variables", j, "name"), "%q has no entry in /data/variables", name)
+			ps.at(pointer("variables", j, "name"), "%s has no entry in /data/variables", quoted(name))
 		}
 	}
 	return pos

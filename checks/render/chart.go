@@ -51,7 +51,7 @@ func stabilityRows(c checks.ClaimReport, alpha float64) []chartRow {
 		rows = append(rows, r)
 	}
 	for _, a := range c.UnderAlternatives {
-		p := altPoint(a)
+		p := altPoint(a, ref)
 		rows = append(rows, chartRow{Label: "alternative " + a.Name, P: p, Shift: altShift(ref, p, a, alpha)})
 	}
 	for _, m := range methodOrder(c.MissingData) {

@@ -32,7 +32,7 @@ type Config struct {
 	Shutdown           time.Duration
 	// JobMemoryMiB is the memory one screening job may use (the worker's
 	// memory divided among its workers, less headroom); LargeIngests the
-	// large uploads the API reads at once.
+	// large uploads the API checks and stores at once.
 	JobMemoryMiB int64
 	LargeIngests int
 	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
@@ -104,7 +104,7 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 			&c.LargeIngests,
 			"large-ingests",
 			c.LargeIngests,
-			"uploads of 8 MiB or more read at once; more get 503",
+			"uploads of 8 MiB or more checked and stored at once, once their bodies have arrived",
 		)
 		fs.BoolVar(
 			&c.TLSProxy,
