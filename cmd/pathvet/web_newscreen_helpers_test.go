@@ -6,7 +6,6 @@ import (
 	"io"
 	"mime/multipart"
 	"net/http"
-	"net/url"
 	"regexp"
 	"strings"
 	"testing"
@@ -14,17 +13,6 @@ import (
 
 // field is one form field as a browser sends it, in the form's order.
 type field struct{ name, value string }
-
-// signedIn is a web client with a session for the key.
-func signedIn(t *testing.T, base, token string) *webClient {
-	t.Helper()
-	w := newWebClient(t, base)
-	csrf := w.signInForm()
-	if code := w.postFrom("/session", url.Values{"key": {token}, "_csrf": {csrf}}); code != http.StatusSeeOther {
-		t.Fatalf("sign-in: %d", code)
-	}
-	return w
-}
 
 // postMultipart posts fields (and a file for rows_file, when content is
 // not nil) as multipart/form-data, as the form's enctype makes a browser
