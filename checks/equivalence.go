@@ -2,6 +2,7 @@ package checks
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math/big"
 
@@ -110,6 +111,11 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 				"equivalent graphs either.", c.ID, decl.err)})
 	}
 	across, err := a.declaredAcross(i)
+	if errors.Is(err, dag.ErrTooManyParentSets) {
+		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be re-estimated across the equivalent graphs: %s, so whether its conclusion holds in "+
+				"them is not known.", c.ID, a.tooManySetsText(a.parentsNode(c), "the declared graph's class"))})
+	}
 	if err != nil {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})

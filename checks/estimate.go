@@ -215,14 +215,36 @@ func (a *Analysis) regress(m *Moments, c Claim, y, focal int, others []int) est 
 
 func (a *Analysis) fitRegression(m *Moments, y, focal int, adj []int, scale string, level float64) est {
 	x := append([]int{focal}, adj...)
+	if o, ok := a.olsInput(m, y, scale); ok {
+		return olsEstimate(o.cov, o.means, m.N, y, x, o.scale, level, o.note)
+	}
+	if a.Study.Package.Variables[y].Scale == ScaleBinary && m.Rows != nil {
+		return logisticEstimate(m, y, x, scale, level)
+	}
+	return partialEstimate(m, y, focal, adj, level)
+}
+
+// olsFit is what an OLS estimate of a claim is fitted from: the
+// covariance matrix (the correlation matrix on the standardized scale),
+// the means when they are used, the scale reported, and a note when the
+// claim's own scale could not be used.
+type olsFit struct {
+	cov   mat.Symmetric
+	means []float64
+	scale string
+	note  string
+}
+
+// olsInput chooses how a claim on scale with outcome y is fitted from m:
+// by OLS (ok), or otherwise by logistic regression (a binary outcome with
+// raw rows) or as a partial correlation (the correlation scale).
+func (a *Analysis) olsInput(m *Moments, y int, scale string) (olsFit, bool) {
 	binary := a.Study.Package.Variables[y].Scale == ScaleBinary
 	switch {
-	case binary && m.Rows != nil:
-		return logisticEstimate(m, y, x, scale, level)
-	case scale == "correlation":
-		return partialEstimate(m, y, focal, adj, level)
+	case binary && m.Rows != nil, scale == "correlation":
+		return olsFit{}, false
 	case scale == "unstandardized" && m.SD != nil:
-		return olsEstimate(m.Cov(), m.Means, m.N, y, x, "unstandardized", level, "")
+		return olsFit{cov: m.Cov(), means: m.Means, scale: "unstandardized"}, true
 	}
 	note := ""
 	if scale != "standardized" {
@@ -238,7 +260,7 @@ func (a *Analysis) fitRegression(m *Moments, y, focal int, adj []int, scale stri
 			"; ",
 		) + "the binary outcome is treated as continuous (moments without rows allow no logistic regression)"
 	}
-	return olsEstimate(m.Cor, nil, m.N, y, x, "standardized", level, note)
+	return olsFit{cov: m.Cor, scale: "standardized", note: note}, true
 }
 
 func scaleName(s string) string { return strings.ReplaceAll(s, "_", " ") }

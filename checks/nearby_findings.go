@@ -31,6 +31,7 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(unexaminedBetterFormat,
 			count(left, "more class fits", "more classes fit"), run.examinedBetter)})
 	}
+	fs = append(fs, a.unlistedFinding(run)...)
 	return append(fs, a.binaryScoreFinding()...)
 }
 

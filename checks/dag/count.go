@@ -220,6 +220,12 @@ func (c *counter) split(vs []int, l *PDAG, k []int) (comps [][]int, arcs []Edge,
 			}
 		}
 	}
+	if isComplete(l) { // no rule orients a line among nodes that are all adjacent
+		if rest := len(vs) - len(k); rest >= 2 {
+			comps = [][]int{restOf(vs, inK)}
+		}
+		return comps, arcs, true
+	}
 	var pending [][2]int
 	for _, s := range seeds {
 		for _, x := range w.Siblings(s[1]) {
@@ -236,6 +242,30 @@ func (c *counter) split(vs []int, l *PDAG, k []int) (comps [][]int, arcs []Edge,
 		comps = append(comps, globalIDs(vs, comp))
 	}
 	return comps, arcs, true
+}
+
+// isComplete reports whether every two nodes of g are adjacent. Putting a
+// clique first in a complete component then leaves the rest one complete
+// component with every line still a line: R1 and R3 need two
+// non-adjacent nodes, R2 an arc out of a node of the rest.
+func isComplete(g *PDAG) bool {
+	for _, a := range g.adj {
+		if len(a) != len(g.adj)-1 {
+			return false
+		}
+	}
+	return true
+}
+
+// restOf returns the global ids of the nodes of vs outside the clique.
+func restOf(vs []int, inK []bool) []int {
+	var out []int
+	for i, v := range vs {
+		if !inK[i] {
+			out = append(out, v)
+		}
+	}
+	return out
 }
 
 func globalIDs(vs, local []int) []int {

@@ -4,6 +4,9 @@ import (
 	"errors"
 	"math"
 
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -54,64 +57,82 @@ func fill(s []float64, x float64) {
 	}
 }
 
-// update recomputes node v's row for the parents pa. With W = S_pa,pa⁻¹
-// S_pa,·, the covariance of v and u given pa is s_vu − s_v,pa W_·u; the
-// partial correlation of v and a parent u given the other parents is
-// −P_vu / sqrt(P_vv P_uu), P the inverse of S over {v} ∪ pa.
+// update recomputes node v's row for the parents pa, from one Cholesky
+// factorization S_pa,pa = L Lᵀ and Z = L⁻¹ S_pa,· (every variable's
+// covariances with pa, whitened). The covariance of a and u given pa is
+//
+//	s_au − s_a,pa S_pa,pa⁻¹ S_pa,u = s_au − Z_·aᵀ Z_·u
+//
+// and the squared partial correlation of v and a parent u given the other
+// parents, from the regression b = S_pa,pa⁻¹ s_pa,v = L⁻ᵀ Z_·v with
+// residual variance σ² = s_vv − Z_·vᵀ Z_·v (P being the inverse of S over
+// {v} ∪ pa, by the block inverse),
+//
+//	r² = P_vu² / (P_vv P_uu) = b_u² / (b_u² + σ² (S_pa,pa⁻¹)_uu)
 func (r *rows) update(v int, pa []int) error {
 	fill(r.add[v], math.NaN())
 	fill(r.rem[v], math.NaN())
-	if err := r.additions(v, pa); err != nil {
+	w, err := whiten(r.m.S, pa)
+	if err != nil {
 		return err
 	}
-	return r.removals(v, pa)
+	if err := r.additions(v, pa, w); err != nil {
+		return err
+	}
+	return r.removals(v, pa, w)
 }
 
-// onParents returns W = S_pa,pa⁻¹ S_pa,· , the coefficients of every
-// variable regressed on pa (one row per parent; a zero row for no parents).
-func onParents(s mat.Symmetric, pa []int) (*mat.Dense, error) {
-	p := s.SymmetricDim()
-	w := mat.NewDense(max(len(pa), 1), p, nil)
-	if len(pa) == 0 {
+// whitened is S_pa,pa = L Lᵀ (L lower triangular, k × k, row-major) and
+// Z = L⁻¹ S_pa,· (k × p); both empty for no parents.
+type whitened struct {
+	k, p int
+	l, z []float64
+}
+
+// whiten factors S_pa,pa without estimating its condition number: a
+// factorization that fails, or a variance it leaves at zero or below (in
+// additions and removals), is ErrNotPositiveDefinite.
+func whiten(s mat.Symmetric, pa []int) (*whitened, error) {
+	k, p := len(pa), s.SymmetricDim()
+	w := &whitened{k: k, p: p, l: make([]float64, k*k), z: make([]float64, k*p)}
+	if k == 0 {
 		return w, nil
 	}
-	var ch mat.Cholesky
-	if !ch.Factorize(sub(s, pa)) {
-		return nil, ErrNotPositiveDefinite
-	}
-	b := mat.NewDense(len(pa), p, nil)
-	for j, u := range pa {
-		for k := range p {
-			b.Set(j, k, s.At(u, k))
+	for i, a := range pa {
+		for j, b := range pa[:i+1] {
+			w.l[i*k+j] = s.At(a, b)
+		}
+		for u := range p {
+			w.z[i*p+u] = s.At(a, u)
 		}
 	}
-	if err := ch.SolveTo(w, b); err != nil {
+	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: k, Stride: k, Data: w.l}
+	if _, ok := lapack64.Potrf(blas64.Symmetric{Uplo: blas.Lower, N: k, Stride: k, Data: w.l}); !ok {
 		return nil, ErrNotPositiveDefinite
 	}
+	blas64.Trsm(blas.Left, blas.NoTrans, 1, l, blas64.General{Rows: k, Cols: p, Stride: p, Data: w.z})
 	return w, nil
+}
+
+// col is Z_·aᵀ Z_·u.
+func (w *whitened) col(a, u int) float64 {
+	c := 0.0
+	for j := range w.k {
+		c += w.z[j*w.p+a] * w.z[j*w.p+u]
+	}
+	return c
 }
 
 // additions fills r.add[v] with the ΔBIC of adding each allowed u → v to
 // the parents pa, from the partial correlation of v and u given pa.
-func (r *rows) additions(v int, pa []int) error {
+func (r *rows) additions(v int, pa []int, w *whitened) error {
 	s, p := r.m.S, r.m.S.SymmetricDim()
-	w, err := onParents(s, pa)
-	if err != nil {
-		return err
-	}
-	given := func(a, u int) float64 { // covariance of a and u given pa
-		c := s.At(a, u)
-		for j, q := range pa {
-			c -= s.At(a, q) * w.At(j, u)
-		}
-		return c
-	}
-	cvv := given(v, v)
+	cvv := s.At(v, v) - w.col(v, v)
 	for u := range p {
 		if u == v || !r.m.in(u) || isIn(pa, u) {
 			continue
 		}
-		cvu, cuu := given(v, u), given(u, u)
+		cvu, cuu := s.At(v, u)-w.col(v, u), s.At(u, u)-w.col(u, u)
 		if !(cvv > 0 && cuu > 0) {
 			return ErrNotPositiveDefinite
 		}
@@ -124,38 +145,36 @@ func (r *rows) additions(v int, pa []int) error {
 	return nil
 }
 
-func (r *rows) removals(v int, pa []int) error {
-	if len(pa) == 0 {
+func (r *rows) removals(v int, pa []int, w *whitened) error {
+	k := len(pa)
+	if k == 0 {
 		return nil
 	}
-	idx := append([]int{v}, pa...)
-	var ch mat.Cholesky
-	if !ch.Factorize(sub(r.m.S, idx)) {
+	sigma2 := r.m.S.At(v, v) - w.col(v, v)
+	if !(sigma2 > 0) {
 		return ErrNotPositiveDefinite
 	}
-	var inv mat.SymDense
-	if err := ch.InverseTo(&inv); err != nil {
+	b := make([]float64, k) // L⁻ᵀ Z_·v
+	for j := range k {
+		b[j] = w.z[j*w.p+v]
+	}
+	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: k, Stride: k, Data: w.l}
+	blas64.Trsv(blas.Trans, l, blas64.Vector{N: k, Inc: 1, Data: b})
+	if !lapack64.Trtri(l) { // L⁻¹ in place; (S_pa,pa⁻¹)_uu is the squared norm of its column u
 		return ErrNotPositiveDefinite
 	}
 	for j, u := range pa {
-		pvu := inv.At(0, j+1)
-		r2 := pvu * pvu / (inv.At(0, 0) * inv.At(j+1, j+1))
+		inv := 0.0
+		for i := j; i < k; i++ {
+			inv += w.l[i*k+j] * w.l[i*k+j]
+		}
+		r2 := b[j] * b[j] / (b[j]*b[j] + sigma2*inv)
 		if !(r2 < 1) {
 			return ErrNotPositiveDefinite
 		}
 		r.rem[v][u] = -r.n1*math.Log1p(-r2) - r.lnN
 	}
 	return nil
-}
-
-func sub(s mat.Symmetric, idx []int) *mat.SymDense {
-	out := mat.NewSymDense(len(idx), nil)
-	for i, a := range idx {
-		for j, b := range idx[:i+1] {
-			out.SetSym(i, j, s.At(a, b))
-		}
-	}
-	return out
 }
 
 func isIn(s []int, x int) bool {
