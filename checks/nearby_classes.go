@@ -15,6 +15,7 @@ type nearClass struct {
 	edits       []nearby.Edit
 	delta       float64
 	g, cpdag    *dag.PDAG
+	key         string // cpdag.Key()
 	bg          []dag.Edge
 	size        *big.Int
 	plausible   *big.Int // nil when it could not be counted
@@ -70,7 +71,8 @@ func (a *Analysis) resolveClass(parents [][]int, edits []nearby.Edit, delta floa
 	if n, err := dag.PlausibleSize(c.cpdag, c.bg); err == nil {
 		c.plausible = n
 	}
-	c.alternative = alts[c.cpdag.Key()]
+	c.key = c.cpdag.Key()
+	c.alternative = alts[c.key]
 	return c
 }
 

@@ -28,10 +28,10 @@ func (run *nearbyRun) unlisted() unlistedTally {
 	var t unlistedTally
 	seen, claims := map[string]bool{}, map[int]bool{}
 	for _, c := range append(append([]*nearClass(nil), run.listed...), run.best) {
-		if c == nil || c.claims == nil || seen[c.cpdag.Key()] {
+		if c == nil || c.claims == nil || seen[c.key] {
 			continue
 		}
-		seen[c.cpdag.Key()] = true
+		seen[c.key] = true
 		t.examined++
 		if len(c.unlisted) > 0 {
 			t.classes++

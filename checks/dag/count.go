@@ -173,23 +173,26 @@ func (c *counter) cliqueTerm(vs []int, l *PDAG, cliques [][]int, parent []int, i
 }
 
 // local builds the undirected graph induced by the lines of c.g on vs,
-// with local indices 0..len(vs)-1.
+// with local indices 0..len(vs)-1. vs being sorted, the local neighbour
+// lists come out sorted, so it is laid out directly, without New.
 func (c *counter) local(vs []int) *PDAG {
 	for i, v := range vs {
 		c.pos[v] = i
 	}
-	var lines [][2]int
+	l := &PDAG{adj: make([][]int, len(vs)), mark: make([][]int8, len(vs))}
 	for i, v := range vs {
-		for _, w := range c.g.Siblings(v) {
-			if j := c.pos[w]; j > i {
-				lines = append(lines, [2]int{i, j})
+		for k, w := range c.g.adj[v] {
+			if j := c.pos[w]; j >= 0 && c.g.mark[v][k] == line {
+				l.adj[i] = append(l.adj[i], j)
 			}
 		}
+		l.mark[i] = make([]int8, len(l.adj[i])) // all lines
 	}
 	for _, v := range vs {
 		c.pos[v] = -1
 	}
-	return New(len(vs), nil, lines)
+	l.at = lookupTables(l.adj)
+	return l
 }
 
 // split puts the clique k (local indices) first in the component vs: it

@@ -1,5 +1,7 @@
 package dag
 
+import "slices"
+
 // VStructure is a collider a → c ← b with a and b non-adjacent, a < b.
 type VStructure struct{ A, C, B int }
 
@@ -119,14 +121,15 @@ func ChainComponents(g *PDAG) [][]int {
 	seen := make([]bool, g.N())
 	var out [][]int
 	for s := range g.N() {
-		if seen[s] || len(g.Siblings(s)) == 0 {
+		if seen[s] || !slices.Contains(g.mark[s], line) {
 			continue
 		}
 		comp := []int{s}
 		seen[s] = true
 		for i := 0; i < len(comp); i++ {
-			for _, v := range g.Siblings(comp[i]) {
-				if !seen[v] {
+			u := comp[i]
+			for k, v := range g.adj[u] {
+				if g.mark[u][k] == line && !seen[v] {
 					seen[v] = true
 					comp = append(comp, v)
 				}

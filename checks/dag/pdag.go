@@ -3,6 +3,7 @@ package dag
 import (
 	"fmt"
 	"sort"
+	"strconv"
 )
 
 // Edge is a directed pair of node indices: From → To.
@@ -194,11 +195,15 @@ func (g *PDAG) Key() string {
 	b := make([]byte, 0, 8*len(g.adj))
 	for u := range g.adj {
 		for k, v := range g.adj[u] {
+			sep := byte(0)
 			switch {
 			case g.mark[u][k] == arcOut:
-				b = fmt.Appendf(b, "%d>%d,", u, v)
+				sep = '>'
 			case g.mark[u][k] == line && u < v:
-				b = fmt.Appendf(b, "%d-%d,", u, v)
+				sep = '-'
+			}
+			if sep != 0 { // "u>v," or "u-v,"
+				b = append(strconv.AppendInt(append(strconv.AppendInt(b, int64(u), 10), sep), int64(v), 10), ',')
 			}
 		}
 	}

@@ -31,6 +31,7 @@ type rows struct {
 	m        Model
 	lnN, n1  float64
 	add, rem [][]float64
+	scratch  whitened // reused by every update
 }
 
 func newRows(m Model, g *graph) (*rows, error) {
@@ -72,7 +73,7 @@ func fill(s []float64, x float64) {
 func (r *rows) update(v int, pa []int) error {
 	fill(r.add[v], math.NaN())
 	fill(r.rem[v], math.NaN())
-	w, err := whiten(r.m.S, pa)
+	w, err := r.scratch.whiten(r.m.S, pa)
 	if err != nil {
 		return err
 	}
@@ -89,12 +90,14 @@ type whitened struct {
 	l, z []float64
 }
 
-// whiten factors S_pa,pa without estimating its condition number: a
-// factorization that fails, or a variance it leaves at zero or below (in
-// additions and removals), is ErrNotPositiveDefinite.
-func whiten(s mat.Symmetric, pa []int) (*whitened, error) {
+// whiten factors S_pa,pa into w's buffers (grown as needed) without
+// estimating its condition number: a factorization that fails, or a
+// variance it leaves at zero or below (in additions and removals), is
+// ErrNotPositiveDefinite.
+func (w *whitened) whiten(s mat.Symmetric, pa []int) (*whitened, error) {
 	k, p := len(pa), s.SymmetricDim()
-	w := &whitened{k: k, p: p, l: make([]float64, k*k), z: make([]float64, k*p)}
+	w.k, w.p = k, p
+	w.l, w.z = grow(w.l, k*k), grow(w.z, k*p)
 	if k == 0 {
 		return w, nil
 	}
@@ -112,6 +115,16 @@ func whiten(s mat.Symmetric, pa []int) (*whitened, error) {
 	}
 	blas64.Trsm(blas.Left, blas.NoTrans, 1, l, blas64.General{Rows: k, Cols: p, Stride: p, Data: w.z})
 	return w, nil
+}
+
+// grow returns buf resized to n, zeroed.
+func grow(buf []float64, n int) []float64 {
+	if cap(buf) < n {
+		return make([]float64, n)
+	}
+	buf = buf[:n]
+	clear(buf)
+	return buf
 }
 
 // col is Z_·aᵀ Z_·u.
