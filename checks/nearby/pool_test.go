@@ -2,9 +2,9 @@ package nearby
 
 import (
 	"context"
+	"maps"
 	"math"
 	"math/rand/v2"
-	"maps"
 	"testing"
 
 	"gonum.org/v1/gonum/mat"
