@@ -1,7 +1,6 @@
 package api
 
 import (
-	"encoding/json"
 	"net/http"
 
 	"github.com/labstack/echo/v4"
@@ -35,20 +34,9 @@ func (s *Server) limitLargeIngests(next echo.HandlerFunc) echo.HandlerFunc {
 
 // checkMemory refuses, before loading, raw data whose screening would
 // need more memory than a job has: the CSV part, or the data inline in
-// the package.
+// the package (service.CheckPackageMemory, as the workers check it).
 func (s *Server) checkMemory(doc, data []byte) error {
-	if data == nil {
-		var inline struct {
-			Data struct {
-				CSV string `json:"csv"`
-			} `json:"data"`
-		}
-		if json.Unmarshal(doc, &inline) != nil {
-			return nil // the loader says what is wrong with it
-		}
-		data = []byte(inline.Data.CSV)
-	}
-	if err := service.CheckMemory(data, s.cfg.JobMemory); err != nil {
+	if err := service.CheckPackageMemory(doc, data, s.cfg.JobMemory); err != nil {
 		return &checks.InvalidPackageError{Problems: []checks.Problem{{Pointer: "/data", Detail: err.Error()}}}
 	}
 	return nil

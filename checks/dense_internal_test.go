@@ -3,11 +3,13 @@ package checks
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"strings"
 	"testing"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
+	"github.com/pathvet/pathvet/checks/dag"
 	"github.com/pathvet/pathvet/checks/schema/schematest"
 )
 
@@ -67,5 +69,28 @@ func TestDenseGraph_BoundedAndSaid(t *testing.T) {
 	}
 	if err := schematest.Report(t).Validate(v); err != nil {
 		t.Error(err)
+	}
+}
+
+// A class of large graphs lists fewer members: a complete graph on 30
+// variables has 435 arrows, so 10,000 / 435 = 22 of its 30! members are
+// listed (truncated), each with all 435; on 8 variables (28 arrows) the
+// usual 50.
+func TestListMembers_BoundedByArrows(t *testing.T) {
+	for _, tc := range []struct{ p, want int }{{30, 22}, {8, MaxListedMembers}} {
+		var lines [][2]int
+		for i := range tc.p {
+			for j := i + 1; j < tc.p; j++ {
+				lines = append(lines, [2]int{i, j})
+			}
+		}
+		s := &Study{Names: make([]string, tc.p)}
+		for i := range s.Names {
+			s.Names[i] = fmt.Sprintf("v%d", i)
+		}
+		ms, truncated, err := listMembers(s, dag.New(tc.p, nil, lines), nil)
+		if err != nil || len(ms) != tc.want || !truncated || len(ms[0]) != len(lines) {
+			t.Errorf("K%d: %d members (truncated %v, %v), want %d", tc.p, len(ms), truncated, err, tc.want)
+		}
 	}
 }

@@ -9,8 +9,15 @@ import (
 	"github.com/pathvet/pathvet/checks/dag"
 )
 
-// MaxListedMembers is how many members of a class the report lists.
-const MaxListedMembers = 50
+// MaxListedMembers is how many members of a class the report lists, and
+// MaxListedArrows how many arrows those members may have in all: a class
+// of large graphs lists fewer members (at least one), so that a report on
+// a complete graph of 100 variables does not spell out 50 graphs of 4,950
+// arrows twice over (30 MB of JSON, most of the time spent writing it).
+const (
+	MaxListedMembers = 50
+	MaxListedArrows  = 10000
+)
 
 // equivalence: which graphs fit the data exactly as well, and did the
 // authors say so? (README, "Checks") This is its graph half: the CPDAG, both
@@ -286,7 +293,8 @@ func backgroundNames(s *Study) ([][2]string, []string) {
 }
 
 func listMembers(s *Study, c *dag.PDAG, required []dag.Edge) ([][][2]string, bool, error) {
-	ms, truncated, err := dag.Members(c, required, MaxListedMembers)
+	arrows := len(c.Arcs()) + len(c.Lines()) // every member has them all, oriented
+	ms, truncated, err := dag.Members(c, required, min(MaxListedMembers, max(1, MaxListedArrows/max(arrows, 1))))
 	out := make([][][2]string, len(ms))
 	for i, m := range ms {
 		out[i] = namedArcs(s, m.Arcs())

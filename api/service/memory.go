@@ -1,6 +1,9 @@
 package service
 
-import "bytes"
+import (
+	"bytes"
+	"encoding/json"
+)
 
 // Working-memory model of a screening, measured on a two-core machine
 // (two imputation workers): max RSS of `pathvet check` on raw data whose
@@ -36,6 +39,26 @@ func CSVShape(data []byte) (rows, cols int) {
 // WorkingMemory estimates the bytes a screening of raw data of this shape
 // needs.
 func WorkingMemory(rows, cols int) int64 { return memoryBase + int64(rows)*int64(cols)*bytesPerCell }
+
+// CheckPackageMemory is CheckMemory for a package document and the CSV
+// data sent beside it, or, when none was (nil or empty), the CSV inline in
+// the document's data.csv: the API checks it at ingest and a worker again
+// before screening, both the same way. A document that is not JSON is left
+// to the loader, which says what is wrong with it.
+func CheckPackageMemory(doc, csv []byte, budget int64) error {
+	if len(csv) == 0 {
+		var inline struct {
+			Data struct {
+				CSV string `json:"csv"`
+			} `json:"data"`
+		}
+		if json.Unmarshal(doc, &inline) != nil {
+			return nil
+		}
+		csv = []byte(inline.Data.CSV)
+	}
+	return CheckMemory(csv, budget)
+}
 
 // CheckMemory refuses (invalid, with the figures) CSV data whose screening
 // would need more than budget bytes; a budget of 0 checks nothing.

@@ -57,3 +57,22 @@ func TestMaxCells(t *testing.T) {
 		t.Errorf("a budget below the base allows %d cells, want 0", n)
 	}
 }
+
+// The CSV beside the package is checked, or, when none was sent, the CSV
+// inline in the document; a document that is not JSON is left to the
+// loader.
+func TestCheckPackageMemory(t *testing.T) {
+	const inline = `{"data": {"kind": "rows", "csv": "a,b\n1,2\n3,4\n"}}`
+	if err := CheckPackageMemory([]byte(inline), nil, 1<<20); ErrorCode(err) != EInvalid {
+		t.Errorf("inline CSV over budget: %v", err)
+	}
+	if err := CheckPackageMemory([]byte(`{"data": {"kind": "rows"}}`), []byte("a,b\n1,2\n"), 1<<20); ErrorCode(err) != EInvalid {
+		t.Errorf("CSV beside over budget: %v", err)
+	}
+	if err := CheckPackageMemory([]byte(inline), []byte{}, 1<<30); err != nil {
+		t.Errorf("inline CSV within budget: %v", err)
+	}
+	if err := CheckPackageMemory([]byte("{not json"), nil, 1<<20); err != nil {
+		t.Errorf("not JSON: %v", err)
+	}
+}

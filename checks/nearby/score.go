@@ -3,6 +3,7 @@ package nearby
 import (
 	"errors"
 	"math"
+	"slices"
 
 	"gonum.org/v1/gonum/blas"
 	"gonum.org/v1/gonum/blas/blas64"
@@ -59,8 +60,9 @@ func fill(s []float64, x float64) {
 }
 
 // update recomputes node v's row for the parents pa, from one Cholesky
-// factorization S_pa,pa = L Lᵀ and Z = L⁻¹ S_pa,· (every variable's
-// covariances with pa, whitened). The covariance of a and u given pa is
+// factorization S_pa,pa = L Lᵀ and Z = L⁻¹ S_pa,u for the nodes u outside
+// pa (their covariances with pa, whitened; v among them). The covariance
+// of a and u given pa is
 //
 //	s_au − s_a,pa S_pa,pa⁻¹ S_pa,u = s_au − Z_·aᵀ Z_·u
 //
@@ -84,10 +86,13 @@ func (r *rows) update(v int, pa []int) error {
 }
 
 // whitened is S_pa,pa = L Lᵀ (L lower triangular, k × k, row-major) and
-// Z = L⁻¹ S_pa,· (k × p); both empty for no parents.
+// Z = L⁻¹ S_pa,cols (k × len(cols), cols the nodes outside pa, at[u] the
+// column of node u, −1 for a parent); L and Z are empty for no parents.
 type whitened struct {
-	k, p int
+	k    int
 	l, z []float64
+	cols []int
+	at   []int
 }
 
 // whiten factors S_pa,pa into w's buffers (grown as needed) without
@@ -96,8 +101,22 @@ type whitened struct {
 // ErrNotPositiveDefinite.
 func (w *whitened) whiten(s mat.Symmetric, pa []int) (*whitened, error) {
 	k, p := len(pa), s.SymmetricDim()
-	w.k, w.p = k, p
-	w.l, w.z = grow(w.l, k*k), grow(w.z, k*p)
+	w.k, w.cols = k, w.cols[:0]
+	w.at = slices.Grow(w.at[:0], p)[:p]
+	for u := range w.at {
+		w.at[u] = 0
+	}
+	for _, u := range pa {
+		w.at[u] = -1
+	}
+	for u := range p {
+		if w.at[u] == 0 {
+			w.at[u] = len(w.cols)
+			w.cols = append(w.cols, u)
+		}
+	}
+	m := len(w.cols)
+	w.l, w.z = grow(w.l, k*k), grow(w.z, k*m)
 	if k == 0 {
 		return w, nil
 	}
@@ -105,15 +124,15 @@ func (w *whitened) whiten(s mat.Symmetric, pa []int) (*whitened, error) {
 		for j, b := range pa[:i+1] {
 			w.l[i*k+j] = s.At(a, b)
 		}
-		for u := range p {
-			w.z[i*p+u] = s.At(a, u)
+		for c, u := range w.cols {
+			w.z[i*m+c] = s.At(a, u)
 		}
 	}
 	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: k, Stride: k, Data: w.l}
 	if _, ok := lapack64.Potrf(blas64.Symmetric{Uplo: blas.Lower, N: k, Stride: k, Data: w.l}); !ok {
 		return nil, ErrNotPositiveDefinite
 	}
-	blas64.Trsm(blas.Left, blas.NoTrans, 1, l, blas64.General{Rows: k, Cols: p, Stride: p, Data: w.z})
+	blas64.Trsm(blas.Left, blas.NoTrans, 1, l, blas64.General{Rows: k, Cols: m, Stride: m, Data: w.z})
 	return w, nil
 }
 
@@ -127,11 +146,12 @@ func grow(buf []float64, n int) []float64 {
 	return buf
 }
 
-// col is Z_·aᵀ Z_·u.
+// col is Z_·aᵀ Z_·u, for nodes a and u outside pa.
 func (w *whitened) col(a, u int) float64 {
+	m, ca, cu := len(w.cols), w.at[a], w.at[u]
 	c := 0.0
 	for j := range w.k {
-		c += w.z[j*w.p+a] * w.z[j*w.p+u]
+		c += w.z[j*m+ca] * w.z[j*m+cu]
 	}
 	return c
 }
@@ -169,7 +189,7 @@ func (r *rows) removals(v int, pa []int, w *whitened) error {
 	}
 	b := make([]float64, k) // L⁻ᵀ Z_·v
 	for j := range k {
-		b[j] = w.z[j*w.p+v]
+		b[j] = w.z[j*len(w.cols)+w.at[v]]
 	}
 	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: k, Stride: k, Data: w.l}
 	blas64.Trsv(blas.Trans, l, blas64.Vector{N: k, Inc: 1, Data: b})
