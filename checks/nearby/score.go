@@ -30,6 +30,7 @@ func (m Model) in(v int) bool { return m.In == nil || m.In[v] }
 // (add[v][u]) and of removing each parent u (rem[v][u]); NaN elsewhere.
 type rows struct {
 	m        Model
+	s        []float64 // m.S in full, row-major, read in the updates' inner loops
 	lnN, n1  float64
 	add, rem [][]float64
 	scratch  whitened // reused by every update
@@ -37,7 +38,12 @@ type rows struct {
 
 func newRows(m Model, g *graph) (*rows, error) {
 	p := m.S.SymmetricDim()
-	r := &rows{m: m, lnN: math.Log(float64(m.N)), n1: float64(m.N - 1)}
+	r := &rows{m: m, s: make([]float64, p*p), lnN: math.Log(float64(m.N)), n1: float64(m.N - 1)}
+	for i := range p {
+		for j := range p {
+			r.s[i*p+j] = m.S.At(i, j)
+		}
+	}
 	r.add, r.rem = make([][]float64, p), make([][]float64, p)
 	for v := range p {
 		r.add[v], r.rem[v] = make([]float64, p), make([]float64, p)
@@ -75,7 +81,7 @@ func fill(s []float64, x float64) {
 func (r *rows) update(v int, pa []int) error {
 	fill(r.add[v], math.NaN())
 	fill(r.rem[v], math.NaN())
-	w, err := r.scratch.whiten(r.m.S, pa)
+	w, err := r.scratch.whiten(r.s, len(r.add), pa)
 	if err != nil {
 		return err
 	}
@@ -99,8 +105,8 @@ type whitened struct {
 // estimating its condition number: a factorization that fails, or a
 // variance it leaves at zero or below (in additions and removals), is
 // ErrNotPositiveDefinite.
-func (w *whitened) whiten(s mat.Symmetric, pa []int) (*whitened, error) {
-	k, p := len(pa), s.SymmetricDim()
+func (w *whitened) whiten(s []float64, p int, pa []int) (*whitened, error) {
+	k := len(pa)
 	w.k, w.cols = k, w.cols[:0]
 	w.at = slices.Grow(w.at[:0], p)[:p]
 	for u := range w.at {
@@ -122,10 +128,10 @@ func (w *whitened) whiten(s mat.Symmetric, pa []int) (*whitened, error) {
 	}
 	for i, a := range pa {
 		for j, b := range pa[:i+1] {
-			w.l[i*k+j] = s.At(a, b)
+			w.l[i*k+j] = s[a*p+b]
 		}
 		for c, u := range w.cols {
-			w.z[i*m+c] = s.At(a, u)
+			w.z[i*m+c] = s[a*p+u]
 		}
 	}
 	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: k, Stride: k, Data: w.l}
@@ -159,13 +165,13 @@ func (w *whitened) col(a, u int) float64 {
 // additions fills r.add[v] with the ΔBIC of adding each allowed u → v to
 // the parents pa, from the partial correlation of v and u given pa.
 func (r *rows) additions(v int, pa []int, w *whitened) error {
-	s, p := r.m.S, r.m.S.SymmetricDim()
-	cvv := s.At(v, v) - w.col(v, v)
+	s, p := r.s, len(r.add)
+	cvv := s[v*p+v] - w.col(v, v)
 	for u := range p {
 		if u == v || !r.m.in(u) || isIn(pa, u) {
 			continue
 		}
-		cvu, cuu := s.At(v, u)-w.col(v, u), s.At(u, u)-w.col(u, u)
+		cvu, cuu := s[v*p+u]-w.col(v, u), s[u*p+u]-w.col(u, u)
 		if !(cvv > 0 && cuu > 0) {
 			return ErrNotPositiveDefinite
 		}
@@ -183,7 +189,7 @@ func (r *rows) removals(v int, pa []int, w *whitened) error {
 	if k == 0 {
 		return nil
 	}
-	sigma2 := r.m.S.At(v, v) - w.col(v, v)
+	sigma2 := r.s[v*len(r.add)+v] - w.col(v, v)
 	if !(sigma2 > 0) {
 		return ErrNotPositiveDefinite
 	}
