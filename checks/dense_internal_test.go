@@ -94,3 +94,46 @@ func TestListMembers_BoundedByArrows(t *testing.T) {
 		}
 	}
 }
+
+// The finding on claims not re-estimated counts claims and classes in
+// every combination: one claim or several (named, the first five and a
+// count), in the one class examined, in each of several, or in some.
+func TestUnlistedText_Counts(t *testing.T) {
+	claims := make([]Claim, 8)
+	for i := range claims {
+		claims[i].ID = fmt.Sprintf("C%d", i+1)
+	}
+	a := &Analysis{Study: &Study{Package: &Package{Claims: claims}}}
+	class := func(key string, unlisted ...int) *nearClass {
+		return &nearClass{key: key, claims: map[int]*AcrossEquivalents{}, unlisted: unlisted}
+	}
+	for _, tc := range []struct {
+		listed []*nearClass
+		want   string
+	}{
+		{[]*nearClass{class("a", 0)}, "Claim C1 could not be re-estimated in the one class examined: " +
+			"there the variable whose parents the estimate uses has more than 4,096"},
+		{[]*nearClass{class("a", 1), class("b", 1), class("c", 1)},
+			"Claim C2 could not be re-estimated in each of the 3 classes examined: there"},
+		{[]*nearClass{class("a", 0, 1), class("b", 1), class("a", 5)},
+			"2 claims (C1 and C2) could not be re-estimated in the 2 classes examined (each claim in at least one of " +
+				"them)"},
+		{[]*nearClass{class("a", 0, 1, 2, 3, 4, 5, 6), class("b"), class("c")},
+			"7 claims (C1, C2, C3, C4, C5 and 2 more) could not be re-estimated in 1 of the 3 classes examined: there"},
+		{[]*nearClass{class("a", 0), class("b", 2), class("c")},
+			"2 claims (C1 and C3) could not be re-estimated in 2 of the 3 classes examined (each claim in at least"},
+	} {
+		fs := a.unlistedFinding(&nearbyRun{listed: tc.listed})
+		if len(fs) != 1 || fs[0].Severity != StatusWarn || !strings.HasPrefix(fs[0].Message, tc.want) {
+			t.Errorf("got %+v\nwant a warning starting %q", fs, tc.want)
+		}
+	}
+	if fs := a.unlistedFinding(&nearbyRun{listed: []*nearClass{class("a")}}); fs != nil {
+		t.Errorf("every claim re-estimated, yet %+v", fs)
+	}
+	one := a.unlistedFinding(&nearbyRun{listed: []*nearClass{class("a", 0)}})[0].Message
+	if !strings.HasSuffix(one, "cannot say that the claim holds there (the report's nearby graphs name, class by "+
+		"class, the claims and their variables).") {
+		t.Errorf("one claim: %q", one)
+	}
+}

@@ -12,8 +12,8 @@ import (
 // were too many to re-estimate over: who, where, then what is not known.
 const unlistedFormat = "%s could not be re-estimated in %s: there the variable whose parents the estimate uses " +
 	"has more than %s locally valid parent sets (IDA's local criterion; a dense undirected neighbourhood of 13 or " +
-	"more variables has that many), too many to list, so this check cannot say that %s there (each class's " +
-	"claims_not_examined names the variables)."
+	"more variables has that many), too many to list, so this check cannot say that %s there (the report's " +
+	"nearby graphs name, class by class, the claims and their variables)."
 
 // unlistedTally counts the examined classes, those in which some claim
 // was not re-estimated (too many parent sets), and those claims.
@@ -66,14 +66,14 @@ func (a *Analysis) unlistedFinding(run *nearbyRun) []Finding {
 
 // unlistedWhere names the classes the claims were not re-estimated in.
 func unlistedWhere(t unlistedTally, n int) string {
-	const examined = "classes whose claims were re-estimated"
+	const examined = "classes examined"
 	each := ""
 	if n > 1 && t.classes > 1 {
 		each = " (each claim in at least one of them)"
 	}
 	switch {
 	case t.examined == 1:
-		return "the one class whose claims were re-estimated"
+		return "the one class examined"
 	case t.classes == t.examined && each == "":
 		return fmt.Sprintf("each of the %d %s", t.examined, examined)
 	case t.classes == t.examined:
