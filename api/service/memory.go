@@ -12,8 +12,8 @@ import (
 // "Limits"). The costliest case is data whose imputations keep their rows
 // (a binary variable with missing values, or a binary claim outcome) with
 // a missingness pattern in nearly every row: at 395,000 rows × 30 columns
-// the worker peaked at 954 MB (cells-binary) and 960 MB (a binary
-// outcome), pathvet check at up to 968 MB, and an audit measured 1,020 MB.
+// the worker peaked at up to 954 MB (cells-binary) and 960 MB (a binary
+// outcome), pathvet check at up to 961 MB, and an audit measured 1,020 MB.
 // Its live heap is about 39 bytes a cell (the columns, the pattern groups
 // and the observed values laid out by pattern, and one completed dataset
 // per imputation worker), and the Go collector lets the heap grow to twice

@@ -33,7 +33,7 @@ func TestWorkingMemory_Calibration(t *testing.T) {
 		{"cells-binary-outcome, worker", 200_000, 30, 541e6},
 		{"cells-binary, worker", 395_000, 30, 954e6},
 		{"cells-binary-outcome, worker", 395_000, 30, 960e6},
-		{"cells-binary, pathvet check", 395_000, 30, 968e6},
+		{"cells-binary-outcome, pathvet check", 395_000, 30, 961e6},
 		{"the audit's job", 395_000, 30, 1020e6},
 	} {
 		got := float64(WorkingMemory(m.rows, m.cols))
