@@ -73,12 +73,15 @@ func (a *Analysis) borderedEstimate(c Claim, b *linmod.Bordered, o olsFit, n int
 		return est{}, false
 	}
 	var extra []int
-	adj := make([]int, 0, len(set))
+	adj := set // a total effect's set of the cause's parents holds neither the cause nor the outcome
+	if c.Kind == KindDirect {
+		adj = make([]int, 0, len(set)-1)
+	}
 	for _, v := range set {
 		if !inBase[v] {
 			extra = append(extra, v)
 		}
-		if v != from && v != y {
+		if c.Kind == KindDirect && v != from {
 			adj = append(adj, v)
 		}
 	}

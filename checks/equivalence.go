@@ -49,7 +49,10 @@ func (a *Analysis) equivalenceClass() *equivalenceResult {
 	if a.equivalence == nil {
 		c := dag.CPDAG(a.Study.Declared)
 		r := &equivalenceResult{cpdag: c, size: dag.ClassSize(c)}
-		r.plausible, r.countErr = dag.PlausibleSize(c, a.Study.Background)
+		r.plausible, r.countErr = new(big.Int).Set(r.size), nil // no background knowledge: all are plausible
+		if len(a.Study.Background) > 0 {
+			r.plausible, r.countErr = dag.PlausibleSize(c, a.Study.Background)
+		}
 		if r.countErr != nil {
 			r.plausible = nil
 		}

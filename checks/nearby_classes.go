@@ -68,7 +68,9 @@ func (a *Analysis) resolveClass(parents [][]int, edits []nearby.Edit, delta floa
 			c.bg = append(c.bg, dag.ExogenousArcs(c.g, v)...)
 		}
 	}
-	if n, err := dag.PlausibleSize(c.cpdag, c.bg); err == nil {
+	if len(c.bg) == 0 { // no background knowledge: every member is plausible
+		c.plausible = new(big.Int).Set(c.size)
+	} else if n, err := dag.PlausibleSize(c.cpdag, c.bg); err == nil {
 		c.plausible = n
 	}
 	c.key = c.cpdag.Key()

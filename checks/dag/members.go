@@ -97,9 +97,15 @@ func LocalParentSets(c *PDAG, x int) ([][]int, error) {
 		return nil, ErrTooManyParentSets
 	}
 	var out [][]int
+	var slab []int // the sets are cut from shared blocks: one allocation per block, not per set
 	var grow func(start int, chosen []int)
 	grow = func(start int, chosen []int) {
-		set := append(append([]int(nil), pa...), chosen...)
+		n := len(pa) + len(chosen)
+		if len(slab) < n {
+			slab = make([]int, max(n, 1<<14))
+		}
+		set := append(append(slab[:0:n], pa...), chosen...)
+		slab = slab[n:]
 		sortInts(set)
 		out = append(out, set)
 		for i := start; i < len(sib); i++ {

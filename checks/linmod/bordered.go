@@ -37,6 +37,7 @@ type Bordered struct {
 	extra  map[int]int // node → place in extra
 	sd     map[int]float64
 	l      *mat.Cholesky // of R_BB; nil for an empty base
+	lt     mat.TriDense  // its factor L
 	z      *mat.Dense    // L⁻¹ R_BE
 	zy     []float64     // L⁻¹ r_By
 	g      *mat.SymDense // R_EE − ZᵀZ
@@ -101,10 +102,9 @@ func (b *Bordered) factorBase(r func(u, v int) float64, ry func(int) float64) er
 	if !b.l.Factorize(rbb) {
 		return &SingularError{Condition: math.Inf(1)}
 	}
-	var lt mat.TriDense
-	b.l.LTo(&lt)
+	b.l.LTo(&b.lt)
 	zy := mat.NewVecDense(k, b.zy)
-	if err := zy.SolveVec(&lt, rby); err != nil {
+	if err := zy.SolveVec(&b.lt, rby); err != nil {
 		return &SingularError{Condition: math.Inf(1)}
 	}
 	b.zz = mat.Dot(zy, zy)
@@ -125,10 +125,8 @@ func (b *Bordered) schur(extra []int, r func(u, v int) float64, ry func(int) flo
 				rbe.Set(i, j, r(u, v))
 			}
 		}
-		var lt mat.TriDense
-		b.l.LTo(&lt)
 		b.z = mat.NewDense(k, e, nil)
-		if err := b.z.Solve(&lt, rbe); err != nil {
+		if err := b.z.Solve(&b.lt, rbe); err != nil {
 			b.z = nil // L is triangular and non-singular: cannot happen
 		}
 	}
@@ -271,12 +269,10 @@ func (b *Bordered) baseFocal(focal int) (*baseFocal, error) {
 		return nil, ErrNotAPredictor
 	}
 	k := len(b.base)
-	var lt mat.TriDense
-	b.l.LTo(&lt)
 	e := mat.NewVecDense(k, nil)
 	e.SetVec(j, 1)
 	var q mat.VecDense
-	if err := q.SolveVec(&lt, e); err != nil {
+	if err := q.SolveVec(&b.lt, e); err != nil {
 		return nil, &SingularError{Condition: math.Inf(1)}
 	}
 	f := &baseFocal{qz: mat.Dot(&q, mat.NewVecDense(k, b.zy)), qq: mat.Dot(&q, &q)}
