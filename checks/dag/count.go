@@ -131,6 +131,13 @@ func (c *counter) count(vs []int) (*big.Int, error) {
 	if n, ok := c.memo[key]; ok {
 		return n, nil
 	}
+	if c.clique(vs) { // one maximal clique, put first: φ(K, ∅), the orders of K that respect c.req
+		n, err := c.linearExtensions(vs)
+		if err == nil {
+			c.memo[key] = n
+		}
+		return n, err
+	}
 	l := c.local(vs)
 	cliques, parent := cliqueTree(l)
 	sum := new(big.Int)
@@ -170,6 +177,31 @@ func (c *counter) cliqueTerm(vs []int, l *PDAG, cliques [][]int, parent []int, i
 		phi.Mul(phi, n)
 	}
 	return phi, nil
+}
+
+// clique reports whether the nodes vs (sorted, a component of lines) are
+// all joined to each other by lines.
+func (c *counter) clique(vs []int) bool {
+	for i, v := range vs {
+		c.pos[v] = i
+	}
+	defer func() {
+		for _, v := range vs {
+			c.pos[v] = -1
+		}
+	}()
+	for _, v := range vs {
+		n := 0
+		for k, w := range c.g.adj[v] {
+			if c.g.mark[v][k] == line && c.pos[w] >= 0 {
+				n++
+			}
+		}
+		if n != len(vs)-1 {
+			return false
+		}
+	}
+	return true
 }
 
 // local builds the undirected graph induced by the lines of c.g on vs,
