@@ -22,10 +22,13 @@ type fakeStore struct {
 
 func (f *fakeStore) Ping(context.Context) error { return f.pingErr }
 func (f *fakeStore) KeyByToken(_ context.Context, token string) (*service.Key, error) {
-	if token != "good" {
-		return nil, service.Errorf(service.ENotFound, "key not found")
+	switch token {
+	case "good":
+		return &service.Key{ID: 1, OfficeID: 1, Role: service.RoleEditor}, nil
+	case "other": // another office's key
+		return &service.Key{ID: 2, OfficeID: 2, Role: service.RoleEditor}, nil
 	}
-	return &service.Key{ID: 1, OfficeID: 1, Role: service.RoleEditor}, nil
+	return nil, service.Errorf(service.ENotFound, "key not found")
 }
 func (f *fakeStore) CreateSubmission(context.Context, service.NewSubmission) (*service.Submission, bool, error) {
 	return nil, false, f.err
@@ -40,7 +43,7 @@ func (f *fakeStore) DeleteSubmission(context.Context, string, service.Scope) err
 func (f *fakeStore) Rerun(context.Context, string, service.Scope) (*service.Submission, error) {
 	return nil, f.err
 }
-func (f *fakeStore) LatestReport(context.Context, string, service.Scope) ([]byte, error) {
+func (f *fakeStore) LatestReport(context.Context, string, service.Scope, int64) (*service.StoredReport, error) {
 	return nil, f.err
 }
 

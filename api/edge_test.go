@@ -3,7 +3,6 @@ package api_test
 import (
 	"bytes"
 	"encoding/json"
-	"io"
 	"net/http"
 	"net/http/httptest"
 	"strings"
@@ -51,42 +50,6 @@ func TestAuth_SchemeAnyCase(t *testing.T) {
 		if rr.Code != want {
 			t.Errorf("%q: %d, want %d", header, rr.Code, want)
 		}
-	}
-}
-
-// With every large-upload slot taken, one more large upload is 503 with
-// Retry-After before its body is read; a small one still goes through.
-func TestIngest_LargeUploadsCapped(t *testing.T) {
-	srv := api.New(api.Config{Store: &fakeStore{}, LargeIngests: 1})
-	hold, release := io.Pipe()
-	first := make(chan int)
-	go func() { // a large upload whose body trickles in: it holds the slot
-		req := httptest.NewRequest(http.MethodPost, "/v1/submissions", hold)
-		req.ContentLength = -1
-		req.Header.Set("Authorization", "Bearer good")
-		req.Header.Set("Content-Type", "application/json")
-		rr := httptest.NewRecorder()
-		srv.Echo().ServeHTTP(rr, req)
-		first <- rr.Code
-	}()
-	_, _ = release.Write([]byte("{")) // the first upload is reading its body now
-	post := func(size int64) *httptest.ResponseRecorder {
-		req := httptest.NewRequest(http.MethodPost, "/v1/submissions", bytes.NewReader(make([]byte, size)))
-		req.Header.Set("Authorization", "Bearer good")
-		req.Header.Set("Content-Type", "application/json")
-		rr := httptest.NewRecorder()
-		srv.Echo().ServeHTTP(rr, req)
-		return rr
-	}
-	if rr := post(api.LargeIngestBytes); rr.Code != 503 || rr.Header().Get("Retry-After") == "" {
-		t.Fatalf("a second large upload: %d %v", rr.Code, rr.Header())
-	}
-	if rr := post(10); rr.Code == 503 {
-		t.Fatalf("a small upload was refused: %d", rr.Code)
-	}
-	_ = release.Close()
-	if code := <-first; code == 503 {
-		t.Fatalf("the first upload: %d", code)
 	}
 }
 

@@ -30,10 +30,12 @@ var problemTypes = map[int]string{
 	http.StatusUnauthorized:                "https://pathvet.example/problems/unauthorized",
 	http.StatusNotFound:                    "https://pathvet.example/problems/not-found",
 	http.StatusMethodNotAllowed:            "https://pathvet.example/problems/method-not-allowed",
+	http.StatusRequestTimeout:              "https://pathvet.example/problems/upload-too-slow",
 	http.StatusConflict:                    "https://pathvet.example/problems/conflict",
 	http.StatusUnsupportedMediaType:        "https://pathvet.example/problems/unsupported-media-type",
 	http.StatusRequestEntityTooLarge:       "https://pathvet.example/problems/too-large",
 	http.StatusUnprocessableEntity:         "https://pathvet.example/problems/invalid-package",
+	http.StatusTooManyRequests:             "https://pathvet.example/problems/too-many-uploads",
 	http.StatusRequestHeaderFieldsTooLarge: "https://pathvet.example/problems/headers-too-large",
 	http.StatusServiceUnavailable:          "https://pathvet.example/problems/unavailable",
 	http.StatusGatewayTimeout:              "https://pathvet.example/problems/timeout",
@@ -102,7 +104,7 @@ func (s *Server) handleError(err error, c echo.Context) {
 	switch p.Status {
 	case http.StatusUnauthorized:
 		h.Set("WWW-Authenticate", `Bearer realm="pathvet"`)
-	case http.StatusServiceUnavailable:
+	case http.StatusServiceUnavailable, http.StatusTooManyRequests:
 		h.Set("Retry-After", retryAfter)
 	}
 	h.Set(echo.HeaderContentType, ProblemContentType)

@@ -11,6 +11,7 @@ import (
 func (s *Server) routes() {
 	e := s.echo
 	e.Pre(headAsGet)
+	e.Use(securityHeaders)
 	e.Use(middleware.RequestID())
 	e.Use(s.logRequests())
 	e.Use(middleware.RecoverWithConfig(middleware.RecoverConfig{DisableStackAll: true}))
@@ -26,7 +27,7 @@ func (s *Server) routes() {
 	// Authentication is per route, not on the group: a group's middleware
 	// would catch every path under /v1 and hide 405 behind 404.
 	v1, auth := e.Group("/v1"), s.authenticate
-	v1.POST("/submissions", s.createSubmission, auth, s.limitLargeIngests,
+	v1.POST("/submissions", s.createSubmission, auth, s.gateIngest,
 		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}))
 	v1.GET("/submissions", s.listSubmissions, auth)
 	v1.GET("/submissions/:id", s.getSubmission, auth)
@@ -44,10 +45,11 @@ func (s *Server) routes() {
 }
 
 // webRoutes registers the web workspace: pages for a browser with a
-// session (sign-in at /), every form behind a CSRF token.
+// session (sign-in at /), every form behind a CSRF token tied to the
+// session (csrf, after withSession).
 func (s *Server) webRoutes() {
 	e := s.echo
-	page := []echo.MiddlewareFunc{s.webPage, middleware.BodyLimit("64K"), tokenOnly, s.csrf(), s.withSession}
+	page := []echo.MiddlewareFunc{s.webPage, middleware.BodyLimit("64K"), s.withSession, s.csrf}
 	signedIn := append(page[:len(page):len(page)], requireSession)
 	e.GET("/", s.home, page...)
 	e.POST("/session", s.signIn, page...)

@@ -6,6 +6,7 @@ package api
 import (
 	"context"
 	"log/slog"
+	"net/netip"
 	"sync"
 	"time"
 
@@ -24,7 +25,7 @@ type Store interface {
 	Submissions(ctx context.Context, f service.Filter) ([]*service.Submission, string, error)
 	DeleteSubmission(ctx context.Context, id string, sc service.Scope) error
 	Rerun(ctx context.Context, id string, sc service.Scope) (*service.Submission, error)
-	LatestReport(ctx context.Context, id string, sc service.Scope) ([]byte, error)
+	LatestReport(ctx context.Context, id string, sc service.Scope, have int64) (*service.StoredReport, error)
 	SetWebhook(ctx context.Context, officeID int64, url string) (*service.Webhook, error)
 	Webhook(ctx context.Context, officeID int64) (*service.Webhook, error)
 	DeleteWebhook(ctx context.Context, officeID int64) error
@@ -45,15 +46,31 @@ type Config struct {
 	Metrics      *Metrics
 	// Web is the web workspace's storage; without it the workspace's
 	// routes are not served. TLSProxy: the server sits behind a
-	// TLS-terminating proxy (Secure cookies; the client address from
-	// X-Forwarded-For). SessionTTL is how long a sign-in lasts.
+	// TLS-terminating proxy (Secure cookies). SessionTTL is how long a
+	// sign-in lasts.
 	Web        WebStore
 	TLSProxy   bool
 	SessionTTL time.Duration
-	// LargeIngests is how many uploads of LargeIngestBytes or more may be
-	// read at once (default 1); each can hold several times its size in
-	// memory while it is read, checked and stored.
+	// TrustedProxies are the proxies whose X-Forwarded-For entries are
+	// believed (clientAddress); from any other peer the header is ignored.
+	TrustedProxies []netip.Prefix
+	// LargeIngests is how many spooled uploads of LargeIngestBytes or more
+	// may be checked and stored at once (default 1); each can hold several
+	// times its size in memory meanwhile. SlotWait is how long a spooled
+	// one waits for a slot before it is 503.
 	LargeIngests int
+	SlotWait     time.Duration
+	// UploadMinRate (bytes a second), UploadGrace and UploadIdle are the
+	// upload rules: after the grace an upload must have arrived at the
+	// rate on average, and no read of it may wait longer than UploadIdle;
+	// else it is 408.
+	UploadMinRate int64
+	UploadGrace   time.Duration
+	UploadIdle    time.Duration
+	// Egress checks webhook URLs as they are set (the allow-list of
+	// networks and hosts otherwise refused); nil refuses every address of a
+	// refused class.
+	Egress *service.Egress
 	// JobMemory is the memory one screening job may use on a worker; raw
 	// data whose estimated working memory is larger is refused (422) at
 	// ingest. 0 checks nothing.
@@ -68,6 +85,7 @@ type Server struct {
 	draining  chan struct{}
 	drainOnce sync.Once
 	large     chan struct{} // the large-upload semaphore
+	sending   keysSending   // large uploads in progress, by key
 }
 
 // Drain makes every open and later long poll answer at once with the
@@ -97,6 +115,10 @@ func New(cfg Config) *Server {
 	if cfg.LargeIngests <= 0 {
 		cfg.LargeIngests = 1
 	}
+	uploadDefaults(&cfg)
+	if cfg.Egress == nil {
+		cfg.Egress = &service.Egress{}
+	}
 	if cfg.Metrics == nil {
 		cfg.Metrics = NewMetrics()
 	}
@@ -113,3 +135,18 @@ func (s *Server) Echo() *echo.Echo { return s.echo }
 
 // bodyLimit is the largest request body: a package and its CSV data.
 func (s *Server) bodyLimit() int64 { return s.cfg.Limits.PackageBytes + s.cfg.Limits.CSVBytes + 1<<20 }
+
+// uploadDefaults fills in the upload rules left unset.
+func uploadDefaults(cfg *Config) {
+	for _, d := range []struct {
+		v   *time.Duration
+		def time.Duration
+	}{{&cfg.SlotWait, DefaultSlotWait}, {&cfg.UploadGrace, DefaultUploadGrace}, {&cfg.UploadIdle, DefaultUploadIdle}} {
+		if *d.v <= 0 {
+			*d.v = d.def
+		}
+	}
+	if cfg.UploadMinRate <= 0 {
+		cfg.UploadMinRate = DefaultUploadMinRate
+	}
+}

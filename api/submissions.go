@@ -2,8 +2,8 @@ package api
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
-	"io"
 	"net/http"
 	"strconv"
 	"time"
@@ -13,7 +13,6 @@ import (
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
-	"github.com/pathvet/pathvet/checks/render"
 )
 
 // SubmissionView is a submission as the API shows it.
@@ -89,16 +88,31 @@ func mustJSON(v any) []byte {
 
 // createSubmission takes a package as JSON (data inline or as summary
 // statistics) or as multipart parts "package" and "data", checks it, and
-// stores and queues it: 202 with the new submission. A data part is
-// spooled to a file, parsed, and streamed from the file into the store.
+// stores and queues it: 202 with the new submission. The body is read
+// first (a data part spooled to a file) under the upload rules; then a
+// large upload takes its slot, and is parsed and streamed from the file
+// into the store.
 func (s *Server) createSubmission(c echo.Context) error {
 	doc, data, err := s.readPackage(c)
 	if data != nil {
 		defer data.Close()
 	}
+	if errors.Is(err, errTooSlow) {
+		return s.tooSlow(c)
+	}
 	if err != nil {
 		return err
 	}
+	bodyRead(c)
+	size := int64(len(doc))
+	if data != nil {
+		size += data.size
+	}
+	release, err := s.largeSlot(c.Request().Context(), size)
+	if err != nil {
+		return err
+	}
+	defer release()
 	n, err := s.checkPackage(doc, data)
 	if err != nil {
 		return err
@@ -242,31 +256,4 @@ func (s *Server) rerunSubmission(c echo.Context) error {
 		return err
 	}
 	return c.JSON(http.StatusAccepted, view(sub))
-}
-
-// getReport serves the newest report: JSON by default, the text view with
-// ?format=text, the HTML view with ?format=html.
-func (s *Server) getReport(c echo.Context) error {
-	b, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
-	if err != nil {
-		return err
-	}
-	format := c.QueryParam("format")
-	if format == "" || format == "json" {
-		return c.JSONBlob(http.StatusOK, b)
-	}
-	write, ok := map[string]struct {
-		ctype string
-		fn    func(io.Writer, *checks.Report) error
-	}{"text": {echo.MIMETextPlainCharsetUTF8, render.WriteText}, "html": {echo.MIMETextHTMLCharsetUTF8, writeHTML}}[format]
-	if !ok {
-		return problemError(http.StatusBadRequest, "format must be json, text or html.")
-	}
-	var rep checks.Report
-	if err := json.Unmarshal(b, &rep); err != nil {
-		return err
-	}
-	c.Response().Header().Set(echo.HeaderContentType, write.ctype)
-	c.Response().WriteHeader(http.StatusOK)
-	return write.fn(c.Response(), &rep)
 }

@@ -100,8 +100,11 @@ func readLimited(r io.Reader, limit int64, what string, size int64) ([]byte, err
 }
 
 // bodyError turns a failed read of the body into 413 when the body limit
-// cut it, 400 otherwise.
+// cut it, errTooSlow when the upload rules did, 400 otherwise.
 func bodyError(err error) error {
+	if errors.Is(err, errTooSlow) {
+		return errTooSlow
+	}
 	var he *echo.HTTPError
 	if errors.As(err, &he) {
 		return he

@@ -47,7 +47,9 @@ func editorOnly(next echo.HandlerFunc) echo.HandlerFunc {
 }
 
 // putWebhook sets the office's webhook from {"url": "..."} and answers
-// with its new signing secret, shown this once.
+// with its new signing secret, shown this once. A URL whose host resolves
+// to an address deliveries may not reach (loopback, private, link-local,
+// metadata, ...; see service.Egress) is refused with 400.
 func (s *Server) putWebhook(c echo.Context) error {
 	var in struct {
 		URL string `json:"url"`
@@ -58,6 +60,9 @@ func (s *Server) putWebhook(c echo.Context) error {
 	}
 	if err := json.Unmarshal(body, &in); err != nil || in.URL == "" || !validText(in.URL) {
 		return problemError(http.StatusBadRequest, `Send {"url": "https://..."} as JSON.`)
+	}
+	if err := s.cfg.Egress.CheckURL(c.Request().Context(), in.URL); err != nil {
+		return err
 	}
 	w, err := s.cfg.Store.SetWebhook(c.Request().Context(), keyOf(c).OfficeID, in.URL)
 	if err != nil {

@@ -8,7 +8,6 @@ import (
 	"time"
 
 	"github.com/labstack/echo/v4"
-	"github.com/labstack/echo/v4/middleware"
 
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks/render"
@@ -21,7 +20,6 @@ type WebStore interface {
 	EndSession(ctx context.Context, id string) error
 	SignInWait(ctx context.Context, address string) (time.Duration, error)
 	NoteSignInFailure(ctx context.Context, address string) error
-	ClearSignInFailures(ctx context.Context, address string) error
 	ReportHistory(ctx context.Context, id string, sc service.Scope) ([]service.ReportEntry, error)
 	PreviousVersion(ctx context.Context, sub *service.Submission, sc service.Scope) (*service.Submission, []byte, error)
 	Versions(ctx context.Context, ids []string, sc service.Scope) (map[string]service.Version, error)
@@ -29,34 +27,16 @@ type WebStore interface {
 	RecentReports(ctx context.Context, sc service.Scope, since time.Time, limit int) ([][]byte, bool, error)
 }
 
-// Names of the workspace's cookies and the form field of the CSRF token.
+// Names of the workspace's cookies, the form field and header of the CSRF
+// token, and the context keys.
 const (
 	sessionCookie = "pathvet_session"
 	csrfCookie    = "pathvet_csrf"
 	csrfField     = "_csrf"
+	csrfHeader    = "X-CSRF-Token"
 	csrfContext   = "csrf"
 	sessionCtx    = "pathvet.session"
 )
-
-// csrf is Echo's CSRF middleware in its token form: every state-changing
-// form carries the token of its cookie (double submit) and is refused
-// without it.
-func (s *Server) csrf() echo.MiddlewareFunc {
-	return middleware.CSRFWithConfig(middleware.CSRFConfig{
-		TokenLookup: "form:" + csrfField, CookieName: csrfCookie, CookiePath: "/", ContextKey: csrfContext,
-		CookieHTTPOnly: true, CookieSameSite: http.SameSiteLaxMode, CookieSecure: s.cfg.TLSProxy,
-	})
-}
-
-// tokenOnly hides the browser's fetch metadata from the CSRF middleware,
-// which would otherwise let a same-origin form through without its token:
-// here the token is required of every state-changing form.
-func tokenOnly(next echo.HandlerFunc) echo.HandlerFunc {
-	return func(c echo.Context) error {
-		c.Request().Header.Del(echo.HeaderSecFetchSite)
-		return next(c)
-	}
-}
 
 // webPage turns a workspace handler's error into a page for people, with
 // the status the API would answer.
@@ -105,11 +85,6 @@ func (s *Server) nav(c echo.Context) render.Nav {
 	return render.Nav{Office: k.OfficeName, Role: k.Role, Label: k.Label, CSRF: csrfToken(c)}
 }
 
-func csrfToken(c echo.Context) string {
-	t, _ := c.Get(csrfContext).(string)
-	return t
-}
-
 // withSession looks up the session cookie and, for a live session, puts
 // its key where the API's handlers find it.
 func (s *Server) withSession(next echo.HandlerFunc) echo.HandlerFunc {
@@ -147,19 +122,9 @@ func (s *Server) setSessionCookie(c echo.Context, id string, maxAge int) {
 		HttpOnly: true, SameSite: http.SameSiteLaxMode, Secure: s.cfg.TLSProxy})
 }
 
-// clientAddress is the address sign-in failures are counted by: the
-// peer, or behind a TLS proxy the X-Forwarded-For entry it added (trusted
-// from private and loopback addresses only).
-func (s *Server) clientAddress(c echo.Context) string {
-	if s.cfg.TLSProxy {
-		return echo.ExtractIPFromXFFHeader()(c.Request())
-	}
-	return echo.ExtractIPDirect()(c.Request())
-}
-
 // signIn is POST /session: an office key in, a session out.
 func (s *Server) signIn(c echo.Context) error {
-	ctx, addr := c.Request().Context(), s.clientAddress(c)
+	ctx, addr := c.Request().Context(), clientAddress(c.Request(), s.cfg.TrustedProxies)
 	wait, err := s.cfg.Web.SignInWait(ctx, addr)
 	if err != nil {
 		return err
@@ -180,15 +145,15 @@ func (s *Server) signIn(c echo.Context) error {
 	if err != nil {
 		return err
 	}
-	return s.openSession(c, k, addr)
+	return s.openSession(c, k)
 }
 
-func (s *Server) openSession(c echo.Context, k *service.Key, addr string) error {
-	ctx := c.Request().Context()
-	if err := s.cfg.Web.ClearSignInFailures(ctx, addr); err != nil {
-		return err
-	}
-	id, err := s.cfg.Web.OpenSession(ctx, k, s.cfg.SessionTTL)
+// openSession opens a session for the key. The address's failures stay
+// counted: a success with one key says nothing about the guesses made
+// before it (else guesses alternated with a key of one's own would never
+// wait).
+func (s *Server) openSession(c echo.Context, k *service.Key) error {
+	id, err := s.cfg.Web.OpenSession(c.Request().Context(), k, s.cfg.SessionTTL)
 	if err != nil {
 		return err
 	}

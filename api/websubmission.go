@@ -121,11 +121,11 @@ func (s *Server) previous(c echo.Context, sub *service.Submission, rep *checks.R
 // webLetter is GET /submissions/{id}/letter.md: the questions for the
 // authors of the newest report, as Markdown.
 func (s *Server) webLetter(c echo.Context) error {
-	b, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope())
+	r, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope(), 0)
 	if err != nil {
 		return err
 	}
-	rep, err := decodeReport(b)
+	rep, err := decodeReport(r.JSON)
 	if err != nil {
 		return err
 	}

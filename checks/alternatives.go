@@ -3,6 +3,7 @@ package checks
 import (
 	"context"
 	"fmt"
+	"math"
 	"slices"
 
 	"github.com/pathvet/pathvet/checks/dag"
@@ -21,10 +22,10 @@ var alternativesCheck = Check{
 	Run:   runAlternatives,
 	Summaries: map[string]string{
 		StatusPass: "No claim changes its conclusion under a stated alternative that fits the data about as " +
-			"well as the declared graph.",
+			"well as the declared graph or better.",
 		StatusWarn: "The stated alternatives need attention; see the findings.",
 		StatusFail: "A headline claim changes sign or significance under a stated alternative that fits the " +
-			"data about as well; the data do not support choosing the declared graph over it.",
+			"data about as well or better; the data do not support choosing the declared graph over it.",
 		StatusNotApplicable: "No alternatives are stated, and the paper makes no causal claim.",
 	},
 }
@@ -80,7 +81,7 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 func alternativesSummary(status string, n int, rows []map[string]any, fs []Finding) string {
 	asWell, changed := 0, 0
 	for _, r := range rows {
-		if r["fits_about_as_well"] == true {
+		if r["fits_about_as_well"] == true || r["fits_better"] == true {
 			asWell++
 		}
 	}
@@ -162,10 +163,13 @@ func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG,
 					"compared.", name)})
 		}
 	}
-	fitsAsWell := equivalent || (same && fitted && delta < weakBIC)
-	row["fits_about_as_well"] = fitsAsWell
+	// About as well: equivalent, or |ΔBIC| < 2; better: ΔBIC ≤ −2 (Raftery
+	// 1995's bands). Either challenges the claims.
+	asWell := equivalent || (same && fitted && math.Abs(delta) < weakBIC)
+	better := same && fitted && delta <= -weakBIC
+	row["fits_about_as_well"], row["fits_better"] = asWell, better
 	for i, c := range s.Package.Claims {
-		ae, f := a.claimUnderAlternative(i, c, name, alt, in, equivalent, fitsAsWell, delta)
+		ae, f := a.claimUnderAlternative(i, c, name, alt, in, equivalent, asWell || better, delta)
 		a.Claims[i].UnderAlternatives = append(a.Claims[i].UnderAlternatives, ae)
 		fs = append(fs, f...)
 	}
@@ -181,7 +185,7 @@ func graphNodes(g *dag.PDAG) []bool {
 }
 
 func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.PDAG, in []bool,
-	equivalent, fitsAsWell bool, delta float64) (AlternativeEstimate, []Finding) {
+	equivalent, challenges bool, delta float64) (AlternativeEstimate, []Finding) {
 	s := a.Study
 	ae := AlternativeEstimate{Name: name, Equivalent: equivalent}
 	if Causal(c.Kind) && (!in[s.Index[c.From]] || !in[s.Index[c.To]]) {
@@ -193,10 +197,14 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	r := a.report(e)
 	ae.Estimate, ae.CI, ae.PValue, ae.Method, ae.Error = r.Estimate, r.CI, r.PValue, r.Method, r.Error
 	ae.StructuralZero = r.StructuralZero
-	if !e.ok() && decl.ok() && fitsAsWell {
+	if !e.ok() && decl.ok() && challenges {
+		fit := "which the data cannot tell from the declared graph"
+		if !equivalent {
+			fit = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", fitWord(delta), delta)
+		}
 		return ae, []Finding{{Severity: StatusWarn, Claim: c.ID, Details: map[string]any{"not_estimated": true},
-			Message: fmt.Sprintf("%s could not be estimated under the alternative %q, which fits the data about as "+
-				"well (%s), so whether its conclusion holds there is not known.", c.ID, name, ae.Error)}}
+			Message: fmt.Sprintf("%s could not be estimated under the alternative %q, %s (%s), so whether its "+
+				"conclusion holds there is not known.", c.ID, name, fit, ae.Error)}}
 	}
 	if !e.ok() || !decl.ok() {
 		return ae, nil
@@ -210,7 +218,7 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", fitWord(delta), delta)
 	}
 	sev := SeverityInfo
-	if fitsAsWell {
+	if challenges {
 		sev = StatusWarn
 		if c.Headline {
 			sev = StatusFail

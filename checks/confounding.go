@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/pathvet/pathvet/checks/effects"
 )
@@ -51,12 +50,15 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 			"randomized comparison is ruled out by design."}, nil
 	}
 	var fs []Finding
-	computed, missing, weak := 0, 0, 0
+	var g eValueGroups
 	for i, c := range s.Package.Claims {
 		ce := a.eValues()[i] // shared with causal-language (shared.go)
 		ev, note := ce.ev, ce.why
 		if ev == nil && note == "" {
-			continue // an association, or a claim of no effect, has nothing to explain away
+			if Causal(c.Kind) { // a claim of no effect has nothing to explain away
+				g.absent = append(g.absent, c.ID)
+			}
+			continue
 		}
 		if ev == nil {
 			sev := map[bool]string{true: SeverityInfo, false: StatusWarn}[ce.contradicted]
@@ -64,14 +66,16 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 				fs,
 				Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)},
 			)
-			if !ce.contradicted {
-				missing++
+			if ce.contradicted {
+				g.contradicted = append(g.contradicted, c.ID)
+			} else {
+				g.missing = append(g.missing, c.ID)
 			}
 			continue
 		}
-		computed++
+		g.computed = append(g.computed, c.ID)
 		if *ev.CILimit < weakEValue {
-			weak++
+			g.weak = append(g.weak, c.ID)
 		}
 		a.Claims[i].EValue = ev
 		f := eValueFinding(c, ev)
@@ -82,51 +86,23 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 		}
 	}
 	if len(fs) == 0 {
-		return CheckResult{Status: StatusNotApplicable, Summary: "The paper makes no causal claim, so there is " +
-			"nothing to explain away."}, nil
+		res := CheckResult{Status: StatusNotApplicable, Summary: "The paper makes no causal claim, so there is " +
+			"nothing to explain away."}
+		if len(g.absent) > 0 {
+			res.Summary = fmt.Sprintf("The only causal %s no effect, so there is nothing for confounding to "+
+				"explain away.", plural(len(g.absent), "claim, "+g.absent[0]+", asserts",
+				"claims, "+joinAnd(g.absent)+", assert"))
+		}
+		return res, nil
 	}
 	res := CheckResult{Findings: fs, Status: statusOf(fs),
-		Metrics: map[string]any{"claims_with_e_value": computed, "weak_e_value_below": weakEValue}}
-	res.Summary = confoundingSummary(computed, missing, weak)
-	if computed == 0 && missing == 0 { // only claims the declared graph gives no effect
+		Metrics: map[string]any{"claims_with_e_value": len(g.computed), "weak_e_value_below": weakEValue}}
+	res.Summary = confoundingSummary(g)
+	if len(g.computed) == 0 && len(g.missing) == 0 { // only claims the declared graph gives no effect
 		res.Status, res.Summary = StatusNotApplicable, "No causal claim is left to explain away: "+
-			"the declared graph gives each no effect (see graph-declared)."
+			"the declared graph gives each no effect (see graph-declared)."+g.absentText()
 	}
 	return res, nil
-}
-
-// confoundingSummary says what the E-values show, in each case only what
-// they show: weak is the number of interval-limit E-values below
-// weakEValue, missing the causal claims without an E-value.
-func confoundingSummary(computed, missing, weak int) string {
-	var parts []string
-	if weak > 0 {
-		parts = append(parts, fmt.Sprintf("For %s, an unmeasured confounder associated with both cause and outcome "+
-			"by a "+
-			"risk ratio under %.1f could move the interval to include no effect, and the design does not rule one out",
-			countNoun(weak, "causal claim", "causal claims"), weakEValue))
-	}
-	if missing > 0 {
-		parts = append(parts, fmt.Sprintf("%s no E-value, so how much confounding would explain %s away is not known",
-			countNoun(missing, "causal claim has", "causal claims have"), them(missing)))
-	}
-	if len(parts) == 0 {
-		which := fmt.Sprintf("For each of the %d causal claims", computed)
-		if computed == 1 {
-			which = "For the causal claim"
-		}
-		return fmt.Sprintf("%s, an unmeasured confounder would need a risk-ratio association of at least %.1f with "+
-			"both cause and outcome to move the interval to include no effect; see the E-values.", which, weakEValue)
-	}
-	return strings.Join(parts, "; ") + "; see the findings."
-}
-
-// countNoun writes "1 causal claim" or "3 causal claims".
-func countNoun(n int, one, many string) string {
-	if n == 1 {
-		return "1 " + one
-	}
-	return fmt.Sprintf("%d %s", n, many)
 }
 
 // eValue converts the claim to the risk-ratio scale and computes its

@@ -27,7 +27,8 @@ type AbsenceTest struct {
 // one-sided tests, and the power the study had, all three under the
 // claim's one test distribution (testDF).
 func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
-	in, ok := a.absenceInputs(c, decl)
+	m, _ := a.moments()
+	in, ok := a.absenceInputs(c, decl, m)
 	if !ok {
 		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: a.noAbsenceTest(c, decl)}}
 	}
@@ -35,26 +36,74 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	tp, pw := effects.TOST(in.b, in.se, in.delta, in.df), effects.Power(in.delta, in.se, a.Alpha, in.df)
 	p := effects.PFromT(in.b, in.se, in.df)
 	t.TOSTP, t.Power = finite(tp), finite(pw)
+	t.Verdict = a.absenceVerdict(p, tp)
 	a.Claims[i].Absence = t
-	switch {
-	case p < a.Alpha:
-		t.Verdict = "effect_found"
-		return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+	var f Finding
+	switch t.Verdict {
+	case "effect_found":
+		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
 			"%s says there is no effect, but the %s is %.2f (%s, %s), significant at α = %g: the data do not "+
 				"support \"no effect\".",
-			c.ID, a.sourceText(in.source), in.shown, pText(p), t.Distribution, a.Alpha)}}
-	case tp < a.Alpha:
-		t.Verdict = "excludes_meaningful_effects"
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			c.ID, a.sourceText(in.source), in.shown, pText(p), t.Distribution, a.Alpha)}
+	case "excludes_meaningful_effects":
+		f = Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
 			"%s says there is no effect, and the data exclude effects of ±%g or larger at α = %g (equivalence test "+
 				"%s, "+
-				"%s%s).", c.ID, t.Margin, a.Alpha, pText(tp), t.Distribution, a.marginSource(t.Margin))}}
+				"%s%s).", c.ID, t.Margin, a.Alpha, pText(tp), t.Distribution, a.marginSource(t.Margin))}
+	default:
+		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+			"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
+				"%s; the study had %.0f%% power to detect an effect of that size%s): the data do not tell.",
+			c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw, a.marginSource(t.Margin))}
 	}
-	t.Verdict = "does_not_tell"
-	return []Finding{{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-		"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
-			"%s; the study had %.0f%% power to detect an effect of that size%s): the data do not tell.",
-		c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw, a.marginSource(t.Margin))}}
+	if in.source == "recomputed" {
+		f.Message += a.absenceRecoded(i, c, t.Verdict)
+	}
+	return []Finding{f}
+}
+
+// absenceVerdict is the verdict on a claim of no effect from the
+// significance test's p and the equivalence test's tp.
+func (a *Analysis) absenceVerdict(p, tp float64) string {
+	switch {
+	case p < a.Alpha:
+		return "effect_found"
+	case tp < a.Alpha:
+		return "excludes_meaningful_effects"
+	}
+	return "does_not_tell"
+}
+
+// absenceVerdictText words a verdict for absenceRecoded.
+var absenceVerdictText = map[string]string{
+	"effect_found":                "a significant effect, against \"no effect\"",
+	"excludes_meaningful_effects": "which excludes effects of the margin's size",
+	"does_not_tell":               "which does not tell",
+}
+
+// absenceRecoded is, where the data hold likely missing codes, the
+// verdict on claim i's "no effect" with the codes read as missing, when it
+// differs from verdict (the data as read); "" otherwise.
+func (a *Analysis) absenceRecoded(i int, c Claim, verdict string) string {
+	codes := a.likelyCodes()
+	if len(codes) == 0 {
+		return ""
+	}
+	rec := a.recodedEstimate(i)
+	m, err := a.recodedMoments()
+	if err != nil {
+		return ""
+	}
+	in, ok := a.absenceInputs(c, rec, m)
+	if !ok || in.source != "recomputed" {
+		return ""
+	}
+	v := a.absenceVerdict(effects.PFromT(in.b, in.se, in.df), effects.TOST(in.b, in.se, in.delta, in.df))
+	if v == verdict {
+		return ""
+	}
+	return fmt.Sprintf(" With %s read as missing, the data give %.2f (%s) instead, %s.",
+		codesPhrases(codes).codes, in.shown, pText(effects.PFromT(in.b, in.se, in.df)), absenceVerdictText[v])
 }
 
 // sourceText names the weighed estimate and where it comes from.
@@ -86,9 +135,9 @@ type absenceInput struct {
 // absenceInputs gives the recomputed standardized estimate (a correlation
 // on Fisher's z scale, under the normal; an unstandardized one rescaled by
 // the SDs), else the reported one, standardized or rescaled likewise.
-func (a *Analysis) absenceInputs(c Claim, decl est) (absenceInput, bool) {
+func (a *Analysis) absenceInputs(c Claim, decl est, m *Moments) (absenceInput, bool) {
 	in := absenceInput{delta: a.Study.SmallestEffect(), df: testDF(c, decl), source: "recomputed"}
-	k, scaled := a.sdRatio(c)
+	k, scaled := a.sdRatio(c, m)
 	switch {
 	case !decl.ok() || decl.method == MethodZero || math.IsNaN(decl.lo):
 	case decl.scale == "correlation":
@@ -123,11 +172,11 @@ func (a *Analysis) absenceInputs(c Claim, decl est) (absenceInput, bool) {
 	return in, true
 }
 
-// sdRatio is SD(from)/SD(to), which turns an unstandardized coefficient
-// into a standardized one; ok is false without SDs.
-func (a *Analysis) sdRatio(c Claim) (k float64, ok bool) {
-	m, err := a.moments()
-	if err != nil || m.SD == nil {
+// sdRatio is SD(from)/SD(to) in the moments m, which turns an
+// unstandardized coefficient into a standardized one; ok is false without
+// SDs.
+func (a *Analysis) sdRatio(c Claim, m *Moments) (k float64, ok bool) {
+	if m == nil || m.SD == nil {
 		return math.NaN(), false
 	}
 	from, to := a.Study.Index[c.From], a.Study.Index[c.To]
@@ -138,7 +187,8 @@ func (a *Analysis) sdRatio(c Claim) (k float64, ok bool) {
 // noAbsenceTest says why a claim of no effect could not be tested.
 func (a *Analysis) noAbsenceTest(c Claim, decl est) string {
 	delta := a.Study.SmallestEffect()
-	_, scaled := a.sdRatio(c)
+	m, _ := a.moments()
+	_, scaled := a.sdRatio(c, m)
 	switch scale := claimScale(c); {
 	case scale == "odds_ratio" || scale == "log_odds":
 		return fmt.Sprintf("%s says there is no effect, but an odds ratio cannot be set against the smallest effect "+

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat"
@@ -16,17 +17,19 @@ import (
 // beside its p-value; are the reported numbers consistent; is "no effect"
 // backed by an interval that excludes meaningful effects? (README, "Checks")
 var effectReportingCheck = Check{
-	ID:    "effect-reporting",
-	Title: "Effect sizes, intervals and p-values",
-	Run:   runEffectReporting,
-	Summaries: map[string]string{
-		StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the " +
-			"estimates, and no claim of \"no effect\" goes beyond what the data show.",
-		StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data " +
-			"do not tell; see the findings.",
-		StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not " +
-			"support; ask the authors for the estimate, its interval and the equivalence test.",
-	},
+	ID:        "effect-reporting",
+	Title:     "Effect sizes, intervals and p-values",
+	Run:       runEffectReporting,
+	Summaries: effectReportingSummaries,
+}
+
+var effectReportingSummaries = map[string]string{
+	StatusPass: "Every claim reports an effect size with its uncertainty, the reported p-values agree with the " +
+		"estimates, and no claim of \"no effect\" goes beyond what the data show.",
+	StatusWarn: "Some claims are reported incompletely or inconsistently, or claim \"no effect\" where the data " +
+		"do not tell; see the findings.",
+	StatusFail: "A headline claim is reported inconsistently or claims \"no effect\" that the data do not " +
+		"support; ask the authors for the estimate, its interval and the equivalence test.",
 }
 
 // OddsRatioRange is a binary outcome's odds ratio per unit and between the
@@ -61,6 +64,13 @@ func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
 		"claims": len(a.Study.Package.Claims), "claims_fully_reported": complete, "claims_inconsistent": inconsistent,
 		"smallest_effect_of_interest": a.Study.SmallestEffect(),
 	}}
+	switch only, n := tooFewOnly(fs); {
+	case only: // the declared warning speaks of reporting, which is not at fault
+		res.Summary = fmt.Sprintf(tooFewSummary, map[bool]string{true: "the claim", false: "the claims"}[n == 1])
+	case n > 0:
+		few := fmt.Sprintf(tooFewSummary, plural(n, "one claim", "some claims"))
+		res.Summary = effectReportingSummaries[res.Status] + " " + strings.TrimSuffix(few, "; see the findings.") + "."
+	}
 	return res, nil
 }
 
@@ -92,7 +102,10 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 	if f := a.consistency(c, pr, decl); f != nil {
 		fs, bad = append(fs, *f), true
 	}
-	fs = append(fs, a.recomputedFinding(c, decl)...)
+	fs = append(fs, a.reportedFinding(i, c, decl)...)
+	if f := a.claimTooFew(c, decl); f != nil {
+		fs = append(fs, *f)
+	}
 	if c.AssertsAbsence {
 		fs = append(fs, a.absenceFinding(i, c, decl)...)
 	}
@@ -247,35 +260,6 @@ func printedSE(c Claim, pr printed, logScale bool, df float64) (s, hs float64, o
 		return (u - l) / (2 * q), (hl + hu) / (2 * q), true
 	}
 	return 0, 0, false
-}
-
-// recomputedFinding sets the reported estimate beside the recomputed one
-// and flags a reported estimate outside the recomputed interval.
-func (a *Analysis) recomputedFinding(c Claim, decl est) []Finding {
-	if c.Estimate == nil || !decl.ok() || decl.method == MethodZero || decl.scale != claimScale(c) ||
-		math.IsNaN(decl.lo) {
-		return nil
-	}
-	if *c.Estimate >= decl.lo && *c.Estimate <= decl.hi {
-		return nil
-	}
-	adjustment := "the declared graph's adjustment set"
-	if a.Study.Declared == nil || !a.claimInGraph(c) || c.Kind == KindAssociation {
-		adjustment = "the claim's own adjustment set"
-	}
-	return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-		"%s reports %g, but %s give %s (%s, %g%% interval %s to %s) with %s; ask how the reported figure was "+
-			"obtained.",
-		c.ID,
-		*c.Estimate,
-		a.dataBasis("the data"),
-		figure(decl.value),
-		pText(decl.p),
-		100*claimLevel(c),
-		figure(decl.lo),
-		figure(decl.hi),
-		adjustment,
-	)}}
 }
 
 // dataBasis names the data a recomputed estimate comes from: the complete

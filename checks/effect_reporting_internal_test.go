@@ -28,7 +28,7 @@ func reportedClaim(est, se string, ci []string, p, rel string) (Claim, printed) 
 }
 
 // Each case is one that a mutation of the consistency rule gets wrong:
-// no rounding allowance (case 1 flagged), the normal instead of t on the
+// no rounding allowance (case 1 flagged; case 8 for the printed p alone), the normal instead of t on the
 // fit's df (cases 3–5), an SE taken from the interval under the normal
 // and the p under t (case 5), a "p <" read as "p =" (case 6) or as
 // always true (case 7).
@@ -52,6 +52,11 @@ func TestEffectReporting_ConsistencyRules(t *testing.T) {
 		{"0.50", "", []string{"0.05", "0.95"}, "0.036", "", ols(5), false},
 		{"0.5", "0.05", nil, "0.001", "<", est{}, false}, // z = 10
 		{"0.10", "0.10", nil, "0.05", "<", est{}, true},  // z ≤ 1.11: p ≥ .27
+		// .2000/.1000: z in [1.9989, 2.0011], p in [.04540, .04562] (2Φ(−z));
+		// the printed p "0.05" stands for [.045, .055], which meets it: only
+		// the p-value's own rounding makes it consistent.
+		{"0.2000", "0.1000", nil, "0.05", "", est{}, false},
+		{"0.2000", "0.1000", nil, "0.050", "", est{}, true}, // [.0495, .0505] does not
 	} {
 		cl, pr := reportedClaim(c.est, c.se, c.ci, c.p, c.rel)
 		f := (&Analysis{}).consistency(cl, pr, c.decl)
@@ -115,7 +120,7 @@ func TestEffectReporting_OutsideRecomputedInterval(t *testing.T) {
 		flagged  bool
 	}{{0.35, false}, {0.6, true}, {-0.3, true}} {
 		cl := Claim{ID: "R", Estimate: &c.estimate, EstimateScale: "standardized"}
-		if fs := (&Analysis{Study: &Study{}}).recomputedFinding(cl, decl); (len(fs) > 0) != c.flagged {
+		if fs := (&Analysis{Study: &Study{}}).reportedFinding(0, cl, decl); (len(fs) > 0) != c.flagged {
 			t.Errorf("estimate %v: findings %v, want flagged %v", c.estimate, fs, c.flagged)
 		}
 	}

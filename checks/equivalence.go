@@ -233,8 +233,8 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
 		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible members of the declared "+
 			"graph's class it does, those graphs fit the data exactly as well, and in them the direct effect of %s "+
-			"on %s is zero.",
-		c.From, c.To, c.ID, n, countText(eq.plausible), c.From, c.To)}}, rev, nil
+			"on %s %s.",
+		c.From, c.To, c.ID, n, countText(eq.plausible), c.From, c.To, isNoEffect(claimScale(c)))}}, rev, nil
 }
 
 // graphReport fills the report's graph section: the CPDAG, both class

@@ -15,7 +15,7 @@ import (
 // among equivalent graphs.
 func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) string {
 	ct := across.Contrast
-	other := "zero"
+	other := noEffect(claimScale(c))
 	if ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
 		p := math.NaN()
 		if ct.Estimate.PValue != nil {

@@ -181,6 +181,13 @@ func TestAlternatives_EquivalentAndDistinguishable(t *testing.T) {
 	if rows[0]["equivalent"] != true || rows[1]["equivalent"] != false || rows[1]["delta_bic"] == nil {
 		t.Fatalf("comparisons %v", rows)
 	}
+	// "About as well" is |ΔBIC| < 2 (Raftery 1995): the second alternative,
+	// at ΔBIC −5.8, fits better, which is not about as well; the equivalent
+	// one fits exactly as well.
+	if d := rows[1]["delta_bic"].(float64); d > -2 || rows[1]["fits_about_as_well"] != false ||
+		rows[1]["fits_better"] != true || rows[0]["fits_about_as_well"] != true || rows[0]["fits_better"] != false {
+		t.Fatalf("comparisons %v", rows)
+	}
 	c1 := r.Claims[0]
 	if len(c1.UnderAlternatives) != 2 || !c1.UnderAlternatives[0].Changed || *c1.UnderAlternatives[0].Estimate != 0 {
 		t.Fatalf("C1 under alternatives %+v", c1.UnderAlternatives)

@@ -124,12 +124,14 @@ func claimAgainstGraph(s *Study, c Claim) []Finding {
 	case KindTotal:
 		if !dag.HasDirectedPath(s.Declared, from, to) {
 			return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-				"%s claims a total effect of %s on %s, but the declared graph has no directed path from %s to %s, so by the graph itself that effect is zero.",
+				"%s claims a total effect of %s on %s, but the declared graph has no directed path from %s to %s, "+
+					"so by the graph itself that effect %s.",
 				c.ID,
 				c.From,
 				c.To,
 				c.From,
 				c.To,
+				isNoEffect(claimScale(c)),
 			)}}
 		}
 	}

@@ -103,6 +103,13 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	res := CheckResult{Metrics: a.fitMetrics(mf.fit, tests, m)}
 	res.Findings = append(res.Findings, a.rejectedFindings(tests)...)
+	tooFew, best := a.fitTooFew(tests, m.N)
+	res.Metrics["implication_power_large_effect"] = num(best)
+	if tooFew != nil && len(res.Findings) == 0 { // no rejection: a rejection tells, whatever the power
+		res.Findings = append(res.Findings, *tooFew)
+	} else {
+		tooFew = nil
+	}
 	res.Findings = append(res.Findings, fitFindings(mf.fit, a.Alpha)...)
 	res.Findings = append(res.Findings, a.binaryNodeFindings(m)...)
 	res.Status = statusOf(res.Findings)
@@ -112,6 +119,10 @@ func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
 		return res, nil
 	}
 	res.Summary = fitSummary(res.Status, mf.fit, tests, a.Alpha)
+	if tooFew != nil {
+		res.Summary = tooFewFitSummary(m.N, best) +
+			strings.TrimPrefix(res.Summary, "The declared graph fits the data only loosely: ")
+	}
 	return res, nil
 }
 

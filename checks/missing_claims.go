@@ -3,7 +3,6 @@ package checks
 import (
 	"fmt"
 	"math"
-	"strings"
 )
 
 // methodFindings judge the declared method against the missingness.
@@ -28,8 +27,10 @@ func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 		sev, tail := SeverityInfo, ""
 		rejected := r.mcar.P < alpha
 		if rejected && (method == MissingCompleteCases || method == MissingAvailableCases || method == "") {
-			sev, tail = StatusWarn, " An analysis of complete or available cases is then unbiased only under "+
-				"assumptions the data argue against."
+			sev, tail = StatusWarn, fmt.Sprintf(littleRejectedTail, "")
+			if method == "" {
+				tail = fmt.Sprintf(littleRejectedTail, "if the paper analysed them, ")
+			}
 		}
 		verdict := "does not reject"
 		if rejected {
@@ -43,18 +44,21 @@ func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 
 // Long message formats of the missing-data findings.
 const (
-	// mlSENote: the ML estimate is the estimator run on the EM mean and
-	// covariance as if they came from n complete rows, so its SE, interval
-	// and p are complete-data ones, too small where data are missing.
-	mlSENote = "point estimate from the EM mean and covariance; its SE, interval and p-value treat them as if " +
-		"from n complete rows, so they understate the uncertainty where values are missing (no " +
-		"observed-information correction)"
 	unsoundText = " biases coefficients and understates their uncertainty (Little & Rubin, " +
 		"Statistical Analysis with Missing Data)"
 	unstatedFormat = "The package does not say how missing values were handled, and %.1f%% of the data cells " +
 		"are missing (%d of %d rows are complete)."
 	noneMissingFormat = "The package says no values are missing, but %.1f%% of the data cells are " +
 		"(%d of %d rows are complete)."
+	// littleRejectedTail says what a rejection of MCAR shows, and no more:
+	// the complete cases are no random subset of the rows, yet a
+	// complete-case regression stays unbiased when the missingness depends
+	// on its predictors alone (Little & Rubin, Statistical Analysis with
+	// Missing Data, 2nd ed., sec. 3.2), which the test cannot tell.
+	littleRejectedTail = " That speaks against missing completely at random only: the complete or available " +
+		"cases are then no random subset of the rows, but a complete-case regression stays unbiased when the " +
+		"missingness depends on its predictors alone, which the test cannot tell; %ssay why the analysis of " +
+		"complete or available cases holds, or re-analyse by multiple imputation or maximum likelihood."
 	littleFormat = "Little's test %s at the %g level that values are missing completely at random " +
 		"(χ² = %.2f on %d df, %s).%s"
 	uncomparedFormat = "%s could not be estimated by %s (%s), so whether its conclusion depends on how " +
@@ -137,9 +141,8 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	ests := map[string]est{}
 	for key, m := range r.moments {
 		ests[key] = a.estimateWith(m, c, pa)
-		if e := ests[key]; key == MissingMaximumLikelihood && e.ok() && e.method != MethodZero {
-			e.note = strings.TrimPrefix(e.note+"; "+mlSENote, "; ")
-			ests[key] = e
+		if key == MissingMaximumLikelihood {
+			ests[key] = a.mlInference(c, ests[key], r)
 		}
 	}
 	if len(r.imputed) > 0 {

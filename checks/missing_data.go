@@ -47,6 +47,10 @@ type missingResult struct {
 	summary missing.Summary
 	em      *missing.EMResult
 	mcar    *missing.MCARTest
+	// mlCov is the covariance of EM's (μ̂, vech Σ̂), the inverse of the
+	// observed information; mlCovErr why it could not be had.
+	mlCov    *mat.SymDense
+	mlCovErr error
 	// moments by method key: complete_cases, maximum_likelihood, the
 	// declared single imputation; and one per imputed dataset.
 	moments map[string]*Moments
@@ -87,6 +91,7 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 		r.mcar = &t
 	}
 	r.moments[MissingMaximumLikelihood] = emMoments(em, d.N)
+	r.mlCov, r.mlCovErr = missing.EstimateCovariance(ctx, d.Columns, em)
 	a.declaredMethodMoments(r)
 	if err := a.imputeClaims(ctx, r, Imputations); err != nil {
 		r.err = err

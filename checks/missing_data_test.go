@@ -208,17 +208,6 @@ func TestMissingData_PooledDistribution(t *testing.T) {
 	}
 }
 
-// The ML estimate's SE is a complete-data one on the EM moments: its
-// note says so, since its p-value is smaller than the pooled imputations'
-// (sleep demo S1: ML p ≈ .001, MI p ≈ .011).
-func TestMissingData_MLNoteSaysSEIsCompleteData(t *testing.T) {
-	r := mustRun(t, MustLoad(t, "../testdata/demo/sleep-attention/package.json"))
-	ml := r.Claims[0].MissingData["maximum_likelihood"]
-	if ml == nil || !strings.Contains(ml.Note, "understate the uncertainty") {
-		t.Fatalf("ML estimate %+v", ml)
-	}
-}
-
 // blankEvery empties column col (0-based) of every k-th data row of csv.
 func blankEvery(csv string, col, k int) string {
 	lines := strings.Split(strings.TrimSuffix(csv, "\n"), "\n")

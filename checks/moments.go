@@ -139,8 +139,11 @@ func momentsFrom(n int, means []float64, cov *mat.SymDense, rows *mat.Dense, met
 }
 
 func casesName(method string) string {
-	if method == "complete_cases" {
+	switch method {
+	case "complete_cases":
 		return "complete cases"
+	case methodCodesMissing:
+		return "complete cases with the likely missing codes read as missing"
 	}
 	return strings.ReplaceAll(method, "_", " ") + " data"
 }

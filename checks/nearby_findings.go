@@ -135,7 +135,7 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 // changedText says in one sentence how a claim fares in a nearby class.
 func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev string) string {
 	cl, decl := a.Study.Package.Claims[i], a.declaredEstimate(i)
-	other := "zero"
+	other := noEffect(claimScale(cl))
 	if ct := ae.Contrast; ct != nil && ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
 		p := math.NaN()
 		if ct.Estimate.PValue != nil {
@@ -165,7 +165,8 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 	}
 	if ae.Estimates > 1 {
 		fmt.Fprintf(&b, "; across them it ranges from %s to %s and is significant with the declared sign in %s of them",
-			numText(ae.Min), numText(ae.Max), shareText(ae.ShareSignificantSameSign))
+			boundText(ae.Min, claimScale(cl), ae.zero), boundText(ae.Max, claimScale(cl), ae.zero),
+			shareText(ae.ShareSignificantSameSign))
 	}
 	b.WriteString(".")
 	switch {

@@ -71,6 +71,8 @@ type Analysis struct {
 	equivalence  *equivalenceResult
 	mom          *Moments
 	momErr       error
+	recoded      *Moments // the likely missing codes read as missing (reported.go)
+	recodedErr   error
 	dataErr      error
 	fits         map[string]est
 	declared     []*est

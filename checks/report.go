@@ -48,12 +48,21 @@ type Report struct {
 	Design            string        `json:"design"`
 	Score             int           `json:"score"`
 	Band              string        `json:"band"`
+	ScoreCap          *ScoreCap     `json:"score_cap,omitempty"`
 	Caution           string        `json:"caution"`
 	SignificanceLevel float64       `json:"significance_level"`
 	Checks            []CheckResult `json:"checks"`
 	Data              DataReport    `json:"data"`
 	Graph             *GraphReport  `json:"graph,omitempty"`
 	Claims            []ClaimReport `json:"claims"`
+}
+
+// ScoreCap says that the score was capped below what the deductions
+// leave, and why (README, "Score").
+type ScoreCap struct {
+	Cap      int    `json:"cap"`
+	Uncapped int    `json:"uncapped"`
+	Reason   string `json:"reason"`
 }
 
 // DataReport says what the estimates were computed from.

@@ -60,5 +60,6 @@ func score(rep *Report) {
 		total -= c.Deduction
 	}
 	rep.Score = max(total, 0)
+	capTooFew(rep)
 	rep.Band = Band(rep.Score)
 }

@@ -79,5 +79,5 @@ func (a *Analysis) directionCaution(i int, c Claim) string {
 	}
 	return fmt.Sprintf(" The E-value speaks to unmeasured confounding under the declared direction of %s on %s; "+
 		"it says nothing of that direction, which the data cannot settle: in %s, the claimed effect of %s on "+
-		"%s is zero (see equivalence).", c.From, c.To, in, c.From, c.To)
+		"%s %s (see equivalence).", c.From, c.To, in, c.From, c.To, isNoEffect(claimScale(c)))
 }

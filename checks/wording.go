@@ -24,7 +24,7 @@ func count(n int, one, many string) string {
 func agreement(a, b est, alpha float64) string {
 	switch {
 	case a.method == MethodZero && b.method == MethodZero:
-		return "is zero by the graph either way"
+		return isNoEffect(a.scale) + " by the graph either way"
 	case a.method == MethodZero || b.method == MethodZero:
 		return "is not significant either way (zero by the graph in one)"
 	case a.category(alpha) == 0:
@@ -69,11 +69,38 @@ func pText(p float64) string {
 	return "p = " + strings.TrimPrefix(fmt.Sprintf("%.3f", p), "0")
 }
 
-// valueText writes an estimate with its p-value, or says it is zero by
-// the graph.
+// noEffect names "no effect" on a claim's scale: zero, or for an odds
+// ratio an odds ratio of 1.
+func noEffect(scale string) string {
+	if scale == "odds_ratio" {
+		return "no effect (odds ratio 1)"
+	}
+	return "zero"
+}
+
+// isNoEffect says that an effect on the scale is none: "is zero", "is
+// none, an odds ratio of 1".
+func isNoEffect(scale string) string {
+	if scale == "odds_ratio" {
+		return "is none, an odds ratio of 1"
+	}
+	return "is zero"
+}
+
+// boundText writes a bound of a claim's range across graphs, naming an
+// odds ratio of exactly 1 that graphs without the effect give as no effect.
+func boundText(x *float64, scale string, zeros int) string {
+	if x != nil && scale == "odds_ratio" && zeros > 0 && *x == zeroOnScale(scale) {
+		return noEffect(scale)
+	}
+	return numText(x)
+}
+
+// valueText writes an estimate with its p-value, or says it is no effect
+// by the graph.
 func valueText(e est) string {
 	if e.method == MethodZero {
-		return "zero"
+		return noEffect(e.scale)
 	}
 	return fmt.Sprintf("%s (%s)", estText(e.value), pText(e.p))
 }

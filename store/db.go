@@ -27,6 +27,11 @@ type DB struct {
 	Now func() time.Time
 
 	queue *river.Client[pgx.Tx]
+	// cache keeps keys and reports once CacheReads has started its
+	// listener.
+	cache     *readCache
+	stopCache context.CancelFunc
+	cacheDone chan struct{}
 }
 
 // Open connects to the database at url.
@@ -51,8 +56,11 @@ func Open(ctx context.Context, url string) (*DB, error) {
 	return &DB{Pool: pool, Now: time.Now, queue: q}, nil
 }
 
-// Close closes the pool.
-func (db *DB) Close() { db.Pool.Close() }
+// Close stops the read cache's listener and closes the pool.
+func (db *DB) Close() {
+	db.stopCaching()
+	db.Pool.Close()
+}
 
 // Ping checks that the database answers.
 func (db *DB) Ping(ctx context.Context) error { return db.Pool.Ping(ctx) }

@@ -3,8 +3,10 @@ package store
 import (
 	"bytes"
 	"context"
+	"errors"
 	"fmt"
 	"io"
+	"log/slog"
 	"net/http"
 	"strconv"
 	"time"
@@ -30,12 +32,14 @@ type deliverWorker struct {
 	river.WorkerDefaults[DeliverArgs]
 	db     *DB
 	client *http.Client
+	logger *slog.Logger
 }
 
 func (w *deliverWorker) Timeout(*river.Job[DeliverArgs]) time.Duration { return 30 * time.Second }
 
 // Work POSTs the delivery's payload, signed, and records the outcome; a
-// non-2xx answer or a failed request is retried until the last attempt.
+// non-2xx answer or a failed request is retried until the last attempt,
+// but an address the egress refuses fails the delivery at once.
 func (w *deliverWorker) Work(ctx context.Context, job *river.Job[DeliverArgs]) error {
 	id := job.Args.DeliveryID
 	var target, secret string
@@ -50,9 +54,16 @@ func (w *deliverWorker) Work(ctx context.Context, job *river.Job[DeliverArgs]) e
 		return err
 	}
 	code, err := w.post(ctx, target, secret, id, payload)
-	final := job.Attempt >= job.MaxAttempts
+	var refused *service.RefusedAddressError
+	final := job.Attempt >= job.MaxAttempts || errors.As(err, &refused)
+	if err != nil {
+		w.logger.Warn("webhook delivery failed", "delivery_id", id, "attempt", job.Attempt, "error", err)
+	}
 	if rerr := w.db.recordDelivery(context.WithoutCancel(ctx), id, code, err, final); rerr != nil {
 		return rerr
+	}
+	if err != nil && final {
+		return river.JobCancel(err)
 	}
 	return err
 }
@@ -63,7 +74,7 @@ func (w *deliverWorker) post(ctx context.Context, target, secret string, id int6
 	if err != nil {
 		return 0, err
 	}
-	ts, sig := service.SignWebhook(secret, w.db.now(), payload)
+	ts, sig := service.SignWebhook(secret, w.db.now(), id, payload)
 	req.Header.Set("Content-Type", "application/json")
 	req.Header.Set(service.HeaderWebhookTimestamp, ts)
 	req.Header.Set(service.HeaderWebhookSignature, sig)
@@ -75,17 +86,24 @@ func (w *deliverWorker) post(ctx context.Context, target, secret string, id int6
 	defer resp.Body.Close()
 	_, _ = io.Copy(io.Discard, io.LimitReader(resp.Body, 64<<10))
 	if resp.StatusCode < 200 || resp.StatusCode > 299 {
-		return resp.StatusCode, fmt.Errorf("the receiver answered %d", resp.StatusCode)
+		return resp.StatusCode, &statusError{resp.StatusCode}
 	}
 	return resp.StatusCode, nil
 }
 
+// statusError is a receiver's answer outside 2xx.
+type statusError struct{ code int }
+
+func (e *statusError) Error() string { return fmt.Sprintf("the receiver answered %d", e.code) }
+
 // recordDelivery notes an attempt: delivered on success, failed after
-// the last attempt, still pending otherwise.
+// the last attempt, still pending otherwise. The error is kept as its
+// class (deliveryFailure), never its text, which would show an editor
+// what the workers' network holds.
 func (db *DB) recordDelivery(ctx context.Context, id int64, code int, sendErr error, final bool) error {
 	status, msg := service.DeliveryDelivered, ""
 	if sendErr != nil {
-		status, msg = service.DeliveryPending, sendErr.Error()
+		status, msg = service.DeliveryPending, deliveryFailure(sendErr)
 		if final {
 			status = service.DeliveryFailed
 		}
@@ -101,10 +119,13 @@ func (db *DB) recordDelivery(ctx context.Context, id int64, code int, sendErr er
 	return dbError(err, "delivery")
 }
 
-// webhookClient sends deliveries: a short timeout, and no redirects (a
-// receiver answers itself).
-func webhookClient() *http.Client {
-	return &http.Client{Timeout: 10 * time.Second, CheckRedirect: func(*http.Request, []*http.Request) error {
+// webhookClient sends deliveries through the egress's dialer: no proxy
+// (it would dial an address not checked), a short timeout, and no
+// redirects (a receiver answers itself).
+func webhookClient(e *service.Egress) *http.Client {
+	t := &http.Transport{DialContext: e.DialContext, ForceAttemptHTTP2: true, MaxIdleConns: 16,
+		IdleConnTimeout: 90 * time.Second, TLSHandshakeTimeout: 10 * time.Second}
+	return &http.Client{Transport: t, Timeout: 10 * time.Second, CheckRedirect: func(*http.Request, []*http.Request) error {
 		return http.ErrUseLastResponse
 	}}
 }

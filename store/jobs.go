@@ -65,8 +65,14 @@ type WorkerConfig struct {
 	// on (discarded after its last attempt, or cancelled) is marked failed;
 	// default one minute.
 	ReconcileEvery time.Duration
+	// Egress is the way out to webhook receivers (the allow-list); nil
+	// refuses every address of a refused class.
+	Egress *service.Egress
 	// OnDone, when set, is called after each job ends (for metrics).
 	OnDone func(status string, took time.Duration)
+	// afterFinish runs after the transaction that ended a screening has
+	// committed; its error is the job's (tests stand in a crash there).
+	afterFinish func(context.Context) error
 }
 
 type screenWorker struct {
@@ -101,13 +107,27 @@ func (w *screenWorker) Work(ctx context.Context, job *river.Job[ScreenArgs]) err
 	}
 	rep, err := w.screen(ctx, id, pkg, data)
 	if err == nil {
-		err = w.db.SaveReport(ctx, id, rep, time.Since(start))
+		err = w.finish(ctx, job, rep, start)
 	}
 	if err == nil {
 		w.done(service.StatusDone, start)
+		if w.cfg.afterFinish != nil {
+			return w.cfg.afterFinish(ctx)
+		}
 		return nil
 	}
 	return w.failed(ctx, job, err, start)
+}
+
+// finish stores the report, queues its webhook delivery and completes the
+// job in one transaction: a worker that dies after it commits leaves
+// nothing to run again, and one that dies before leaves nothing done.
+func (w *screenWorker) finish(ctx context.Context, job *river.Job[ScreenArgs], rep *checks.Report,
+	start time.Time) error {
+	return w.db.finishWith(ctx, job.Args.SubmissionID, rep, time.Since(start), func(tx pgx.Tx) error {
+		_, err := river.JobCompleteTx[*riverpgxv5.Driver](ctx, tx, job)
+		return err
+	})
 }
 
 // failed records a failed attempt: released unspent when the workers are
@@ -196,7 +216,9 @@ func (db *DB) StartWorkers(ctx context.Context, cfg WorkerConfig) (*Workers, err
 	if err := river.AddWorkerSafely(ws, &reconcileWorker{db: db}); err != nil {
 		return nil, err
 	}
-	if err := river.AddWorkerSafely(ws, &deliverWorker{db: db, client: webhookClient()}); err != nil {
+	deliver := &deliverWorker{db: db, client: webhookClient(cmp.Or(cfg.Egress, &service.Egress{})),
+		logger: g.logger}
+	if err := river.AddWorkerSafely(ws, deliver); err != nil {
 		return nil, err
 	}
 	every := cmp.Or(cfg.ReconcileEvery, reconcileEvery)

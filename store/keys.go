@@ -82,8 +82,14 @@ func scanKey(row pgx.Row) (*service.Key, error) {
 }
 
 // KeyByToken finds the live key with this token and notes its use (at
-// most once a minute, so that reads do not each write).
+// most once a minute, so that reads do not each write); after
+// CacheReads, from memory when it was found in the last CacheTTL and no
+// key has changed since (readCache).
 func (db *DB) KeyByToken(ctx context.Context, token string) (*service.Key, error) {
+	return db.cachedKey(ctx, token, db.lookupKey)
+}
+
+func (db *DB) lookupKey(ctx context.Context, token string) (*service.Key, error) {
 	k, err := scanKey(db.Pool.QueryRow(ctx, `
 		WITH used AS (
 			UPDATE api_keys SET last_used_at = $2
@@ -109,7 +115,8 @@ func (db *DB) Keys(ctx context.Context, office string) ([]*service.Key, error) {
 	return out, dbError(err, "keys")
 }
 
-// RevokeKey revokes a live key: its token stops working at once.
+// RevokeKey revokes a live key: its token stops working at once (a
+// server's read cache forgets it when the announcement arrives).
 func (db *DB) RevokeKey(ctx context.Context, id int64) error {
 	tag, err := db.Pool.Exec(
 		ctx,

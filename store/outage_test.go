@@ -27,7 +27,7 @@ func TestDB_OutageIsUnavailable(t *testing.T) {
 		"Submission":       func() error { _, err := db.Submission(ctx, s.ID, sc); return err },
 		"Submissions":      func() error { _, _, err := db.Submissions(ctx, service.Filter{Scope: sc}); return err },
 		"Rerun":            func() error { _, err := db.Rerun(ctx, s.ID, sc); return err },
-		"LatestReport":     func() error { _, err := db.LatestReport(ctx, s.ID, sc); return err },
+		"LatestReport":     func() error { _, err := db.LatestReport(ctx, s.ID, sc, 0); return err },
 		"DeleteSubmission": func() error { return db.DeleteSubmission(ctx, s.ID, sc) },
 	}
 	for name, call := range calls {

@@ -48,7 +48,9 @@ func (db *DB) EndSession(ctx context.Context, id string) error {
 
 // Sign-in slowing: after FreeSignInFailures failures from one address
 // within SignInWindow, each further attempt waits twice as long as the
-// one before, from one second up to MaxSignInWait.
+// one before, from one second up to MaxSignInWait. Only a quiet
+// SignInWindow forgets the failures: a success does not (it may be the
+// guesser's own key).
 const (
 	FreeSignInFailures = 3
 	SignInWindow       = 15 * time.Minute
@@ -93,11 +95,5 @@ func (db *DB) NoteSignInFailure(ctx context.Context, address string) error {
 		ON CONFLICT (address) DO UPDATE SET
 			failures = CASE WHEN f.last_at < $2 - $3::interval THEN 1 ELSE f.failures + 1 END, last_at = $2`,
 		address, now, SignInWindow.String())
-	return dbError(err, "failures")
-}
-
-// ClearSignInFailures forgets the failures of an address that signed in.
-func (db *DB) ClearSignInFailures(ctx context.Context, address string) error {
-	_, err := db.Pool.Exec(ctx, `DELETE FROM web_sign_in_failures WHERE address = $1`, address)
 	return dbError(err, "failures")
 }

@@ -196,10 +196,15 @@ func TestSubmissionStore(t *testing.T) {
 		if err != nil || again.Status != service.StatusQueued || again.Reports != 1 {
 			t.Fatalf("rerun: %+v, %v", again, err)
 		}
-		if b, err := db.LatestReport(ctx, s.ID, sub1.Scope()); err != nil || len(b) == 0 {
+		r, err := db.LatestReport(ctx, s.ID, sub1.Scope(), 0)
+		if err != nil || len(r.JSON) == 0 || r.ID == 0 {
 			t.Fatalf("the old report is kept: %v", err)
 		}
-		if _, err := db.LatestReport(ctx, s.ID, other.Scope()); service.ErrorCode(err) != service.ENotFound {
+		if held, err := db.LatestReport(ctx, s.ID, sub1.Scope(), r.ID); err != nil || held.ID != r.ID ||
+			held.JSON != nil {
+			t.Fatalf("the report the caller holds: %+v, %v; want its id and no bytes", held, err)
+		}
+		if _, err := db.LatestReport(ctx, s.ID, other.Scope(), 0); service.ErrorCode(err) != service.ENotFound {
 			t.Fatalf("other office reads the report: %v", err)
 		}
 	})

@@ -52,11 +52,14 @@ func (db *DB) PreviousVersion(ctx context.Context, sub *service.Submission, sc s
 	if err != nil {
 		return nil, nil, dbError(err, "earlier version")
 	}
-	b, err := db.LatestReport(ctx, prev.ID, sc)
+	r, err := db.LatestReport(ctx, prev.ID, sc, 0)
 	if service.ErrorCode(err) == service.ENotFound {
 		return prev, nil, nil
 	}
-	return prev, b, err
+	if err != nil {
+		return nil, nil, err
+	}
+	return prev, r.JSON, nil
 }
 
 // Versions numbers each listed submission among the submissions of its

@@ -55,7 +55,7 @@ func TestSessions(t *testing.T) {
 }
 
 // TestSignInWait: three failures are free, then the wait doubles from one
-// second; a success clears the count.
+// second; a quiet window starts the count again.
 func TestSignInWait(t *testing.T) {
 	db, _ := storetest.MustOpenDB(t)
 	at := time.Date(2026, 1, 1, 9, 0, 0, 0, time.UTC)
@@ -75,16 +75,25 @@ func TestSignInWait(t *testing.T) {
 	if got, _ := db.SignInWait(ctx, "192.0.2.1"); got != time.Second {
 		t.Errorf("3 s into a 4 s wait: %v left", got)
 	}
-	if err := db.ClearSignInFailures(ctx, "192.0.2.1"); err != nil {
+	db.Now = func() time.Time { return at.Add(store.SignInWindow + time.Second) }
+	if got, _ := db.SignInWait(ctx, "192.0.2.1"); got != 0 {
+		t.Errorf("after a quiet window: wait %v", got)
+	}
+	if err := db.NoteSignInFailure(ctx, "192.0.2.1"); err != nil {
 		t.Fatal(err)
 	}
 	if got, _ := db.SignInWait(ctx, "192.0.2.1"); got != 0 {
-		t.Errorf("after a success: wait %v", got)
+		t.Errorf("the first failure after a quiet window waits %v: the count did not start again", got)
 	}
 }
 
+// saveReport screens the submission again (queued, as a rerun leaves it,
+// then claimed) and stores a report with the score.
 func saveReport(t *testing.T, db *store.DB, id string, score int) {
 	t.Helper()
+	if _, err := db.Pool.Exec(ctx, `UPDATE submissions SET status = 'queued' WHERE id = $1`, id); err != nil {
+		t.Fatal(err)
+	}
 	if _, _, err := db.Claim(ctx, id); err != nil {
 		t.Fatal(err)
 	}

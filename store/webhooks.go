@@ -18,10 +18,7 @@ import (
 func (db *DB) SetWebhook(ctx context.Context, officeID int64, rawURL string) (*service.Webhook, error) {
 	u, err := url.Parse(rawURL)
 	if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" || len(rawURL) > 2000 {
-		return nil, service.Errorf(
-			service.EInvalid,
-			"url must be an absolute http or https URL of at most 2000 characters",
-		)
+		return nil, service.Errorf(service.EInvalid, service.WebhookURLRule)
 	}
 	raw := make([]byte, 32)
 	if _, err := rand.Read(raw); err != nil {

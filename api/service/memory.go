@@ -57,7 +57,7 @@ func CheckPackageMemory(doc, csv []byte, budget int64) error {
 				CSV string `json:"csv"`
 			} `json:"data"`
 		}
-		if json.Unmarshal(doc, &inline) != nil {
+		if json.Unmarshal(bytes.TrimPrefix(doc, []byte("\xef\xbb\xbf")), &inline) != nil { // the loader reads past a BOM
 			return nil
 		}
 		csv = []byte(inline.Data.CSV)

@@ -83,3 +83,11 @@ type Filter struct {
 
 // MaxPage is the largest page of a listing.
 const MaxPage = 200
+
+// StoredReport is a submission's newest report as stored: its id, which
+// names these bytes for good (a stored report never changes), and the
+// JSON, left nil when the caller said it already holds this id.
+type StoredReport struct {
+	ID   int64
+	JSON []byte
+}

@@ -1,6 +1,10 @@
 package service
 
 import (
+	"crypto/hmac"
+	"crypto/sha256"
+	"encoding/hex"
+	"net/http"
 	"testing"
 	"time"
 )
@@ -16,23 +20,44 @@ func TestMAC_RFC4231(t *testing.T) {
 func TestVerifyWebhook(t *testing.T) {
 	at := time.Unix(1_800_000_000, 0)
 	body := []byte(`{"status":"done"}`)
-	ts, sig := SignWebhook("whsec_x", at, body)
+	ts, sig := SignWebhook("whsec_x", at, 42, body)
 	for _, tc := range []struct {
-		name            string
-		secret, ts, sig string
-		body            string
-		now             time.Time
-		want            bool
+		name                      string
+		secret, ts, delivery, sig string
+		body                      string
+		now                       time.Time
+		want                      bool
 	}{
-		{"Good", "whsec_x", ts, sig, string(body), at.Add(time.Minute), true},
-		{"Replayed", "whsec_x", ts, sig, string(body), at.Add(time.Hour), false},
-		{"OtherBody", "whsec_x", ts, sig, `{"status":"failed"}`, at, false},
-		{"OtherSecret", "whsec_y", ts, sig, string(body), at, false},
-		{"MovedTimestamp", "whsec_x", "1800000001", sig, string(body), at, false},
-		{"NoScheme", "whsec_x", ts, sig[3:], string(body), at, false},
+		{"Good", "whsec_x", ts, "42", sig, string(body), at.Add(time.Minute), true},
+		{"Old", "whsec_x", ts, "42", sig, string(body), at.Add(time.Hour), false},
+		{"OtherBody", "whsec_x", ts, "42", sig, `{"status":"failed"}`, at, false},
+		{"OtherSecret", "whsec_y", ts, "42", sig, string(body), at, false},
+		{"MovedTimestamp", "whsec_x", "1800000001", "42", sig, string(body), at, false},
+		{"OtherDelivery", "whsec_x", ts, "43", sig, string(body), at, false},
+		{"NoDelivery", "whsec_x", ts, "", sig, string(body), at, false},
+		{"NoScheme", "whsec_x", ts, "42", sig[3:], string(body), at, false},
+		{"EarlierScheme", "whsec_x", ts, "42", "v1=" + sig[3:], string(body), at, false},
 	} {
-		if got := VerifyWebhook(tc.secret, tc.ts, tc.sig, []byte(tc.body), tc.now, 5*time.Minute); got != tc.want {
-			t.Errorf("%s: %v, want %v", tc.name, got, tc.want)
+		h := http.Header{}
+		h.Set(HeaderWebhookTimestamp, tc.ts)
+		h.Set(HeaderWebhookDelivery, tc.delivery)
+		h.Set(HeaderWebhookSignature, tc.sig)
+		id, ok := VerifyWebhook(tc.secret, h, []byte(tc.body), tc.now, 5*time.Minute)
+		if ok != tc.want || (ok && id != "42") {
+			t.Errorf("%s: %q %v, want %v", tc.name, id, ok, tc.want)
 		}
+	}
+}
+
+// The signed content is the timestamp, the delivery id and the body, each
+// joined by a full stop (the README's recipe): an HMAC computed here from
+// that recipe, independently of signedContent, matches.
+func TestSignWebhook_Recipe(t *testing.T) {
+	at := time.Unix(1_800_000_000, 0)
+	_, sig := SignWebhook("whsec_x", at, 7, []byte("{}"))
+	m := hmac.New(sha256.New, []byte("whsec_x"))
+	m.Write([]byte("1800000000.7.{}"))
+	if want := "v2=" + hex.EncodeToString(m.Sum(nil)); sig != want {
+		t.Fatalf("signature %s, want %s", sig, want)
 	}
 }

@@ -8,14 +8,18 @@ import (
 	"sort"
 )
 
-// MaxConstrainedPerClique bounds the nodes of one maximal clique that
-// background knowledge constrains; the count of orders that respect the
-// constraints inside a clique takes 2^k steps for k such nodes.
-const MaxConstrainedPerClique = 20
+// MaxOrderStates bounds the work of counting the orders of one clique
+// that respect background knowledge: the states of orderCount's dynamic
+// programme, Π (m_c + 1) over the classes of interchangeable constrained
+// nodes (2^k for k constrained nodes that are all different; far fewer for
+// tiers, whose members are interchangeable).
+const MaxOrderStates = 1 << 20
 
-// ErrTooConstrained is returned when background knowledge constrains more
-// than MaxConstrainedPerClique nodes of one clique.
-var ErrTooConstrained = errors.New("dag: background knowledge constrains too many nodes of one clique to count exactly")
+// ErrTooConstrained is returned when the orders of one clique that respect
+// background knowledge would take more than MaxOrderStates states, or
+// exceed 2^64 before the factorials of the classes, to count exactly.
+var ErrTooConstrained = errors.New(
+	"dag: background knowledge constrains too many nodes of one clique to count exactly")
 
 // ClassSize returns the number of DAGs in the Markov equivalence class
 // whose CPDAG is c: the product over the chain components of c of the

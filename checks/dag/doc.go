@@ -19,6 +19,8 @@
 //	He, Jia & Yu (2015), Counting and exploring sizes of Markov equivalence classes, JMLR 16.
 //	Wienöbst, Bannach & Liśkiewicz (2023), Polynomial-time algorithms for counting
 //	and sampling Markov equivalent DAGs with applications, JMLR 24.
+//	Perković, Kalisch & Maathuis (2017), Interpreting and using CPDAGs with
+//	background knowledge, UAI 33.
 //	Maathuis, Kalisch & Bühlmann (2009), Estimating high-dimensional intervention
 //	effects from observational data, Ann. Statist. 37.
 package dag

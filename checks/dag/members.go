@@ -1,6 +1,9 @@
 package dag
 
-import "errors"
+import (
+	"errors"
+	"sort"
+)
 
 // Members lists the DAGs of the class of the CPDAG c that contain every
 // required arc, at most max of them, and reports whether there were more.
@@ -153,4 +156,44 @@ func adjacentToAll(c *PDAG, v int, set []int) bool {
 		}
 	}
 	return true
+}
+
+// PlausibleParentSets returns the parent sets that x has across the
+// members of the class of the CPDAG c that contain every required arc
+// (background knowledge: exogenous variables, fixed edges, TierArcs). The
+// local criterion alone is not enough once knowledge has oriented arcs
+// (Perković, Kalisch & Maathuis 2017), so each locally valid set S is
+// kept only when some such member gives x exactly the parents S: when the
+// required arcs, plus s → x for s in S and x → v for x's other undirected
+// neighbours v, leave a positive PlausibleSize. The sets come in the order
+// of LocalParentSets.
+func PlausibleParentSets(c *PDAG, required []Edge, x int) ([][]int, error) {
+	sets, err := LocalParentSets(c, x)
+	if err != nil {
+		return nil, err
+	}
+	var out [][]int
+	for _, set := range sets {
+		req := append([]Edge(nil), required...)
+		for _, v := range c.Siblings(x) {
+			if containsSorted(set, v) {
+				req = append(req, Edge{v, x})
+			} else {
+				req = append(req, Edge{x, v})
+			}
+		}
+		n, err := PlausibleSize(c, req)
+		if err != nil {
+			return nil, err
+		}
+		if n.Sign() > 0 {
+			out = append(out, set)
+		}
+	}
+	return out, nil
+}
+
+func containsSorted(a []int, v int) bool {
+	k := sort.SearchInts(a, v)
+	return k < len(a) && a[k] == v
 }

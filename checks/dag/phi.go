@@ -60,9 +60,9 @@ func (c *counter) pointsInto(from, to []int) bool {
 }
 
 // linearExtensions counts the orders of t (global ids) in which every
-// required arc between two nodes of t points forward: with k constrained
-// nodes, |t|!/k! times the number of orders of those k alone, found by a
-// dynamic programme over their subsets.
+// required arc between two nodes of t points forward. With k constrained
+// nodes (ends of such arcs) it is |t|!/k! times the number of orders of
+// those k alone, which orderCount finds.
 func (c *counter) linearExtensions(t []int) (*big.Int, error) {
 	var cons []int
 	for _, u := range t {
@@ -73,32 +73,13 @@ func (c *counter) linearExtensions(t []int) (*big.Int, error) {
 			}
 		}
 	}
-	if len(cons) > MaxConstrainedPerClique {
-		return nil, ErrTooConstrained
-	}
 	n := new(big.Int).MulRange(int64(len(cons))+1, int64(len(t)))
 	if len(cons) == 0 {
 		return n, nil
 	}
-	pred := make([]uint32, len(cons))
-	for i, u := range cons {
-		for j, v := range cons {
-			if c.req[Edge{v, u}] {
-				pred[i] |= 1 << j
-			}
-		}
+	k, err := orderCount(cons, func(u, v int) bool { return c.req[Edge{u, v}] })
+	if err != nil {
+		return nil, err
 	}
-	ways := make([]uint64, 1<<len(cons))
-	ways[0] = 1
-	for mask := range ways {
-		if ways[mask] == 0 {
-			continue
-		}
-		for i := range cons {
-			if mask&(1<<i) == 0 && pred[i]&^uint32(mask) == 0 {
-				ways[mask|1<<i] += ways[mask]
-			}
-		}
-	}
-	return n.Mul(n, new(big.Int).SetUint64(ways[len(ways)-1])), nil
+	return n.Mul(n, k), nil
 }

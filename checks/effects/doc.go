@@ -9,7 +9,11 @@
 // Sources:
 //
 //	Abramowitz & Stegun (1964), Handbook of Mathematical Functions, 26.7.5
-//	(Cornish–Fisher t quantiles) and 26.7.10 (noncentral t).
+//	(Cornish–Fisher t quantiles).
+//	Lenth (1989), Algorithm AS 243: cumulative distribution function of the
+//	non-central t distribution, Appl. Statist. 38; Guenther (1978), J.
+//	Statist. Comput. Simul. 6 (the twin series), with Gauss–Legendre
+//	quadrature where its terms would underflow.
 //	Hill (1970), Algorithm 395: Student's t-distribution, CACM 13.
 //	Schuirmann (1987), two one-sided tests of equivalence, J. Pharmacokinet.
 //	Biopharm. 15.

@@ -16,12 +16,20 @@ import (
 // header naming variables, then one row per participant. Empty cells, NA
 // in any case and the package's missing codes are missing.
 func (s *study) parseCSV(text []byte, lim Limits, ps *problems) *checks.Dataset {
-	sc := &scanner{text: bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))}
+	text = bytes.TrimPrefix(text, utf8BOM)
+	if !s.readable(text, ps) {
+		return nil
+	}
+	sc := &scanner{text: text, max: s.maxColumns()}
 	head, err := sc.next()
 	if err != nil {
 		csvReadError(err, ps)
 		return nil
 	}
+	if !s.headerFits(sc, ps) || s.otherSeparator(head, ps) {
+		return nil
+	}
+	sc.max = sc.fields + 1 // a longer row is only counted
 	header := make([]string, len(head))
 	for i, c := range head {
 		header[i] = string(c.b)
@@ -61,18 +69,18 @@ func (s *study) newDataset(header []string, cols []int, rows int) *checks.Datase
 // data are rejected. Load takes no context, so this loop watches none: its
 // length is bounded by Limits.CSVBytes instead.
 func (s *study) readRows(sc *scanner, cr *cellReader, ds *checks.Dataset, lim Limits, ps *problems) bool {
-	reported := len(ps.list)
+	reported := ps.count()
 	for {
 		rec, err := sc.next()
 		if err == io.EOF {
 			return true
 		}
-		if len(ps.list)-reported >= maxCSVProblems {
+		if ps.count()-reported >= maxCSVProblems {
 			ps.csv(0, 0, "further data errors are not listed")
 			return false
 		}
 		if err != nil {
-			if fieldCount(err, len(rec), sc.fields, ps) {
+			if fieldCount(err, sc.width(), sc.fields, ps) {
 				continue
 			}
 			csvReadError(err, ps)
@@ -101,12 +109,12 @@ func codeHint(cell string, likely bool) string {
 	if !likely {
 		return ""
 	}
-	return fmt.Sprintf("; if it marks a missing value, list %q in /data/missing_codes", cell)
+	return fmt.Sprintf("; if it marks a missing value, list %s in /data/missing_codes", quoted(cell))
 }
 
 // undeclaredColumn reports a CSV column that names no variable, with a
 // hint at a near name.
-const undeclaredColumn = "column %q is not a declared variable%s; list it in /data/ignore_columns to skip it"
+const undeclaredColumn = "column %s is not a declared variable%s; list it in /data/ignore_columns to skip it"
 
 // headerColumns maps each CSV column to a variable index, -1 for an
 // ignored column.
@@ -117,29 +125,29 @@ func (s *study) headerColumns(header []string, head []cell, ps *problems) []int 
 	}
 	cols := make([]int, len(header))
 	seen := map[string]bool{}
-	before := len(ps.list)
+	before := ps.count()
 	for i, h := range header {
 		name := strings.TrimSpace(h)
 		line := head[i].line
 		j, ok := s.Index[name]
 		switch {
 		case seen[name]:
-			ps.csv(line, i+1, "column %q appears twice in the header", name)
+			ps.csv(line, i+1, "column %s appears twice in the header", quoted(name))
 		case ok:
 			cols[i] = j
 		case ignore[name]:
 			cols[i] = -1
 		default:
-			ps.csv(line, i+1, undeclaredColumn, name, didYouMean(name, s.Names))
+			ps.csv(line, i+1, undeclaredColumn, quoted(name), ps.suggest(name, s.Names))
 		}
 		seen[name] = true
 	}
 	for j, name := range s.Names {
 		if !seen[name] {
-			ps.at(pointer("variables", j, "name"), "%q has no column in the data", name)
+			ps.at(pointer("variables", j, "name"), "%s has no column in the data", quoted(name))
 		}
 	}
-	if len(ps.list) > before {
+	if ps.count() > before {
 		return nil
 	}
 	return append([]int(nil), cols...)
@@ -155,7 +163,7 @@ func (s *study) checkColumns(ds *checks.Dataset, ps *problems) {
 			}
 		}
 		if observed == 0 && ds.N > 0 {
-			ps.at(pointer("variables", j, "name"), "every value of %q in the data is missing", s.Names[j])
+			ps.at(pointer("variables", j, "name"), "every value of %s in the data is missing", quoted(s.Names[j]))
 		}
 	}
 }

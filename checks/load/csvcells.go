@@ -13,8 +13,8 @@ import (
 // Formats of the problems a cell can have: the cell, its column's name,
 // and a hint on missing-value codes.
 const (
-	cellNotNumber = "%q in column %q is not a number%s"
-	cellNotBinary = "%q in column %q: a binary variable is coded 0 or 1%s"
+	cellNotNumber = "%s in column %s is not a number%s"
+	cellNotBinary = "%s in column %s: a binary variable is coded 0 or 1%s"
 )
 
 // cellReader turns the cells of a row into column values.
@@ -57,10 +57,10 @@ func (cr *cellReader) row(rec []cell, ds *checks.Dataset, ps *problems) {
 		switch {
 		case !ok && !finite(b, &x):
 			cell := string(b)
-			ps.csv(c.line, i+1, cellNotNumber, cell, cr.s.Names[j], codeHint(cell, missingMark(cell)))
+			ps.csv(c.line, i+1, cellNotNumber, quoted(cell), quoted(cr.s.Names[j]), codeHint(cell, missingMark(cell)))
 		case cr.binary[j] && x != 0 && x != 1:
 			cell := string(b)
-			ps.csv(c.line, i+1, cellNotBinary, cell, cr.s.Names[j], codeHint(cell, CodeLike(x)))
+			ps.csv(c.line, i+1, cellNotBinary, quoted(cell), quoted(cr.s.Names[j]), codeHint(cell, CodeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}

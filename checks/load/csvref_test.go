@@ -15,7 +15,11 @@ import (
 // the reference the one-pass parser is tested against (csvdiff_test.go).
 
 func (s *study) parseCSVRef(text []byte, lim Limits, ps *problems) *checks.Dataset {
-	r := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(text, []byte("\xef\xbb\xbf"))))
+	text = bytes.TrimPrefix(text, utf8BOM)
+	if !s.readable(text, ps) {
+		return nil
+	}
+	r := csv.NewReader(bytes.NewReader(text))
 	r.ReuseRecord = true
 	header, err := r.Read()
 	if err != nil {
@@ -26,6 +30,14 @@ func (s *study) parseCSVRef(text []byte, lim Limits, ps *problems) *checks.Datas
 	head := make([]cell, len(header))
 	for i := range head {
 		head[i].line, _ = r.FieldPos(i)
+		head[i].b = []byte(header[i])
+	}
+	if len(header) > s.maxColumns() {
+		ps.csv(1, 0, headerTooWide, len(header), len(s.Names), len(s.Package.Data.IgnoreColumns))
+		return nil
+	}
+	if s.otherSeparator(head, ps) {
+		return nil
 	}
 	cols := s.headerColumns(header, head, ps)
 	if cols == nil {
@@ -36,13 +48,13 @@ func (s *study) parseCSVRef(text []byte, lim Limits, ps *problems) *checks.Datas
 	for _, c := range s.Package.Data.MissingCodes {
 		missing[strings.TrimSpace(c)] = true
 	}
-	reported := len(ps.list)
+	reported := ps.count()
 	for {
 		rec, err := r.Read()
 		if err == io.EOF {
 			break
 		}
-		if len(ps.list)-reported >= maxCSVProblems {
+		if ps.count()-reported >= maxCSVProblems {
 			ps.csv(0, 0, "further data errors are not listed")
 			return nil
 		}
@@ -83,9 +95,9 @@ func (s *study) parseRowRef(rec []string, r *csv.Reader, cols []int, missing map
 		line, _ := r.FieldPos(i)
 		switch {
 		case err != nil || math.IsNaN(x) || math.IsInf(x, 0):
-			ps.csv(line, i+1, cellNotNumber, cell, s.Names[j], codeHint(cell, missingMark(cell)))
+			ps.csv(line, i+1, cellNotNumber, quoted(cell), quoted(s.Names[j]), codeHint(cell, missingMark(cell)))
 		case s.Package.Variables[j].Scale == checks.ScaleBinary && x != 0 && x != 1:
-			ps.csv(line, i+1, cellNotBinary, cell, s.Names[j], codeHint(cell, CodeLike(x)))
+			ps.csv(line, i+1, cellNotBinary, quoted(cell), quoted(s.Names[j]), codeHint(cell, CodeLike(x)))
 		}
 		ds.Columns[j] = append(ds.Columns[j], x)
 	}

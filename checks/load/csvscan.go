@@ -25,6 +25,22 @@ type scanner struct {
 	fields int    // fields per record; set by the first record
 	cells  []cell
 	buf    []byte
+	// max, when set, is the most cells a record keeps; further fields
+	// are counted in extra, so that a line of a million commas costs a
+	// count, not a million cells.
+	max, extra int
+}
+
+// width is the number of fields of the record read last, kept or not.
+func (s *scanner) width() int { return len(s.cells) + s.extra }
+
+// keep adds a cell to the record, or counts it past max.
+func (s *scanner) keep(c cell) {
+	if s.max > 0 && len(s.cells) >= s.max {
+		s.extra++
+		return
+	}
+	s.cells = append(s.cells, c)
 }
 
 // readLine returns the next line without its end ("\n", "\r\n", or a
@@ -53,13 +69,13 @@ func (s *scanner) next() ([]cell, error) {
 		}
 		line, nl = s.readLine()
 	}
-	s.cells, s.buf = s.cells[:0], s.buf[:0]
+	s.cells, s.buf, s.extra = s.cells[:0], s.buf[:0], 0
 	rec := record{s: s, start: s.line, line: s.line, col: 1}
 	err := rec.fields(line, nl)
 	switch {
 	case s.fields == 0:
-		s.fields = len(s.cells)
-	case err == nil && len(s.cells) != s.fields:
+		s.fields = s.width()
+	case err == nil && s.width() != s.fields:
 		err = &csv.ParseError{StartLine: rec.start, Line: rec.start, Column: 1, Err: csv.ErrFieldCount}
 	}
 	return s.cells, err
@@ -99,7 +115,7 @@ func (r *record) unquoted(line []byte) ([]byte, bool, error) {
 	if i < len(line) && line[i] == '"' {
 		return nil, false, r.err(r.s.line, r.col+i, csv.ErrBareQuote)
 	}
-	r.s.cells = append(r.s.cells, cell{line[:i], r.line})
+	r.s.keep(cell{line[:i], r.line})
 	if i == len(line) {
 		return nil, false, nil
 	}
@@ -160,7 +176,7 @@ func (r *record) nextLine(line []byte, nl bool) ([]byte, bool) {
 
 // push adds the quoted field unquoted into the buffer from from on.
 func (r *record) push(from int) {
-	r.s.cells = append(r.s.cells, cell{r.s.buf[from:len(r.s.buf):len(r.s.buf)], r.line0})
+	r.s.keep(cell{r.s.buf[from:len(r.s.buf):len(r.s.buf)], r.line0})
 }
 
 func (r *record) err(line, col int, err error) error {

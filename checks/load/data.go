@@ -1,6 +1,7 @@
 package load
 
 import (
+	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/mat"
@@ -123,7 +124,7 @@ func csvSource(d checks.Data, opt Options, lim Limits, ps *problems) ([]byte, bo
 // summaryData checks printed summary statistics and orders them like the
 // declared variables.
 func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *checks.Dataset {
-	before := len(ps.list)
+	before := ps.count()
 	pos := summaryOrder(d.Variables, index, ps)
 	if d.N < 3 {
 		ps.at("/data/n", "must be at least 3 for data of kind summary")
@@ -132,7 +133,7 @@ func summaryData(d checks.Data, index map[string]int, p int, ps *problems) *chec
 	r := correlationMatrix(d.Correlations, k, ps)
 	checkVector("sds", d.SDs, k, true, ps)
 	checkVector("means", d.Means, k, false, ps)
-	if len(ps.list) > before {
+	if ps.count() > before || r == nil {
 		return nil
 	}
 	ds := &checks.Dataset{Kind: checks.DataSummary, N: d.N, Cor: mat.NewSymDense(p, nil)}
@@ -156,15 +157,15 @@ func summaryOrder(names []string, index map[string]int, ps *problems) []int {
 		j, ok := index[name]
 		switch _, dup := seen[name]; {
 		case !ok:
-			ps.at(at, "%s", unknownName(name, index))
+			ps.unknown(at, name, index)
 		case dup:
-			ps.at(at, "%q is listed twice", name)
+			ps.at(at, "%s is listed twice", quoted(name))
 		}
 		seen[name], pos[i] = i, j
 	}
 	for name, j := range index {
 		if _, ok := seen[name]; !ok {
-			ps.at(pointer("variables", j, "name"), "%q has no entry in /data/variables", name)
+			ps.at(pointer("variables", j, "name"), "%s has no entry in /data/variables", quoted(name))
 		}
 	}
 	return pos
@@ -197,24 +198,61 @@ func checkVector(name string, v []float64, k int, positive bool, ps *problems) {
 }
 
 // correlationMatrix reads a full matrix or its lower triangle and checks
-// that it is symmetric, has a unit diagonal, entries in [-1, 1], and is
-// positive definite.
+// it by the rules of CheckCorrelations, reporting each problem at its JSON
+// pointer.
 func correlationMatrix(rows [][]float64, k int, ps *problems) *mat.SymDense {
 	if len(rows) != k {
 		ps.at("/data/correlations", "has %d rows; /data/variables has %d", len(rows), k)
 		return nil
 	}
+	m, faults := CheckCorrelations(rows, func(i, j int) string { return pointer("data", "correlations", i, j) })
+	for _, f := range faults {
+		switch {
+		case f.Row < 0:
+			ps.at("/data/correlations", "%s", f.Detail)
+		case f.Col < 0:
+			ps.at(pointer("data", "correlations", f.Row), "%s", f.Detail)
+		default:
+			ps.at(pointer("data", "correlations", f.Row, f.Col), "%s", f.Detail)
+		}
+	}
+	return m
+}
+
+// A MatrixProblem is one way a correlation matrix breaks the package
+// format's rules: at entry (Row, Col) of the rows as given, at row Row
+// (Col < 0), or in the matrix as a whole (Row < 0). Detail is worded to
+// follow the place's name ("is 1.2; a correlation lies in [-1, 1]").
+type MatrixProblem struct {
+	Row, Col int
+	Detail   string
+}
+
+// CheckCorrelations applies the package format's rules to a correlation
+// matrix given by rows, full or as its lower triangle (row i has i+1
+// entries): every row of the shape's length, a unit diagonal (to 1e-6),
+// entries in [-1, 1], a full matrix symmetric (to 1e-6), and the whole
+// positive definite (smallest eigenvalue above checks.MinEigen, from
+// gonum's symmetric eigendecomposition). It returns the matrix, or nil and
+// every problem found; entry names entry (i, j) in the caller's terms for
+// the problems that cite a second entry. package-format.md, "Summary
+// statistics", states the rules.
+func CheckCorrelations(rows [][]float64, entry func(i, j int) string) (*mat.SymDense, []MatrixProblem) {
+	k := len(rows)
+	if k == 0 {
+		return nil, []MatrixProblem{{Row: -1, Col: -1, Detail: emptyMatrix}}
+	}
 	full := k > 1 && len(rows[0]) == k
-	before := len(ps.list)
-	checkRowLengths(rows, k, full, ps)
-	if len(ps.list) > before {
-		return nil
+	var faults []MatrixProblem
+	checkRowLengths(rows, full, &faults)
+	if len(faults) > 0 {
+		return nil, faults
 	}
-	m := correlationEntries(rows, k, full, ps)
-	if len(ps.list) > before {
-		return nil
+	m := correlationEntries(rows, full, entry, &faults)
+	if len(faults) > 0 {
+		return nil, faults
 	}
-	return positiveDefinite(m, ps)
+	return positiveDefinite(m, &faults), faults
 }
 
 // Formats of the problems with the entries of a correlation matrix.
@@ -224,19 +262,21 @@ const (
 	lowerShape   = "lower triangle: row i has i+1 entries"
 	offDiagonal  = "is %g; a correlation matrix has 1 on its diagonal"
 	outOfRange   = "is %g; a correlation lies in [-1, 1]"
-	notSymmetric = "is %g, but /data/correlations/%d/%d is %g: the matrix is not symmetric"
+	notSymmetric = "is %g, but %s is %g: the matrix is not symmetric"
+	emptyMatrix  = "has no rows"
 )
 
 // checkRowLengths reports each row whose length does not fit the shape:
 // k entries in a full matrix, i+1 in row i of a lower triangle.
-func checkRowLengths(rows [][]float64, k int, full bool, ps *problems) {
+func checkRowLengths(rows [][]float64, full bool, faults *[]MatrixProblem) {
 	for i, row := range rows {
 		want, shape := i+1, lowerShape
 		if full {
-			want, shape = k, fullShape
+			want, shape = len(rows), fullShape
 		}
 		if len(row) != want {
-			ps.at(pointer("data", "correlations", i), rowLength, len(row), want, shape)
+			*faults = append(*faults, MatrixProblem{Row: i, Col: -1,
+				Detail: fmt.Sprintf(rowLength, len(row), want, shape)})
 		}
 	}
 }
@@ -244,19 +284,22 @@ func checkRowLengths(rows [][]float64, k int, full bool, ps *problems) {
 // correlationEntries reads the lower triangle of rows into a matrix and
 // reports each entry off the unit diagonal, outside [-1, 1], or (in a full
 // matrix) unequal to its mirror entry.
-func correlationEntries(rows [][]float64, k int, full bool, ps *problems) *mat.SymDense {
-	m := mat.NewSymDense(k, nil)
+func correlationEntries(rows [][]float64, full bool, entry func(i, j int) string,
+	faults *[]MatrixProblem) *mat.SymDense {
+	m := mat.NewSymDense(len(rows), nil)
 	for i, row := range rows {
 		for j := 0; j <= i; j++ {
-			x := row[j]
-			at := pointer("data", "correlations", i, j)
+			x, detail := row[j], ""
 			switch {
 			case i == j && math.Abs(x-1) > diagonalTol:
-				ps.at(at, offDiagonal, x)
+				detail = fmt.Sprintf(offDiagonal, x)
 			case x < -1 || x > 1:
-				ps.at(at, outOfRange, x)
+				detail = fmt.Sprintf(outOfRange, x)
 			case full && math.Abs(x-rows[j][i]) > symmetryTol:
-				ps.at(at, notSymmetric, x, j, i, rows[j][i])
+				detail = fmt.Sprintf(notSymmetric, x, entry(j, i), rows[j][i])
+			}
+			if detail != "" {
+				*faults = append(*faults, MatrixProblem{Row: i, Col: j, Detail: detail})
 			}
 			m.SetSym(i, j, x)
 		}
@@ -266,14 +309,16 @@ func correlationEntries(rows [][]float64, k int, full bool, ps *problems) *mat.S
 
 // positiveDefinite returns m when its smallest eigenvalue exceeds
 // checks.MinEigen, and reports it otherwise.
-func positiveDefinite(m *mat.SymDense, ps *problems) *mat.SymDense {
+func positiveDefinite(m *mat.SymDense, faults *[]MatrixProblem) *mat.SymDense {
 	var eig mat.EigenSym
+	detail := ""
 	if !eig.Factorize(m, false) {
-		ps.at("/data/correlations", "its eigenvalues could not be computed")
-		return nil
+		detail = "its eigenvalues could not be computed"
+	} else if low := eig.Values(nil)[0]; low <= checks.MinEigen {
+		detail = fmt.Sprintf("is not positive definite: its smallest eigenvalue is %.6g", low)
 	}
-	if low := eig.Values(nil)[0]; low <= checks.MinEigen {
-		ps.at("/data/correlations", "is not positive definite: its smallest eigenvalue is %.6g", low)
+	if detail != "" {
+		*faults = append(*faults, MatrixProblem{Row: -1, Col: -1, Detail: detail})
 		return nil
 	}
 	return m

@@ -3,40 +3,35 @@ package load
 import (
 	"bytes"
 	"encoding/json"
+	"errors"
 	"fmt"
-	"maps"
-	"math"
+	"io"
 	"reflect"
-	"slices"
-	"sort"
-	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/pathvet/pathvet/checks"
 )
 
 // decode reads a package document into pkg, reporting every problem it
 // can find at once: each duplicate key, NUL character or invalid UTF-8
-// sequence, unknown field and value of the wrong type, with its JSON
-// pointer. It returns false when nothing more can be read from the
-// document (not JSON, or not an object); otherwise pkg holds every value
-// of the right type, and the later stages check it, leaving out the places
-// already reported.
-func decode(doc []byte, pkg *checks.Package, ps *problems) bool {
-	dec := json.NewDecoder(bytes.NewReader(doc))
-	dec.UseNumber()
-	var v any
-	if err := dec.Decode(&v); err != nil {
-		ps.at("", "not valid JSON: %s", jsonErrorText(doc, err))
+// sequence, unknown field, value of the wrong type and list past its
+// limit, with its JSON pointer. It returns false when nothing more can be
+// read from the document (not JSON, not an object, or a list past its
+// limit); otherwise pkg holds every value of the right type, and the
+// later stages check it, leaving out the places already reported.
+func decode(doc []byte, pkg *checks.Package, lim Limits, ps *problems) bool {
+	if problem := notJSON(doc); problem != "" {
+		ps.at("", "%s", problem)
 		return false
 	}
-	if dec.More() {
-		ps.at("", "not valid JSON: more than one value in the document")
+	w := &walker{lexer: lexer{doc: doc}, ps: ps, lim: lim}
+	if c := w.peek(); c != '{' {
+		ps.at("", "must be an object, not %s", kindOf(c))
 		return false
 	}
-	scanTokens(doc, ps)
-	walkJSON(v, reflect.TypeFor[checks.Package](), "", ps)
-	if _, ok := v.(map[string]any); !ok {
+	w.value(reflect.TypeFor[checks.Package](), "", nil)
+	if w.over {
 		return false
 	}
 	// Values of the wrong type are left at zero, and unknown fields are
@@ -46,162 +41,68 @@ func decode(doc []byte, pkg *checks.Package, ps *problems) bool {
 	return true
 }
 
+// maxDepth is how deep encoding/json lets arrays and objects nest.
+const maxDepth = 10_000
+
 // Placeholder begins a string that marks a value still to be filled in,
 // as pathvet init writes them: in any field, of any type, it is refused
 // with the text that follows it.
 const Placeholder = "TODO:"
 
-// jsonErrorText adds the line and column to a syntax error.
+// notJSON says why doc is not one JSON value, "" when it is: it is
+// empty, not text (what it looks like), UTF-16, or the JSON syntax is
+// broken (where).
+func notJSON(doc []byte) string {
+	if len(bytes.TrimSpace(doc)) == 0 {
+		return "the package is empty: it should be one JSON object, as in testdata/template/package.json"
+	}
+	if what := notText(doc); what != "" {
+		return "the package is " + what + "; it should be a JSON text file in UTF-8"
+	}
+	if json.Valid(doc) {
+		return ""
+	}
+	dec := json.NewDecoder(bytes.NewReader(doc))
+	var v json.RawMessage
+	if err := dec.Decode(&v); err != nil {
+		return "not valid JSON: " + jsonErrorText(doc, err)
+	}
+	return "not valid JSON: more than one value in the document"
+}
+
+// jsonErrorText adds the line and column of the byte that broke the
+// syntax (the last one read, which a SyntaxError's offset counts) to a
+// syntax error; an error at the end says the document stops short.
 func jsonErrorText(doc []byte, err error) string {
 	var se *json.SyntaxError
-	if e, ok := err.(*json.SyntaxError); ok {
-		se = e
+	if errors.Is(err, io.ErrUnexpectedEOF) {
+		line, col := position(doc, len(doc))
+		return fmt.Sprintf("the document ends before its last value is complete (line %d, column %d)", line, col)
 	}
-	if se == nil {
+	if !errors.As(err, &se) {
 		return err.Error()
 	}
-	line, col := 1, 1
-	for _, b := range doc[:min(int(se.Offset), len(doc))] {
-		if b == '\n' {
-			line, col = line+1, 1
-		} else {
-			col++
-		}
+	line, col := position(doc, max(int(se.Offset)-1, 0))
+	if strings.HasSuffix(se.Error(), "exceeded max depth") {
+		return fmt.Sprintf("arrays or objects nest more than %d deep (line %d, column %d)", maxDepth, line, col)
 	}
 	return fmt.Sprintf("%v (line %d, column %d)", se, line, col)
 }
 
-// walkJSON checks the generic value v against the Go type t.
-func walkJSON(v any, t reflect.Type, ptr string, ps *problems) {
-	if t.Kind() == reflect.Pointer {
-		if v == nil {
-			return
-		}
-		t = t.Elem()
-	}
-	if v == nil {
-		ps.at(ptr, "must not be null")
-		return
-	}
-	if str, ok := v.(string); ok && strings.HasPrefix(str, Placeholder) {
-		ps.at(ptr, "is still to be filled in (%s)", strings.TrimSpace(strings.TrimPrefix(str, Placeholder)))
-		return
-	}
-	switch t.Kind() {
-	case reflect.Struct:
-		walkObject(v, t, ptr, ps)
-	case reflect.Slice:
-		arr, ok := v.([]any)
-		if !ok {
-			ps.at(ptr, "must be an array, not %s", jsonKind(v))
-			return
-		}
-		for i, e := range arr {
-			walkJSON(e, t.Elem(), ptr+"/"+strconv.Itoa(i), ps)
-		}
-	default:
-		walkScalar(v, t, ptr, ps)
-	}
+// position is the line and column (in characters, from 1) of the byte at
+// offset off of doc.
+func position(doc []byte, off int) (line, col int) {
+	before := doc[:min(off, len(doc))]
+	line = bytes.Count(before, []byte{'\n'}) + 1
+	start := bytes.LastIndexByte(before, '\n') + 1
+	return line, utf8.RuneCount(before[start:]) + 1
 }
 
-// walkScalar checks a string, a boolean or a number.
-func walkScalar(v any, t reflect.Type, ptr string, ps *problems) {
-	switch t.Kind() {
-	case reflect.String:
-		if _, ok := v.(string); !ok {
-			ps.at(ptr, "must be a string, not %s", jsonKind(v))
-		}
-	case reflect.Bool:
-		if _, ok := v.(bool); !ok {
-			ps.at(ptr, "must be true or false, not %s", jsonKind(v))
-		}
-	case reflect.Int:
-		walkInt(v, ptr, ps)
-	case reflect.Float64:
-		walkNumber(v, ptr, ps)
-	default:
-		panic("load: no JSON rule for " + t.String())
-	}
-}
-
-func walkObject(v any, t reflect.Type, ptr string, ps *problems) {
-	obj, ok := v.(map[string]any)
-	if !ok {
-		ps.at(ptr, "must be an object, not %s", jsonKind(v))
-		return
-	}
-	fields := map[string]reflect.StructField{}
-	for i := range t.NumField() {
-		f := t.Field(i)
-		fields[jsonName(f)] = f
-	}
-	keys := make([]string, 0, len(obj))
-	for k := range obj {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	for _, k := range keys {
-		f, ok := fields[k]
-		if !ok {
-			ps.at(ptr+pointer(k), "unknown field %q%s", k, didYouMean(k, slices.Sorted(maps.Keys(fields))))
-			continue
-		}
-		walkJSON(obj[k], f.Type, ptr+pointer(k), ps)
-	}
-}
-
-func walkInt(v any, ptr string, ps *problems) {
-	n, ok := v.(json.Number)
-	if !ok {
-		ps.at(ptr, "must be an integer, not %s", jsonKind(v))
-		return
-	}
-	if _, err := n.Int64(); err != nil {
-		if f, ferr := n.Float64(); ferr == nil && f == math.Trunc(f) {
-			ps.at(ptr, "number %s is out of range", n)
-			return
-		}
-		ps.at(ptr, "must be an integer, not %s", n)
-	}
-}
-
-func walkNumber(v any, ptr string, ps *problems) {
-	n, ok := v.(json.Number)
-	if str, isStr := v.(string); isStr {
-		ps.at(ptr, "must be a number, not a string%s", numberHint(ptr, str))
-		return
-	}
-	if !ok {
-		ps.at(ptr, "must be a number, not %s", jsonKind(v))
-		return
-	}
-	if f, err := n.Float64(); err != nil || math.IsInf(f, 0) {
-		ps.at(ptr, "number %s is out of range", n)
-	}
-}
-
+// jsonName is a field's name in JSON.
 func jsonName(f reflect.StructField) string {
 	name, _, _ := strings.Cut(f.Tag.Get("json"), ",")
 	if name == "" {
 		return f.Name
 	}
 	return name
-}
-
-func jsonKind(v any) string {
-	switch v.(type) {
-	case nil:
-		return "null"
-	case string:
-		return "a string"
-	case bool:
-		return "a boolean"
-	case json.Number:
-		return "a number"
-	case []any:
-		return "an array"
-	case map[string]any:
-		return "an object"
-	}
-	return fmt.Sprintf("%T", v)
 }

@@ -1,6 +1,7 @@
 package load
 
 import (
+	"bytes"
 	"fmt"
 
 	"github.com/pathvet/pathvet/checks"
@@ -56,14 +57,15 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 		return nil, &checks.InvalidPackageError{TooLarge: true, Problems: []checks.Problem{{
 			Detail: fmt.Sprintf("the package is %d bytes; the limit is %d", len(doc), lim.PackageBytes)}}}
 	}
+	doc = bytes.TrimPrefix(doc, utf8BOM)
 	var ps problems
 	pkg, ok := decodePackage(doc, lim, &ps)
-	if !ok {
+	if !ok || ps.full() {
 		return nil, ps.err()
 	}
 	s := newStudy(doc, pkg, &ps)
 	var csvText []byte
-	if !ps.coveredBelow("/data", "/data/kind") {
+	if !ps.full() && !ps.coveredBelow("/data", "/data/kind") {
 		csvText = s.resolveData(opt, lim, &ps)
 	}
 	if err := ps.err(); err != nil {
@@ -73,18 +75,16 @@ func Load(doc []byte, opt Options) (*checks.Study, error) {
 	return s.Study, nil
 }
 
-// decodePackage decodes doc and checks its fields and counts; it reports
-// false when the problems found leave nothing further to check.
+// decodePackage decodes doc, counting its lists against the limits, and
+// checks its fields; it reports false when the problems found leave
+// nothing further to check.
 func decodePackage(doc []byte, lim Limits, ps *problems) (*checks.Package, bool) {
 	pkg := new(checks.Package)
-	if !decode(doc, pkg, ps) {
+	if !decode(doc, pkg, lim, ps) {
 		return nil, false
 	}
 	checkFields(pkg, ps)
 	ps.shadow()
-	if checkLimits(pkg, lim, ps) {
-		return nil, false
-	}
 	return pkg, true
 }
 
@@ -126,7 +126,7 @@ func (s *study) resolveGraphs(ps *problems) {
 	for i, a := range pkg.Alternatives {
 		base := pointer("alternatives", i)
 		if j, dup := names[a.Name]; dup {
-			ps.at(base+"/name", "%q is already the name of /alternatives/%d", a.Name, j)
+			ps.at(base+"/name", "%s is already the name of /alternatives/%d", quoted(a.Name), j)
 		}
 		names[a.Name] = i
 		checkExogenous(base+"/edges", pkg, a.Edges, s.Index, ps)

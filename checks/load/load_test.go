@@ -205,10 +205,10 @@ func TestLoad_WrongTypeReportedOnce(t *testing.T) {
 	if !errors.As(err, &invalid) {
 		t.Fatal(err)
 	}
-	want := []string{
+	want := []string{ // in the order of the document
+		"/title: must be a string, not a number",
 		"/claims/0/from: must be a string, not a number",
 		"/data/n: must be an integer, not a string",
-		"/title: must be a string, not a number",
 	}
 	var got []string
 	for _, p := range invalid.Problems {

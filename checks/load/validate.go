@@ -1,6 +1,7 @@
 package load
 
 import (
+	"bytes"
 	"fmt"
 	"reflect"
 	"regexp"
@@ -36,19 +37,44 @@ var fieldRules = sync.OnceValue(func() *validator.Validate {
 })
 
 // checkFields runs the validator and turns each failure into a Problem
-// with the field's JSON pointer.
+// with the field's JSON pointer. The edges, which may number a quarter of
+// a million, are validated one by one, and no longer once the list of
+// problems is full, so that a package of empty edges does not make a
+// quarter of a million validation errors at once.
 func checkFields(pkg *checks.Package, ps *problems) {
-	err := fieldRules().Struct(pkg)
+	isEdge := []byte("Edges[")
+	reportFields("", fieldRules().StructFiltered(pkg, func(ns []byte) bool { return bytes.Contains(ns, isEdge) }), ps)
+	if g := pkg.Graph; g != nil {
+		checkEdgeFields("/graph/edges", g.Edges, ps)
+		checkEdgeFields("/graph/fixed_edges", g.FixedEdges, ps)
+	}
+	for i, a := range pkg.Alternatives {
+		checkEdgeFields(pointer("alternatives", i, "edges"), a.Edges, ps)
+	}
+}
+
+func checkEdgeFields(base string, edges []checks.Edge, ps *problems) {
+	for i := range edges {
+		if ps.full() {
+			return
+		}
+		reportFields(base+pointer(i), fieldRules().Struct(&edges[i]), ps)
+	}
+}
+
+// reportFields reports the validator's failures; base is the pointer of
+// the struct it validated.
+func reportFields(base string, err error, ps *problems) {
 	if err == nil {
 		return
 	}
 	errs, ok := err.(validator.ValidationErrors)
 	if !ok {
-		ps.at("", "%v", err)
+		ps.at(base, "%v", err)
 		return
 	}
 	for _, fe := range errs {
-		ps.at(namespacePointer(fe.Namespace()), "%s", ruleText(fe))
+		ps.at(base+namespacePointer(fe.Namespace()), "%s", ruleText(fe))
 	}
 }
 
@@ -71,7 +97,7 @@ func ruleText(fe validator.FieldError) string {
 	case "min", "max":
 		return boundText(fe)
 	case "oneof":
-		hint := didYouMean(fmt.Sprint(fe.Value()), strings.Fields(p))
+		hint := didYouMean(clipped(fmt.Sprint(fe.Value())), strings.Fields(p))
 		return "must be one of: " + strings.ReplaceAll(p, " ", ", ") + hint
 	case "lte":
 		if fe.Field() == "n" {
@@ -130,38 +156,12 @@ func proportionHint(fe validator.FieldError) string {
 	return ""
 }
 
-// overLimit reports a count, what it counts, and its limit.
-const overLimit = "has %d %s; the limit is %d"
-
-// checkLimits reports every count above its limit, naming the limit, and
-// whether there was one.
-func checkLimits(pkg *checks.Package, lim Limits, ps *problems) bool {
-	found := false
-	over := func(ptr, what string, n, max int) {
-		if n > max {
-			ps.add(checks.Problem{Pointer: ptr, Detail: fmt.Sprintf(overLimit, n, what, max)})
-			found = true
-		}
-	}
-	over("/variables", "variables", len(pkg.Variables), lim.Variables)
-	over("/claims", "claims", len(pkg.Claims), lim.Claims)
-	over("/alternatives", "alternatives", len(pkg.Alternatives), lim.Alternatives)
-	if pkg.Graph != nil {
-		over("/graph/edges", "edges", len(pkg.Graph.Edges), lim.Edges)
-		over("/graph/fixed_edges", "edges", len(pkg.Graph.FixedEdges), lim.Edges)
-	}
-	for i, a := range pkg.Alternatives {
-		over(pointer("alternatives", i, "edges"), "edges", len(a.Edges), lim.Edges)
-	}
-	return found
-}
-
 // indexVariables maps names to positions and reports duplicates.
 func indexVariables(pkg *checks.Package, ps *problems) map[string]int {
 	index := map[string]int{}
 	for i, v := range pkg.Variables {
 		if j, dup := index[v.Name]; dup {
-			ps.at(pointer("variables", i, "name"), "%q is already the name of /variables/%d", v.Name, j)
+			ps.at(pointer("variables", i, "name"), "%s is already the name of /variables/%d", quoted(v.Name), j)
 			continue
 		}
 		index[v.Name] = i
@@ -180,15 +180,15 @@ func graphEdges(base string, edges []checks.Edge, index map[string]int, ps *prob
 		from, okF := index[e.From]
 		to, okT := index[e.To]
 		if !okF {
-			ps.at(base+at+"/from", "%s", unknownName(e.From, index))
+			ps.unknown(base+at+"/from", e.From, index)
 		}
 		if !okT {
-			ps.at(base+at+"/to", "%s", unknownName(e.To, index))
+			ps.unknown(base+at+"/to", e.To, index)
 		}
 		switch {
 		case !okF || !okT:
 		case from == to:
-			ps.at(base+at, "is a self-loop on %q", e.From)
+			ps.at(base+at, "is a self-loop on %s", quoted(e.From))
 		default:
 			if j, dup := seen[[2]int{from, to}]; dup {
 				ps.at(base+at, "repeats %s%s", base, pointer(j))
@@ -227,7 +227,7 @@ func acyclicGraph(base string, n int, edges []dag.Edge, names []string, ps *prob
 func checkExogenous(base string, pkg *checks.Package, edges []checks.Edge, index map[string]int, ps *problems) {
 	for i, e := range edges {
 		if j, ok := index[e.To]; ok && pkg.Variables[j].Exogenous {
-			ps.at(base+pointer(i, "to"), "points into %q, which /variables/%d declares exogenous", e.To, j)
+			ps.at(base+pointer(i, "to"), "points into %s, which /variables/%d declares exogenous", quoted(e.To), j)
 		}
 	}
 }
@@ -238,12 +238,12 @@ func checkClaims(pkg *checks.Package, index map[string]int, ps *problems) {
 	for i, c := range pkg.Claims {
 		at := pointer("claims", i)
 		if j, dup := ids[c.ID]; dup && c.ID != "" {
-			ps.at(at+"/id", "%q is already the id of /claims/%d", c.ID, j)
+			ps.at(at+"/id", "%s is already the id of /claims/%d", quoted(c.ID), j)
 		}
 		ids[c.ID] = i
 		for _, f := range []struct{ name, value string }{{"from", c.From}, {"to", c.To}} {
 			if _, ok := index[f.value]; !ok && f.value != "" {
-				ps.at(at+"/"+f.name, "%s", unknownName(f.value, index))
+				ps.unknown(at+"/"+f.name, f.value, index)
 			}
 		}
 		if c.From == c.To && c.From != "" {
@@ -260,11 +260,11 @@ func checkAdjustFor(at string, c checks.Claim, index map[string]int, ps *problem
 		p := at + pointer("adjust_for", k)
 		switch _, ok := index[a]; {
 		case !ok:
-			ps.at(p, "%s", unknownName(a, index))
+			ps.unknown(p, a, index)
 		case a == c.From || a == c.To:
-			ps.at(p, "%q is the claim's own from or to variable", a)
+			ps.at(p, "%s is the claim's own from or to variable", quoted(a))
 		case seen[a]:
-			ps.at(p, "%q is listed twice", a)
+			ps.at(p, "%s is listed twice", quoted(a))
 		}
 		seen[a] = true
 	}

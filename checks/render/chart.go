@@ -11,16 +11,22 @@ import (
 	"github.com/pathvet/pathvet/checks"
 )
 
-// Sizes of the stability chart, in SVG user units: narrow enough that its
-// labels stay readable on a 390-pixel screen.
+// Sizes of the stability chart, in SVG user units. The chart is set
+// between chartMinWidth and chartMaxWidth pixels wide, so that its
+// smallest text (tickSize) is never below minTextPx, and on a 390-pixel
+// page (358 pixels inside the page's margins) it fits without scrolling.
 const (
-	chartW    = 380.0
-	chartPad  = 14.0
-	rowH      = 38.0
-	axisH     = 34.0
-	dotR      = 5.0
-	chartTick = 5
-	minRangeW = 4.0
+	chartW     = 360.0
+	chartPad   = 30.0 // left and right of the axis, room for its end labels
+	labelX     = 10.0 // where the row labels start
+	lineH      = 16.0 // one line of a row label
+	markRoom   = 24.0 // below a row's label: its dot, interval or bar
+	axisH      = 36.0
+	dotR       = 5.0
+	chartTick  = 5
+	minRangeW  = 4.0
+	chartGrow  = 1.15 // the most the chart is enlarged
+	tickMargin = 6.0  // least room between two tick labels
 )
 
 // chartRow is one line of a claim's chart.
@@ -45,7 +51,7 @@ func stabilityRows(c checks.ClaimReport, alpha float64) []chartRow {
 		rows = append(rows, r)
 	}
 	for _, a := range c.UnderAlternatives {
-		p := altPoint(a)
+		p := altPoint(a, ref)
 		rows = append(rows, chartRow{Label: "alternative " + a.Name, P: p, Shift: altShift(ref, p, a, alpha)})
 	}
 	for _, m := range methodOrder(c.MissingData) {
@@ -91,44 +97,72 @@ func nullValue(c checks.ClaimReport) float64 {
 
 // StabilityChart draws one claim's estimates as dots and intervals on a
 // common axis with the no-effect line: a filled dot is significant at
-// alpha, a hollow one is not; a range bar spans the equivalent graphs.
+// alpha, a hollow one is not; a range bar spans the equivalent graphs;
+// the no-effect line runs through each row's marks, not its label.
 // Each class of g.nearby_graphs within |ΔBIC| < 2, and g.search_best,
-// adds a range row named by its edit (drawnClasses).
+// adds a range row named by its edit (drawnClasses). Row labels wrap onto
+// as many lines as they need; none is shrunk or cut.
 func StabilityChart(c checks.ClaimReport, alpha float64, g *checks.GraphReport) template.HTML {
 	cs, search := drawnClasses(g)
 	rows := append(stabilityRows(c, alpha), nearbyChartRows(c.ID, cs, search)...)
 	null := nullValue(c)
 	sc, ticks := NiceScale(chartValues(rows), null, chartPad, chartW-chartPad, chartTick)
-	h := float64(len(rows))*rowH + axisH
+	lines := make([][]string, len(rows))
+	h := axisH
+	for i, r := range rows {
+		lines[i] = wrapText(rowLabel(r), chartSize, r.Shift != "", chartW-2*labelX)
+		h += rowHeight(lines[i])
+	}
 	var b strings.Builder
 	id := "chart-" + c.ID
-	fmt.Fprintf(&b, `<svg class="chart" viewBox="0 0 %.0f %.0f" role="img" aria-labelledby="%[3]s-t %[3]s-d">`,
-		chartW, h, esc(id))
+	fmt.Fprintf(&b, `<svg class="chart" viewBox="0 0 %.0f %.0f" style="max-width:%.0fpx;min-width:%.0fpx" `+
+		`role="img" aria-labelledby="%[5]s-t %[5]s-d">`,
+		chartW, h, chartW*chartGrow, minWidth(chartW, tickSize), esc(id))
 	fmt.Fprintf(&b, `<title id="%[1]s-t">Claim %[2]s across graphs and missing-data methods</title>`+
 		`<desc id="%[1]s-d">%[3]s</desc>`,
 		esc(id), esc(c.ID), esc(chartWords(rows)))
 	x0 := sc.At(null)
-	fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="4" x2="%.1f" y2="%.1f"/>`, x0, x0, h-axisH+4)
+	y := 0.0
 	for i, r := range rows {
-		drawRow(&b, sc, r, float64(i)*rowH, alpha)
+		top := y + float64(len(lines[i]))*lineH + 2         // the no-effect line stops short of the labels
+		if r.P.Est != nil || (r.Lo != nil && r.Hi != nil) { // and of the words "not computed"
+			fmt.Fprintf(&b, `<line class="null" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`,
+				x0, top, x0, y+rowHeight(lines[i]))
+		}
+		drawRow(&b, sc, r, lines[i], y, alpha)
+		y += rowHeight(lines[i])
 	}
 	drawAxis(&b, sc, ticks, h-axisH)
 	b.WriteString(`</svg>`)
 	return template.HTML(b.String())
 }
 
-func drawRow(b *strings.Builder, sc Scale, r chartRow, y, alpha float64) {
-	label := r.Label
+func rowHeight(lines []string) float64 { return float64(len(lines))*lineH + markRoom }
+
+// rowLabel is a row's label with its shift, if any.
+func rowLabel(r chartRow) string {
 	if r.Shift != "" {
-		label += " — " + r.Shift
+		return r.Label + " — " + r.Shift
 	}
+	return r.Label
+}
+
+func drawRow(b *strings.Builder, sc Scale, r chartRow, lines []string, y, alpha float64) {
 	class := "row"
 	if r.Shift != "" {
 		class += " shifted"
 	}
-	fmt.Fprintf(b, `<g class="%s"><text class="rowlabel" x="%.0f" y="%.1f"%s>%s</text>`, class, chartPad, y+13,
-		fitText(label, r.Shift != ""), esc(label))
-	ym := y + 27
+	fmt.Fprintf(b, `<g class="%s"><text class="rowlabel" x="%.0f" y="%.1f" font-size="%.0f">`, class, labelX,
+		y+lineH-3, chartSize)
+	for i, line := range lines {
+		dy := "0"
+		if i > 0 {
+			dy = fmt.Sprintf("%.0f", lineH)
+		}
+		fmt.Fprintf(b, `<tspan x="%.0f" dy="%s">%s</tspan>`, labelX, dy, esc(line))
+	}
+	b.WriteString(`</text>`)
+	ym := y + float64(len(lines))*lineH + markRoom/2
 	switch {
 	case r.Lo != nil && r.Hi != nil:
 		x1, w := sc.At(*r.Lo), sc.At(*r.Hi)-sc.At(*r.Lo)
@@ -139,26 +173,50 @@ func drawRow(b *strings.Builder, sc Scale, r chartRow, y, alpha float64) {
 	case r.P.Est != nil:
 		drawPoint(b, sc, r.P, ym, alpha)
 	default:
-		fmt.Fprintf(b, `<text class="na" x="%.0f" y="%.1f">not computed</text>`, chartPad, ym+4)
+		fmt.Fprintf(b, `<text class="na" x="%.0f" y="%.1f" font-size="%.0f">not computed</text>`, labelX,
+			ym+4, chartSize)
 	}
 	b.WriteString(`</g>`)
 }
 
-// labelEm is the width of an average character of a 12-pixel row label
-// in user units, bold a little wider; a label estimated past the chart's
-// width is set smaller to fit (never stretched).
-const labelEm, boldEm = 6.2, 6.8
+// wrapText breaks s into lines no wider than w at a font size, between
+// words where it can, within a word too long for a line.
+func wrapText(s string, size float64, bold bool, w float64) []string {
+	var lines []string
+	line := ""
+	for _, word := range strings.Fields(s) {
+		next := strings.TrimSpace(line + " " + word)
+		if textWidth(next, size, bold) <= w {
+			line = next
+			continue
+		}
+		if line != "" {
+			lines = append(lines, line)
+		}
+		line = word
+		for textWidth(line, size, bold) > w {
+			cut := fitPrefix(line, size, bold, w)
+			lines, line = append(lines, line[:cut]), line[cut:]
+		}
+	}
+	if line != "" || len(lines) == 0 {
+		lines = append(lines, line)
+	}
+	return lines
+}
 
-// fitText shrinks a row label that would run past the chart's right edge.
-func fitText(label string, bold bool) string {
-	room, em := chartW-2*chartPad, labelEm
-	if bold {
-		em = boldEm
+// fitPrefix is the length in bytes of the longest prefix of s (at least
+// one rune) no wider than w.
+func fitPrefix(s string, size float64, bold bool, w float64) int {
+	cut := 0
+	for i, r := range s {
+		end := i + utf8.RuneLen(r)
+		if cut > 0 && textWidth(s[:end], size, bold) > w {
+			break
+		}
+		cut = end
 	}
-	if w := float64(utf8.RuneCountInString(label)) * em; w > room {
-		return fmt.Sprintf(` style="font-size:%.1fpx"`, 12*room/w)
-	}
-	return ""
+	return cut
 }
 
 func drawPoint(b *strings.Builder, sc Scale, p point, y, alpha float64) {
@@ -181,10 +239,30 @@ func drawPoint(b *strings.Builder, sc Scale, p point, y, alpha float64) {
 
 func drawAxis(b *strings.Builder, sc Scale, ticks []float64, y float64) {
 	fmt.Fprintf(b, `<line class="axis" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`, sc.R0, y+8, sc.R1, y+8)
-	for _, t := range ticks {
+	step := tickStep(sc, ticks)
+	for i, t := range ticks {
 		x := sc.At(t)
 		fmt.Fprintf(b, `<line class="tick" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f"/>`, x, y+8, x, y+13)
-		fmt.Fprintf(b, `<text class="ticklabel" x="%.1f" y="%.1f">%s</text>`, x, y+27, tickText(t))
+		if i%step == 0 {
+			fmt.Fprintf(b, `<text class="ticklabel" x="%.1f" y="%.1f" font-size="%.0f">%s</text>`, x, y+28,
+				tickSize, tickText(t))
+		}
+	}
+}
+
+// tickStep labels every tick, or every second (third …) one when the
+// labels would otherwise run into each other.
+func tickStep(sc Scale, ticks []float64) int {
+	for step := 1; ; step++ {
+		ok := true
+		for i := step; i < len(ticks); i += step {
+			a, b := ticks[i-step], ticks[i]
+			room := (textWidth(tickText(a), tickSize, false)+textWidth(tickText(b), tickSize, false))/2 + tickMargin
+			ok = ok && sc.At(b)-sc.At(a) >= room
+		}
+		if ok || step >= len(ticks) {
+			return step
+		}
 	}
 }
 

@@ -1,7 +1,9 @@
 package render
 
 import (
+	"html"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -27,7 +29,7 @@ func TestNearbyChartRows(t *testing.T) {
 		if tc.changes {
 			label += " — changes"
 		}
-		if !strings.Contains(svg, ">"+label+"</text>") {
+		if !slices.Contains(rowLabels(svg), label) {
 			t.Errorf("%s: no row labelled %q", c.ID, label)
 		}
 		cs, search := drawnClasses(r.Graph)
@@ -60,7 +62,7 @@ func TestNearbyChartHeadline(t *testing.T) {
 	r := runPackage(t, "calibration/nearby-headline")
 	c := r.Claims[0]
 	svg := string(StabilityChart(c, r.SignificanceLevel, r.Graph))
-	if !strings.Contains(svg, ">without offered → wellbeing, ΔBIC +0.72 — changes</text>") {
+	if !slices.Contains(rowLabels(svg), "without offered → wellbeing, ΔBIC +0.72 — changes") {
 		t.Fatalf("no row for the graph without the headline arrow in\n%s", svg)
 	}
 	bars := rangeRe.FindAllStringSubmatch(svg, -1)
@@ -71,4 +73,23 @@ func TestNearbyChartHeadline(t *testing.T) {
 	if w != minRangeW || !scalar.EqualWithinAbs(x+w/2, x0, 0.11) {
 		t.Errorf("bar at %g width %g, want width %g centred on the null line at %g", x, w, minRangeW, x0)
 	}
+}
+
+var (
+	rowLabelRe = regexp.MustCompile(`<text class="rowlabel"[^>]*>(.*?)</text>`)
+	tspanRe    = regexp.MustCompile(`<tspan[^>]*>(.*?)</tspan>`)
+)
+
+// rowLabels are a chart's row labels, each with its lines joined by a
+// space (labels wrap onto lines; the old chart shrank them to fit one).
+func rowLabels(svg string) []string {
+	var out []string
+	for _, m := range rowLabelRe.FindAllStringSubmatch(svg, -1) {
+		var lines []string
+		for _, l := range tspanRe.FindAllStringSubmatch(m[1], -1) {
+			lines = append(lines, html.UnescapeString(l[1]))
+		}
+		out = append(out, strings.Join(lines, " "))
+	}
+	return out
 }

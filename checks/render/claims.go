@@ -110,7 +110,7 @@ func equivalentsCell(a *checks.AcrossEquivalents) Cell {
 func alternativesCell(c checks.ClaimReport, ref point, alpha float64) Cell {
 	var ls []Line
 	for _, a := range c.UnderAlternatives {
-		p := altPoint(a)
+		p := altPoint(a, ref)
 		text := a.Name + ": " + estimateLine(a.Estimate, a.CI, a.PValue, "")
 		switch {
 		case a.Error != "":

@@ -4,278 +4,208 @@ import (
 	"fmt"
 	"html"
 	"html/template"
-	"sort"
+	"math"
 	"strings"
-	"unicode/utf8"
-
-	"github.com/pathvet/pathvet/checks"
 )
 
-// Arc kinds in a drawing; each has its own line style and a word in the
-// legend, so that colour is never the only cue.
+// minTextPx is the least height, in CSS pixels, of any text of a drawing
+// on a 390-pixel-wide page. A drawing is never set narrower than the
+// width at which its smallest text is that high (minWidth); a wider one
+// scrolls sideways within its figure instead of shrinking.
+const minTextPx = 11.0
+
+// maxScale is the most a drawing is enlarged on a wide page.
+const maxScale = 1.2
+
+// Head sizes of an arrow, in user units.
 const (
-	arcShared     = "shared"     // every equivalent graph has it, this way round
-	arcReversible = "reversible" // some equivalent graph has it the other way
-	arcLine       = "open"       // an undirected edge of a CPDAG
+	headLen  = 9.0
+	headHalf = 4.5
 )
 
-// drawnArc is one edge of a drawing.
-type drawnArc struct {
-	From, To string
-	Kind     string
-	Fixed    bool   // fixed by background knowledge
-	Label    string // the claims on it
+// drawing is what one SVG shows: the layout's variables and tiers and the
+// arrows of one graph on it.
+type drawing struct {
+	l           *Layout
+	arcs        []drawnArc
+	exo         map[string]bool
+	id, title   string
+	description string
 }
 
-// svgMarkers are the arrowheads, with ids made unique by prefix.
-const svgMarkers = `<defs>` +
-	`<marker id="%[1]s-head" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="10" markerHeight="10" ` +
-	`markerUnits="userSpaceOnUse" orient="auto">` +
-	`<path d="M0,0 L10,5 L0,10 z" class="head"/></marker>` +
-	`<marker id="%[1]s-open" viewBox="0 0 10 10" refX="10" refY="5" markerWidth="11" markerHeight="11" ` +
-	`markerUnits="userSpaceOnUse" orient="auto">` +
-	`<path d="M1,1 L9,5 L1,9" class="openhead"/></marker>` +
-	`<marker id="%[1]s-bar" viewBox="0 0 10 10" refX="0" refY="5" markerWidth="11" markerHeight="11" ` +
-	`markerUnits="userSpaceOnUse" orient="auto">` +
-	`<path d="M2,0 L2,10 M6,0 L6,10" class="bar"/></marker></defs>`
+// minWidth is the narrowest a drawing w units wide may be set.
+func minWidth(w, smallest float64) float64 { return math.Ceil(w * minTextPx / smallest) }
 
-// declaredArcs classifies the declared graph's arcs against its CPDAG.
-func declaredArcs(g *checks.GraphReport, claims []checks.ClaimReport) []drawnArc {
-	open := pairSet(g.CPDAG.Undirected, true)
-	fixed := pairSet(g.Background, false)
-	labels := claimLabels(claims)
-	out := make([]drawnArc, len(g.Declared))
-	for i, a := range g.Declared {
-		k := arcShared
-		if open[a] {
-			k = arcReversible
-		}
-		out[i] = drawnArc{From: a[0], To: a[1], Kind: k, Fixed: fixed[a], Label: labels[a]}
-	}
-	return out
-}
-
-// cpdagArcs lists a CPDAG's arcs and undirected edges.
-func cpdagArcs(es *checks.EdgeSets) []drawnArc {
-	var out []drawnArc
-	for _, a := range es.Directed {
-		out = append(out, drawnArc{From: a[0], To: a[1], Kind: arcShared})
-	}
-	for _, a := range es.Undirected {
-		out = append(out, drawnArc{From: a[0], To: a[1], Kind: arcLine})
-	}
-	return out
-}
-
-func pairSet(ps [][2]string, both bool) map[[2]string]bool {
-	m := make(map[[2]string]bool, len(ps))
-	for _, p := range ps {
-		m[p] = true
-		if both {
-			m[[2]string{p[1], p[0]}] = true
-		}
-	}
-	return m
-}
-
-// claimLabels names the direct-effect claims on each arc.
-func claimLabels(claims []checks.ClaimReport) map[[2]string]string {
-	ids := map[[2]string][]string{}
-	for _, c := range claims {
-		if c.Kind == checks.KindDirect {
-			a := [2]string{c.From, c.To}
-			ids[a] = append(ids[a], c.ID)
-		}
-	}
-	out := make(map[[2]string]string, len(ids))
-	for a, v := range ids {
-		sort.Strings(v)
-		out[a] = strings.Join(v, ", ")
-	}
-	return out
-}
-
-// bowPerLayer is how far sideways an arc bends per layer it skips, so
-// that it does not run through the nodes between its ends.
-const bowPerLayer = 34.0
-
-// labelW is a generous width of one character of an arc's label (13 px,
-// bold), in user units.
-const labelW = 9.0
-
-// sidePad is the room a drawing keeps on each side for its bowed arcs.
-func sidePad(l *Layout) float64 { return bowPerLayer / 2 * float64(max(len(l.Layers)-2, 0)) }
-
-// drawGraph writes the SVG of a layout with the given arcs; exo marks the
-// exogenous variables; title and desc say in words what it shows.
-func drawGraph(l *Layout, arcs []drawnArc, exo map[string]bool, id, title, desc string) template.HTML {
-	pad := sidePad(l)
-	ends := arcPorts(l, arcs)
-	var marks strings.Builder
-	right := l.Width + pad
-	for i, a := range arcs {
-		right = max(right, drawArcMarks(&marks, l, a, ends[i]))
-	}
+// svg writes the drawing: tiers' bands, arrows, variables, then tags (so
+// that nothing hides a tag); title and desc say in words what it shows.
+func (d drawing) svg() template.HTML {
+	l := d.l
 	var b strings.Builder
-	fmt.Fprintf(&b, `<svg class="graph" id="%[1]s" viewBox="%.0[2]f 0 %.0[3]f %.0[4]f" style="max-width:%.0[3]fpx" `+
-		`role="img" aria-labelledby="%[1]s-t %[1]s-d"><title id="%[1]s-t">%[5]s</title><desc id="%[1]s-d">%[6]s</desc>`,
-		id, -pad, right+pad, l.Height, esc(title), esc(desc))
-	fmt.Fprintf(&b, svgMarkers, id)
-	for i, a := range arcs {
-		drawArc(&b, a, ends[i], id)
+	fmt.Fprintf(&b, `<svg class="graph" id="%[1]s" viewBox="0 0 %.0[2]f %.0[3]f" `+
+		`style="max-width:%.0[4]fpx;min-width:%.0[5]fpx" role="img" aria-labelledby="%[1]s-t %[1]s-d">`+
+		`<title id="%[1]s-t">%[6]s</title><desc id="%[1]s-d">%[7]s</desc>`,
+		d.id, l.Width, l.Height, math.Ceil(l.Width*maxScale), minWidth(l.Width, smallestText),
+		esc(d.title), esc(d.description+layoutWords(d.l)))
+	for _, t := range l.Tiers {
+		drawTier(&b, t)
+	}
+	var tags strings.Builder
+	for _, a := range d.arcs {
+		if r, ok := l.RouteOf(a.From, a.To); ok {
+			drawArc(&b, a, r)
+			drawTag(&tags, a, r)
+		}
 	}
 	for _, p := range l.Nodes {
-		drawNode(&b, p, exo[p.Name])
+		drawNode(&b, p, d.exo[p.Name])
 	}
-	b.WriteString(marks.String() + `</svg>`)
+	b.WriteString(tags.String() + `</svg>`)
 	return template.HTML(b.String())
 }
 
-// geom is where an arc runs: its ends and the control point of its curve.
-type geom struct{ x1, y1, cx, cy, x2, y2 float64 }
-
-// arcPorts lays every arc out: from the bottom of the tail to the top of
-// the head (the other way round when the head lies higher, as on a cycle;
-// side to side within a layer), bowed to alternating sides when it skips
-// layers, and spread along each node's edge in the order of where the
-// arcs go, so that arcs leaving one node do not run on top of each other.
-func arcPorts(l *Layout, arcs []drawnArc) []geom {
-	out := make([]geom, len(arcs))
-	bow := make([]float64, len(arcs))
-	for i, a := range arcs {
-		u, _ := l.At(a.From)
-		v, _ := l.At(a.To)
-		g := geom{y1: u.Y + nodeH, y2: v.Y}
-		if v.Layer < u.Layer {
-			g.y1, g.y2 = u.Y, v.Y+nodeH
-		} else if v.Layer == u.Layer {
-			g.y1, g.y2 = u.Y+nodeH/2, v.Y+nodeH/2
-		}
-		if span := abs(v.Layer - u.Layer); span > 1 {
-			bow[i] = float64(1-2*(i%2)) * bowPerLayer * float64(span-1)
-		}
-		out[i] = g
+// layoutWords say in words what a drawing's rows and shapes add: each
+// tier's variables and each construct's items.
+func layoutWords(l *Layout) string {
+	var parts []string
+	for _, t := range l.Tiers {
+		parts = append(parts, t.Label+": "+strings.Join(t.Variables, ", "))
 	}
-	spread(l, arcs, out, bow, true)
-	spread(l, arcs, out, bow, false)
-	for i := range out {
-		g := &out[i]
-		g.cx, g.cy = (g.x1+g.x2)/2+bow[i], (g.y1+g.y2)/2
+	for _, n := range l.Nodes {
+		if n.Latent {
+			parts = append(parts, n.Name+" is a construct measured by "+strings.Join(n.Items, ", "))
+		}
 	}
-	return out
+	if len(parts) == 0 {
+		return ""
+	}
+	return ". " + strings.Join(parts, "; ")
 }
 
-// spread sets the x of each arc's tail (tails) or head along its node,
-// ordered by the x of the other end plus the arc's bow.
-func spread(l *Layout, arcs []drawnArc, out []geom, bow []float64, tails bool) {
-	by := map[string][]int{}
-	for i, a := range arcs {
-		n := a.To
-		if tails {
-			n = a.From
-		}
-		by[n] = append(by[n], i)
-	}
-	for name, idx := range by {
-		p, _ := l.At(name)
-		key := func(i int) float64 {
-			other := arcs[i].From
-			if tails {
-				other = arcs[i].To
-			}
-			q, _ := l.At(other)
-			return q.X + q.W/2 + bow[i]
-		}
-		sort.SliceStable(idx, func(a, b int) bool { return key(idx[a]) < key(idx[b]) })
-		for k, i := range idx {
-			x := p.X + p.W*float64(k+1)/float64(len(idx)+1)
-			if tails {
-				out[i].x1 = x
-			} else {
-				out[i].x2 = x
-			}
+// smallestText is the smallest font size a drawing uses.
+const smallestText = min(nameSize, tagSize, itemSize, tierSize)
+
+// pathD is a route as SVG path data.
+func pathD(r Route) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "M%.1f,%.1f", r.Start.X, r.Start.Y)
+	for _, s := range r.Segs {
+		if s.Curve {
+			fmt.Fprintf(&b, " C%.1f,%.1f %.1f,%.1f %.1f,%.1f", s.C1.X, s.C1.Y, s.C2.X, s.C2.Y, s.To.X, s.To.Y)
+		} else {
+			fmt.Fprintf(&b, " L%.1f,%.1f", s.To.X, s.To.Y)
 		}
 	}
+	return b.String()
 }
 
-// drawArc draws one arc along its geometry.
-func drawArc(b *strings.Builder, a drawnArc, g geom, id string) {
-	class, marker := "arc "+a.Kind, ` marker-end="url(#`+id+`-head)"`
+// drawArc draws one arrow along its route, in its kind's line and head.
+func drawArc(b *strings.Builder, a drawnArc, r Route) {
+	d := pathD(r)
+	fmt.Fprintf(b, `<path class="arc %s" data-from="%s" data-to="%s" d="%s"/>`, a.Kind, esc(a.From), esc(a.To), d)
+	if a.Kind == arcSettled {
+		fmt.Fprintf(b, `<path class="rail" d="%s"/>`, d)
+	}
 	switch a.Kind {
+	case arcOpen, arcRemoved:
 	case arcReversible:
-		marker = ` marker-end="url(#` + id + `-open)"`
-	case arcLine, arcRemoved:
-		marker = ""
+		b.WriteString(headPath(r, false, a.Kind))
+	default:
+		b.WriteString(headPath(r, true, a.Kind))
 	}
-	if a.Fixed {
-		class += " fixed"
-		marker += ` marker-start="url(#` + id + `-bar)"`
-	}
-	fmt.Fprintf(b, `<path class="%s" data-from="%s" data-to="%s" data-y1="%.1f" data-y2="%.1f" `+
-		`d="M%.1f,%.1f Q%.1f,%.1f %.1f,%.1f"%s/>`,
-		class, esc(a.From), esc(a.To), g.y1, g.y2, g.x1, g.y1, g.cx, g.cy, g.x2, g.y2, marker)
 }
 
-// drawArcMarks writes an arc's label and, on a removed arc, its strike,
-// at the first point along the curve clear of every node; drawn after the
-// nodes, so that a mark never hides behind one. It returns how far right
-// the marks reach, so that the drawing can make room.
-func drawArcMarks(b *strings.Builder, l *Layout, a drawnArc, g geom) float64 {
-	mx, my := markPoint(l, g)
-	right := mx + 6
+// headPath is an arrow's head at the route's end: a filled triangle, or an
+// open chevron.
+func headPath(r Route, filled bool, kind string) string {
+	e, d := r.here(), r.HeadDir()
+	n := Pt{-d.Y, d.X}
+	bx, by := e.X-headLen*d.X, e.Y-headLen*d.Y
+	if filled {
+		return fmt.Sprintf(`<path class="head filled %s" d="M%.1f,%.1f L%.1f,%.1f L%.1f,%.1f Z"/>`, kind,
+			e.X, e.Y, bx+headHalf*n.X, by+headHalf*n.Y, bx-headHalf*n.X, by-headHalf*n.Y)
+	}
+	return fmt.Sprintf(`<path class="head open %s" d="M%.1f,%.1f L%.1f,%.1f L%.1f,%.1f"/>`, kind,
+		bx+(headHalf+1)*n.X, by+(headHalf+1)*n.Y, e.X, e.Y, bx-(headHalf+1)*n.X, by-(headHalf+1)*n.Y)
+}
+
+// drawTag hangs an arrow's tag beside it: a short pole from the arrow to
+// a box with the words; a removal's cross on the arrow at the pole.
+func drawTag(b *strings.Builder, a drawnArc, r Route) {
+	if a.Tag == "" || r.Tag == nil {
+		return
+	}
+	t := *r.Tag
+	t.W = min(t.W, tagWidth([]string{a.Tag})) // the room fits the widest tag any drawing hangs here
+	fmt.Fprintf(b, `<g class="tag %s">`, a.Kind)
+	q := nearestOnBox(r.Pole, t)
+	fmt.Fprintf(b, `<path class="pole" d="M%.1f,%.1f L%.1f,%.1f"/>`, r.Pole.X, r.Pole.Y, q.X, q.Y)
 	if a.Kind == arcRemoved {
-		fmt.Fprintf(b, `<path class="strike" d="M%.1f,%.1f l12,12 m0,-12 l-12,12"/>`, mx-6, my-6)
+		fmt.Fprintf(b, `<path class="strike" d="M%.1f,%.1f l8,8 m0,-8 l-8,8"/>`, r.Pole.X-4, r.Pole.Y-4)
 	}
-	if a.Label != "" {
-		fmt.Fprintf(b, `<text class="claimlabel" x="%.1f" y="%.1f">%s</text>`, mx+6, my+4, esc(a.Label))
-		right = mx + 10 + labelW*float64(utf8.RuneCountInString(a.Label))
-	}
-	return right
+	fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" rx="3"/>`, t.X, t.Y, t.W, t.H)
+	fmt.Fprintf(b, `<text x="%.1f" y="%.1f" font-size="%.0f">%s</text></g>`, t.X+tagPadX, t.Y+t.H/2+tagSize*0.36,
+		tagSize, esc(a.Tag))
 }
 
-// markPoint is the point of the arc's quadratic curve at the first of a
-// few places (middle first) that lies outside every node's box.
-func markPoint(l *Layout, g geom) (float64, float64) {
-	at := func(t float64) (float64, float64) {
-		u := 1 - t
-		return u*u*g.x1 + 2*u*t*g.cx + t*t*g.x2, u*u*g.y1 + 2*u*t*g.cy + t*t*g.y2
-	}
-	for _, t := range []float64{0.5, 0.35, 0.65, 0.25, 0.75} {
-		if x, y := at(t); !inNode(l, x, y) {
-			return x, y
-		}
-	}
-	return at(0.5)
+// nearestOnBox is the point of the box's edge nearest p.
+func nearestOnBox(p Pt, b Box) Pt {
+	return Pt{min(max(p.X, b.X), b.X+b.W), min(max(p.Y, b.Y), b.Y+b.H)}
 }
 
-func inNode(l *Layout, x, y float64) bool {
-	for _, p := range l.Nodes {
-		if x >= p.X-2 && x <= p.X+p.W+2 && y >= p.Y-2 && y <= p.Y+nodeH+2 {
-			return true
-		}
-	}
-	return false
-}
-
-func abs(n int) int {
-	if n < 0 {
-		return -n
-	}
-	return n
-}
-
+// drawNode draws a variable: a box (double for an exogenous one) or, for
+// a construct, an ellipse with its items listed beside it.
 func drawNode(b *strings.Builder, p Placed, exogenous bool) {
 	class := "node"
 	if exogenous {
 		class += " exogenous"
 	}
-	fmt.Fprintf(b, `<g class="%s" data-name="%s"><rect x="%.1f" y="%.1f" width="%.1f" height="%.0f" rx="4"/>`,
-		class, esc(p.Name), p.X, p.Y, p.W, nodeH)
-	if exogenous {
-		fmt.Fprintf(b, `<rect class="inner" x="%.1f" y="%.1f" width="%.1f" height="%.0f" rx="2"/>`,
-			p.X+3, p.Y+3, p.W-6, nodeH-6)
+	if p.Latent {
+		class += " latent"
 	}
-	fmt.Fprintf(b, `<text x="%.1f" y="%.1f">%s</text></g>`, p.X+p.W/2, p.Y+nodeH/2+4.5, esc(p.Name))
+	fmt.Fprintf(b, `<g class="%s" data-name="%s">`, class, esc(p.Name))
+	s := p.Shape
+	cx, cy := s.X+s.W/2, s.Y+s.H/2
+	if p.Latent {
+		fmt.Fprintf(b, `<ellipse cx="%.1f" cy="%.1f" rx="%.1f" ry="%.1f"/>`, cx, cy, s.W/2, s.H/2)
+		if exogenous {
+			fmt.Fprintf(b, `<ellipse class="inner" cx="%.1f" cy="%.1f" rx="%.1f" ry="%.1f"/>`,
+				cx, cy, s.W/2-3, s.H/2-3)
+		}
+	} else {
+		fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" rx="4"/>`, s.X, s.Y, s.W, s.H)
+		if exogenous {
+			fmt.Fprintf(b, `<rect class="inner" x="%.1f" y="%.1f" width="%.1f" height="%.1f" rx="2"/>`,
+				s.X+3, s.Y+3, s.W-6, s.H-6)
+		}
+	}
+	fmt.Fprintf(b, `<text class="name" x="%.1f" y="%.1f" font-size="%.0f">%s</text>`, cx, cy+nameSize*0.36,
+		nameSize, esc(p.Name))
+	drawItems(b, p)
+	b.WriteString(`</g>`)
+}
+
+// drawItems lists a construct's items beside its ellipse, joined to it by
+// a bracket.
+func drawItems(b *strings.Builder, p Placed) {
+	if !p.Latent {
+		return
+	}
+	ib := p.ItemsBox
+	midY := p.Shape.Y + p.Shape.H/2
+	fmt.Fprintf(b, `<path class="bracket" d="M%.1f,%.1f H%.1f M%.1f,%.1f V%.1f"/>`,
+		p.Shape.X+p.Shape.W, midY, ib.X+3, ib.X+3, ib.Y+3, ib.Y+ib.H-3)
+	for i, it := range p.Items {
+		fmt.Fprintf(b, `<text class="item" x="%.1f" y="%.1f" font-size="%.0f">%s</text>`,
+			ib.X+itemsPadL, ib.Y+2+float64(i)*itemLineH+itemLineH/2+itemSize*0.36, itemSize, esc(it))
+	}
+}
+
+// drawTier draws a tier's band and its label at the left.
+func drawTier(b *strings.Builder, t TierRow) {
+	fmt.Fprintf(b, `<g class="tier"><rect class="tierband" x="%.1f" y="%.1f" width="%.1f" height="%.1f" rx="6"/>`,
+		t.Band.X, t.Band.Y, t.Band.W, t.Band.H)
+	fmt.Fprintf(b, `<text class="tierlabel" x="%.1f" y="%.1f" font-size="%.0f">%s</text></g>`,
+		t.LabelAt.X, t.LabelAt.Y, tierSize, esc(t.Label))
 }
 
 func esc(s string) string { return html.EscapeString(s) }

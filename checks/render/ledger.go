@@ -18,6 +18,9 @@ type Ledger struct {
 	// Floored: the deductions add up to more than 100 and the score
 	// stops at zero.
 	Floored bool
+	// Cap says why the score was capped below what the deductions leave
+	// (checks.ScoreCap); empty when it was not.
+	Cap string
 }
 
 func ledger(r *checks.Report) Ledger {
@@ -29,5 +32,8 @@ func ledger(r *checks.Report) Ledger {
 			Deduction: c.Deduction, Running: run})
 	}
 	l.Floored = run < 0
+	if r.ScoreCap != nil {
+		l.Cap = r.ScoreCap.Reason
+	}
 	return l
 }

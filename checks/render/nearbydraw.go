@@ -8,14 +8,6 @@ import (
 	"github.com/pathvet/pathvet/checks"
 )
 
-// Arc kinds of an edited drawing: the edits of a nearby class shown on the
-// declared graph, each with its own line style and a word on the arc.
-const (
-	arcAdded    = "added"    // an arrow the edit adds
-	arcRemoved  = "removed"  // a declared arrow the edit takes away
-	arcReversed = "reversed" // a declared arrow the edit turns round
-)
-
 // NearbyDrawing is the declared graph with one nearby class's edits drawn
 // on it, and a caption in words.
 type NearbyDrawing struct {
@@ -48,16 +40,15 @@ func drawnClasses(g *checks.GraphReport) (cs []checks.NearbyGraph, search bool) 
 	return cs, search
 }
 
-// nearbyDrawings draws each class of drawnClasses on the declared graph's
-// layout l (the same layered layout as the declared drawing).
-func nearbyDrawings(l *Layout, g *checks.GraphReport, base []drawnArc, exo map[string]bool) []NearbyDrawing {
-	cs, search := drawnClasses(g)
+// nearbyDrawings draws each class of drawnClasses, its arcs edited
+// (editedArcs), on the declared graph's layout l.
+func nearbyDrawings(l *Layout, cs []checks.NearbyGraph, search bool, edited [][]drawnArc,
+	exo map[string]bool) []NearbyDrawing {
 	out := make([]NearbyDrawing, len(cs))
 	for i, n := range cs {
 		d := NearbyDrawing{Caption: nearbyCaption(n), Search: search && i == len(cs)-1}
-		arcs := editedArcs(base, n.Edits, l)
-		d.SVG = drawGraph(l, arcs, exo, fmt.Sprintf("nearby-%d", i+1), "The declared graph "+editsPhrase(n.Edits),
-			d.Caption)
+		d.SVG = drawing{l: l, arcs: edited[i], exo: exo, id: fmt.Sprintf("nearby-%d", i+1),
+			title: "The declared graph " + editsPhrase(n.Edits), description: d.Caption}.svg()
 		out[i] = d
 	}
 	return out

@@ -5,7 +5,6 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
-	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -36,21 +35,18 @@ func runPackage(t *testing.T, dir string) *checks.Report {
 	return r
 }
 
-// arcOf finds the drawn arc from → to in an SVG: its classes, or "".
+// arcOf finds the drawn arc from → to in an SVG, with the head drawn
+// right after it if it has one; "" when it is not drawn.
 func arcOf(svg, from, to string) string {
 	re := regexp.MustCompile(`<path class="arc ([a-z ]+)" data-from="` + regexp.QuoteMeta(from) +
-		`" data-to="` + regexp.QuoteMeta(to) + `"[^>]*>`)
-	m := re.FindStringSubmatch(svg)
-	if m == nil {
-		return ""
-	}
-	return m[0]
+		`" data-to="` + regexp.QuoteMeta(to) + `"[^>]*>(<path class="rail"[^>]*>)?(<path class="head[^>]*>)?`)
+	return re.FindString(svg)
 }
 
 // TestNearbyHeadlineDrawing: the calibration package whose headline arrow
 // offered → wellbeing can go at ΔBIC +0.72 is drawn without it: that arc
-// struck and headless, the others as declared, and the caption names the
-// edit, ΔBIC, its band and the claim that changes.
+// struck and headless, the others kept with their heads, and the caption
+// names the edit, ΔBIC, its band and the claim that changes.
 func TestNearbyHeadlineDrawing(t *testing.T) {
 	r := runPackage(t, "calibration/nearby-headline")
 	v, err := graphView(r)
@@ -63,14 +59,15 @@ func TestNearbyHeadlineDrawing(t *testing.T) {
 	d := v.Nearby[0]
 	svg := string(d.SVG)
 	removed := arcOf(svg, "offered", "wellbeing")
-	if !strings.Contains(removed, "arc removed") || strings.Contains(removed, "marker-end") {
+	if !strings.Contains(removed, "arc removed") || strings.Contains(removed, `class="head`) {
 		t.Errorf("the removed arrow is not drawn as removed: %q", removed)
 	}
 	if strings.Count(svg, `class="strike"`) != 1 || !strings.Contains(svg, ">removed (N1)</text>") {
 		t.Errorf("the removed arrow lacks its strike or its word")
 	}
 	for _, a := range [][2]string{{"offered", "volunteer_hours"}, {"volunteer_hours", "wellbeing"}} {
-		if arc := arcOf(svg, a[0], a[1]); !strings.Contains(arc, "arc shared") || !strings.Contains(arc, "-head)") {
+		arc := arcOf(svg, a[0], a[1])
+		if !strings.Contains(arc, "arc kept") || !strings.Contains(arc, `class="head filled kept"`) {
 			t.Errorf("%s → %s: want a kept arrow with a head, got %q", a[0], a[1], arc)
 		}
 	}
@@ -84,21 +81,23 @@ func TestNearbyHeadlineDrawing(t *testing.T) {
 
 // TestEditedArcs: an added arrow joins in its own class with its word, a
 // reversed one points its new way, a removed one stays struck, and an
-// edit on an added arrow acts on it (the search's edits are in order).
+// edit on an added arrow acts on it (the search's edits are in order);
+// adding the reverse of a removed arrow reverses it.
 func TestEditedArcs(t *testing.T) {
 	r := loadGolden(t, "tutoring-anxiety")
-	l, err := LayOut(r.Graph.Nodes, r.Graph.Declared)
-	if err != nil {
-		t.Fatal(err)
-	}
 	base := declaredArcs(r.Graph, r.Claims)
 	edits := []checks.GraphEdit{{Op: "add", From: "maths_score", To: "tutor_sessions"},
 		{Op: "reverse", From: "tutor_sessions", To: "maths_anxiety"},
 		{Op: "remove", From: "maths_anxiety", To: "maths_score"},
 		{Op: "add", From: "long_commute", To: "nowhere"}}
-	svg := string(drawGraph(l, editedArcs(base, edits, l), nil, "t", "t", "t"))
+	arcs := editedArcs(base, edits, r.Graph.Nodes)
+	l, err := LayOut(LayoutInput{Nodes: r.Graph.Nodes, Arcs: layoutArcs(base, arcs)})
+	if err != nil {
+		t.Fatal(err)
+	}
+	svg := string(drawing{l: l, arcs: arcs, id: "t", title: "t", description: "t"}.svg())
 	added := arcOf(svg, "maths_score", "tutor_sessions")
-	if !strings.Contains(added, "arc added") || !strings.Contains(added, "t-head)") ||
+	if !strings.Contains(added, "arc added") || !strings.Contains(added, "head filled added") ||
 		!strings.Contains(svg, ">added</text>") {
 		t.Errorf("added arrow: %q", added)
 	}
@@ -106,8 +105,10 @@ func TestEditedArcs(t *testing.T) {
 	if !strings.Contains(rev, "arc reversed") || arcOf(svg, "tutor_sessions", "maths_anxiety") != "" {
 		t.Errorf("reversed arrow not drawn its new way: %q", rev)
 	}
-	if y1, y2 := dataY(t, rev, "y1"), dataY(t, rev, "y2"); y2 >= y1 {
-		t.Errorf("the reversed arrow should run upwards (from the lower node), y1 %v y2 %v", y1, y2)
+	for _, a := range parseDrawing(t, svg).arcs {
+		if a.kind == arcReversed && a.pts[0].Y <= a.pts[len(a.pts)-1].Y {
+			t.Errorf("the reversed arrow should run upwards (from the lower variable)")
+		}
 	}
 	if !strings.Contains(svg, ">reversed (C1)</text>") || !strings.Contains(svg, ">removed (C2)</text>") {
 		t.Errorf("edit words with the claims missing")
@@ -118,20 +119,17 @@ func TestEditedArcs(t *testing.T) {
 	if strings.Contains(svg, "nowhere") {
 		t.Errorf("an arc to a variable not laid out was drawn")
 	}
-	undo := editedArcs(base, []checks.GraphEdit{edits[0], {Op: "remove", From: "maths_score", To: "tutor_sessions"}}, l)
+	undo := editedArcs(base, []checks.GraphEdit{edits[0], {Op: "remove", From: "maths_score", To: "tutor_sessions"}},
+		r.Graph.Nodes)
 	if len(undo) != len(base) {
 		t.Errorf("removing an added arrow: %d arcs, want %d", len(undo), len(base))
 	}
-}
-
-func dataY(t *testing.T, arc, attr string) float64 {
-	t.Helper()
-	m := regexp.MustCompile(`data-` + attr + `="([0-9.]+)"`).FindStringSubmatch(arc)
-	if m == nil {
-		t.Fatalf("no data-%s in %q", attr, arc)
+	turned := editedArcs(base, []checks.GraphEdit{{Op: "remove", From: "maths_anxiety", To: "maths_score"},
+		{Op: "add", From: "maths_score", To: "maths_anxiety"}}, r.Graph.Nodes)
+	if i := findArc(turned, "maths_score", "maths_anxiety"); len(turned) != len(base) || i < 0 ||
+		turned[i].Kind != arcReversed || turned[i].Tag != "reversed (C2)" {
+		t.Errorf("removing an arrow and adding its reverse: %+v", turned)
 	}
-	x, _ := strconv.ParseFloat(m[1], 64)
-	return x
 }
 
 // TestNearbyPage: the offline page of nearby-headline carries the edited
@@ -144,7 +142,8 @@ func TestNearbyPage(t *testing.T) {
 	}
 	page := b.String()
 	for _, want := range []string{`<svg class="graph" id="nearby-1"`, "The edits that fit about as well, drawn",
-		"faint dotted line, crossed, no head, word “removed”", "The declared graph without the arrow offered → wellbeing: ΔBIC +0.72"} {
+		"dotted line, no head, a cross, tag “removed”",
+		"The declared graph without the arrow offered → wellbeing: ΔBIC +0.72"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("page lacks %q", want)
 		}

@@ -3,7 +3,6 @@ package render
 import (
 	"fmt"
 	"io"
-	"regexp"
 	"sort"
 	"strings"
 
@@ -74,13 +73,17 @@ func Questions(r *checks.Report) []Question {
 // paste into a decision letter, with the caution and the package hash.
 func WriteLetter(w io.Writer, r *checks.Report) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "# Questions for the authors\n\n**%s**", mdEscape(r.Title))
+	fmt.Fprintf(&b, "# Questions for the authors\n\n**%s**", MarkdownText(r.Title))
 	if r.ManuscriptID != "" {
-		fmt.Fprintf(&b, " (manuscript %s)", mdEscape(r.ManuscriptID))
+		fmt.Fprintf(&b, " (manuscript %s)", MarkdownText(r.ManuscriptID))
 	}
-	fmt.Fprintf(&b, "\n\nAn automated statistical screen (pathvet %s, %s) scored this submission %d of 100: %s.\n\n",
+	fmt.Fprintf(&b, "\n\nAn automated statistical screen (pathvet %s, %s) scored this submission %d of 100: %s.",
 		r.ToolVersion, r.GeneratedAt.UTC().Format("2 January 2006"), r.Score, bandWords(r.Band))
-	fmt.Fprintf(&b, "> %s\n\n", mdEscape(r.Caution))
+	if r.ScoreCap != nil {
+		b.WriteString(" " + MarkdownText(r.ScoreCap.Reason))
+	}
+	b.WriteString("\n\n")
+	fmt.Fprintf(&b, "> %s\n\n", MarkdownText(r.Caution))
 	qs := Questions(r)
 	if len(qs) == 0 {
 		b.WriteString("The screen raised no questions.\n")
@@ -90,26 +93,9 @@ func WriteLetter(w io.Writer, r *checks.Report) error {
 		if q.Claim != "" {
 			about += ", claim " + q.Claim
 		}
-		fmt.Fprintf(&b, "%d. %s (%s) %s\n", q.N, mdEscape(q.Finding), mdEscape(about), mdEscape(q.Ask))
+		fmt.Fprintf(&b, "%d. %s (%s) %s\n", q.N, MarkdownText(q.Finding), MarkdownText(about), MarkdownText(q.Ask))
 	}
 	fmt.Fprintf(&b, "\nPackage SHA-256: `%s`\n", r.PackageSHA256)
 	_, err := io.WriteString(w, b.String())
 	return err
 }
-
-// mdEscape keeps text from turning into Markdown markup while leaving it
-// readable as plain text: it escapes the characters that start emphasis,
-// code, links or an HTML tag, but not an underscore inside a name such as
-// tutor_sessions (CommonMark never reads that as emphasis) nor a "<"
-// before a space, as in "p < .001".
-func mdEscape(s string) string {
-	s = strings.NewReplacer(`\`, `\\`, "*", `\*`, "`", "\\`", "[", `\[`, "]", `\]`).
-		Replace(strings.Join(strings.Fields(s), " "))
-	s = tagStart.ReplaceAllString(s, `\<$1`)
-	return edgeUnderscore.ReplaceAllString(s, `$1\_$2`)
-}
-
-var (
-	tagStart       = regexp.MustCompile(`<([A-Za-z/!?])`)
-	edgeUnderscore = regexp.MustCompile(`(^|[^A-Za-z0-9])_|_([^A-Za-z0-9]|$)`)
-)

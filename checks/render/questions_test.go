@@ -67,18 +67,3 @@ func TestEveryCheckHasAQuestion(t *testing.T) {
 		}
 	}
 }
-
-// TestMarkdownEscape: markup characters are escaped, names and "p < .001"
-// stay as they read.
-func TestMarkdownEscape(t *testing.T) {
-	for in, want := range map[string]string{
-		"C1 is −0.30 (p < .001) for tutor_sessions": "C1 is −0.30 (p < .001) for tutor_sessions",
-		"a *bold* [link] `code` <b>tag</b>":         `a \*bold\* \[link\] ` + "\\`code\\`" + ` \<b>tag\</b>`,
-		"_emphasis_ and x_":                         `\_emphasis\_ and x\_`,
-		"two\n  lines":                              "two lines",
-	} {
-		if got := mdEscape(in); got != want {
-			t.Errorf("mdEscape(%q) = %q, want %q", in, got, want)
-		}
-	}
-}

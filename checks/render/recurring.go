@@ -91,7 +91,7 @@ func tallyClaim(k *KindTally, c checks.ClaimReport, alpha float64) {
 	ref := fromEstimate(c.Declared)
 	alt := false
 	for _, a := range c.UnderAlternatives {
-		alt = alt || altShift(ref, altPoint(a), a, alpha) != ""
+		alt = alt || altShift(ref, altPoint(a, ref), a, alpha) != ""
 	}
 	k.UnderAlternative += b2i(alt)
 	md := false

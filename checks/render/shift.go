@@ -11,9 +11,12 @@ type point struct {
 	Est *float64
 	CI  []float64
 	P   *float64
-	// Zero: the graph has no path for the effect, so it is zero by
+	// Zero: the graph has no path for the effect, so it is no effect by
 	// construction and its p-value means nothing.
 	Zero bool
+	// Null is the value of no effect on the estimate's scale: 1 for an
+	// odds ratio, else 0.
+	Null float64
 }
 
 // acrossWhat says what a claim was estimated over across the equivalents:
@@ -32,26 +35,36 @@ func plural(n int, one, many string) string {
 	return fmt.Sprintf("%d %s", n, many)
 }
 
-func altPoint(a checks.AlternativeEstimate) point {
-	return point{Est: a.Estimate, CI: a.CI, P: a.PValue, Zero: a.StructuralZero != "" || a.Method == checks.MethodZero}
+// altPoint is a claim's estimate under an alternative, on the scale of
+// the declared estimate ref.
+func altPoint(a checks.AlternativeEstimate, ref point) point {
+	return point{Est: a.Estimate, CI: a.CI, P: a.PValue, Zero: a.StructuralZero != "" || a.Method == checks.MethodZero,
+		Null: ref.Null}
 }
 
 func fromEstimate(e *checks.Estimate) point {
 	if e == nil {
 		return point{}
 	}
-	return point{Est: e.Estimate, CI: e.CI, P: e.PValue, Zero: e.StructuralZero != "" || e.Method == checks.MethodZero}
+	p := point{Est: e.Estimate, CI: e.CI, P: e.PValue, Zero: e.StructuralZero != "" || e.Method == checks.MethodZero}
+	if e.Scale == "odds_ratio" {
+		p.Null = 1
+	}
+	return p
 }
 
 // shift says, in words, how p differs from the reference ref: its sign
-// (including a value of exactly zero, as when a graph has no path) or
+// on its scale (below or above an odds ratio of 1), no effect (as when a
+// graph has no path: "zero here", "no effect here" for an odds ratio), or
 // whether it is significant at alpha. It is empty when neither differs or
 // either is missing.
 func shift(ref, p point, alpha float64) string {
 	if ref.Est == nil || p.Est == nil {
 		return ""
 	}
-	switch sr, sp := sign(*ref.Est), sign(*p.Est); {
+	switch sr, sp := sign(*ref.Est-ref.Null), sign(*p.Est-p.Null); {
+	case sr != 0 && sp == 0 && p.Null == 1:
+		return "no effect here"
 	case sr != 0 && sp == 0:
 		return "zero here"
 	case sr*sp < 0:

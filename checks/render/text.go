@@ -1,6 +1,3 @@
-// Package render draws a screening report for people: the text view, the
-// HTML page with its SVG graph and chart, and the letter of questions.
-// Its only input is the report (package checks, types only).
 package render
 
 import (
@@ -21,6 +18,9 @@ const TextWidth = 100
 func WriteText(w io.Writer, r *checks.Report) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Score %d/100: %s\n", r.Score, r.Band)
+	if r.ScoreCap != nil {
+		wrap(&b, "", r.ScoreCap.Reason)
+	}
 	wrap(&b, "", r.Title)
 	if r.ManuscriptID != "" {
 		fmt.Fprintf(&b, "Manuscript %s. ", r.ManuscriptID)

@@ -25,6 +25,7 @@ func checkDashboard(t *testing.T, ctx context.Context, f *browserFixture) {
 		t.Error("the dashboard shows another office")
 	}
 	mustContain(t, ctx, "#recur-h + form + p", "3 screened submissions")
+	checkCSP(t, ctx, "dashboard")
 	screenshot(t, ctx, "dashboard-1280.png")
 }
 
@@ -53,6 +54,8 @@ func checkReport(t *testing.T, ctx context.Context, f *browserFixture) {
 	}
 	mustContain(t, ctx, "#history", "Since the previous version")
 	mustContain(t, ctx, ".caution", "not a verdict")
+	checkCSP(t, ctx, "submission page")
+	checkDrawingText(t, ctx, "submission at 1280 px", false)
 	screenshot(t, ctx, "submission-1280.png")
 	viewShot(t, ctx, "#claims", "claims-and-graph-1280.png")
 }
@@ -69,19 +72,12 @@ func submitLink(t *testing.T, ctx context.Context, sel string) *network.Response
 
 func checkLetter(t *testing.T, ctx context.Context, f *browserFixture) {
 	href := value(t, ctx, chromedp.Evaluate[string](`document.querySelector('a[href$="/letter.md"]').href`))
-	got := value(
-		t,
-		ctx,
-		chromedp.Evaluate[[]string](
-			`fetch('`+href+`').then(async r => [r.headers.get('content-type'), await r.text()])`,
-			chromedp.EvalAwaitPromise,
-		),
-	)
-	if len(got) != 2 || !strings.HasPrefix(got[0], "text/markdown") {
-		t.Fatalf("letter: %v", got)
+	ctype, body := fetchAsBrowser(t, ctx, href)
+	if !strings.HasPrefix(ctype, "text/markdown") {
+		t.Fatalf("letter: %s", ctype)
 	}
 	for _, want := range []string{"# Questions for the authors", "1. ", f.tutoringReport.PackageSHA256, "not a verdict"} {
-		if !strings.Contains(got[1], want) {
+		if !strings.Contains(string(body), want) {
 			t.Errorf("the letter lacks %q", want)
 		}
 	}
@@ -101,6 +97,10 @@ func checkNarrow(t *testing.T, ctx context.Context, f *browserFixture) {
 		)
 		if over > 0 {
 			t.Errorf("%s at 390 px scrolls sideways by %d px", path, over)
+		}
+		checkCSP(t, ctx, path+" at 390 px")
+		if path != "/" {
+			checkDrawingText(t, ctx, path+" at 390 px", true)
 		}
 		switch path {
 		case "/submissions/" + f.club.ID:

@@ -117,9 +117,11 @@ func TestBrowser_Workspace(t *testing.T) {
 	ctx := newBrowser(t)
 	base := f.m.URL()
 	do(t, ctx, chromedp.EmulateViewport(1280, 1000))
+	watchCSP(t, ctx)
 	t.Run("NoSession", func(t *testing.T) {
 		do(t, ctx, chromedp.Navigate(base+"/submissions/"+f.tutoring.ID))
 		mustSignInPage(t, ctx)
+		checkCSP(t, ctx, "sign-in page")
 	})
 	t.Run("WrongKey", func(t *testing.T) {
 		signIn(t, ctx, base, "pv_not-a-key")

@@ -9,6 +9,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks"
@@ -81,14 +82,15 @@ func screenFile(
 	stderr io.Writer,
 	progress *progressLine,
 ) (*checks.Report, int) {
-	doc, err := os.ReadFile(path)
+	lim := load.DefaultLimits
+	doc, err := readUpTo(path, lim.PackageBytes)
 	if err != nil {
 		fmt.Fprintln(stderr, "pathvet check:", err)
 		return nil, exitInvalid
 	}
 	dir := filepath.Dir(path)
 	study, err := load.Load(doc, load.Options{
-		ReadFile: func(name string) ([]byte, error) { return readBeside(dir, name) },
+		ReadFile: func(name string) ([]byte, error) { return readBeside(dir, name, lim.CSVBytes) },
 	})
 	var invalid *checks.InvalidPackageError
 	if errors.As(err, &invalid) {
@@ -110,12 +112,35 @@ func screenFile(
 	return rep, exitOK
 }
 
-// readBeside reads a data file named relative to the package's folder.
-func readBeside(dir, name string) ([]byte, error) {
-	if filepath.IsAbs(name) {
-		return os.ReadFile(name)
+// readBeside reads a data file named relative to the package's folder,
+// of at most limit bytes.
+func readBeside(dir, name string, limit int64) ([]byte, error) {
+	if !filepath.IsAbs(name) {
+		name = filepath.Join(dir, filepath.FromSlash(name))
 	}
-	return os.ReadFile(filepath.Join(dir, filepath.FromSlash(name)))
+	return readUpTo(name, limit)
+}
+
+// readUpTo reads a file of at most limit bytes; a larger one is refused
+// unread, with its size and the limit.
+func readUpTo(name string, limit int64) ([]byte, error) {
+	f, err := os.Open(name)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	b, err := io.ReadAll(io.LimitReader(f, limit+1))
+	if err != nil {
+		return nil, err
+	}
+	if int64(len(b)) > limit {
+		size := "more than " + strconv.FormatInt(limit, 10)
+		if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() {
+			size = strconv.FormatInt(fi.Size(), 10)
+		}
+		return nil, fmt.Errorf("%s is %s bytes; the limit is %d", name, size, limit)
+	}
+	return b, nil
 }
 
 func writeReport(rep *checks.Report, format, out string, stdout io.Writer) error {

@@ -110,3 +110,22 @@ func TestCheck_BadInputs(t *testing.T) {
 		}
 	}
 }
+
+// A package file past the package limit is refused with its size and the
+// limit, and read no further than the limit (a sparse file of 3 GiB
+// reads in no time only because it is not read whole).
+func TestCheck_OversizedFileRefusedUnread(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "package.json")
+	f, err := os.Create(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Truncate(3 << 30); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	code, _, errOut := runCLI("check", path)
+	if code != exitInvalid || !strings.Contains(errOut, "is 3221225472 bytes; the limit is 5242880") {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+}

@@ -109,6 +109,10 @@ type submission struct {
 	Error  string  `json:"error"`
 }
 
+// anySize bounds no file the client sends: the server, whose limits the
+// client does not know, refuses what is too large.
+const anySize = 1 << 50
+
 // packageBody returns the request body for a package file: JSON as it is,
 // or multipart with the data file beside it when data.file names one.
 func packageBody(path string) (contentType string, body []byte, err error) {
@@ -122,7 +126,7 @@ func packageBody(path string) (contentType string, body []byte, err error) {
 	if json.Unmarshal(doc, &head) != nil || head.Data.File == "" {
 		return "application/json", doc, nil
 	}
-	csv, err := readBeside(filepath.Dir(path), head.Data.File)
+	csv, err := readBeside(filepath.Dir(path), head.Data.File, anySize)
 	if err != nil {
 		return "", nil, fmt.Errorf("data.file: %w", err)
 	}

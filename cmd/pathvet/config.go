@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"time"
 
+	"github.com/pathvet/pathvet/api"
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
@@ -31,11 +32,18 @@ type Config struct {
 	Shutdown           time.Duration
 	// JobMemoryMiB is the memory one screening job may use (the worker's
 	// memory divided among its workers, less headroom); LargeIngests the
-	// large uploads the API reads at once.
+	// large uploads the API checks and stores at once.
 	JobMemoryMiB int64
 	LargeIngests int
 	// TLSProxy: served behind a TLS-terminating proxy (Secure cookies).
 	TLSProxy bool
+	// TrustedProxies lists the proxies (CIDRs, addresses) whose
+	// X-Forwarded-For entries are believed (api.ParseProxies reads it).
+	TrustedProxies string
+	// WebhookAllow lists the networks (CIDRs, addresses) and host names a
+	// webhook may reach although they are loopback, private, link-local
+	// and so on (service.ParseAllow reads it).
+	WebhookAllow string
 	// checks replaces the pipeline the workers run (tests only).
 	checks []checks.Check
 }
@@ -59,6 +67,8 @@ func defaultConfig(getenv func(string) string) Config {
 		LargeIngests: 1,
 	}
 	c.TLSProxy = getenv("PATHVET_BEHIND_TLS") == "true"
+	c.WebhookAllow = getenv("PATHVET_WEBHOOK_ALLOW")
+	c.TrustedProxies = getenv("PATHVET_TRUSTED_PROXIES")
 	if v := getenv("PATHVET_ADDR"); v != "" {
 		c.Addr = v
 	}
@@ -94,15 +104,19 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 			&c.LargeIngests,
 			"large-ingests",
 			c.LargeIngests,
-			"uploads of 8 MiB or more read at once; more get 503",
+			"uploads of 8 MiB or more checked and stored at once, once their bodies have arrived",
 		)
 		fs.BoolVar(
 			&c.TLSProxy,
 			"behind-tls",
 			c.TLSProxy,
-			"served behind a TLS-terminating proxy: Secure cookies, client address from X-Forwarded-For (PATHVET_BEHIND_TLS)",
+			"served behind a TLS-terminating proxy: Secure cookies (PATHVET_BEHIND_TLS)",
 		)
+		fs.StringVar(&c.TrustedProxies, "trusted-proxies", c.TrustedProxies, "proxies (CIDRs, addresses, "+
+			"comma-separated) whose X-Forwarded-For is read for the client's address (PATHVET_TRUSTED_PROXIES)")
 	}
+	fs.StringVar(&c.WebhookAllow, "webhook-allow", c.WebhookAllow, "networks (CIDRs) and host names webhooks "+
+		"may reach although loopback, private or link-local, comma-separated (PATHVET_WEBHOOK_ALLOW)")
 	fs.Int64Var(&c.JobMemoryMiB, "job-memory-mib", c.JobMemoryMiB,
 		"memory one screening job may use; larger raw data is refused with the estimate (PATHVET_JOB_MEMORY_MIB)")
 	fs.IntVar(&c.Workers, "workers", c.Workers, "screening jobs at once in this process; 0 for none (PATHVET_WORKERS)")
@@ -125,15 +139,16 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 var serveUsage = map[string]string{
 	"serve": `Usage: pathvet serve [--database-url URL] [--addr HOST:PORT] [--workers N] [--job-timeout D]
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
-       [--large-ingests N] [--job-memory-mib N]
+       [--large-ingests N] [--job-memory-mib N] [--webhook-allow LIST]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N] [--behind-tls]
+       [--trusted-proxies LIST]
 
 Serves the HTTP API and the web workspace and, unless --workers 0, screens submissions in-process.
 SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
 one stops it at once.`,
 	"work": `Usage: pathvet work [--database-url URL] [--workers N] [--job-timeout D]
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
-       [--job-memory-mib N]
+       [--job-memory-mib N] [--webhook-allow LIST]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N]
 
 Screens queued submissions (no HTTP API), for scaling workers out.
@@ -152,7 +167,22 @@ func (c Config) validate() error {
 	case c.JobTimePer10MCells < 0:
 		return fmt.Errorf("--job-time-per-10m-cells must not be negative")
 	}
+	if _, err := c.egress(); err != nil {
+		return err
+	}
+	if _, err := api.ParseProxies(c.TrustedProxies); err != nil {
+		return fmt.Errorf("--trusted-proxies: %w", err)
+	}
 	return nil
+}
+
+// egress is the webhooks' way out, with the allow-list.
+func (c Config) egress() (*service.Egress, error) {
+	a, err := service.ParseAllow(c.WebhookAllow)
+	if err != nil {
+		return nil, fmt.Errorf("--webhook-allow: %w", err)
+	}
+	return &service.Egress{Allow: a}, nil
 }
 
 // maxCells is the most raw data cells a package can have under the

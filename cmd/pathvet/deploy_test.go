@@ -1,9 +1,12 @@
 package main
 
 import (
+	"errors"
 	"flag"
 	"io"
+	"net"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -199,5 +202,24 @@ func TestDeploy_ComposeGrace(t *testing.T) {
 	grace, err := time.ParseDuration(doc.Services["pathvet"].Grace)
 	if def := defaultConfig(func(string) string { return "" }).Shutdown; err != nil || grace <= def {
 		t.Fatalf("stop_grace_period %q is not longer than the shutdown grace %v", doc.Services["pathvet"].Grace, def)
+	}
+}
+
+// The dev server checks its address before anything else: with the port
+// taken it says so and stops, before it starts a database, builds, or
+// prints a key (which would be a key for nobody).
+func TestDevServer_RefusesTakenAddress(t *testing.T) {
+	ln, err := net.Listen("tcp", "127.0.0.1:0")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer ln.Close()
+	cmd := exec.Command("bash", "../../deploy/dev-server.sh", "--addr", ln.Addr().String())
+	cmd.Env = append(os.Environ(), "PATHVET_DATABASE_URL=postgres://nobody@127.0.0.1:1/none")
+	out, err := cmd.CombinedOutput()
+	var exit *exec.ExitError
+	if !errors.As(err, &exit) || exit.ExitCode() != 1 || !strings.Contains(string(out), "is already in use") ||
+		strings.Contains(string(out), "token") {
+		t.Fatalf("%v:\n%s", err, out)
 	}
 }

@@ -53,9 +53,16 @@ var rec = &recorder{seen: map[seenCall]bool{}, next: http.DefaultTransport}
 // database at url.
 func startMain(t *testing.T, url string) *Main {
 	t.Helper()
+	return startMainWith(t, url, func(*Config) {})
+}
+
+// startMainWith is startMain with the configuration changed by set.
+func startMainWith(t *testing.T, url string, set func(*Config)) *Main {
+	t.Helper()
 	cfg := defaultConfig(func(string) string { return "" })
 	cfg.DatabaseURL, cfg.Addr, cfg.Workers = url, "127.0.0.1:0", 2
 	cfg.Limits.PackageBytes = 1 << 20 // small, for the 413 test
+	set(&cfg)
 	m := &Main{Config: cfg, Logger: newLogger(io.Discard), serve: true}
 	if err := m.Run(context.Background()); err != nil {
 		t.Fatal(err)

@@ -15,7 +15,7 @@ import (
 	"github.com/pathvet/pathvet/checks/load"
 )
 
-const initUsage = `Usage: pathvet init (--data ROWS.csv | --summary TABLE.csv) [--out PACKAGE.json] [--force]
+const initUsage = `Usage: pathvet init (--data ROWS.csv | --summary TABLE.txt) [--out PACKAGE.json] [--force]
 
 Writes a starting package from a data file: every column a variable with its
 scale guessed from the data, likely missing codes found, an empty graph and
@@ -24,9 +24,16 @@ Beside it, PACKAGE.notes.txt says what was guessed, gives an example edge and
 claim, and names the command to run next; "pathvet check PACKAGE.json" then
 lists every placeholder still to fill in.
 
---summary reads a printed correlation table: a header naming the variables,
-then the matrix by rows (full, or the lower triangle with the cells above the
-diagonal empty).
+--summary reads a paper's printed table of correlations (its Table 1) as
+text copied from a PDF, a word processor or a spreadsheet: cells set apart
+by spaces, tabs, commas or semicolons; numbered rows with their labels; M
+and SD columns in either order, or "M (SD)" in one cell; the lower or upper
+triangle or the full matrix, its diagonal a dash, 1, empty or reliabilities
+in parentheses ("(.84)", written to the variables); marks such as
+* and † after the figures; "N = 812" in a note. A bare header of names over
+the matrix is read too. The labels become the variables' names (and stay
+as their labels); n, means and SDs are written when the table prints them;
+the notes list what the reader guessed, to check against the paper.
 
 Flags:
 `
@@ -36,7 +43,7 @@ func runInit(args []string, stdout, stderr io.Writer) int {
 	fs := flag.NewFlagSet("init", flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	data := fs.String("data", "", "raw rows: a CSV with a header naming the columns")
-	summary := fs.String("summary", "", "a printed correlation table as CSV")
+	summary := fs.String("summary", "", "a printed table of correlations (and means, SDs, n) as text")
 	out := fs.String("out", "package.json", "the package to write")
 	force := fs.Bool("force", false, "overwrite an existing package and notes")
 	fs.Usage = func() {

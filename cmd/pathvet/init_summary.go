@@ -2,79 +2,113 @@ package main
 
 import (
 	"fmt"
-	"math"
-	"strconv"
+	"maps"
+	"slices"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/load/table"
 )
 
-// fromSummary fills the package from a printed correlation table.
+// fromSummary fills the package from a printed table of correlations (and
+// means, SDs and n where it prints them), read by checks/load/table.
 func (st *start) fromSummary(text []byte) error {
-	names, rows, err := readTable(text)
+	tb, err := table.Read(string(text))
 	if err != nil {
 		return err
 	}
-	vars := make([]*obj, len(names))
-	for i, n := range names {
-		vars[i] = newObj("name", n, "scale", "continuous")
+	vars := make([]*obj, len(tb.Variables))
+	for i, v := range tb.Variables {
+		vars[i] = newObj("name", v.Name)
+		if v.Label != "" && v.Label != v.Name {
+			vars[i].set("label", v.Label)
+		}
+		vars[i].set("scale", "continuous")
+		if tb.Reliabilities != nil && tb.Reliabilities[i] > 0 {
+			vars[i].set("reliability", tb.Reliabilities[i])
+		}
 	}
 	st.pkg.set("variables", vars)
-	st.pkg.set("data", newObj(
-		"kind", "summary", "n", load.Placeholder+" the sample size", "variables", names, "correlations", rows))
-	fmt.Fprintf(&st.notes, "Variables (%d): %s.\n", len(names), strings.Join(names, ", "))
-	st.notes.WriteString("Every scale is set to continuous: a printed table does not show a variable's\n" +
-		"scale; set binary (coded 0 and 1) or ordinal where it applies. Add \"sds\" and\n" +
-		"\"means\" to data, one per variable in the table's order, if the paper prints them.\n")
+	st.pkg.set("data", summarySection(tb))
+	st.summaryNotes(tb)
 	return nil
 }
 
-// readTable reads a correlation table: the header names the variables,
-// row i has at least i + 1 numbers, and cells past the diagonal may be
-// empty. It returns the lower triangle.
-func readTable(text []byte) ([]string, [][]float64, error) {
-	cols, n, err := readColumns(text, true)
-	if err != nil {
-		return nil, nil, err
+// summarySection is the data section of kind summary, n a placeholder
+// when the table gives none.
+func summarySection(tb *table.Table) *obj {
+	data := tb.Data()
+	var n any = load.Placeholder + " the sample size"
+	if data.N > 0 {
+		n = data.N
 	}
-	names := make([]string, len(cols))
-	for j, c := range cols {
-		if !varName.MatchString(c.name) {
-			return nil, nil, fmt.Errorf("column %d: %q is not a variable name (letters, digits and _)", j+1, c.name)
-		}
-		names[j] = c.name
+	d := newObj("kind", data.Kind, "n", n, "variables", data.Variables, "correlations", data.Correlations)
+	if data.SDs != nil {
+		d.set("sds", data.SDs)
 	}
-	if n != len(cols) {
-		return nil, nil, fmt.Errorf("the table has %d rows for %d variables", n, len(cols))
+	if data.Means != nil {
+		d.set("means", data.Means)
 	}
-	rows := make([][]float64, n)
-	for i := range n {
-		for j := 0; j <= i; j++ {
-			x, err := strconv.ParseFloat(cols[j].cells[i], 64)
-			if err != nil {
-				return nil, nil, fmt.Errorf("line %d, column %d: %q is not a number", i+2, j+1, cols[j].cells[i])
-			}
-			rows[i] = append(rows[i], x)
-		}
-	}
-	return names, rows, symmetric(cols, rows)
+	return d
 }
 
-// symmetric checks the cells above the diagonal, where the table gives
-// them, against the lower triangle (to 1e-6, as the loader does).
-func symmetric(cols []*column, rows [][]float64) error {
-	for i := range rows {
-		for j := i + 1; j < len(rows); j++ {
-			cell := cols[j].cells[i]
-			if cell == "" {
-				continue
-			}
-			x, err := strconv.ParseFloat(cell, 64)
-			if err != nil || math.Abs(x-rows[j][i]) > 1e-6 {
-				return fmt.Errorf("line %d, column %d: %q, but line %d, column %d is %g: the table is not symmetric",
-					i+2, j+1, cell, j+2, i+1, rows[j][i])
-			}
-		}
+// summaryNotes lists the variables, what was read, and what the reader
+// guessed, for the user to check against the paper.
+func (st *start) summaryNotes(tb *table.Table) {
+	w := &st.notes
+	fmt.Fprintf(w, "Variables (%d), named after the table's labels:\n", len(tb.Variables))
+	for _, v := range tb.Variables {
+		fmt.Fprintf(w, "  %-24s %s\n", v.Name, v.Label)
 	}
-	return nil
+	fmt.Fprintf(w, "\nRead from the table: the correlations%s.\n", readList(tb))
+	if tb.N == 0 {
+		w.WriteString("The table gives no sample size: fill in data.n.\n")
+	}
+	if tb.Means == nil || tb.SDs == nil {
+		w.WriteString("Add \"sds\" and \"means\" to data, one per variable in the table's order, if the\n" +
+			"paper prints them elsewhere; without SDs only standardized results are given.\n")
+	}
+	w.WriteString("\nWhat the reader took for granted (check each against the paper):\n")
+	for _, g := range tb.Guesses {
+		fmt.Fprintf(w, "  - %s\n", g)
+	}
+	if marks := markCounts(tb.Marks); marks != "" {
+		fmt.Fprintf(w, "  - significance marks stripped from the figures: %s\n", marks)
+	}
+	w.WriteString("\nEvery scale is set to continuous: a printed table does not show a variable's\n" +
+		"scale; set binary (coded 0 and 1) or ordinal where it applies.\n")
+}
+
+// readList says what the table gave besides the correlations.
+func readList(tb *table.Table) string {
+	var parts []string
+	if tb.Means != nil {
+		parts = append(parts, "means")
+	}
+	if tb.SDs != nil {
+		parts = append(parts, "SDs")
+	}
+	if tb.N > 0 {
+		parts = append(parts, fmt.Sprintf("n = %d", tb.N))
+	}
+	if tb.Reliabilities != nil {
+		parts = append(parts, "reliabilities (written to the variables that have one)")
+	}
+	if len(parts) == 0 {
+		return " only"
+	}
+	return ", " + strings.Join(parts, ", ")
+}
+
+// markCounts words the marks' counts: `"*" 3 times, "**" once`.
+func markCounts(marks map[string]int) string {
+	var parts []string
+	for _, m := range slices.Sorted(maps.Keys(marks)) {
+		times := fmt.Sprintf("%d times", marks[m])
+		if marks[m] == 1 {
+			times = "once"
+		}
+		parts = append(parts, fmt.Sprintf("%q %s", m, times))
+	}
+	return strings.Join(parts, ", ")
 }

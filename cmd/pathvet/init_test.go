@@ -112,18 +112,92 @@ func TestInit_Summary(t *testing.T) {
 		!strings.Contains(errs, "--force") {
 		t.Errorf("second init overwrote: %d %s", code, errs)
 	}
+	// The bare form (a header of names, the matrix by rows) is read as
+	// before; a bad cell is named by its line and cell.
 	for text, want := range map[string]string{
-		"a,b,c\n1\n0.2,1\n0.1,0.3,1\n":              "",
-		"a,b,c\n1,0.2,0.1\n0.2,1,0.3\n0.1,0.3,1\n":  "",
-		"a,b,c\n1,0.2,0.1\n0.25,1,0.3\n0.1,0.3,1\n": "line 2, column 2: \"0.2\", but line 3, column 1 is 0.25",
-		"a,b,c\n1\n0.2,x\n0.1,0.3,1\n":              `line 3, column 2: "x" is not a number`,
-		"a,b\n1\n":                                  "the table has 1 rows for 2 variables",
+		"a,b,c\n1\n0.2,1\n0.1,0.3,1\n":             "",
+		"a,b,c\n1,0.2,0.1\n0.2,1,0.3\n0.1,0.3,1\n": "",
+		"a,b,c\n1,0.2,0.1\n0.25,1,0.3\n0.1,0.3,1\n": `line 3, cell 1 ("0.25"): the correlation of b and a is 0.25, ` +
+			"but line 2, cell 2 is 0.2: the matrix is not symmetric",
+		"a,b,c\n1\n0.2,x\n0.1,0.3,1\n": `line 3, cell 2 ("x"): expected the diagonal of b: —, 1, nothing, or a ` +
+			"reliability",
+		"a,b\n1\n": "table: found 1 row of numbers; a correlation table has at least two variables",
 	} {
 		os.WriteFile(table, []byte(text), 0o644)
 		code, _, errs := runCLI("init", "--summary", table, "--out", pkg, "--force")
 		if want == "" && code != exitOK || want != "" && (code != exitInvalid || !strings.Contains(errs, want)) {
 			t.Errorf("%q: %d %s", text, code, errs)
 		}
+	}
+}
+
+// A paper's Table 1 as copied from a PDF: init writes n, means, SDs and
+// the labels, and the notes list what the reader guessed and the marks it
+// stripped; check then asks only for what a table cannot give.
+func TestInit_SummaryTable(t *testing.T) {
+	dir := t.TempDir()
+	pkg := filepath.Join(dir, "p.json")
+	code, out, errs := runCLI("init", "--summary", "../../testdata/tables/noise-pdf-wide.txt", "--out", pkg)
+	if code != exitOK {
+		t.Fatalf("init: %d %s", code, errs)
+	}
+	for _, want := range []string{"noise_exposure_db        Noise exposure (dB)",
+		"Read from the table: the correlations, means, SDs, n = 812.",
+		"  - columns set apart by runs of two or more spaces", "  - line 1 skipped as the table's title: \"Table 1\"",
+		`  - M read from the column headed "M" (cell 2 of line 3)`, "  - n = 812, from line 7",
+		`  - significance marks stripped from the figures: "*" once, "**" once, "***" once`} {
+		if !strings.Contains(out, want) {
+			t.Errorf("notes lack %q:\n%s", want, out)
+		}
+	}
+	p := readJSONFile(t, pkg)
+	d := p["data"].(map[string]any)
+	v0 := p["variables"].([]any)[0].(map[string]any)
+	if d["n"] != 812.0 || fmt.Sprint(d["means"]) != "[59.3 7.4 52]" || fmt.Sprint(d["sds"]) != "[6.1 0.9 11]" ||
+		fmt.Sprint(d["correlations"]) != "[[1] [-0.22 1] [-0.14 0.41 1]]" || v0["label"] != "Noise exposure (dB)" {
+		t.Errorf("package: %v", p)
+	}
+	code, _, errs = runCLI("check", pkg)
+	want := []string{"/title: is still to be filled in", "/design: is still to be filled in",
+		"/claims: has no claims yet"}
+	for _, w := range want {
+		if code != exitInvalid || !strings.Contains(errs, w) {
+			t.Errorf("check: %d, want %q in\n%s", code, w, errs)
+		}
+	}
+	if n := strings.Count(strings.TrimSpace(errs), "\n") + 1; n != len(want) {
+		t.Errorf("check lists %d problems, want exactly %d:\n%s", n, len(want), errs)
+	}
+}
+
+// Reliabilities printed on the diagonal go to the variables that have one.
+func TestInit_SummaryReliabilities(t *testing.T) {
+	pkg := filepath.Join(t.TempDir(), "p.json")
+	code, out, errs := runCLI("init", "--summary", "../../testdata/tables/garden-reliabilities-wide.txt", "--out", pkg)
+	if code != exitOK || !strings.Contains(out, "reliabilities (written to the variables that have one)") {
+		t.Fatalf("%d %s\n%s", code, errs, out)
+	}
+	var rel []any
+	for _, v := range readJSONFile(t, pkg)["variables"].([]any) {
+		rel = append(rel, v.(map[string]any)["reliability"])
+	}
+	if fmt.Sprint(rel) != "[0.81 0.77 0.79 0.9 <nil>]" { // as printed: (.81) (.77) (.79) (.90) —
+		t.Errorf("reliabilities %v", rel)
+	}
+}
+
+// A table without n, means or SDs: the notes say what to add.
+func TestInit_SummaryTableWithoutDescriptives(t *testing.T) {
+	pkg := filepath.Join(t.TempDir(), "p.json")
+	code, out, _ := runCLI("init", "--summary", "../../testdata/tables/garden-csv-full.txt", "--out", pkg)
+	if code != exitOK || !strings.Contains(out, "Read from the table: the correlations only.") ||
+		!strings.Contains(out, "The table gives no sample size: fill in data.n.") ||
+		!strings.Contains(out, `Add "sds" and "means" to data`) {
+		t.Errorf("%d\n%s", code, out)
+	}
+	d := readJSONFile(t, pkg)["data"].(map[string]any)
+	if _, ok := d["sds"]; ok || d["n"] != "TODO: the sample size" {
+		t.Errorf("data %v", d)
 	}
 }
 

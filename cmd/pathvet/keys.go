@@ -77,7 +77,8 @@ Lists keys with their office, role, label, creation, last use and
 revocation; never a token.`, listKeys},
 	"revoke": {`Usage: pathvet keys revoke [--database-url URL] ID
 
-Revokes a key (its ID as keys list shows it): its token stops working at once.`, revokeKey},
+Revokes a key (its ID as keys list shows it): its token stops working at once (a running server's
+key cache hears of it within milliseconds).`, revokeKey},
 }
 
 // runKeys is `pathvet keys create|list|revoke`.

@@ -67,11 +67,12 @@ func (m *Main) Run(ctx context.Context) error {
 		}
 	}
 	metrics := api.NewMetrics()
+	egress, _ := m.Config.egress() // validated above
 	if m.Config.Workers > 0 {
 		m.Workers, err = db.StartWorkers(context.WithoutCancel(ctx), store.WorkerConfig{
 			Workers: m.Config.Workers, Timeout: m.Config.JobTimeout, RescueAfter: m.Config.RescueAfter,
 			PerTenMillionCells: m.Config.JobTimePer10MCells, MaxCells: m.Config.maxCells(),
-			Logger: m.Logger, Screen: screenFunc(m.Config), OnDone: metrics.JobDone,
+			Logger: m.Logger, Screen: screenFunc(m.Config), OnDone: metrics.JobDone, Egress: egress,
 		})
 		if err != nil {
 			return err
@@ -80,24 +81,31 @@ func (m *Main) Run(ctx context.Context) error {
 	if !m.serve {
 		return nil
 	}
-	srv := api.New(
-		api.Config{
-			Store:        db,
-			Web:          db,
-			TLSProxy:     m.Config.TLSProxy,
-			Limits:       m.Config.Limits,
-			Logger:       m.Logger,
-			Metrics:      metrics,
-			LargeIngests: m.Config.LargeIngests,
-			JobMemory:    m.Config.JobMemoryMiB << 20,
-		},
-	)
-	m.API = srv
+	db.CacheReads(context.WithoutCancel(ctx)) // keys and reports, read on every request; Close stops it
+	return m.listen(m.apiConfig(metrics, egress))
+}
+
+// apiConfig is the API's configuration from the server's.
+func (m *Main) apiConfig(metrics *api.Metrics, egress *service.Egress) api.Config {
+	proxies, _ := api.ParseProxies(m.Config.TrustedProxies) // validated by Run
+	if m.Config.TLSProxy && len(proxies) == 0 {
+		m.Logger.Warn("behind a TLS proxy but no --trusted-proxies: sign-in failures are counted by the " +
+			"proxy's address, which every client shares")
+	}
+	return api.Config{Store: m.DB, Web: m.DB, TLSProxy: m.Config.TLSProxy, TrustedProxies: proxies,
+		Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics, LargeIngests: m.Config.LargeIngests,
+		Egress: egress, JobMemory: m.Config.JobMemoryMiB << 20}
+}
+
+// listen starts the HTTP API on the configured address.
+func (m *Main) listen(cfg api.Config) error {
+	m.API = api.New(cfg)
+	var err error
 	m.ln, err = net.Listen("tcp", m.Config.Addr)
 	if err != nil {
 		return fmt.Errorf("listen on %s: %w", m.Config.Addr, err)
 	}
-	m.HTTP = &http.Server{Handler: srv.Echo(), ReadHeaderTimeout: 10 * time.Second,
+	m.HTTP = &http.Server{Handler: m.API.Echo(), ReadHeaderTimeout: 10 * time.Second,
 		MaxHeaderBytes: api.HTTPServerMaxHeaderBytes,
 		ReadTimeout:    5 * time.Minute, WriteTimeout: 2 * time.Minute, IdleTimeout: 2 * time.Minute}
 	m.done = make(chan error, 1)

@@ -100,15 +100,35 @@ func TestWeb_SignIn(t *testing.T) {
 	checkRerunDelete(t, w, m, token, sub, csrf[1])
 }
 
+// sessionToken is the CSRF token of the client's session, from the
+// sign-out form of a page it shows.
+func sessionToken(t *testing.T, w *webClient, path string) string {
+	t.Helper()
+	_, page := w.get(path)
+	m := csrfRE.FindStringSubmatch(page)
+	if m == nil {
+		t.Fatalf("%s has no form token", path)
+	}
+	return m[1]
+}
+
 // checkRerunDelete uses the submission page's forms: screen again (the
-// history then lists the earlier report), then delete.
-func checkRerunDelete(t *testing.T, w *webClient, m *Main, token string, sub api.SubmissionView, csrf string) {
+// history then lists the earlier report), then delete. The token of the
+// sign-in page (before the session) is refused: the token is the
+// session's.
+func checkRerunDelete(t *testing.T, w *webClient, m *Main, token string, sub api.SubmissionView, early string) {
 	base := m.URL()
 	editor := apiClient{t, &base, token}
 	if code, v := editor.submission(sub.Links.Self + "?wait=30s"); code != http.StatusOK ||
 		v.Status != service.StatusDone {
 		t.Fatalf("screening: %d %+v", code, v)
 	}
+	if code, _, page := w.post("/submissions/"+sub.ID+"/rerun", url.Values{"_csrf": {early}}); code != 403 ||
+		!strings.Contains(page, "Form refused") {
+		t.Fatalf("rerun with the token from before sign-in: %d", code)
+	}
+	csrf := sessionToken(t, w, "/submissions/"+sub.ID)
+	checkPage(t, w, "/submissions/"+sub.ID)
 	code, hdr, _ := w.post("/submissions/"+sub.ID+"/rerun", url.Values{"_csrf": {csrf}})
 	if code != http.StatusSeeOther || hdr.Get("Location") != "/submissions/"+sub.ID {
 		t.Fatalf("rerun: %d %v", code, hdr)

@@ -102,6 +102,8 @@ case("corr-not-positive-definite", "/data/correlations: is not positive definite
 case("corr-shape", "/data/correlations/2", False, setp(["data", "correlations", 2], [0.1, 0.4]))
 case("summary-variable-missing", "/variables/3/name", False, lambda d: d["data"].update(
     {"variables": ["a", "b", "c"], "correlations": [[1], [0.2, 1], [0.1, 0.4, 1]]}))
+case("summary-empty-matrix", "/data/correlations: has no rows", False, lambda d: d["data"].update(
+    {"variables": [], "correlations": []}), also=['/variables/0/name: "a" has no entry in /data/variables'])
 case("summary-sds-length", "/data/sds", False, setp(["data", "sds"], [1, 2]))
 case("summary-with-csv", "/data/csv", True, setp(["data", "csv"], rows))
 case("rows-without-data", "/data", False, lambda d: d.__setitem__("data", {"kind": "rows"}))
@@ -146,6 +148,38 @@ case("duplicate-key", '/title: the key "title" appears more than once', False,
      raw=json.dumps(base, indent=1).replace('"title":', '"title": "first",\n "title":', 1))
 case("invalid-utf8", "/claims/1/text: is not valid UTF-8 text", False,
      raw=json.dumps(base, indent=1).replace("c goes with d", "c goes with \x00d").encode().replace(b"\x00", b"\xff"))
+
+# Files that are not what they should be, and lists past their limits
+# (issue 23): each gets one clear sentence, not a cascade.
+case("package-empty", "package: the package is empty", None, raw="")
+case("package-utf16", "package: the package is UTF-16 text (little-endian); it should be a JSON text file in UTF-8",
+     None, raw=json.dumps(base, indent=1).encode("utf-16"))
+case("package-utf16-no-bom", "package: the package is UTF-16 text (big-endian)", None,
+     raw=json.dumps(base, indent=1).encode("utf-16-be"))
+case("package-zip", "package: the package is a ZIP archive (an .xlsx spreadsheet or a .docx document is one)", None,
+     raw=b"PK\x03\x04\x14\x00\x06\x00\x08\x00\x00\x00!\x00" + bytes(range(256)))
+case("package-binary", "package: the package is binary data, not text", None, raw=b"\x01\x02\x00\x00\x7f" * 40)
+case("json-error-column", "package: not valid JSON: invalid character '1' after object key (line 3, column 10)", None,
+     raw='{\n "format_version": 1,\n "title" 1}')
+case("json-error-column-multibyte", "package: not valid JSON: invalid character 'x' after object key:value pair (line 2, column 23)",
+     None, raw='{\n "title": "Übersicht" x}')
+case("json-cut-short", "package: not valid JSON: the document ends before its last value is complete (line 2, column 21)",
+     None, raw='{\n "title": "Cut short')
+case("csv-semicolons", "data line 1: the data are separated by semicolons (;), not commas", False,
+     lambda d: as_rows(d, "a;b;c;d\n1;2,5;3,1;0,2\n0;1,5;2,2;\n"))
+case("csv-tabs", "data line 1: the data are separated by tabs, not commas", False,
+     lambda d: as_rows(d, "a\tb\tc\td\n1\t2.5\t3.1\t0.2\n"))
+case("csv-empty", "data line 1: the data are empty", False, lambda d: as_rows(d, "\n\n"))
+def utf16_file(doc):
+    doc["data"] = {"kind": "rows", "file": "csv-utf16.csv"}
+    with open("csv-utf16.csv", "wb") as f:
+        f.write(rows.encode("utf-16"))
+case("csv-utf16", "data line 1: the data are UTF-16 text (little-endian); they should be CSV text in UTF-8", False, utf16_file)
+case("adjust-for-over-limit", "/claims/0/adjust_for: has 501 entries; the limit is 500, the limit on variables", True,
+     setp(["claims", 0, "adjust_for"], ["b"] * 501))
+case("problems-cut", "package: the list stops at 500 problems and there are more", False,
+     setp(["graph", "edges"], [{"from": f"x{i}", "to": f"y{i}"} for i in range(300)]),
+     also=['/graph/edges/0/from: "x0" names no declared variable'])
 
 with open("cases.json", "w") as f:
     json.dump(cases, f, indent=1, ensure_ascii=False)

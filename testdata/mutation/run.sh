@@ -29,7 +29,7 @@ while IFS="$tab" read -r id file pkg tests expr; do
 	if cmp -s "$tmp/$file" "$tmp/$file.orig"; then
 		echo "stale     $id: the pattern does not match $file"
 		survived=1
-	elif (cd "$tmp" && go test -count=1 -timeout 60s -run "$tests" "$pkg" >"$tmp/out.txt" 2>&1); then
+	elif (cd "$tmp" && go test -count=1 -timeout 60s -run "$tests" "$pkg" </dev/null >"$tmp/out.txt" 2>&1); then
 		echo "SURVIVED  $id ($file; go test -run '$tests' $pkg passes)"
 		survived=1
 	else
