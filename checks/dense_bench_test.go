@@ -15,7 +15,7 @@ import (
 func BenchmarkDensePackage(b *testing.B) {
 	path := os.Getenv("PATHVET_DENSE_PACKAGE")
 	if path == "" {
-		b.Skip("PATHVET_DENSE_PACKAGE not set (testdata/bench/dense.sh sets it)")
+		b.Skip("PATHVET_DENSE_PACKAGE is not set (testdata/bench/dense.py DIR writes DIR/package.json)")
 	}
 	doc, err := os.ReadFile(path)
 	if err != nil {
