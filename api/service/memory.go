@@ -57,7 +57,8 @@ func CheckPackageMemory(doc, csv []byte, budget int64) error {
 				CSV string `json:"csv"`
 			} `json:"data"`
 		}
-		if json.Unmarshal(bytes.TrimPrefix(doc, []byte("\xef\xbb\xbf")), &inline) != nil { // the loader reads past a BOM
+		bom := []byte("\xef\xbb\xbf") // the loader reads past one
+		if json.Unmarshal(bytes.TrimPrefix(doc, bom), &inline) != nil {
 			return nil
 		}
 		csv = []byte(inline.Data.CSV)

@@ -75,7 +75,8 @@ func TestCheckPackageMemory(t *testing.T) {
 	if err := CheckPackageMemory([]byte(inline), nil, 1<<20); ErrorCode(err) != EInvalid {
 		t.Errorf("inline CSV over budget: %v", err)
 	}
-	if err := CheckPackageMemory([]byte(`{"data": {"kind": "rows"}}`), []byte("a,b\n1,2\n"), 1<<20); ErrorCode(err) != EInvalid {
+	beside := []byte(`{"data": {"kind": "rows"}}`)
+	if err := CheckPackageMemory(beside, []byte("a,b\n1,2\n"), 1<<20); ErrorCode(err) != EInvalid {
 		t.Errorf("CSV beside over budget: %v", err)
 	}
 	if err := CheckPackageMemory([]byte(inline), []byte{}, 1<<30); err != nil {

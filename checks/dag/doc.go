@@ -1,8 +1,9 @@
 // Package dag holds the graph core of pathvet: directed acyclic graphs and
 // partially directed graphs over nodes 0..n-1, cycles and topological order,
-// the basis set of implied d-separations, skeletons and v-structures, the CPDAG of a DAG (Chickering's
-// edge labelling; Meek's rules once background knowledge orients more), the exact size of a Markov equivalence class (the clique-picking
-// recursion), the part of a class that respects background knowledge, the
+// the basis set of implied d-separations, skeletons and v-structures, the
+// CPDAG of a DAG (Chickering's edge labelling; Meek's rules once background
+// knowledge orients more), the exact size of a Markov equivalence class (the
+// clique-picking recursion), the part of a class that respects background knowledge, the
 // members of a class listed in a fixed order, and IDA's locally valid parent
 // sets.
 //
