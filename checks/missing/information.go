@@ -20,8 +20,8 @@ const (
 	// MaxInformationWork bounds the operations (informationWork): 2·10¹¹,
 	// a minute or two of one core of the development machine. Within the
 	// default limits it does not bind: at 45 variables the memory budget
-	// holds about 270,000 rows, which with a pattern in every row and 20%
-	// of the cells missing cost about 3.4·10¹⁰ (README, "Limits").
+	// holds about 216,000 rows, which with a pattern in every row and 20%
+	// of the cells missing cost about 2.8·10¹⁰ (README, "Limits").
 	MaxInformationWork = 2e11
 )
 
