@@ -2,15 +2,11 @@ package checks
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"math"
 	"strings"
 
-	"gonum.org/v1/gonum/mat"
-
 	"github.com/pathvet/pathvet/checks/dag"
-	"github.com/pathvet/pathvet/checks/linmod"
 	"github.com/pathvet/pathvet/checks/sem"
 )
 
@@ -42,46 +38,6 @@ var graphFitCheck = Check{
 type modelFit struct {
 	fit   *sem.Fit
 	nodes []int // variable index of each row of the fitted matrix
-}
-
-// fitGraph fits g over the variables marked in nodes.
-func (a *Analysis) fitGraph(ctx context.Context, g *dag.PDAG, in []bool) (*modelFit, error) {
-	m, err := a.moments()
-	if err != nil {
-		return nil, err
-	}
-	var nodes []int
-	pos := map[int]int{}
-	for v, ok := range in {
-		if ok {
-			pos[v] = len(nodes)
-			nodes = append(nodes, v)
-		}
-	}
-	sub := mat.NewSymDense(len(nodes), nil)
-	parents := make([][]int, len(nodes))
-	for i, v := range nodes {
-		for j, w := range nodes[:i+1] {
-			sub.SetSym(i, j, m.Cor.At(v, w))
-		}
-		for _, p := range g.Parents(v) {
-			parents[i] = append(parents[i], pos[p])
-		}
-	}
-	f, err := sem.FitDAG(ctx, sub, m.N, parents)
-	var ee *sem.EquationError
-	if errors.As(err, &ee) && errors.Is(ee.Err, linmod.ErrTooFewCases) {
-		k := len(parents[ee.Variable])
-		return nil, fmt.Errorf("the equation of %s has %s and the data %s; it needs at least %d (%w)",
-			a.Study.Names[nodes[ee.Variable]], count(k, "parent", "parents"), count(m.N, "case", "cases"), k+2, ee.Err)
-	}
-	if errors.As(err, &ee) {
-		return nil, fmt.Errorf("the equation of %s: %w", a.Study.Names[nodes[ee.Variable]], ee.Err)
-	}
-	if err != nil {
-		return nil, err
-	}
-	return &modelFit{fit: f, nodes: nodes}, nil
 }
 
 func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {

@@ -195,8 +195,8 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n, changed int) {
 		if std.EstimateScale != "correlation" {
 			std.EstimateScale = "standardized"
 		}
-		decl := a.estimateWith(a.mustMoments(), std, a.declaredParentsFor(c))
-		corr := a.estimateWith(cm, std, a.declaredParentsFor(c))
+		decl := a.estimateUnder(a.mustMoments(), a.declaredParentsFor(c), std)
+		corr := a.estimateUnder(cm, a.declaredParentsFor(c), std)
 		if bad := firstErr(decl, corr); bad != nil {
 			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 				"%s could not be estimated with and without the correction (%v), so what measurement error does to "+

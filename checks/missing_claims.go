@@ -140,10 +140,7 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	pa := a.declaredParentsFor(c)
 	ests := map[string]est{}
 	for key, m := range r.moments {
-		ests[key] = a.estimateWith(m, c, pa)
-		if key == MissingMaximumLikelihood {
-			ests[key] = a.mlInference(c, ests[key], r)
-		}
+		ests[key] = a.estimateUnder(m, pa, c)
 	}
 	if len(r.imputed) > 0 {
 		ests[MissingMultipleImputation] = a.pooled(c, r.imputedEst[i], r.imputed)

@@ -47,10 +47,6 @@ type missingResult struct {
 	summary missing.Summary
 	em      *missing.EMResult
 	mcar    *missing.MCARTest
-	// mlCov is the covariance of EM's (μ̂, vech Σ̂), the inverse of the
-	// observed information; mlCovErr why it could not be had.
-	mlCov    *mat.SymDense
-	mlCovErr error
 	// moments by method key: complete_cases, maximum_likelihood, the
 	// declared single imputation; and one per imputed dataset.
 	moments map[string]*Moments
@@ -90,8 +86,10 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	if t, err := missing.LittleMCAR(d.Columns, em); err == nil {
 		r.mcar = &t
 	}
-	r.moments[MissingMaximumLikelihood] = emMoments(em, d.N)
-	r.mlCov, r.mlCovErr = missing.EstimateCovariance(ctx, d.Columns, em)
+	ml := emMoments(em, d.N)
+	ml.ml = &mlMoments{em: em}
+	ml.ml.acov, ml.ml.acovErr = missing.EstimateCovariance(ctx, d.Columns, em)
+	r.moments[MissingMaximumLikelihood] = ml
 	a.declaredMethodMoments(r)
 	if err := a.imputeClaims(ctx, r, Imputations); err != nil {
 		r.err = err
@@ -127,7 +125,7 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) er
 		mu.Lock()
 		defer mu.Unlock()
 		for i, c := range claims {
-			ests[i][k] = a.estimateWith(mo, c, a.declaredParentsFor(c))
+			ests[i][k] = a.estimateUnder(mo, a.declaredParentsFor(c), c)
 		}
 		mo.Rows, imputed[k] = nil, mo
 		done++

@@ -84,6 +84,10 @@ type Analysis struct {
 	acrossErr    []error
 	acrossDone   []bool
 	progress     func(stage string, done, total int)
+	// estimation is the study's estimator (estimator.go); ctx the run's
+	// context, for estimates started lazily.
+	estimation estimator
+	ctx        context.Context
 }
 
 // reportProgress passes progress to Options.Progress, if set.
@@ -106,7 +110,7 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 	if opt.Checks == nil {
 		opt.Checks = Pipeline()
 	}
-	a := &Analysis{Study: s, Alpha: opt.Alpha, Claims: claimReports(s.Package), progress: opt.Progress}
+	a := &Analysis{Study: s, Alpha: opt.Alpha, Claims: claimReports(s.Package), progress: opt.Progress, ctx: ctx}
 	rep := &Report{
 		FormatVersion: ReportFormatVersion, ToolVersion: ToolVersion, PackageSHA256: s.SHA256,
 		Title: s.Package.Title, ManuscriptID: s.Package.ManuscriptID, Design: s.Package.Design,
