@@ -1,7 +1,9 @@
 package checks
 
 import (
+	"fmt"
 	"math"
+	"math/big"
 	"slices"
 
 	"github.com/pathvet/pathvet/checks/dag"
@@ -36,6 +38,9 @@ type AcrossEquivalents struct {
 	Differing int       `json:"estimates_differing"`
 	Failed    int       `json:"estimates_failed,omitempty"`
 	Contrast  *Contrast `json:"contrast,omitempty"`
+	// NotComputed says why the claim was not re-estimated across the
+	// class (an indirect effect in a class too large to list).
+	NotComputed string `json:"not_computed,omitempty"`
 	// zero counts the estimates in which the graph gives the claim no
 	// effect (the arrow reversed, no path left).
 	zero int
@@ -154,6 +159,9 @@ func (a *Analysis) acrossEquivalents(c Claim, declared est) (*AcrossEquivalents,
 	if err != nil {
 		return nil, err
 	}
+	if graphs == nil && c.Kind == KindIndirect {
+		return notComputedAcross(a.equivalenceClass().plausible), nil
+	}
 	if graphs == nil {
 		node := a.Study.Index[c.To]
 		if c.Kind == KindTotal {
@@ -211,6 +219,23 @@ func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGr
 		r.Contrast = a.contrast(*best, bestEst)
 	}
 	return r
+}
+
+// notComputedFormat says why an indirect effect is not re-estimated in a
+// class past the listing limit.
+const notComputedFormat = "the class has %s plausible members, more than the %d in which claims are re-estimated " +
+	"one by one, and an indirect effect needs whole graphs, which IDA's locally valid parent sets (the parents " +
+	"of one variable) are not; it was not computed"
+
+// notComputedAcross is an indirect claim's summary over a class too large
+// to list.
+func notComputedAcross(plausible *big.Int) *AcrossEquivalents {
+	n := "more than " + fmt.Sprint(MaxMembersForEstimation)
+	if plausible != nil {
+		n = plausible.String()
+	}
+	return &AcrossEquivalents{Method: AcrossMembers,
+		NotComputed: fmt.Sprintf(notComputedFormat, n, MaxMembersForEstimation)}
 }
 
 // zeroOnScale is the value of "no effect" on a scale: 1 for odds ratios.

@@ -196,7 +196,7 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	e := a.estimateClaim(c, alt.Parents)
 	r := a.report(e)
 	ae.Estimate, ae.CI, ae.PValue, ae.Method, ae.Error = r.Estimate, r.CI, r.PValue, r.Method, r.Error
-	ae.StructuralZero = r.StructuralZero
+	ae.StructuralZero, ae.Significance = r.StructuralZero, r.Significance
 	if !e.ok() && decl.ok() && challenges {
 		fit := "which the data cannot tell from the declared graph"
 		if !equivalent {

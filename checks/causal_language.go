@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"regexp"
+	"slices"
 	"strings"
 )
 
@@ -21,6 +22,16 @@ var causalWords = []string{
 }
 
 var causalRE = regexp.MustCompile(`(?i)\b(` + strings.Join(causalWords, "|") + `)\b`)
+
+// mediationWords state mediation, which is causal: that an effect runs
+// through a mediator. They are read in indirect-effect and association
+// claims only (a direct effect's text may name the path it is part of).
+var mediationWords = []string{
+	"through", "via", "mediate", "mediates", "mediated", "mediating", "mediation", "mediator", "mediators",
+	"explain", "explains", "explained", "explaining",
+}
+
+var mediationRE = regexp.MustCompile(`(?i)\b(` + strings.Join(mediationWords, "|") + `)\b`)
 
 // causal-language: do causal words in claims match the design, and is the
 // emulated trial described? (README, "Checks")
@@ -42,7 +53,7 @@ func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
 	var fs []Finding
 	worded := 0
 	for _, c := range s.Package.Claims {
-		words := uniqueMatches(c.Text)
+		words := claimWording(c)
 		if len(words) == 0 {
 			continue
 		}
@@ -96,10 +107,24 @@ func hasCausalClaim(p *Package) bool {
 	return false
 }
 
-func uniqueMatches(text string) []string {
+// claimWording lists the causal words of a claim's text, and for an
+// indirect effect or an association its mediation words too.
+func claimWording(c Claim) []string {
+	words := uniqueMatches(causalRE, c.Text)
+	if c.Kind == KindIndirect || c.Kind == KindAssociation {
+		for _, w := range uniqueMatches(mediationRE, c.Text) {
+			if !slices.Contains(words, w) {
+				words = append(words, w)
+			}
+		}
+	}
+	return words
+}
+
+func uniqueMatches(re *regexp.Regexp, text string) []string {
 	seen := map[string]bool{}
 	var out []string
-	for _, w := range causalRE.FindAllString(text, -1) {
+	for _, w := range re.FindAllString(text, -1) {
 		w = strings.ToLower(w)
 		if !seen[w] {
 			seen[w] = true
@@ -129,6 +154,12 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	if ce := a.claimEValue(c); ce.ev == nil && ce.why != "" && !ce.contradicted {
 		lacks = append(lacks, "figures from which an E-value can be computed (an estimate with its SE or interval)")
 	}
+	if i := a.claimIndex(c); c.Kind == KindIndirect && !c.AssertsAbsence {
+		if mc, _ := a.mediatorSensitivity(i); mc == nil || mc.RhoAtZero == nil {
+			lacks = append(lacks, "a figure for how much confounding of its mediator and outcome would explain it "+
+				"away (see confounding-sensitivity)")
+		}
+	}
 	if len(lacks) == 0 {
 		return Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
 			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs%s.",
@@ -155,7 +186,20 @@ func (a *Analysis) eValueBacking(c Claim) string {
 	if a.claimEValue(c).ev != nil {
 		return " and E-values"
 	}
+	if mc, _ := a.mediatorSensitivity(a.claimIndex(c)); c.Kind == KindIndirect && mc != nil && mc.RhoAtZero != nil {
+		return " and the error correlation of mediator and outcome that would explain it away"
+	}
 	return ""
+}
+
+// claimIndex is the position of claim c in the package.
+func (a *Analysis) claimIndex(c Claim) int {
+	for i, cc := range a.Study.Package.Claims {
+		if cc.ID == c.ID {
+			return i
+		}
+	}
+	return -1
 }
 
 // claimEValue finds the E-value computed for a claim, if any.

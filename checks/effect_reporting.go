@@ -106,7 +106,10 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 	if f := a.claimTooFew(c, decl); f != nil {
 		fs = append(fs, *f)
 	}
-	if c.AssertsAbsence {
+	switch {
+	case c.Kind == KindIndirect:
+		fs = append(fs, a.indirectReporting(i, c, pr, decl)...)
+	case c.AssertsAbsence:
 		fs = append(fs, a.absenceFinding(i, c, decl)...)
 	}
 	fs = append(fs, a.oddsRatioFinding(i, c, decl)...)

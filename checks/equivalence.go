@@ -91,6 +91,7 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 			return CheckResult{}, err
 		}
 	}
+	fs = append(fs, a.tierFinding(eq)...)
 	fs = append(fs, discussionFinding(s, eq)...)
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: equivalenceMetrics(eq, reversible)}
 	res.Metrics["claims_unstable"] = unstable
@@ -113,6 +114,10 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 	if err != nil {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
 			"%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})
+	}
+	if across.NotComputed != "" {
+		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			"%s could not be re-estimated across the equivalent graphs: %s.", c.ID, across.NotComputed)})
 	}
 	if across.Failed > 0 && !across.Unstable {
 		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
@@ -207,8 +212,8 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 	if !rev.InPlausible {
 		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
 			"The data alone cannot orient the arrow %s → %s behind %s; only the stated background knowledge "+
-				"(exogenous variables, fixed arrows) does.",
-			c.From, c.To, c.ID)}}, rev, nil
+				"(%s) does.",
+			c.From, c.To, c.ID, knowledgeKinds(s))}}, rev, nil
 	}
 	sev := StatusWarn
 	if c.Headline && !s.Package.Graph.EquivalentsDiscussed {
@@ -234,16 +239,12 @@ func graphReport(s *Study, eq *equivalenceResult) (*GraphReport, error) {
 	g.Background, g.Exogenous = backgroundNames(s)
 	g.CPDAG = edgeSets(s, eq.cpdag)
 	if eq.plausible != nil && eq.plausible.Sign() > 0 {
-		m := eq.cpdag.Clone()
-		for _, e := range s.Background {
-			if m.HasLine(e.From, e.To) {
-				m.Orient(e.From, e.To)
-			}
+		if m, ok, err := dag.MaximallyOriented(eq.cpdag, s.Background); err == nil && ok {
+			mp := edgeSets(s, m)
+			g.PlausibleCPDAG = &mp
 		}
-		m.CloseUnderMeek()
-		mp := edgeSets(s, m)
-		g.PlausibleCPDAG = &mp
 	}
+	g.Tiers = tierNames(s)
 	g.EquivalenceClassSize, g.EquivalenceClassSizeLog10 = exactCount(eq.size)
 	if eq.plausible != nil {
 		g.PlausibleClassSize, g.PlausibleClassSizeLog10 = exactCount(eq.plausible)

@@ -35,6 +35,13 @@ type est struct {
 	mcse     float64
 	nearLine bool
 	err      error
+	// An indirect effect has no p-value (p is NaN): intervals are its
+	// intervals by method (indirect.go), judge the one at level 1 − α by
+	// which its significance is judged, and draws the sorted draws behind
+	// it (Monte Carlo or bootstrap), for pooling over imputations.
+	intervals []namedInterval
+	judge     *namedInterval
+	draws     []float64
 }
 
 func (e est) ok() bool { return e.err == nil }
@@ -42,6 +49,9 @@ func (e est) ok() bool { return e.err == nil }
 // category is +1 or −1 for an estimate significant at alpha with that
 // sign, 0 otherwise.
 func (e est) category(alpha float64) int {
+	if e.judge != nil && e.method != MethodZero && e.judge.excludesZero() {
+		return int(math.Copysign(1, e.judge.lo))
+	}
 	if e.method == MethodZero || !(e.p < alpha) {
 		return 0
 	}
@@ -72,6 +82,38 @@ type Estimate struct {
 	// Distribution is what the p-value and interval are taken under:
 	// "t(df)" for OLS, "normal" for a logistic Wald test or Fisher's z.
 	Distribution string `json:"distribution,omitempty"`
+	// Intervals are an indirect effect's intervals at the claim's level,
+	// each with its method (delta_method, monte_carlo,
+	// bootstrap_percentile, monte_carlo_imputations_mixed); CI is the one
+	// named by Significance.
+	Intervals []NamedInterval `json:"intervals,omitempty"`
+	// Significance is the interval, at level 1 − α, by whose exclusion of
+	// zero an indirect effect is judged significant (it has no p-value).
+	Significance *NamedInterval `json:"significance,omitempty"`
+}
+
+// NamedInterval is one interval of an estimate, with its method.
+type NamedInterval struct {
+	Method string    `json:"method"`
+	CI     []float64 `json:"ci"`
+	Level  float64   `json:"level"`
+	// Draws counts the Monte Carlo draws or bootstrap resamples that gave
+	// a value, Failed those that did not (a singular resample).
+	Draws        int   `json:"draws,omitempty"`
+	Failed       int   `json:"failed,omitempty"`
+	ExcludesZero *bool `json:"excludes_zero,omitempty"`
+}
+
+func (iv namedInterval) report(judged bool) NamedInterval {
+	r := NamedInterval{Method: iv.method, Level: iv.level, Draws: iv.draws, Failed: iv.failed, CI: []float64{}}
+	if lo, hi := finite(iv.lo), finite(iv.hi); lo != nil && hi != nil {
+		r.CI = []float64{*lo, *hi}
+	}
+	if judged {
+		x := iv.excludesZero()
+		r.ExcludesZero = &x
+	}
+	return r
 }
 
 // finite returns a pointer to x rounded for a report, or nil where x is
@@ -105,6 +147,13 @@ func (a *Analysis) report(e est) *Estimate {
 	r.Distribution = e.distribution()
 	if lo, hi := finite(e.lo), finite(e.hi); lo != nil && hi != nil {
 		r.CI = []float64{*lo, *hi}
+	}
+	for _, iv := range e.intervals {
+		r.Intervals = append(r.Intervals, iv.report(false))
+	}
+	if e.judge != nil {
+		j := e.judge.report(true)
+		r.Significance = &j
 	}
 	return r
 }
@@ -149,6 +198,9 @@ func (a *Analysis) declaredEstimate(i int) est {
 		}
 		c := a.Study.Package.Claims[i]
 		e := a.estimateClaim(c, pa)
+		if m, err := a.moments(); err == nil {
+			e = a.estimator().under(a.context(), m, pa).resampled(c, e)
+		}
 		if why := a.graphContradiction(c); why != "" && e.ok() {
 			e = structuralZero(c, e.adjusted, why) // a total effect with no directed path, too
 		}

@@ -41,6 +41,12 @@ type fittedGraph interface {
 	// no effect (an arrow the other way, no directed path); an est with
 	// err where it cannot be estimated.
 	claim(c Claim) est
+	// resampled is claim c's estimate e (from claim) with an interval
+	// from resampling the raw rows behind the moments, where the claim's
+	// kind has one and there are rows (an indirect effect's percentile
+	// bootstrap, which then judges its significance); e as it is
+	// otherwise. The declared estimate asks for it.
+	resampled(c Claim, e est) est
 }
 
 // parentsFunc gives the parents of a node in some graph.

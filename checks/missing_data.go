@@ -9,6 +9,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/pathvet/pathvet/checks/mediation"
 	"github.com/pathvet/pathvet/checks/missing"
 )
 
@@ -122,6 +123,7 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) er
 		if err != nil {
 			return err
 		}
+		mo.draws = max(1, mediation.DefaultDraws/m)
 		mu.Lock()
 		defer mu.Unlock()
 		for i, c := range claims {

@@ -38,6 +38,9 @@ func (a *Analysis) pooled(c Claim, ests []est, imputed []*Moments) est {
 		qk, uk := pooledScale(e, m.N, claimLevel(c))
 		q, u = append(q, qk), append(u, uk)
 	}
+	if first.method == MethodProduct {
+		return a.pooledIndirect(c, ests)
+	}
 	dfCom := float64(first.n - len(first.adjusted) - 2)
 	level := claimLevel(c)
 	pr, err := missing.Pool(q, u, dfCom, level)

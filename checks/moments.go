@@ -32,6 +32,11 @@ type Moments struct {
 	// ml is set for maximum-likelihood moments under missing data: what
 	// their standard errors need (missing_ml.go).
 	ml *mlMoments
+	// draws is the number of Monte Carlo draws of an indirect effect's
+	// interval on these moments (0: mediation.DefaultDraws); one imputed
+	// dataset of m takes DefaultDraws/m, as many as the mixture over the
+	// imputations keeps of each (pooledIndirect).
+	draws int
 }
 
 // Cov returns the covariance matrix, or nil without SDs.

@@ -11,7 +11,7 @@ import (
 // changes in a close class or the search's best, the search, classes left
 // unexamined, and the linear score's approximation for binary variables.
 func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
-	fs := []Finding{overviewFinding(run)}
+	fs := []Finding{overviewFinding(run, knowledgeKinds(a.Study))}
 	seen := map[string]bool{}
 	for _, c := range run.listed {
 		if c.claims != nil {
@@ -50,9 +50,8 @@ const (
 		"treats %s as continuous: where an edit changes a binary variable's equation its ΔBIC is approximate, and a " +
 		"headline claim that changes there is warned about, not failed (the claims themselves are estimated as " +
 		"elsewhere in the report)."
-	noNeighbourText = "No graph lies one edit from the declared one within the background knowledge " +
-		"(exogenous variables, fixed arrows)."
-	differsFormat = "%s is %s under the declared graph, but its sign or significance differs in %d of %s " +
+	noNeighbourFormat = "No graph lies one edit from the declared one within the background knowledge (%s)."
+	differsFormat     = "%s is %s under the declared graph, but its sign or significance differs in %d of %s " +
 		"(%s; in the one nearest zero it is %s)"
 	coveredText = " It already changes among the declared graph's own equivalent graphs (see the equivalence " +
 		"check), so the equivalence check's finding covers it."
@@ -61,14 +60,16 @@ const (
 		"neither states nor discusses this graph."
 	undiscussedText = " The paper neither states nor discusses this graph, so the data do not decide this claim; " +
 		"the choice of graph does."
+	notComputedNearFormat = "%s could not be re-estimated in the graphs %s (%s): %s, so whether its conclusion " +
+		"holds there is not known."
 	noSearchStepText = "A greedy search from the declared graph finds no single edit that lowers BIC: " +
 		"the declared graph is a local optimum of the score."
 )
 
-func overviewFinding(run *nearbyRun) Finding {
+func overviewFinding(run *nearbyRun, kinds string) Finding {
 	nb := run.nb
 	if nb.DAGs == 0 {
-		return Finding{Severity: SeverityInfo, Message: noNeighbourText}
+		return Finding{Severity: SeverityInfo, Message: fmt.Sprintf(noNeighbourFormat, kinds)}
 	}
 	own := "none is Markov equivalent to the declared graph"
 	switch {
@@ -114,6 +115,10 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 	slices.Sort(idx)
 	for _, i := range idx {
 		ae, cl := c.claims[i], a.Study.Package.Claims[i]
+		if ae.NotComputed != "" {
+			fs = append(fs, Finding{Severity: StatusWarn, Claim: cl.ID, Message: fmt.Sprintf(notComputedNearFormat,
+				cl.ID, a.editsText(c.edits), deltaText(c.delta), ae.NotComputed)})
+		}
 		if !ae.Unstable {
 			continue
 		}
@@ -135,12 +140,8 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev string) string {
 	cl, decl := a.Study.Package.Claims[i], a.declaredEstimate(i)
 	other := noEffect(claimScale(cl))
-	if ct := ae.Contrast; ct != nil && ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
-		p := math.NaN()
-		if ct.Estimate.PValue != nil {
-			p = *ct.Estimate.PValue
-		}
-		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
+	if ct := ae.Contrast; ct != nil {
+		other = contrastText(cl, ct.Estimate)
 	}
 	edits := a.editsText(c.edits)
 	graphs := fmt.Sprintf("the %d plausible graphs %s", ae.Estimates, edits)

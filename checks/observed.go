@@ -25,17 +25,18 @@ import (
 // observedEstimator estimates claims by regressions of the moments.
 type observedEstimator struct{ a *Analysis }
 
-func (o observedEstimator) under(_ context.Context, m *Moments, pa parentsFunc) fittedGraph {
-	return observedGraph{a: o.a, m: m, pa: pa}
+func (o observedEstimator) under(ctx context.Context, m *Moments, pa parentsFunc) fittedGraph {
+	return observedGraph{a: o.a, m: m, pa: pa, ctx: ctx}
 }
 
 // observedGraph is a graph over measured variables fitted to moments m.
 // Nothing is fitted until a claim asks: each claim needs one regression,
 // which Analysis.regress caches by its outcome, predictors and scale.
 type observedGraph struct {
-	a  *Analysis
-	m  *Moments
-	pa parentsFunc
+	a   *Analysis
+	m   *Moments
+	pa  parentsFunc
+	ctx context.Context // watched by the Monte Carlo draws
 }
 
 // claim estimates claim c with parents pa (README, "Checks",
@@ -50,7 +51,10 @@ type observedGraph struct {
 // from the observed information (mlInference).
 func (g observedGraph) claim(c Claim) est {
 	e := g.estimate(c)
-	if g.m.ml != nil {
+	switch {
+	case g.m.ml != nil && c.Kind == KindIndirect:
+		e = g.mlIndirect(c, e)
+	case g.m.ml != nil:
 		e = g.a.mlInference(c, e, g.m.ml)
 	}
 	return e
@@ -61,6 +65,8 @@ func (g observedGraph) estimate(c Claim) est {
 	s := a.Study
 	from, to := s.Index[c.From], s.Index[c.To]
 	switch {
+	case c.Kind == KindIndirect:
+		return g.indirect(c)
 	case pa == nil: // no graph: the authors' own adjustment set
 	case c.Kind == KindDirect:
 		parents := pa(to)

@@ -214,6 +214,10 @@ func recomputedFigure(c Claim, e est) string {
 	}
 	out := fmt.Sprintf("%s (%s, %g%% interval %s to %s)", figure(e.value), pText(e.p), 100*claimLevel(c),
 		figure(e.lo), figure(e.hi))
+	if e.isIndirect() {
+		out = fmt.Sprintf("%s (%g%% %s interval %s to %s)", figure(e.value), 100*claimLevel(c),
+			intervalName(e.intervals[len(e.intervals)-1].method), figure(e.lo), figure(e.hi))
+	}
 	if e.scale != claimScale(c) {
 		out = scaleNoun(e.scale) + " " + out
 	}
