@@ -45,11 +45,12 @@ func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) st
 // contrastText writes the estimate of a claim in the graph that differs
 // most: its value with its p-value, or with the interval that judges an
 // indirect effect; or no effect, saying for an indirect effect that the
-// graph has no directed path through its mediators.
+// graph has no directed path through its mediators (a phrase closed by
+// a comma, as it stands before the graphs it holds in).
 func contrastText(c Claim, e *Estimate) string {
 	switch {
 	case e.Method == MethodZero && c.Kind == KindIndirect:
-		return "zero, since that graph has " + strings.TrimSuffix(e.StructuralZero, " in this graph")
+		return "zero, with " + strings.TrimSuffix(e.StructuralZero, " in this graph") + ","
 	case e.Method == MethodZero || e.Estimate == nil:
 		return noEffect(claimScale(c))
 	case e.Significance != nil && len(e.Significance.CI) == 2:

@@ -216,7 +216,7 @@ func (a *Analysis) claimInGraph(c Claim) bool {
 	if s.Declared == nil {
 		return false
 	}
-	for _, v := range append([]string{c.From, c.To}, c.AdjustFor...) {
+	for _, v := range append(append([]string{c.From, c.To}, c.AdjustFor...), c.Through...) {
 		if !s.InGraph[s.Index[v]] {
 			return false
 		}

@@ -104,7 +104,7 @@ func kindText(kind string) string {
 // that a direct effect is an arrow and a total effect a directed path.
 func claimAgainstGraph(s *Study, c Claim) []Finding {
 	var missing []string
-	for _, v := range append([]string{c.From, c.To}, c.AdjustFor...) {
+	for _, v := range append(append([]string{c.From, c.To}, c.AdjustFor...), c.Through...) {
 		if !s.InGraph[s.Index[v]] {
 			missing = append(missing, v)
 		}
@@ -121,6 +121,8 @@ func claimAgainstGraph(s *Study, c Claim) []Finding {
 	switch c.Kind {
 	case KindDirect:
 		return directAgainstGraph(s.Declared, c, from, to)
+	case KindIndirect:
+		return indirectAgainstGraph(s, c)
 	case KindTotal:
 		if !dag.HasDirectedPath(s.Declared, from, to) {
 			return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -276,4 +277,82 @@ func intervalName(method string) string {
 		return "Monte Carlo (imputations mixed)"
 	}
 	return method
+}
+
+// Sentences of graph-declared about an indirect claim.
+const (
+	pathsFormat    = "%s: the declared graph carries the indirect effect of %s on %s %s, along %s: %s%s."
+	maxListedPaths = 3
+	maxPaths       = 1000 // paths counted, at most
+)
+
+// indirectAgainstGraph says which directed paths of the declared graph
+// carry an indirect claim (the loader has refused a claim with none).
+func indirectAgainstGraph(s *Study, c Claim) []Finding {
+	through := map[int]bool{}
+	for _, v := range c.Through {
+		through[s.Index[v]] = true
+	}
+	paths := directedPaths(s.Declared.Children, s.Index[c.From], s.Index[c.To], maxPaths)
+	var shown []string
+	n := 0
+	for _, p := range paths {
+		if !carries(p, through) {
+			continue
+		}
+		n++
+		if len(shown) < maxListedPaths {
+			names := make([]string, len(p))
+			for k, v := range p {
+				names[k] = s.Names[v]
+			}
+			shown = append(shown, strings.Join(names, " → "))
+		}
+	}
+	more := ""
+	if n > len(shown) {
+		more = fmt.Sprintf(" and %d more", n-len(shown))
+	}
+	if len(paths) >= maxPaths {
+		more += fmt.Sprintf(" (of the first %d paths counted)", maxPaths)
+	}
+	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(pathsFormat, c.ID, c.From, c.To,
+		throughText(c), count(n, "directed path", "directed paths"), strings.Join(shown, "; "), more)}}
+}
+
+// carries reports whether path p (from, …, to) is one an indirect effect
+// sums: through every mediator, or for the total indirect effect, of two
+// arrows or more.
+func carries(p []int, through map[int]bool) bool {
+	if len(through) == 0 {
+		return len(p) > 2
+	}
+	seen := 0
+	for _, v := range p[1 : len(p)-1] {
+		if through[v] {
+			seen++
+		}
+	}
+	return seen == len(through)
+}
+
+// directedPaths lists the directed paths from x to y, at most limit.
+func directedPaths(children func(int) []int, x, y, limit int) [][]int {
+	var out [][]int
+	var walk func(path []int)
+	walk = func(path []int) {
+		v := path[len(path)-1]
+		if v == y {
+			out = append(out, slices.Clone(path))
+			return
+		}
+		for _, w := range children(v) {
+			if len(out) >= limit {
+				return
+			}
+			walk(append(path, w))
+		}
+	}
+	walk([]int{x})
+	return out
 }

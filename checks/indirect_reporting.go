@@ -23,19 +23,24 @@ type ProportionMediated struct {
 
 // Sentences of effect-reporting about indirect effects.
 const (
-	skewFormat = "%s reports %s for an indirect effect, which takes the product of coefficients as normally " +
-		"distributed; its sampling distribution is skewed, so such a test or interval is inaccurate, most often " +
-		"with too little power (Preacher & Hayes 2008; MacKinnon, Lockwood & Williams 2004). Report a percentile " +
-		"bootstrap or Monte Carlo interval, as recomputed here: %s."
+	skewFormat = "%s reports %s. A test or interval that takes the product of coefficients as normally " +
+		"distributed is inaccurate for an indirect effect, whose sampling distribution is skewed, most often with " +
+		"too little power (Preacher & Hayes 2008; MacKinnon, Lockwood & Williams 2004). A percentile bootstrap or " +
+		"Monte Carlo interval follows the skew; recomputed here: %s."
+	skewPFormat = "a p-value (%s) for an indirect effect, which comes from Sobel's test or another normal-theory " +
+		"test"
+	skewCIFormat = "an interval symmetric about its estimate to the rounding of its figures (%g to %g around " +
+		"%g), as a normal-theory interval (the estimate ± a multiple of its SE) is, though a percentile interval " +
+		"can be as nearly symmetric at these digits"
 	proportionFormat = "%s: the indirect effect is %.0f%% of the total effect of %s on %s (%s of %s; the total " +
-		"effect is the coefficient of %s when %s is regressed on %s and the parents of %s, %s). " + proportionCaution
+		"effect is the coefficient of %s when %s is regressed on %s, %s). " + proportionCaution
 	proportionCaution = "A proportion mediated is a ratio of two estimates and is unstable: it moves far when the " +
 		"total effect is small or uncertain, it passes 100%% or falls below 0 where the direct effect has the " +
 		"other sign, and no interval is given for it here."
 	noProportionFormat = "No proportion mediated is given for %s: the total effect of %s on %s is %s, %s, so a " +
 		"share of it would mean little."
 	proportionNote = "indirect / total; the total effect is the coefficient of from when to is regressed on from " +
-		"and its parents in the declared graph; unstable, and without an interval"
+		"and from's parents in the declared graph; unstable, and without an interval"
 	absenceIndirectFound = "%s says there is no indirect effect, but its %s excludes zero: the data do not support " +
 		"\"no effect\"."
 	absenceIndirectExcludes = "%s says there is no indirect effect, and its %g%% %s interval (%s to %s) lies " +
@@ -61,14 +66,13 @@ func (a *Analysis) indirectReporting(i int, c Claim, pr printed, decl est) []Fin
 // skewFinding is the note for a p-value or a symmetric interval reported
 // for an indirect effect; nil when neither is.
 func skewFinding(c Claim, pr printed, decl est) *Finding {
-	what := ""
+	what, sev := "", StatusWarn
 	switch {
 	case c.PValue != nil:
-		what = fmt.Sprintf("a p-value (%s), which for an indirect effect comes from Sobel's test or another "+
-			"normal-theory test,", reportedP(c))
+		what = fmt.Sprintf(skewPFormat, reportedP(c))
 	case symmetricCI(c, pr):
-		what = fmt.Sprintf("an interval symmetric about its estimate (%g to %g around %g)", c.CI[0], c.CI[1],
-			*c.Estimate)
+		// a percentile interval may be as symmetric at the printed digits
+		what, sev = fmt.Sprintf(skewCIFormat, c.CI[0], c.CI[1], *c.Estimate), SeverityInfo
 	default:
 		return nil
 	}
@@ -76,7 +80,7 @@ func skewFinding(c Claim, pr printed, decl est) *Finding {
 	if decl.ok() && decl.method != MethodZero {
 		re = decl.judgedText()
 	}
-	return &Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(skewFormat, c.ID, what, re)}
+	return &Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(skewFormat, c.ID, what, re)}
 }
 
 // symmetricCI reports whether a reported interval is symmetric about the
@@ -85,12 +89,14 @@ func symmetricCI(c Claim, pr printed) bool {
 	if c.Estimate == nil || len(c.CI) != 2 || c.CI[1] <= c.CI[0] {
 		return false
 	}
-	slack := halfUnit(pr.Estimate)
+	// up − down = hi − 2·estimate + lo, so rounding moves it by at most the
+	// half units of hi and lo and twice that of the estimate
+	slack := 2 * halfUnit(pr.Estimate)
 	if len(pr.CI) == 2 {
 		slack += halfUnit(pr.CI[0]) + halfUnit(pr.CI[1])
 	}
 	up, down := c.CI[1]-*c.Estimate, *c.Estimate-c.CI[0]
-	return math.Abs(up-down) <= 2*slack+1e-12*math.Abs(c.CI[1]-c.CI[0])
+	return math.Abs(up-down) <= slack+1e-12*math.Abs(c.CI[1]-c.CI[0])
 }
 
 // proportionFinding gives the proportion mediated where the total effect
@@ -116,9 +122,12 @@ func (a *Analysis) proportionFinding(i int, c Claim, decl est) []Finding {
 	share := decl.value / tot.value
 	a.Claims[i].ProportionMediated = &ProportionMediated{Proportion: finite(share), TotalEffect: a.report(tot),
 		Note: proportionNote}
+	on := c.From + " alone"
+	if len(tot.adjusted) > 0 {
+		on = joinAnd(append([]string{c.From}, a.names(tot.adjusted)...))
+	}
 	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(proportionFormat, c.ID,
-		100*share, c.From, c.To, estText(decl.value), estText(tot.value), c.From, c.To, c.From, c.From,
-		valueText(tot))}}
+		100*share, c.From, c.To, estText(decl.value), estText(tot.value), c.From, c.To, on, valueText(tot))}}
 }
 
 // indirectAbsence weighs a claim of no indirect effect by its intervals:

@@ -124,10 +124,7 @@ func (a *Analysis) mediatorFinding(i int, c Claim) (Finding, bool) {
 		return Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(noRhoFormat, c.ID, why)}, false
 	}
 	a.Claims[i].MediatorConfounding = mc
-	given := c.From
-	if len(mc.Covariates) > 0 {
-		given = c.From + " and " + joinAnd(mc.Covariates)
-	}
+	given := joinAnd(append([]string{c.From}, mc.Covariates...))
 	msg := fmt.Sprintf(rhoFormat, c.ID, mc.Mediator, c.To, estText(*mc.RhoAtZero), given, c.From)
 	return Finding{Severity: SeverityInfo, Claim: c.ID, Message: msg + a.directionCaution(i, c)}, true
 }

@@ -14,6 +14,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/mediation"
 	"github.com/pathvet/pathvet/checks/render"
 )
 
@@ -43,6 +44,8 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	out := fs.String("out", "", "write the report to this file instead of standard output")
 	failUnder := fs.Int("fail-under", 0, "exit with status 1 when the score is below this")
 	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
+	resamples := fs.Int("resamples", mediation.DefaultResamples,
+		"bootstrap resamples of an indirect effect with raw rows ("+resamplesRange+")")
 	quiet := fs.Bool("quiet", false, "draw no progress line on standard error")
 	pos, code, ok := fs.parse(args)
 	switch {
@@ -57,8 +60,12 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	case *alpha <= 0 || *alpha >= 1:
 		fmt.Fprintln(stderr, "pathvet check: --alpha must lie strictly between 0 and 1")
 		return exitInvalid
+	case badResamples(*resamples):
+		fmt.Fprintln(stderr, "pathvet check: --resamples must be "+resamplesRange)
+		return exitInvalid
 	}
-	rep, code := screenFile(ctx, pos[0], *alpha, stderr, newProgressLine(stderr, *quiet))
+	opt := checks.Options{Alpha: *alpha, Resamples: *resamples}
+	rep, code := screenFile(ctx, pos[0], opt, stderr, newProgressLine(stderr, *quiet))
 	if rep == nil {
 		return code
 	}
@@ -78,7 +85,7 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 func screenFile(
 	ctx context.Context,
 	path string,
-	alpha float64,
+	opt checks.Options,
 	stderr io.Writer,
 	progress *progressLine,
 ) (*checks.Report, int) {
@@ -103,7 +110,8 @@ func screenFile(
 		fmt.Fprintln(stderr, "pathvet check:", err)
 		return nil, exitInternal
 	}
-	rep, err := checks.Run(ctx, study, checks.Options{Alpha: alpha, Progress: progress.callback()})
+	opt.Progress = progress.callback()
+	rep, err := checks.Run(ctx, study, opt)
 	progress.clear()
 	if err != nil {
 		fmt.Fprintln(stderr, "pathvet check:", err)
@@ -111,6 +119,16 @@ func screenFile(
 	}
 	return rep, exitOK
 }
+
+// The bounds of --resamples: enough resamples for the tails of a 95%
+// percentile interval, and a cost that stays within a job's deadline.
+const (
+	minResamples   = 200
+	maxResamples   = 100_000
+	resamplesRange = "from 200 to 100000"
+)
+
+func badResamples(n int) bool { return n < minResamples || n > maxResamples }
 
 // readBeside reads a data file named relative to the package's folder,
 // of at most limit bytes.

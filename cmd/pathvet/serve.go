@@ -45,7 +45,8 @@ func screenFunc(cfg Config) store.ScreenFunc {
 		if err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}
-		return checks.Run(ctx, s, checks.Options{Alpha: cfg.Alpha, Checks: cfg.checks, Progress: progress})
+		return checks.Run(ctx, s, checks.Options{Alpha: cfg.Alpha, Resamples: cfg.Resamples, Checks: cfg.checks,
+			Progress: progress})
 	}
 }
 
