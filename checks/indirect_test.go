@@ -262,3 +262,227 @@ func arcKey(arcs [][2]string) string {
 	slices.Sort(parts)
 	return strings.Join(parts, " ")
 }
+
+// pkgWith is tieredPackage with the variables' scales and n changed.
+func pkgWith(t *testing.T, vars []string, edges [][2]string, coef []float64, claims []obj, binary string,
+	n int) *checks.Study {
+	t.Helper()
+	s := tieredPackage(t, vars, edges, coef, nil, claims)
+	var doc obj
+	b, _ := json.Marshal(s.Package)
+	_ = json.Unmarshal(b, &doc)
+	for _, v := range doc["variables"].([]any) {
+		if v.(map[string]any)["name"] == binary {
+			v.(map[string]any)["scale"] = "binary"
+		}
+	}
+	d := doc["data"].(map[string]any)
+	d["n"] = n
+	lower := make([][]float64, len(vars))
+	for i := range vars {
+		for j := range i + 1 {
+			lower[i] = append(lower[i], s.Data.Cor.At(i, j))
+		}
+	}
+	d["correlations"] = lower
+	out, _ := json.Marshal(doc)
+	st, err := load.Load(out, load.Options{})
+	if err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	return st
+}
+
+func indirectClaim(id string, from, to string, through []string, extra obj) obj {
+	c := obj{"id": id, "text": "an indirect effect", "kind": "indirect_effect", "from": from, "to": to,
+		"through": through}
+	for k, v := range extra {
+		c[k] = v
+	}
+	return c
+}
+
+var triangle = struct {
+	vars  []string
+	edges [][2]string
+}{[]string{"x", "m", "y"}, [][2]string{{"x", "m"}, {"m", "y"}, {"x", "y"}}}
+
+// The mediator–outcome error correlation is given only where its closed
+// form holds, and each other case says why in the confounding check, as a
+// warning: two mediators, a binary mediator, a covariate the exposure
+// affects in the mediator's or the outcome's equation.
+func TestIndirect_RhoNotComputedSaysWhy(t *testing.T) {
+	cases := []struct {
+		name   string
+		s      *checks.Study
+		reason string
+	}{
+		{"two mediators", pkgWith(t, []string{"x", "m1", "m2", "y"},
+			[][2]string{{"x", "m1"}, {"m1", "m2"}, {"m2", "y"}, {"x", "y"}}, []float64{.5, .5, .5, .1},
+			[]obj{indirectClaim("M", "x", "y", []string{"m1", "m2"}, nil)}, "", 400),
+			"the closed form is for a claim through one mediator"},
+		{"binary mediator", pkgWith(t, triangle.vars, triangle.edges, []float64{.5, .4, .2},
+			[]obj{indirectClaim("M", "x", "y", []string{"m"}, nil)}, "m", 400),
+			"m is binary, and the closed form is for a continuous mediator and outcome"},
+		{"post-exposure covariate", pkgWith(t, []string{"x", "w", "m", "y"},
+			[][2]string{{"x", "w"}, {"w", "m"}, {"x", "m"}, {"m", "y"}, {"w", "y"}}, []float64{.5, .3, .4, .4, .2},
+			[]obj{indirectClaim("M", "x", "y", []string{"m"}, nil)}, "", 400),
+			"the equations of m and y hold w, which x affects, so the single-mediator model does not apply"},
+	}
+	for _, tc := range cases {
+		rep := mustRun(t, tc.s)
+		if mc := claimByID(rep, "M").MediatorConfounding; mc != nil {
+			t.Errorf("%s: mediator_confounding %+v", tc.name, mc)
+		}
+		c := checkByID(t, rep, "confounding-sensitivity")
+		if c.Status != checks.StatusWarn || !strings.Contains(findingsText(c), tc.reason) ||
+			!strings.Contains(c.Summary, "M has no figure for confounding of its mediator and outcome") {
+			t.Errorf("%s: %s, %q\n%s", tc.name, c.Status, c.Summary, findingsText(c))
+		}
+	}
+}
+
+// The proportion mediated is given only when the total effect is
+// significant with the indirect effect's sign, and is then indirect /
+// total; a total effect near zero (a direct effect against the indirect
+// one) or of the other sign is said instead.
+func TestIndirect_ProportionMediatedOnlyWithASignificantTotalOfTheSameSign(t *testing.T) {
+	cases := []struct {
+		name  string
+		coef  []float64 // x → m, m → y, x → y
+		given bool
+		says  string
+	}{
+		{"same sign", []float64{.5, .4, .2}, true, "of the total effect of x on y"},
+		{"total near zero", []float64{.5, .4, -.2}, false, "the total effect of x on y is not significant"},
+		{"other sign", []float64{.5, .4, -.6}, false, "significant with the other sign than the indirect effect"},
+	}
+	for _, tc := range cases {
+		s := pkgWith(t, triangle.vars, triangle.edges, tc.coef, []obj{indirectClaim("M", "x", "y", []string{"m"}, nil)},
+			"", 400)
+		rep := mustRun(t, s)
+		c := claimByID(rep, "M")
+		if (c.ProportionMediated != nil) != tc.given {
+			t.Errorf("%s: proportion %+v", tc.name, c.ProportionMediated)
+		}
+		if pm := c.ProportionMediated; pm != nil {
+			want := *c.Declared.Estimate / *pm.TotalEffect.Estimate
+			if !scalar.EqualWithinAbsOrRel(*pm.Proportion, want, 1e-8, 1e-8) {
+				t.Errorf("%s: proportion %v, indirect / total %v", tc.name, *pm.Proportion, want)
+			}
+		}
+		if text := findingsText(checkByID(t, rep, "effect-reporting")); !strings.Contains(text, tc.says) {
+			t.Errorf("%s: effect-reporting lacks %q:\n%s", tc.name, tc.says, text)
+		}
+	}
+}
+
+// A claim of no indirect effect is weighed by its intervals: an effect
+// found where the judging interval excludes zero, meaningful effects
+// excluded where the 90% interval lies within ±0.1, else the data do not
+// tell.
+func TestIndirect_AbsenceByIntervals(t *testing.T) {
+	cases := []struct {
+		name    string
+		coef    []float64
+		n       int
+		verdict string
+	}{
+		{"none", []float64{0, .3, .3}, 2000, "excludes_meaningful_effects"},
+		{"an effect", []float64{.5, .4, .2}, 400, "effect_found"},
+		{"too few cases", []float64{.25, .25, .2}, 40, "does_not_tell"},
+	}
+	for _, tc := range cases {
+		s := pkgWith(t, triangle.vars, triangle.edges, tc.coef,
+			[]obj{indirectClaim("M", "x", "y", []string{"m"}, obj{"asserts_absence": true})}, "", tc.n)
+		rep := mustRun(t, s)
+		at := claimByID(rep, "M").Absence
+		if at == nil || at.Verdict != tc.verdict || at.Distribution != checks.IntervalMonteCarlo || at.TOSTP != nil {
+			t.Errorf("%s: absence test %+v, want %s by the Monte Carlo interval", tc.name, at, tc.verdict)
+		}
+	}
+}
+
+// A reported p-value of an indirect effect gets the warning about
+// normal-theory tests (Preacher & Hayes 2008); an interval symmetric to
+// its printed digits gets it as a note; an asymmetric one gets nothing.
+func TestIndirect_SkewNote(t *testing.T) {
+	cases := []struct {
+		name     string
+		reported obj
+		severity string
+	}{
+		{"p-value", obj{"estimate": 0.2, "std_error": 0.04, "p_value": 0.001, "p_relation": "<"}, checks.StatusWarn},
+		{"symmetric", obj{"estimate": 0.2, "ci": []float64{0.12, 0.28}}, checks.SeverityInfo},
+		{"asymmetric", obj{"estimate": 0.21, "ci": []float64{0.14, 0.33}}, ""},
+	}
+	for _, tc := range cases {
+		s := pkgWith(t, triangle.vars, triangle.edges, []float64{.5, .4, .2},
+			[]obj{indirectClaim("M", "x", "y", []string{"m"}, tc.reported)}, "", 400)
+		sev := ""
+		for _, f := range checkByID(t, mustRun(t, s), "effect-reporting").Findings {
+			if strings.Contains(f.Message, "Preacher & Hayes 2008") {
+				sev = f.Severity
+			}
+		}
+		if sev != tc.severity {
+			t.Errorf("%s: note %q, want %q", tc.name, sev, tc.severity)
+		}
+	}
+}
+
+// Past the 2,000 members listed for re-estimation an indirect effect,
+// which needs whole graphs, is not re-estimated across the class, and the
+// equivalence check says so as a warning: here a complete graph on seven
+// variables, 5,040 members, every one plausible.
+func TestIndirect_NotComputedPastTheListingLimit(t *testing.T) {
+	vars := []string{"x", "m", "y", "a", "b", "c", "d"}
+	var edges [][2]string
+	var coef []float64
+	for i := range vars {
+		for j := i + 1; j < len(vars); j++ {
+			edges, coef = append(edges, [2]string{vars[i], vars[j]}), append(coef, 0.1+0.02*float64(j))
+		}
+	}
+	s := pkgWith(t, vars, edges, coef, []obj{indirectClaim("M", "x", "y", []string{"m"}, nil)}, "", 400)
+	rep := mustRun(t, s)
+	ae := claimByID(rep, "M").AcrossEquivalents
+	if ae == nil || !strings.Contains(ae.NotComputed, "the class has 5040 plausible members") || ae.Estimates != 0 {
+		t.Fatalf("across equivalents %+v", ae)
+	}
+	c := checkByID(t, rep, "equivalence")
+	if c.Status != checks.StatusWarn || !strings.Contains(findingsText(c),
+		"M could not be re-estimated across the equivalent graphs: the class has 5040 plausible members") {
+		t.Errorf("%s\n%s", c.Status, findingsText(c))
+	}
+}
+
+// Without a declared graph an indirect claim cannot be estimated (its
+// effect is a sum over a graph's paths), says so, and fails graph-declared
+// as every causal claim without a graph does.
+func TestIndirect_NoGraph(t *testing.T) {
+	s := tieredPackage(t, triangle.vars, triangle.edges, []float64{.5, .4, .2}, nil,
+		[]obj{indirectClaim("M", "x", "y", []string{"m"}, nil)})
+	s.Package.Graph, s.Declared, s.InGraph = nil, nil, nil
+	rep := mustRun(t, s)
+	if d := claimByID(rep, "M").Declared; d == nil || !strings.Contains(d.Error, "in no declared graph") {
+		t.Errorf("declared %+v", d)
+	}
+	if c := checkByID(t, rep, "graph-declared"); c.Status != checks.StatusFail {
+		t.Errorf("graph-declared %s", c.Status)
+	}
+}
+
+// Tiers that orient every arrow are said to leave no line open.
+func TestTiers_EveryArrowOriented(t *testing.T) {
+	s := tieredPackage(t, triangle.vars, triangle.edges, []float64{.5, .4, .2}, [][]string{{"x"}, {"m"}, {"y"}},
+		[]obj{mediationClaim})
+	rep := mustRun(t, s)
+	if text := findingsText(checkByID(t, rep, "equivalence")); !strings.Contains(text,
+		"it orients every arrow of the declared graph: no line is left open") {
+		t.Errorf("%s", text)
+	}
+	if ae := claimByID(rep, "M1").AcrossEquivalents; ae == nil || ae.Estimates != 1 || ae.Unstable {
+		t.Errorf("across equivalents %+v", ae)
+	}
+}

@@ -195,6 +195,10 @@ func eValueCell(c checks.ClaimReport) Cell {
 		return Cell{Lines: []Line{{Text: "no E-value for an indirect effect"},
 			{Text: "mediator–outcome error correlation that would explain it away: " + numPtr(mc.RhoAtZero, 2)}}}
 	}
+	if c.Kind == checks.KindIndirect && c.Absence == nil { // a claim of no effect has nothing to explain away
+		return Cell{Lines: []Line{{Text: "no E-value for an indirect effect"},
+			{Text: "no mediator–outcome figure (see confounding-sensitivity)"}}}
+	}
 	if e == nil {
 		return Cell{Lines: []Line{{Text: "not applicable"}}}
 	}

@@ -132,6 +132,7 @@ func TestBrowser_Workspace(t *testing.T) {
 	t.Run("Dashboard", func(t *testing.T) { checkDashboard(t, ctx, f) })
 	t.Run("Report", func(t *testing.T) { checkReport(t, ctx, f) })
 	t.Run("Letter", func(t *testing.T) { checkLetter(t, ctx, f) })
+	t.Run("Mediation", func(t *testing.T) { checkMediation(t, ctx, f) })
 	t.Run("Narrow", func(t *testing.T) { checkNarrow(t, ctx, f) })
 	t.Run("OtherOffice", func(t *testing.T) {
 		resp := value(t, ctx, chromedp.NavigateResponse(base+"/submissions/"+f.otherOffice.ID))
