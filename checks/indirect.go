@@ -195,7 +195,7 @@ func effectParents(pa parentsFunc, n, x, y int) [][]int {
 	from, into := reach(children, x), reach(all, y)
 	out := make([][]int, n)
 	for v := range n {
-		if v != x && from[v] && (into[v] || v == y) {
+		if v != x && from[v] && into[v] { // into[y] holds: reach marks its start
 			out[v] = all[v]
 		}
 	}
