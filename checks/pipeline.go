@@ -86,6 +86,8 @@ type Analysis struct {
 	across       []*AcrossEquivalents
 	acrossErr    []error
 	acrossDone   []bool
+	condChecked  *Moments // the moments condOK is about (wellConditioned)
+	condOK       bool
 	progress     func(stage string, done, total int)
 	// estimation is the study's estimator (estimator.go); ctx the run's
 	// context, for estimates started lazily.

@@ -91,10 +91,12 @@ func (db *DB) Versions(ctx context.Context, ids []string, sc service.Scope) (map
 }
 
 // BandCounts counts the scope's submissions by the band of their newest
-// report; those not yet screened count under "".
+// report; those without a report count under "failed" when their
+// screening failed, and under "" (not screened yet) otherwise.
 func (db *DB) BandCounts(ctx context.Context, sc service.Scope) (map[string]int, error) {
 	rows, err := db.Pool.Query(ctx, `
-		SELECT coalesce((SELECT band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1), ''), count(*)
+		SELECT coalesce((SELECT band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1),
+			CASE WHEN s.status = 'failed' THEN 'failed' ELSE '' END), count(*)
 		FROM submissions s WHERE`+scopeSQL+` GROUP BY 1`, sc.OfficeID, sc.Editor, sc.KeyID)
 	if err != nil {
 		return nil, dbError(err, "counts")
@@ -141,4 +143,20 @@ func (db *DB) RecentReports(ctx context.Context, sc service.Scope, since time.Ti
 		return out[:limit], true, dbError(rows.Err(), "reports")
 	}
 	return out, false, dbError(rows.Err(), "reports")
+}
+
+// SubmissionPackage returns the package a submission was sent with and the
+// data sent beside it as a multipart part (nil when the data were inline
+// or summary statistics), for a scope that may see it.
+func (db *DB) SubmissionPackage(ctx context.Context, id string, sc service.Scope) ([]byte, []byte, error) {
+	if !uuidRE.MatchString(id) {
+		return nil, nil, service.Errorf(service.ENotFound, "submission not found")
+	}
+	var pkg, data []byte
+	err := db.Pool.QueryRow(ctx, `SELECT s.package, s.data FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`,
+		sc.OfficeID, sc.Editor, sc.KeyID, id).Scan(&pkg, &data)
+	if err != nil {
+		return nil, nil, dbError(err, "submission")
+	}
+	return pkg, data, nil
 }

@@ -18,6 +18,14 @@ type Question struct {
 	Finding    string
 	Ask        string
 	Severity   string
+	// from is the finding it was made from: the check's id and the
+	// finding's place among the check's findings, worst first.
+	from questionSource
+}
+
+type questionSource struct {
+	check string
+	index int
 }
 
 // asks are the questions each check's findings raise.
@@ -50,7 +58,7 @@ const defaultAsk = "How do you respond to this point?"
 func Questions(r *checks.Report) []Question {
 	var qs []Question
 	for _, c := range ByConcern(r.Checks) {
-		for _, f := range c.Findings {
+		for i, f := range c.Findings {
 			if f.Severity != checks.StatusFail && f.Severity != checks.StatusWarn {
 				continue
 			}
@@ -59,7 +67,7 @@ func Questions(r *checks.Report) []Question {
 				ask = defaultAsk
 			}
 			qs = append(qs, Question{CheckTitle: c.Title, Claim: f.Claim,
-				Finding: Prose(f.Message), Ask: ask, Severity: f.Severity})
+				Finding: Prose(f.Message), Ask: ask, Severity: f.Severity, from: questionSource{c.ID, i}})
 		}
 	}
 	sort.SliceStable(qs, func(i, j int) bool { return rank(qs[i].Severity) > rank(qs[j].Severity) })
