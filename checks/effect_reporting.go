@@ -65,6 +65,8 @@ func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
 		"smallest_effect_of_interest": a.Study.SmallestEffect(),
 	}}
 	switch only, n := tooFewOnly(fs); {
+	case skewOnly(fs) != nil: // the only warnings are normal-theory tests of indirect effects
+		res.Summary = skewSummary(skewOnly(fs))
 	case only: // the declared warning speaks of reporting, which is not at fault
 		res.Summary = fmt.Sprintf(tooFewSummary, map[bool]string{true: "the claim", false: "the claims"}[n == 1])
 	case n > 0:

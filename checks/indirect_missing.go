@@ -178,7 +178,8 @@ func (g observedGraph) mlIndirect(c Claim, e est) est {
 
 // monteCarlo draws vech Σ* from N(vech s, v) and returns the interval of
 // θ(Σ*), leaving out draws that are not positive definite.
-func (f *covEffect) monteCarlo(g observedGraph, s, v *mat.SymDense, seed uint64, level float64) (*mediation.Interval, error) {
+func (f *covEffect) monteCarlo(g observedGraph, s, v *mat.SymDense, seed uint64,
+	level float64) (*mediation.Interval, error) {
 	var ch mat.Cholesky
 	if !ch.Factorize(v) {
 		return nil, errors.New("the covariance of the ML estimates is not positive definite")

@@ -183,7 +183,8 @@ func TestIndirect_PipelineAgainstReference(t *testing.T) {
 						t.Fatalf("%s %s: not judged by the bootstrap: %+v", rm.Name, def.Label, d.Significance)
 					}
 					tol := 0.35 * drawsSD(def.BootDraws)
-					if !scalar.EqualWithinAbs(d.CI[0], def.BootLo, tol) || !scalar.EqualWithinAbs(d.CI[1], def.BootHi, tol) {
+					if !scalar.EqualWithinAbs(d.CI[0], def.BootLo, tol) ||
+						!scalar.EqualWithinAbs(d.CI[1], def.BootHi, tol) {
 						t.Errorf("%s %s: bootstrap %v, reference [%v, %v] (tolerance %v)", rm.Name, def.Label,
 							d.CI, def.BootLo, def.BootHi, tol)
 					}

@@ -80,7 +80,36 @@ func skewFinding(c Claim, pr printed, decl est) *Finding {
 	if decl.ok() && decl.method != MethodZero {
 		re = decl.judgedText()
 	}
-	return &Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(skewFormat, c.ID, what, re)}
+	return &Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(skewFormat, c.ID, what, re),
+		Details: map[string]any{skewKey: true}}
+}
+
+// skewKey marks the findings about normal-theory tests of indirect
+// effects in their details.
+const skewKey = "normal_theory_indirect"
+
+// skewOnly lists the claims of the skew warnings when they are the only
+// warnings or failures among fs; nil otherwise.
+func skewOnly(fs []Finding) []string {
+	var ids []string
+	for _, f := range fs {
+		switch {
+		case f.Severity != StatusWarn && f.Severity != StatusFail:
+		case f.Details[skewKey] == true:
+			ids = append(ids, f.Claim)
+		default:
+			return nil
+		}
+	}
+	return ids
+}
+
+// skewSummary is effect-reporting's summary when its only warnings are
+// p-values reported for indirect effects.
+func skewSummary(ids []string) string {
+	return fmt.Sprintf("%s reported with a normal-theory p-value, which misjudges a product of coefficients "+
+		"(Preacher & Hayes 2008); otherwise the reported figures raise no question. See the findings.",
+		plural(len(ids), "The indirect effect "+ids[0]+" is", "The indirect effects "+joinAnd(ids)+" are"))
 }
 
 // symmetricCI reports whether a reported interval is symmetric about the

@@ -55,7 +55,8 @@ func tieredPackage(t *testing.T, vars []string, edges [][2]string, coef []float6
 		g["tiers"] = tiers
 	}
 	doc, _ := json.Marshal(obj{"format_version": 1, "title": "t", "design": "observational", "variables": vs,
-		"graph": g, "claims": claims, "data": obj{"kind": "summary", "n": 400, "variables": vars, "correlations": lower}})
+		"graph": g, "claims": claims,
+		"data": obj{"kind": "summary", "n": 400, "variables": vars, "correlations": lower}})
 	s, err := load.Load(doc, load.Options{})
 	if err != nil {
 		t.Fatalf("%v\n%s", err, doc)
@@ -420,13 +421,18 @@ func TestIndirect_SkewNote(t *testing.T) {
 		s := pkgWith(t, triangle.vars, triangle.edges, []float64{.5, .4, .2},
 			[]obj{indirectClaim("M", "x", "y", []string{"m"}, tc.reported)}, "", 400)
 		sev := ""
-		for _, f := range checkByID(t, mustRun(t, s), "effect-reporting").Findings {
+		er := checkByID(t, mustRun(t, s), "effect-reporting")
+		for _, f := range er.Findings {
 			if strings.Contains(f.Message, "Preacher & Hayes 2008") {
 				sev = f.Severity
 			}
 		}
 		if sev != tc.severity {
 			t.Errorf("%s: note %q, want %q", tc.name, sev, tc.severity)
+		}
+		if want := "The indirect effect M is reported with a normal-theory p-value"; (tc.severity == checks.StatusWarn) !=
+			strings.HasPrefix(er.Summary, want) {
+			t.Errorf("%s: summary %q", tc.name, er.Summary)
 		}
 	}
 }

@@ -2,10 +2,15 @@ package main
 
 import (
 	"context"
+	"encoding/json"
+	"net/http"
 	"strings"
 	"testing"
 
 	"github.com/chromedp/chromedp"
+
+	"github.com/pathvet/pathvet/api"
+	"github.com/pathvet/pathvet/checks"
 )
 
 // checkMediation: the three-wave demo, sent as it runs (after the
@@ -15,7 +20,9 @@ import (
 // about the reported p-value of an indirect effect.
 func checkMediation(t *testing.T, ctx context.Context, f *browserFixture) {
 	base := f.m.URL()
-	v := submitMultipart(t, apiClient{t, &base, f.editorToken}, "../../testdata/demo/mentoring-waves")
+	editor := apiClient{t, &base, f.editorToken}
+	v := submitMultipart(t, editor, "../../testdata/demo/mentoring-waves")
+	checkMediationJSON(t, editor, v)
 	do(t, ctx, chromedp.Navigate(base+"/submissions/"+v.ID))
 	labels := value(t, ctx, chromedp.Evaluate[string](
 		`[...document.querySelectorAll('svg#declared-graph text')].map(e => e.textContent).join("|")`))
@@ -37,5 +44,29 @@ func checkMediation(t *testing.T, ctx context.Context, f *browserFixture) {
 		if !strings.Contains(string(body), want) {
 			t.Errorf("the letter lacks %q", want)
 		}
+	}
+}
+
+// checkMediationJSON: the API's report carries the headline indirect
+// effect's intervals, the one that judges it, its mediator–outcome error
+// correlation and the tiers.
+func checkMediationJSON(t *testing.T, c apiClient, v api.SubmissionView) {
+	_, _, b := c.call(http.MethodGet, v.Links.Report, "", nil)
+	var r checks.Report
+	if err := json.Unmarshal(b, &r); err != nil {
+		t.Fatal(err)
+	}
+	for _, cl := range r.Claims {
+		if cl.ID != "W1" {
+			continue
+		}
+		d := cl.Declared
+		if d.Significance == nil || d.Significance.Method != checks.IntervalBootstrap || len(d.Intervals) != 3 ||
+			cl.MediatorConfounding == nil || cl.MediatorConfounding.RhoAtZero == nil {
+			t.Errorf("W1 over the API: %+v, %+v", d, cl.MediatorConfounding)
+		}
+	}
+	if r.Graph == nil || len(r.Graph.Tiers) != 3 {
+		t.Errorf("the API's report lacks the tiers: %+v", r.Graph)
 	}
 }
