@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"github.com/pathvet/pathvet/checks/dag"
 )
@@ -216,6 +217,9 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	how := "which the data cannot tell from it"
 	if !equivalent {
 		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", fitWord(delta), delta)
+	}
+	if e.method == MethodZero && c.Kind == KindIndirect { // say why, in words
+		how = "which has " + strings.TrimSuffix(e.zero, " in this graph") + " and " + how
 	}
 	sev := SeverityInfo
 	if challenges {

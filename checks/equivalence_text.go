@@ -15,7 +15,7 @@ import (
 // among equivalent graphs.
 func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) string {
 	ct := across.Contrast
-	other := contrastText(c, ct.Estimate)
+	other := closeAside(contrastText(c, ct.Estimate))
 	where := ""
 	switch {
 	case len(ct.ReversedArrows) > 0:
@@ -45,12 +45,12 @@ func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) st
 // contrastText writes the estimate of a claim in the graph that differs
 // most: its value with its p-value, or with the interval that judges an
 // indirect effect; or no effect, saying for an indirect effect that the
-// graph has no directed path through its mediators (a phrase closed by
-// a comma, as it stands before the graphs it holds in).
+// graph has no directed path through its mediators (a parenthetical
+// phrase: inside a sentence it needs the comma of closeAside after it).
 func contrastText(c Claim, e *Estimate) string {
 	switch {
 	case e.Method == MethodZero && c.Kind == KindIndirect:
-		return "zero, with " + strings.TrimSuffix(e.StructuralZero, " in this graph") + ","
+		return "zero, with " + strings.TrimSuffix(e.StructuralZero, " in this graph")
 	case e.Method == MethodZero || e.Estimate == nil:
 		return noEffect(claimScale(c))
 	case e.Significance != nil && len(e.Significance.CI) == 2:
@@ -62,6 +62,15 @@ func contrastText(c Claim, e *Estimate) string {
 		p = *e.PValue
 	}
 	return fmt.Sprintf("%s (%s)", estText(*e.Estimate), pText(p))
+}
+
+// closeAside ends with a comma a contrast that opens an aside ("zero,
+// with no directed path ..."), where more of the sentence follows.
+func closeAside(s string) string {
+	if strings.HasPrefix(s, "zero, with ") {
+		return s + ","
+	}
+	return s
 }
 
 // verb picks the singular or plural form for a count.

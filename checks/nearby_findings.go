@@ -156,10 +156,10 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 	switch {
 	case ae.Estimates == 1:
 		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in %s (%s)",
-			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+			cl.ID, valueText(decl), closeAside(other), graphs, deltaText(c.delta))
 	case ae.Differing == 1:
 		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)",
-			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+			cl.ID, valueText(decl), closeAside(other), graphs, deltaText(c.delta))
 	default:
 		fmt.Fprintf(&b, differsFormat,
 			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)
