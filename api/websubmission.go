@@ -130,7 +130,7 @@ func (s *Server) webLetter(c echo.Context) error {
 		return err
 	}
 	var out strings.Builder
-	if err := render.WriteLetter(&out, rep); err != nil {
+	if err := render.WriteLetter(&out, render.DefaultLetter(rep)); err != nil {
 		return err
 	}
 	h := c.Response().Header()

@@ -113,3 +113,15 @@ func slug(text string) string {
 func numberSlug(v float64) string {
 	return strings.NewReplacer(".", "p", "-", "m", "+", "").Replace(strconv.FormatFloat(v, 'g', -1, 64))
 }
+
+// EnsureKeys keys the findings of a report made before findings had keys
+// (a stored report of an earlier version): each check whose findings lack
+// one gets them keyed by check, claim and "unkeyed", counted in order.
+func EnsureKeys(r *Report) {
+	for i := range r.Checks {
+		fs := r.Checks[i].Findings
+		if len(fs) > 0 && fs[0].Key == "" {
+			keyFindings(r.Checks[i].ID, fs)
+		}
+	}
+}

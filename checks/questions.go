@@ -49,8 +49,8 @@ var questions = map[string]string{
 
 	"nearby-graphs/nearby": "Why do you prefer the declared graph to the graph one edit away under which " +
 		"this claim changes, and what beyond these data supports the arrows that edit concerns?",
-	"nearby-graphs/search": "What supports the arrows of the declared graph that the search's end point " +
-		"edits, and do the claims hold under that graph?",
+	"nearby-graphs/search": "What supports the declared graph's arrows that the search's graph changes, and do " +
+		"the claims hold under the search's graph?",
 	"nearby-graphs/unexamined": "Do the claims hold under the other graphs one edit away that fit the data " +
 		"about as well as the declared one?",
 	"nearby-graphs/unexamined-better": "Do the claims hold under the other graphs one edit away that fit the " +
@@ -95,7 +95,7 @@ var questions = map[string]string{
 	"effect-reporting/too-few-cases": "With so few cases the test of this claim can hardly detect even a " +
 		"large effect; what besides this test supports the claim?",
 	"effect-reporting/absence-contradicted": "The data show an effect where this claim says there is none; " +
-		"could you revise the claim, or say why an effect of this size is of no interest?",
+		"could you revise it, or say why an effect of this size is of no interest?",
 	"effect-reporting/absence-undecided": "Could you support this claim of no effect by an equivalence test " +
 		"against the smallest effect of interest, or word it as inconclusive?",
 	"effect-reporting/absence-untested": "Could you report the estimate with its interval, so that this " +

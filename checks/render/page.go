@@ -9,7 +9,7 @@ import (
 	"github.com/pathvet/pathvet/checks"
 )
 
-//go:embed page.html workspace.html
+//go:embed page.html workspace.html review.html
 var pageFiles embed.FS
 
 //go:embed style.css
@@ -35,7 +35,7 @@ type pageView struct {
 	Generated string
 	Design    string
 	Band      string
-	Questions []Question
+	Questions []ItemView
 	Claims    []ClaimRow
 	Graph     *GraphView
 	Nearby    []NearbyRow

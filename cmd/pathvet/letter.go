@@ -25,7 +25,7 @@ func printLetter(ctx context.Context, c *client, id string, stdout, stderr io.Wr
 		fmt.Fprintln(stderr, "pathvet report: the server's report does not decode:", err)
 		return exitInternal
 	}
-	if err := render.WriteLetter(stdout, &rep); err != nil {
+	if err := render.WriteLetter(stdout, render.DefaultLetter(&rep)); err != nil {
 		fmt.Fprintln(stderr, "pathvet report:", err)
 		return exitInternal
 	}
