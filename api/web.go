@@ -133,7 +133,7 @@ func statusNote(sub *service.Submission) string {
 	case sub.Status == service.StatusQueued && sub.Attempts > 0:
 		return fmt.Sprintf("waiting to retry after attempt %d", sub.Attempts)
 	case sub.Status == service.StatusFailed:
-		return sub.Error
+		return explainFailure(sub.Error).Short
 	}
 	return ""
 }
@@ -149,9 +149,13 @@ func progressOf(sub *service.Submission) *render.Progress {
 		AsOf: p.UpdatedAt.UTC().Format("15:04:05 UTC")}
 }
 
-// keyLabel names the key a submission was sent with.
+// keyLabel names the key a submission was sent with by its label; a key
+// without one by its number.
 func keyLabel(sub *service.Submission) string {
-	return "key " + strconv.FormatInt(sub.SubmitterKeyID, 10)
+	if l := strings.TrimSpace(sub.SubmittedBy); l != "" {
+		return l
+	}
+	return "key " + strconv.FormatInt(sub.SubmitterKeyID, 10) + " (no label)"
 }
 
 func (s *Server) fillCounts(c echo.Context, d *render.Dashboard) error {
@@ -162,7 +166,7 @@ func (s *Server) fillCounts(c echo.Context, d *render.Dashboard) error {
 	for _, b := range []string{checks.BandHigh, checks.BandModerate, checks.BandLow} {
 		d.Counts = append(d.Counts, render.BandCount{Band: b, Words: render.Words(b), N: counts[b]})
 	}
-	d.Unscreened = counts[""]
+	d.Unscreened, d.Unscreenable = counts[""], counts[service.StatusFailed]
 	return nil
 }
 

@@ -40,8 +40,14 @@ func (s *Server) webSubmission(c echo.Context) error {
 // workspace picks the report to show and gathers what the page adds to it.
 func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []service.ReportEntry) (
 	*checks.Report, render.Workspace, error) {
-	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Error: sub.Error,
-		Running: progressOf(sub)}
+	ws := render.Workspace{Nav: s.nav(c), ID: sub.ID, Status: sub.Status, Running: progressOf(sub)}
+	switch {
+	case sub.Status == service.StatusFailed:
+		ws.Error, ws.ErrorDetail = explainFailure(sub.Error).Sentence(), sub.Error
+	case sub.Error != "" && !service.Finished(sub.Status):
+		ws.Error, ws.ErrorDetail = "An earlier attempt did not finish. "+explainFailure(sub.Error).What+
+			" The queue tries it again.", sub.Error
+	}
 	shown, err := pickReport(hist, c.QueryParam("report"))
 	if err != nil {
 		return nil, ws, err
@@ -63,6 +69,9 @@ func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []servi
 func (s *Server) pending(c echo.Context, sub *service.Submission) error {
 	p := render.Pending{Nav: s.nav(c), ID: sub.ID, Title: sub.Title, Status: sub.Status, Running: progressOf(sub),
 		Note: statusNote(sub)}
+	if sub.Status == service.StatusFailed {
+		p.Note, p.Detail = explainFailure(sub.Error).Sentence(), sub.Error
+	}
 	return s.page(c, http.StatusOK, func(b *strings.Builder) error { return render.WritePending(b, p) })
 }
 

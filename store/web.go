@@ -91,10 +91,12 @@ func (db *DB) Versions(ctx context.Context, ids []string, sc service.Scope) (map
 }
 
 // BandCounts counts the scope's submissions by the band of their newest
-// report; those not yet screened count under "".
+// report; those without a report count under "failed" when their
+// screening failed, and under "" (not screened yet) otherwise.
 func (db *DB) BandCounts(ctx context.Context, sc service.Scope) (map[string]int, error) {
 	rows, err := db.Pool.Query(ctx, `
-		SELECT coalesce((SELECT band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1), ''), count(*)
+		SELECT coalesce((SELECT band FROM reports WHERE submission_id = s.id ORDER BY id DESC LIMIT 1),
+			CASE WHEN s.status = 'failed' THEN 'failed' ELSE '' END), count(*)
 		FROM submissions s WHERE`+scopeSQL+` GROUP BY 1`, sc.OfficeID, sc.Editor, sc.KeyID)
 	if err != nil {
 		return nil, dbError(err, "counts")

@@ -112,6 +112,9 @@ func TestWorkspaceQueries(t *testing.T) {
 	v2, _, _ := db.CreateSubmission(ctx, newSub(editor, "h2", ""))
 	saveReport(t, db, v1.ID, 40)
 	saveReport(t, db, v2.ID, 70)
+	if _, err := db.Rerun(ctx, v2.ID, editor.Scope()); err != nil { // a second report comes from a rerun
+		t.Fatal(err)
+	}
 	saveReport(t, db, v2.ID, 90)
 
 	hist, err := db.ReportHistory(ctx, v2.ID, editor.Scope())
@@ -150,5 +153,32 @@ func TestWorkspaceQueries(t *testing.T) {
 	}
 	if reps, _, _ := db.RecentReports(ctx, editor.Scope(), time.Now().Add(time.Hour), 10); len(reps) != 0 {
 		t.Fatalf("reports from the future: %d", len(reps))
+	}
+}
+
+// A submission whose screening failed without a report counts as failed,
+// not as "not screened yet" beside the queued one (issue 22.4); one that
+// failed after an earlier report counts under that report's band.
+func TestBandCounts_FailedApart(t *testing.T) {
+	db, _ := storetest.MustOpenDB(t)
+	editor, _ := mustKey(t, db, "Office F", service.RoleEditor)
+	queued, _, _ := db.CreateSubmission(ctx, newSub(editor, "q", ""))
+	failed, _, _ := db.CreateSubmission(ctx, newSub(editor, "f", ""))
+	rerun, _, _ := db.CreateSubmission(ctx, newSub(editor, "r", ""))
+	saveReport(t, db, rerun.ID, 90)
+	for _, id := range []string{failed.ID, rerun.ID} {
+		if err := db.MarkFailed(ctx, id, "attempt 1 of 1: context deadline exceeded"); err != nil {
+			t.Fatal(err)
+		}
+	}
+	counts, err := db.BandCounts(ctx, editor.Scope())
+	want := map[string]int{"": 1, service.StatusFailed: 1, checks.BandLow: 1}
+	if err != nil || len(counts) != len(want) {
+		t.Fatalf("counts %v (%v), want %v", counts, err, want)
+	}
+	for k, n := range want {
+		if counts[k] != n {
+			t.Errorf("counts[%q] = %d, want %d (all: %v; queued %s)", k, counts[k], n, counts, queued.ID)
+		}
 	}
 }

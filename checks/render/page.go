@@ -17,7 +17,8 @@ var styleCSS string
 
 var pageTmpl = template.Must(template.New("page").Funcs(template.FuncMap{
 	"css": CSS, "sub0": func(i int) int { return -i }, "words": Words, "head": head,
-	"list": func(s ...string) []string { return s }, "plural": plural,
+	"list": func(s ...string) []string { return s }, "plural": plural, "upper": upperFirst,
+	"screening": screening, "rankingHint": func() string { return rankingHint },
 }).ParseFS(pageFiles, "*.html"))
 
 // PageOptions are the parts of the workspace around a report; all are
@@ -40,7 +41,7 @@ type pageView struct {
 	Graph     *GraphView
 	Nearby    []NearbyRow
 	Charts    []chartView
-	Ledger    Ledger
+	Concern   Concern
 	Checks    []checkView
 }
 
@@ -51,19 +52,26 @@ type chartView struct {
 
 type checkView struct {
 	checks.CheckResult
-	StatusWords string
-	Findings    []findingView
+	Verdict  string
+	Findings []findingView
 }
 
+// findingView is a finding with the group it is shown in (fail, warn or
+// info) and the word it is led by.
 type findingView struct {
 	checks.Finding
-	SeverityWords string
+	Group, Lead string
+	Question    int // the question for the authors made from it, or 0
 }
 
-// WritePage writes the submission page of a report: the score, band and
-// caution first, the questions for the authors, the claims table, the
-// drawn graph, the stability charts, the score ledger and the checks in
-// detail; one self-contained HTML document (inline CSS and SVG, no
+// findingLead is the word before a finding on the page.
+var findingLead = map[string]string{checks.StatusFail: "failure", checks.StatusWarn: "warning",
+	checks.SeverityInfo: "note"}
+
+// WritePage writes the submission page of a report: the level of concern
+// in words with the ledger of what was taken off and the caution first,
+// the questions for the authors, the claims table, the drawn graph, the
+// stability charts and the checks in detail; one self-contained HTML document (inline CSS and SVG, no
 // script).
 func WritePage(w io.Writer, r *checks.Report, o PageOptions) error {
 	v, err := newPageView(r, o)
@@ -80,21 +88,36 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 	}
 	v := &pageView{R: r, Opts: o, Generated: r.GeneratedAt.UTC().Format("2 January 2006, 15:04 UTC"),
 		Design: Words(r.Design), Band: bandWords(r.Band), Questions: Questions(r), Claims: claimRows(r),
-		Graph: g, Nearby: nearbyRows(r.Graph), Ledger: ledger(r)}
+		Graph: g, Nearby: nearbyRows(r.Graph), Concern: concernOf(r)}
 	for _, c := range r.Claims {
 		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
 			SVG: StabilityChart(c, r.SignificanceLevel, r.Graph)})
 	}
-	for _, c := range ByConcern(r.Checks) {
+	v.Checks = checkViews(r.Checks, v.Questions)
+	return v, nil
+}
+
+// checkViews are the checks worst first, each finding with its group and
+// lead word and the number of the question made from it.
+func checkViews(cs []checks.CheckResult, qs []ItemView) []checkView {
+	asked := map[string]int{}
+	for _, q := range qs {
+		for _, k := range q.Keys {
+			asked[k] = q.N
+		}
+	}
+	var out []checkView
+	for _, c := range ByConcern(cs) {
 		c.Summary, c.RunError = Prose(c.Summary), Prose(c.RunError)
-		cv := checkView{CheckResult: c, StatusWords: statusWords(c.Status)}
+		cv := checkView{CheckResult: c, Verdict: verdict(c.Status)}
 		for _, f := range c.Findings {
 			f.Message = Prose(f.Message)
-			cv.Findings = append(cv.Findings, findingView{Finding: f, SeverityWords: statusWords(f.Severity)})
+			cv.Findings = append(cv.Findings, findingView{Finding: f, Group: findingGroup(f.Severity),
+				Lead: findingLead[findingGroup(f.Severity)], Question: asked[f.Key]})
 		}
-		v.Checks = append(v.Checks, cv)
+		out = append(out, cv)
 	}
-	return v, nil
+	return out
 }
 
 // shellView is a page of the workspace in the project's frame.

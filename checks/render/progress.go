@@ -54,7 +54,8 @@ type Pending struct {
 	Title   string
 	Status  string
 	Running *Progress // nil unless running and written
-	Note    string    // the attempt, or why it failed
+	Note    string    // the attempt, or why it failed in words and what to do
+	Detail  string    // what the server recorded of a failure, verbatim
 }
 
 // Refresh says whether the page reloads itself: while the screening may

@@ -41,10 +41,10 @@ func TestDashboardRunningRow(t *testing.T) {
 		not     []string
 	}{
 		{&Progress{Stage: "missing data: imputations", Done: 7, Total: 20, AsOf: "05:12:03 UTC"},
-			[]string{"running</span>: <span class=\"progress\">missing data: imputations, 7 of 20 done</span>",
+			[]string{"being screened</span>: <span class=\"progress\">missing data: imputations, 7 of 20 done</span>",
 				`<span class="bar" aria-hidden="true">[■■■□□□□□□□]</span>`, "(as of 05:12:03 UTC)",
 				"; attempt 1, since 05:10 UTC"}, nil},
-		{nil, []string{"running</span><span class=\"small\"> attempt 1, since 05:10 UTC"},
+		{nil, []string{"being screened</span><span class=\"small\">: attempt 1, since 05:10 UTC"},
 			[]string{"of 20 done", `class="bar"`, "as of"}},
 	} {
 		r := row
@@ -80,8 +80,10 @@ func TestPendingPage(t *testing.T) {
 		{Pending{Title: "T", Status: "running", Note: "attempt 2, since 05:10 UTC",
 			Running: &Progress{Stage: "checks (now: Fit)", Done: 3, Total: 12, AsOf: "05:11:00 UTC"}},
 			[]string{"checks (now: Fit), 3 of 12 done", "[■■□□□□□□□□]", "; attempt 2", "reloads itself"}, true},
-		{Pending{ID: "s-1", Title: "T", Status: "failed", Note: "the data do not parse"},
-			[]string{"; the data do not parse", "has no report.", `action="/submissions/s-1/rerun"`}, false},
+		{Pending{ID: "s-1", Title: "T", Status: "failed", Note: "The data do not parse.", Detail: "attempt 1 of 1: x"},
+			[]string{`<p class="failure">The data do not parse.</p>`, "could not be screened",
+				"What the server recorded: <code>attempt 1 of 1: x</code>", "has no report.",
+				`action="/submissions/s-1/rerun"`}, false},
 	} {
 		var b strings.Builder
 		if err := WritePending(&b, tc.p); err != nil {

@@ -26,7 +26,7 @@ type KindTally struct {
 // Recurring is what recurs across a set of reports.
 type Recurring struct {
 	Reports int
-	Checks  []CheckTally // most fails and warnings first
+	Checks  []CheckTally // most fails first, then most warnings
 	Kinds   []KindTally  // by kind
 }
 
@@ -62,8 +62,9 @@ func tallyChecks(byCheck map[string]*CheckTally, cs []checks.CheckResult) {
 	}
 }
 
-// sortTallies orders the checks by how often they failed or warned, the
-// kinds by name.
+// sortTallies orders the checks by how many reports they failed in, then
+// by how many they warned in (a check that failed once ranks above one
+// that only ever warned), then by id; the kinds by name.
 func sortTallies(n int, byCheck map[string]*CheckTally, byKind map[string]*KindTally) Recurring {
 	out := Recurring{Reports: n}
 	for _, t := range byCheck {
@@ -71,8 +72,11 @@ func sortTallies(n int, byCheck map[string]*CheckTally, byKind map[string]*KindT
 	}
 	sort.Slice(out.Checks, func(i, j int) bool {
 		a, b := out.Checks[i], out.Checks[j]
-		if a.Fail+a.Warn != b.Fail+b.Warn {
-			return a.Fail+a.Warn > b.Fail+b.Warn
+		switch {
+		case a.Fail != b.Fail:
+			return a.Fail > b.Fail
+		case a.Warn != b.Warn:
+			return a.Warn > b.Warn
 		}
 		return a.ID < b.ID
 	})

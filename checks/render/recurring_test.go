@@ -65,3 +65,37 @@ func TestChanges(t *testing.T) {
 		t.Errorf("a report against itself: %+v", same)
 	}
 }
+
+// TestTally_FailsRankFirst: a check that failed in one report ranks above
+// one that warned in all three, which ranks above one that warned in two
+// (issue 22.4: a warn-only check used to rank above failed ones by the
+// sum). The reports are made here, three of them, so the counts are
+// plain.
+func TestTally_FailsRankFirst(t *testing.T) {
+	report := func(statuses map[string]string) *checks.Report {
+		r := &checks.Report{}
+		for _, id := range []string{"alternatives", "causal-language", "equivalence"} {
+			r.Checks = append(r.Checks, checks.CheckResult{ID: id, Title: id, Status: statuses[id]})
+		}
+		return r
+	}
+	reps := []*checks.Report{
+		report(map[string]string{"alternatives": "warn", "causal-language": "warn", "equivalence": "fail"}),
+		report(map[string]string{"alternatives": "warn", "causal-language": "warn", "equivalence": "pass"}),
+		report(map[string]string{"alternatives": "pass", "causal-language": "warn", "equivalence": "pass"}),
+	}
+	var order []string
+	for _, c := range Tally(reps).Checks {
+		order = append(order, c.ID)
+	}
+	if strings.Join(order, " ") != "equivalence causal-language alternatives" {
+		t.Errorf("ranked %v, want the failed check first, then by warnings", order)
+	}
+	var b strings.Builder
+	if err := WriteDashboard(&b, Dashboard{Nav: Nav{Office: "O", Role: "editor"}, Recurring: Tally(reps)}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), rankingHint) {
+		t.Error("the dashboard does not say how the checks are ranked")
+	}
+}

@@ -14,33 +14,24 @@ import (
 const TextWidth = 100
 
 // WriteText writes the report as plain text for a terminal or an e-mail:
-// the score and band first, then one block per check, worst first.
+// the level of concern in words and what was taken off first, then one
+// block per check, worst first, each headed by the check's title and its
+// verdict in words, its findings grouped under what fails, what warns and
+// the notes.
 func WriteText(w io.Writer, r *checks.Report) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Score %d/100: %s\n", r.Score, r.Band)
-	if r.ScoreCap != nil {
-		wrap(&b, "", r.ScoreCap.Reason)
-	}
+	c := concernOf(r)
+	fmt.Fprintf(&b, "pathvet screening report: %s\n", c.Level)
 	wrap(&b, "", r.Title)
 	if r.ManuscriptID != "" {
 		fmt.Fprintf(&b, "Manuscript %s. ", r.ManuscriptID)
 	}
-	fmt.Fprintf(&b, "Design: %s. Significance level %g. pathvet %s.\n", r.Design, r.SignificanceLevel, r.ToolVersion)
+	fmt.Fprintf(&b, "Design: %s. Significance level %g. pathvet %s.\n", Words(r.Design), r.SignificanceLevel,
+		r.ToolVersion)
 	wrap(&b, "", r.Caution)
-	for _, c := range ByConcern(r.Checks) {
-		b.WriteString("\n")
-		head := fmt.Sprintf("%-4s  %s (%s)", statusLabel(c.Status), c.Title, c.ID)
-		if c.Deduction > 0 {
-			head += fmt.Sprintf("  -%d", c.Deduction)
-		}
-		b.WriteString(head + "\n")
-		wrap(&b, "      ", c.Summary)
-		if c.RunError != "" {
-			wrap(&b, "      ", "Reason: "+c.RunError)
-		}
-		for _, f := range c.Findings {
-			wrapHanging(&b, "      ", fmt.Sprintf("- %s: ", statusLabel(f.Severity)), f.Message)
-		}
+	writeConcern(&b, c)
+	for _, ch := range ByConcern(r.Checks) {
+		writeCheck(&b, ch)
 	}
 	writeNearby(&b, r.Graph)
 	b.WriteString("\nPackage sha256 " + r.PackageSHA256 + "\n")
@@ -48,12 +39,83 @@ func WriteText(w io.Writer, r *checks.Report) error {
 	return err
 }
 
-func statusLabel(s string) string {
-	switch s {
-	case checks.StatusNotApplicable:
-		return "n/a"
+// writeConcern writes the concern in words and the ledger: each check
+// that took something off, the points first, and the sum.
+func writeConcern(b *strings.Builder, c Concern) {
+	b.WriteString("\n")
+	wrap(b, "", strings.Join(nonEmpty(upperFirst(c.Level)+".", c.Gist, c.Capped, c.Headline, c.Unfinished, c.Rest), " "))
+	if len(c.Lines) == 0 {
+		return
 	}
-	return strings.ToUpper(s)
+	b.WriteString("\nPoints taken off, by check:\n")
+	width := len(fmt.Sprint(c.Off))
+	for _, l := range c.Lines {
+		wrapHanging(b, "  ", fmt.Sprintf("%*d  ", width, l.Off), l.Title+" ("+l.Verdict+")")
+	}
+	fmt.Fprintf(b, "  %*d  in all\n", width, c.Off)
+	wrap(b, "", c.Scale)
+}
+
+// findingGroups are the headings the text view gathers findings under.
+var findingGroups = []struct{ severity, heading string }{
+	{checks.StatusFail, "Failures:"}, {checks.StatusWarn, "Warnings:"}, {checks.SeverityInfo, "Notes:"},
+}
+
+// findingGroup is the group a finding's severity falls in: a severity
+// other than fail or warn is a note.
+func findingGroup(severity string) string {
+	if severity == checks.StatusFail || severity == checks.StatusWarn {
+		return severity
+	}
+	return checks.SeverityInfo
+}
+
+// writeCheck writes one check: its title and verdict, its summary, why it
+// could not finish, and its findings by severity.
+func writeCheck(b *strings.Builder, c checks.CheckResult) {
+	b.WriteString("\n")
+	head := fmt.Sprintf("%s (%s): %s", c.Title, c.ID, verdict(c.Status))
+	if c.Deduction > 0 {
+		head += fmt.Sprintf(", %s taken off", plural(c.Deduction, "point", "points"))
+	}
+	wrap(b, "", head)
+	wrap(b, "    ", c.Summary)
+	if c.RunError != "" {
+		wrap(b, "    ", "It could not run to the end: "+c.RunError)
+	}
+	for _, g := range findingGroups {
+		first := true
+		for _, f := range c.Findings {
+			if findingGroup(f.Severity) != g.severity {
+				continue
+			}
+			if first {
+				wrap(b, "    ", g.heading)
+				first = false
+			}
+			wrapHanging(b, "      ", "· ", f.Message)
+		}
+	}
+}
+
+// nonEmpty drops the empty strings.
+func nonEmpty(s ...string) []string {
+	var out []string
+	for _, x := range s {
+		if x != "" {
+			out = append(out, x)
+		}
+	}
+	return out
+}
+
+// upperFirst capitalises the first letter.
+func upperFirst(s string) string {
+	if s == "" {
+		return s
+	}
+	r := []rune(s)
+	return strings.ToUpper(string(r[0])) + string(r[1:])
 }
 
 // ByConcern returns the checks worst first (fail, warn, pass, not

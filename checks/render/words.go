@@ -5,8 +5,6 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
-
-	"github.com/pathvet/pathvet/checks"
 )
 
 // Minus is the one minus sign the pages print (U+2212).
@@ -66,14 +64,6 @@ func pText(p *float64, rel string) string {
 
 // bandWords is a band as words ("high concern").
 func bandWords(band string) string { return Words(band) }
-
-// statusWords is a status or severity as a word.
-func statusWords(s string) string {
-	if s == checks.StatusNotApplicable {
-		return "not applicable"
-	}
-	return Words(s)
-}
 
 // minusBeforeDigit finds an ASCII hyphen used as a minus sign: at the
 // start or after a space or bracket, before a digit or a decimal point.

@@ -33,6 +33,14 @@ type Row struct {
 	Running                                     *Progress // nil unless running and written
 }
 
+// Off is the points the newest report took off, in words.
+func (r Row) Off() string {
+	if r.Score == nil {
+		return ""
+	}
+	return offWords(*r.Score)
+}
+
 // Group is the listed versions of one manuscript (or one submission
 // without a manuscript ID).
 type Group struct {
@@ -57,12 +65,14 @@ type Dashboard struct {
 	Filter     Filter
 	Groups     []Group
 	Counts     []BandCount
-	Unscreened int
-	Recurring  Recurring
-	Truncated  bool // the recurring findings cover only the newest reports
-	Periods    []string
-	Next       string // the URL of the next page, or ""
-	Refresh    bool   // some listed submission is queued or running
+	Unscreened int // submissions queued or running without a report yet
+	// Unscreenable: submissions whose screening failed without any report.
+	Unscreenable int
+	Recurring    Recurring
+	Truncated    bool // the recurring findings cover only the newest reports
+	Periods      []string
+	Next         string // the URL of the next page, or ""
+	Refresh      bool   // some listed submission is queued or running
 }
 
 // HistoryEntry is one earlier report of a submission.
@@ -74,15 +84,48 @@ type HistoryEntry struct {
 	Current          bool
 }
 
+// Off is the points the report took off, in words.
+func (h HistoryEntry) Off() string { return offWords(h.Score) }
+
+// offWords is the points a score leaves taken off: "35 points off"; a
+// score of 0 may hide more than 100.
+func offWords(score int) string {
+	switch {
+	case score >= 100:
+		return "nothing off"
+	case score <= 0:
+		return "100 or more points off"
+	}
+	return plural(100-score, "point", "points") + " off"
+}
+
+// screeningWords are a submission's statuses in words.
+var screeningWords = map[string]string{"queued": "waiting in the queue", "running": "being screened",
+	"done": "screened", "failed": "could not be screened"}
+
+// screening is a submission's status in words.
+func screening(status string) string {
+	if w, ok := screeningWords[status]; ok {
+		return w
+	}
+	return Words(status)
+}
+
+// rankingHint says how the dashboard ranks the checks that recur.
+const rankingHint = "Ranked by the number of reports in which the check failed, " +
+	"then by the number in which it warned."
+
 // Workspace is what a submission page adds to its report.
 type Workspace struct {
-	Nav      Nav
-	ID       string
-	Status   string
-	Error    string
-	Running  *Progress // nil unless a new screening runs and has written how far it is
-	History  []HistoryEntry
-	Previous *Previous
+	Nav    Nav
+	ID     string
+	Status string
+	Error  string // why the newest screening failed, in words, with what to do
+	// ErrorDetail is what the server recorded of that failure, verbatim.
+	ErrorDetail string
+	Running     *Progress // nil unless a new screening runs and has written how far it is
+	History     []HistoryEntry
+	Previous    *Previous
 	// Earlier says which earlier report the page shows ("" for the newest).
 	Earlier string
 }

@@ -13,18 +13,24 @@ import (
 func checkDashboard(t *testing.T, ctx context.Context, f *browserFixture) {
 	mustContain(t, ctx, "h1", "Office of Invented Studies")
 	rows := value(t, ctx, chromedp.Evaluate[[]string](
-		`[...document.querySelectorAll('table.submissions tbody tr:not(.grouphead) td:first-child a')].map(a => a.getAttribute('href'))`,
+		`[...document.querySelectorAll('table.submissions tbody tr:not(.grouphead) td:first-child > div > a')].map(a => a.getAttribute('href'))`,
 	))
-	want := []string{"/submissions/" + f.v2.ID, "/submissions/" + f.tutoring.ID, "/submissions/" + f.club.ID}
+	want := []string{"/submissions/" + f.sleep.ID, "/submissions/" + f.v2.ID, "/submissions/" + f.tutoring.ID,
+		"/submissions/" + f.club.ID}
 	if strings.Join(rows, " ") != strings.Join(want, " ") {
 		t.Errorf("dashboard rows %v, want %v (the versions grouped under the newest)", rows, want)
 	}
 	mustContain(t, ctx, "table.submissions", "version 2 of 2")
 	mustContain(t, ctx, "table.submissions", "2 versions listed")
+	labels := value(t, ctx, chromedp.Evaluate[[]string](
+		`[...document.querySelectorAll('td[data-label="Sent with the key"]')].map(td => td.textContent)`))
+	if len(labels) != 4 || strings.Join(labels, "") != strings.Repeat(editorLabel, 4) {
+		t.Errorf("the key column says %q, want the key's label %q in each row", labels, editorLabel)
+	}
 	if value(t, ctx, chromedp.Evaluate[bool](`document.body.innerText.includes('Another office')`)) {
 		t.Error("the dashboard shows another office")
 	}
-	mustContain(t, ctx, "#recur-h + form + p", "3 screened submissions")
+	mustContain(t, ctx, "#recur-h + form + p", "4 screened submissions")
 	checkCSP(t, ctx, "dashboard")
 	screenshot(t, ctx, "dashboard-1280.png")
 }
@@ -54,9 +60,10 @@ func checkReport(t *testing.T, ctx context.Context, f *browserFixture) {
 	}
 	mustContain(t, ctx, "#history", "Since the previous version")
 	mustContain(t, ctx, ".caution", "not a verdict")
-	checkCSP(t, ctx, "submission page")
 	checkDrawingText(t, ctx, "submission at 1280 px", false)
+	checkCSP(t, ctx, "submission page")
 	screenshot(t, ctx, "submission-1280.png")
+	viewShot(t, ctx, ".masthead", "concern-1280.png")
 	viewShot(t, ctx, "#claims", "claims-and-graph-1280.png")
 }
 
@@ -98,10 +105,11 @@ func checkNarrow(t *testing.T, ctx context.Context, f *browserFixture) {
 		if over > 0 {
 			t.Errorf("%s at 390 px scrolls sideways by %d px", path, over)
 		}
-		checkCSP(t, ctx, path+" at 390 px")
 		if path != "/" {
 			checkDrawingText(t, ctx, path+" at 390 px", true)
 		}
+		checkStackedLabels(t, ctx, path+" at 390 px")
+		checkCSP(t, ctx, path+" at 390 px")
 		switch path {
 		case "/submissions/" + f.club.ID:
 			screenshot(t, ctx, "submission-390.png")
@@ -147,4 +155,38 @@ func checkSignOut(t *testing.T, ctx context.Context, f *browserFixture) {
 	}
 	do(t, ctx, chromedp.Navigate(f.m.URL()+"/submissions/"+f.club.ID))
 	mustSignInPage(t, ctx)
+}
+
+// stackedLabels measures, at a narrow width, each stacked table cell: the
+// right edge of its label (the ::before column) and the left edge of the
+// leftmost box of its value, with what the cell says.
+const stackedLabels = `[...document.querySelectorAll('table.stack td[data-label]')].map(td => {
+  const cell = td.getBoundingClientRect(), lab = getComputedStyle(td, '::before');
+  const r = document.createRange(); r.selectNodeContents(td);
+  const boxes = [...r.getClientRects()].filter(b => b.width > 0);
+  return {label: td.dataset.label, text: td.textContent.trim().slice(0, 40),
+    labelRight: cell.left + parseFloat(getComputedStyle(td).paddingLeft) + parseFloat(lab.width),
+    valueLeft: boxes.length ? Math.min(...boxes.map(b => b.left)) : 1e9, grid: getComputedStyle(td).display};
+})`
+
+type stackedCell struct {
+	Label, Text, Grid     string
+	LabelRight, ValueLeft float64
+}
+
+// checkStackedLabels: at 390 px every stacked cell sets its label in a
+// column of its own, left of its value, so that no label runs into its
+// value (issue 22.4); a value may wrap, but only inside its column.
+func checkStackedLabels(t *testing.T, ctx context.Context, where string) {
+	t.Helper()
+	cells := value(t, ctx, chromedp.Evaluate[[]stackedCell](stackedLabels))
+	for _, c := range cells {
+		if c.Grid != "grid" || c.ValueLeft < c.LabelRight {
+			t.Errorf("%s: the label %q (right edge %.1f) runs into its value %q (left edge %.1f)", where, c.Label,
+				c.LabelRight, c.Text, c.ValueLeft)
+		}
+	}
+	if strings.HasSuffix(where, "/ at 390 px") && len(cells) == 0 {
+		t.Errorf("%s: no stacked cells measured", where)
+	}
 }

@@ -83,25 +83,39 @@ func secondVersion(t *testing.T) []byte {
 }
 
 type browserFixture struct {
-	m                  *Main
-	editorToken        string
-	tutoring, v2, club api.SubmissionView
-	otherOffice        api.SubmissionView
-	tutoringReport     checks.Report
+	m                         *Main
+	editorToken               string
+	tutoring, v2, club, sleep api.SubmissionView
+	otherOffice               api.SubmissionView
+	tutoringReport            checks.Report
 }
+
+// editorLabel is the label of the fixture's editor key, which the
+// dashboard shows beside each submission it sent.
+const editorLabel = "Demo editor"
 
 func newBrowserFixture(t *testing.T) *browserFixture {
 	db, url := storetest.MustOpenDB(t)
 	f := &browserFixture{m: startMain(t, url)}
 	t.Cleanup(func() { _ = f.m.Close() })
 	base := f.m.URL()
-	f.editorToken = mustKeyToken(t, db, "Office of Invented Studies", service.RoleEditor)
+	const office = "Office of Invented Studies"
+	if _, err := db.CreateOffice(context.Background(), office); err != nil {
+		t.Fatal(err)
+	}
+	token, _, err := db.CreateKey(context.Background(), service.NewKey{Office: office, Role: service.RoleEditor,
+		Label: editorLabel})
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.editorToken = token
 	editor := apiClient{t, &base, f.editorToken}
 	other := apiClient{t, &base, mustKeyToken(t, db, "Another office", service.RoleEditor)}
 	tutoring := readFile(t, "../../testdata/demo/tutoring-anxiety/package.json")
 	f.tutoring = mustSubmit(t, editor, "application/json", tutoring)
 	f.club = submitMultipart(t, editor, "../../testdata/demo/coding-club")
 	f.v2 = mustSubmit(t, editor, "application/json", secondVersion(t))
+	f.sleep = submitMultipart(t, editor, "../../testdata/demo/sleep-attention")
 	f.otherOffice = mustSubmit(t, other, "application/json", tutoring)
 	_, _, b := editor.call(http.MethodGet, f.v2.Links.Report, "", nil)
 	if err := json.Unmarshal(b, &f.tutoringReport); err != nil {
@@ -133,6 +147,7 @@ func TestBrowser_Workspace(t *testing.T) {
 	t.Run("Report", func(t *testing.T) { checkReport(t, ctx, f) })
 	t.Run("Letter", func(t *testing.T) { checkLetter(t, ctx, f) })
 	t.Run("Narrow", func(t *testing.T) { checkNarrow(t, ctx, f) })
+	t.Run("Print", func(t *testing.T) { checkWorkspacePrint(t, ctx, f) })
 	t.Run("OtherOffice", func(t *testing.T) {
 		resp := value(t, ctx, chromedp.NavigateResponse(base+"/submissions/"+f.otherOffice.ID))
 		if resp.Status != http.StatusNotFound {

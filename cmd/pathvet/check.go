@@ -41,13 +41,22 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	fs := newCommand("check", checkUsage, stdout, stderr)
 	format := fs.String("format", "text", "report format: text, json or html (one self-contained page)")
 	out := fs.String("out", "", "write the report to this file instead of standard output")
-	failUnder := fs.Int("fail-under", 0, "exit with status 1 when the score is below this")
+	allowOff := fs.Int("allow-points-off", 100,
+		"exit with status 1 when more than this many of the 100 points are taken off (0 to 100)")
 	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
 	quiet := fs.Bool("quiet", false, "draw no progress line on standard error")
+	if renamed := renamedFlag(args); renamed != "" {
+		fmt.Fprintln(stderr, "pathvet check: "+renamed)
+		return exitInvalid
+	}
 	pos, code, ok := fs.parse(args)
 	switch {
 	case !ok:
 		return code
+	case *allowOff < 0 || *allowOff > 100:
+		fmt.Fprintf(stderr, "pathvet check: --allow-points-off is a number of points from 0 to 100, not %d\n",
+			*allowOff)
+		return exitInvalid
 	case len(pos) != 1:
 		fmt.Fprintln(stderr, "pathvet check: give exactly one package file")
 		return exitInvalid
@@ -66,10 +75,31 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		fmt.Fprintln(stderr, "pathvet check:", err)
 		return exitInternal
 	}
-	if rep.Score < *failUnder {
-		return exitBelow
+	if 100-rep.Score > *allowOff {
+		return exitConcern
 	}
 	return exitOK
+}
+
+// failUnderRenamed is what check says when the old threshold option is
+// given: its new name, and how to turn an old threshold into the new one.
+const failUnderRenamed = "--fail-under is gone: use --allow-points-off N, which exits with status 1 " +
+	"when more than N of the 100 points are taken off (--fail-under S was --allow-points-off 100−S, " +
+	"for instance --fail-under 80 is --allow-points-off 20)"
+
+// renamedFlag returns the message for an option that was renamed, or ""
+// when args use none; it reads the flags before a "--".
+func renamedFlag(args []string) string {
+	for _, a := range args {
+		if a == "--" {
+			break
+		}
+		name, _, _ := strings.Cut(strings.TrimLeft(a, "-"), "=")
+		if strings.HasPrefix(a, "-") && name == "fail-under" {
+			return failUnderRenamed
+		}
+	}
+	return ""
 }
 
 // screenFile loads the package at path and runs the pipeline on it. On

@@ -27,7 +27,8 @@ func TestCheck_Demos(t *testing.T) {
 			t.Fatalf("%s: exit %d, stderr %q", p, code, errOut)
 		}
 		first := strings.SplitN(out, "\n", 2)[0]
-		if !strings.HasPrefix(first, "Score ") || !strings.Contains(out, "not a verdict") {
+		if !strings.HasPrefix(first, "pathvet screening report: ") || !strings.HasSuffix(first, " concern") ||
+			!strings.Contains(out, "not a verdict") {
 			t.Errorf("%s: text report starts %q", p, first)
 		}
 		for i, line := range strings.Split(out, "\n") {
@@ -43,13 +44,27 @@ func TestCheck_Demos(t *testing.T) {
 	}
 }
 
-func TestCheck_FailUnderAndOut(t *testing.T) {
-	pkg := "../../testdata/demo/tutoring-anxiety/package.json" // scores below 100
-	if code, _, _ := runCLI("check", "--fail-under", "101", pkg); code != exitBelow {
-		t.Fatalf("--fail-under 101: exit %d, want %d", code, exitBelow)
+// --allow-points-off N exits 1 when more than N points are taken off: the
+// tutoring demo loses 75 (its golden report), so 74 is exceeded and 75 is
+// not. The old --fail-under is refused with its new name, in every
+// spelling a flag can have.
+func TestCheck_AllowPointsOffAndOut(t *testing.T) {
+	pkg := "../../testdata/demo/tutoring-anxiety/package.json" // 75 points taken off
+	if code, _, _ := runCLI("check", "--allow-points-off", "74", pkg); code != exitConcern {
+		t.Fatalf("--allow-points-off 74: exit %d, want %d", code, exitConcern)
 	}
-	if code, _, _ := runCLI("check", pkg, "--fail-under", "0"); code != exitOK {
-		t.Fatalf("flag after the package: exit %d", code)
+	if code, _, _ := runCLI("check", pkg, "--allow-points-off", "75"); code != exitOK {
+		t.Fatalf("--allow-points-off 75, after the package: exit %d", code)
+	}
+	for _, args := range [][]string{{"--fail-under", "80", pkg}, {pkg, "-fail-under=80"}, {"--fail-under"}} {
+		code, _, errOut := runCLI(append([]string{"check"}, args...)...)
+		if code != exitInvalid || !strings.Contains(errOut, "--allow-points-off 20") {
+			t.Errorf("%v: exit %d, stderr %q; want 2 and the new name", args, code, errOut)
+		}
+	}
+	if code, _, errOut := runCLI("check", "--allow-points-off", "101", pkg); code != exitInvalid ||
+		!strings.Contains(errOut, "from 0 to 100") {
+		t.Errorf("--allow-points-off 101: exit %d, %q", code, errOut)
 	}
 	out := filepath.Join(t.TempDir(), "r.json")
 	if code, stdout, _ := runCLI("check", "--format", "json", "--out", out, pkg); code != exitOK || stdout != "" {

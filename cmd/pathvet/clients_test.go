@@ -50,7 +50,8 @@ func TestCommands_KeysSubmitReport(t *testing.T) {
 	defer func() { getenv = old }()
 
 	code, out, errOut = runCLI("submit", "--server", m.URL(), "--wait", "../../testdata/demo/coding-club/package.json")
-	if code != exitOK || !strings.HasPrefix(out, "Score ") || !strings.Contains(errOut, "submitted ") {
+	if code != exitOK || !strings.HasPrefix(out, "pathvet screening report: ") ||
+		!strings.Contains(errOut, "submitted ") {
 		t.Fatalf("submit --wait: %d %q %q", code, out, errOut)
 	}
 	id := strings.Fields(strings.TrimPrefix(errOut, "submitted "))[0]

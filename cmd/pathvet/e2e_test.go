@@ -162,13 +162,13 @@ func TestServer_EndToEnd(t *testing.T) {
 			t.Fatalf("report: %d %.200s", code, b)
 		}
 		if code, _, b := submitter.call(http.MethodGet, sub.Links.Report+"?format=text", "", nil); code != 200 ||
-			!bytes.HasPrefix(b, []byte("Score ")) {
+			!bytes.HasPrefix(b, []byte("pathvet screening report: ")) {
 			t.Fatalf("text report: %d %.100s", code, b)
 		}
 		code, hdr, b = submitter.call(http.MethodGet, sub.Links.Report+"?format=html", "", nil)
 		if code != 200 || !strings.HasPrefix(hdr.Get("Content-Type"), "text/html") ||
 			!bytes.Contains(b, []byte("not a verdict")) ||
-			!bytes.Contains(b, []byte("Score ")) {
+			!bytes.Contains(b, []byte("Points taken off, by check")) {
 			t.Fatalf("html report: %d %.200s", code, b)
 		}
 		if code, _, _ := submitter.call(http.MethodGet, sub.Links.Report+"?format=pdf", "", nil); code != 400 {

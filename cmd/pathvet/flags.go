@@ -81,14 +81,14 @@ func (c *command) databaseURLFlag() func() string {
 }
 
 // checkUsage is the usage of `pathvet check`, with every exit status.
-const checkUsage = `Usage: pathvet check [--format text|json|html] [--out FILE] [--fail-under N] [--alpha A]
+const checkUsage = `Usage: pathvet check [--format text|json|html] [--out FILE] [--allow-points-off N] [--alpha A]
        [--quiet] PACKAGE.json
 
 Screens a submission package offline and prints its report. A data file
 named in data.file is read relative to the package file.
 
 Exit status:
-  0  a report was made
-  1  the score is below --fail-under
+  0  a report was made (and no more points were taken off than --allow-points-off allows)
+  1  more of the 100 points were taken off than --allow-points-off allows
   2  the package is invalid (every problem on standard error), or the command line is wrong
   3  anything else went wrong`

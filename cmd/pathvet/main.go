@@ -15,14 +15,14 @@ import (
 // Exit codes.
 const (
 	exitOK        = 0
-	exitBelow     = 1 // the score is below --fail-under
+	exitConcern   = 1 // more points were taken off than --allow-points-off allows
 	exitInvalid   = 2 // the package is invalid, or the command line is wrong
 	exitInternal  = 3 // anything else went wrong
 	usageOverview = `pathvet screens the statistics of path-model submissions.
 
 Usage:
   pathvet init (--data ROWS.csv | --summary TABLE.csv) [--out PACKAGE.json] [--force]
-  pathvet check [--format text|json] [--out FILE] [--fail-under N] [--alpha A] [--quiet] PACKAGE.json
+  pathvet check [--format text|json|html] [--out FILE] [--allow-points-off N] [--alpha A] [--quiet] PACKAGE.json
   pathvet serve [--addr HOST:PORT] [--database-url URL] [--workers N] [--migrate] [flags]
   pathvet work [--database-url URL] [--workers N] [flags]
   pathvet migrate up|status [--database-url URL]

@@ -44,7 +44,7 @@ func TestWeb_ProgressWhileRunning(t *testing.T) {
 	words := html.EscapeString(fmt.Sprintf("checks (now: %s), 0 of %d done", cs[0].Title, len(cs)))
 	for _, path := range []string{"/", "/submissions/" + sub.ID} {
 		code, page := w.get(path)
-		for _, want := range []string{">running</span>: ", words, "[□□□□□□□□□□]", "(as of ", "attempt 1",
+		for _, want := range []string{">being screened</span>: ", words, "[□□□□□□□□□□]", "(as of ", "attempt 1",
 			`<meta http-equiv="refresh" content="15">`} {
 			if code != http.StatusOK || !strings.Contains(page, want) {
 				t.Errorf("%s while running: %d, lacks %q", path, code, want)
