@@ -129,3 +129,25 @@ func (db *DB) reviewVersion(ctx context.Context, s *service.Submission, sc servi
 		FROM finding_annotations a WHERE a.submission_id = $1 ORDER BY a.finding_key, a.id DESC`, s.ID)
 	return v, err
 }
+
+// Packages returns the package of each listed submission the scope may
+// see, with the SHA-256 of its data part (hex; of nothing where the data
+// are inline or summary statistics).
+func (db *DB) Packages(ctx context.Context, ids []string, sc service.Scope) (map[string]service.PackageBytes, error) {
+	rows, err := db.Pool.Query(ctx, `SELECT s.id::text, s.package, encode(sha256(coalesce(s.data, ''::bytea)), 'hex')
+		FROM submissions s WHERE`+scopeSQL+` AND s.id::text = ANY($4)`, sc.OfficeID, sc.Editor, sc.KeyID, ids)
+	if err != nil {
+		return nil, dbError(err, "packages")
+	}
+	defer rows.Close()
+	out := map[string]service.PackageBytes{}
+	for rows.Next() {
+		var id string
+		var p service.PackageBytes
+		if err := rows.Scan(&id, &p.Package, &p.DataSHA256); err != nil {
+			return nil, dbError(err, "packages")
+		}
+		out[id] = p
+	}
+	return out, dbError(rows.Err(), "packages")
+}

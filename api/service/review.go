@@ -67,3 +67,10 @@ type Deletion struct {
 	By                                string
 	At                                time.Time
 }
+
+// PackageBytes is a submission's package as stored, with the SHA-256 of
+// its data part (hex).
+type PackageBytes struct {
+	Package    []byte
+	DataSHA256 string
+}

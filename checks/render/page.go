@@ -7,6 +7,7 @@ import (
 	"io"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/review"
 )
 
 //go:embed page.html workspace.html review.html
@@ -27,6 +28,12 @@ type PageOptions struct {
 	Nav     template.HTML // navigation, at the top
 	Actions template.HTML // forms acting on the submission
 	History template.HTML // the report history section
+	// Since compares a newer version with the previous one, near the top;
+	// Review is the reviewer's decisions on the findings, after the
+	// questions; Letter, when set, is the letter under those decisions,
+	// whose points the questions show (else every fail and warn finding).
+	Since, Review template.HTML
+	Letter        *review.Letter
 }
 
 // pageView is what the page template reads.
@@ -87,7 +94,7 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 		return nil, fmt.Errorf("render: drawing the graph: %w", err)
 	}
 	v := &pageView{R: r, Opts: o, Generated: r.GeneratedAt.UTC().Format("2 January 2006, 15:04 UTC"),
-		Design: Words(r.Design), Band: bandWords(r.Band), Questions: Questions(r), Claims: claimRows(r),
+		Design: Words(r.Design), Band: bandWords(r.Band), Questions: pageQuestions(r, o), Claims: claimRows(r),
 		Graph: g, Nearby: nearbyRows(r.Graph), Concern: concernOf(r)}
 	for _, c := range r.Claims {
 		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
@@ -118,6 +125,15 @@ func checkViews(cs []checks.CheckResult, qs []ItemView) []checkView {
 		out = append(out, cv)
 	}
 	return out
+}
+
+// pageQuestions are the letter's points: the reviewer's letter, else the
+// default one.
+func pageQuestions(r *checks.Report, o PageOptions) []ItemView {
+	if o.Letter != nil {
+		return ItemViews(o.Letter.Items)
+	}
+	return Questions(r)
 }
 
 // shellView is a page of the workspace in the project's frame.

@@ -26,7 +26,7 @@ type PackageChange struct {
 
 // DataFacts are what a comparison knows of a version's data besides the
 // package: a digest of the raw rows as uploaded (or of the summary
-// statistics) and how many rows (or n) they hold.
+// statistics) and how many rows (or n) they hold, −1 where not known.
 type DataFacts struct {
 	Digest string
 	Rows   int

@@ -99,6 +99,8 @@ func dataChanges(prev, cur *checks.Package, pd, cd DataFacts) []string {
 			count(cd.Rows, unit), kinds[prev.Data.Kind], count(pd.Rows, unitOf(prev.Data.Kind))))
 	case pd.Digest == cd.Digest:
 		out = append(out, "The data are the same as before.")
+	case pd.Rows < 0 || cd.Rows < 0:
+		out = append(out, "The data changed.")
 	case pd.Rows == cd.Rows:
 		out = append(out, fmt.Sprintf("The data changed; both versions have %s.", count(cd.Rows, unit)))
 	default:
