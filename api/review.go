@@ -35,10 +35,10 @@ type ReviewStore interface {
 // reviewState is a submission's newest report with the decisions in force
 // on it, and its manuscript's previous version with a report, if any.
 type reviewState struct {
-	sub      *service.Submission
-	rep      *checks.Report
-	eff      map[string]review.Annotation
-	decided  []review.Decided
+	sub     *service.Submission
+	rep     *checks.Report
+	eff     map[string]review.Annotation
+	decided []review.Decided
 	// prev is the manuscript's previous version (nil for a first one);
 	// prevRep its newest report (nil when it has none) and prevEff the
 	// decisions in force on it.
