@@ -17,6 +17,7 @@ const (
 	c2Across = "equivalence:C2:across-equivalents"
 	c3Words  = "causal-language:C3:wording"
 	c4Figs   = "effect-reporting:C4:figures"
+	c3Across = "equivalence:C3:across-equivalents"
 )
 
 // findingsOf reads GET .../findings into a map by key.
