@@ -85,15 +85,21 @@ const maxIdempotencyKey = 200
 // ASCII characters (a quoted string of RFC 8941 is printable ASCII too).
 func idempotencyKey(c echo.Context) (string, error) {
 	k := c.Request().Header.Get("Idempotency-Key")
+	return k, checkIdempotencyKey(k, "Idempotency-Key header")
+}
+
+// checkIdempotencyKey holds a key to the header's rule; what names it in
+// the error.
+func checkIdempotencyKey(k, what string) error {
 	if len(k) > maxIdempotencyKey {
-		return "", problemError(http.StatusBadRequest,
-			fmt.Sprintf("The Idempotency-Key header is longer than %d characters.", maxIdempotencyKey))
+		return problemError(http.StatusBadRequest,
+			fmt.Sprintf("The %s is longer than %d characters.", what, maxIdempotencyKey))
 	}
 	for i := 0; i < len(k); i++ {
 		if k[i] < 0x20 || k[i] > 0x7e {
-			return "", problemError(http.StatusBadRequest,
-				fmt.Sprintf("The Idempotency-Key header must be printable ASCII; byte %d is 0x%02x.", i+1, k[i]))
+			return problemError(http.StatusBadRequest,
+				fmt.Sprintf("The %s must be printable ASCII; byte %d is 0x%02x.", what, i+1, k[i]))
 		}
 	}
-	return k, nil
+	return nil
 }

@@ -1,9 +1,7 @@
 package api
 
 import (
-	"bytes"
 	"context"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -163,20 +161,9 @@ func (s *Server) tooSlow(c echo.Context) error {
 
 // checkMemory refuses, before loading, raw data whose screening would
 // need more memory than a job has: the CSV part, or the data inline in
-// the package.
+// the package (service.CheckPackageMemory, as the workers check it).
 func (s *Server) checkMemory(doc, data []byte) error {
-	if data == nil {
-		var inline struct {
-			Data struct {
-				CSV string `json:"csv"`
-			} `json:"data"`
-		}
-		if json.Unmarshal(bytes.TrimPrefix(doc, []byte("\xef\xbb\xbf")), &inline) != nil { // the loader reads past a BOM
-			return nil // the loader says what is wrong with it
-		}
-		data = []byte(inline.Data.CSV)
-	}
-	if err := service.CheckMemory(data, s.cfg.JobMemory); err != nil {
+	if err := service.CheckPackageMemory(doc, data, s.cfg.JobMemory); err != nil {
 		return &checks.InvalidPackageError{Problems: []checks.Problem{{Pointer: "/data", Detail: err.Error()}}}
 	}
 	return nil

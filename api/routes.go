@@ -7,6 +7,7 @@ import (
 	"github.com/labstack/echo/v4/middleware"
 
 	"github.com/pathvet/pathvet/api/service"
+	"github.com/pathvet/pathvet/checks/render"
 )
 
 // routes registers every route of the API, in one place.
@@ -63,6 +64,15 @@ func (s *Server) webRoutes() {
 	e.GET("/submissions/:id/letter.md", s.webLetter, signedIn...)
 	e.POST("/submissions/:id/rerun", s.webRerun, signedIn...)
 	e.POST("/submissions/:id/delete", s.webDelete, signedIn...)
+	e.GET("/submissions/:id/package.json", s.webPackage, signedIn...)
+	// The new-screening form takes an upload as large as the API does,
+	// under the API's upload rules, read whole before its token is checked.
+	form := []echo.MiddlewareFunc{s.webPage, s.withSession, requireSession, s.gateIngest,
+		middleware.BodyLimitWithConfig(middleware.BodyLimitConfig{Limit: sizeText(s.bodyLimit())}),
+		s.readForm, s.csrf}
+	e.GET("/submissions/new", s.newScreening, signedIn...)
+	e.POST("/submissions/new", s.postScreening, form...)
+	e.GET(render.ScreeningScriptPath, s.screeningScript, s.webPage)
 	if s.cfg.Review != nil {
 		e.GET("/submissions/:id/delete", s.webConfirmDelete, signedIn...)
 		e.POST("/submissions/:id/findings/:key/annotation", s.webAnnotate, signedIn...)

@@ -25,6 +25,9 @@ type WebStore interface {
 	Versions(ctx context.Context, ids []string, sc service.Scope) (map[string]service.Version, error)
 	BandCounts(ctx context.Context, sc service.Scope) (map[string]int, error)
 	RecentReports(ctx context.Context, sc service.Scope, since time.Time, limit int) ([][]byte, bool, error)
+	// SubmissionPackage is the package a submission was sent with and its
+	// data part (nil when none).
+	SubmissionPackage(ctx context.Context, id string, sc service.Scope) ([]byte, []byte, error)
 }
 
 // Names of the workspace's cookies, the form field and header of the CSRF

@@ -1,8 +1,10 @@
 package checks
 
 import (
+	"fmt"
 	"math"
 	"slices"
+	"strconv"
 
 	"github.com/pathvet/pathvet/checks/dag"
 )
@@ -91,6 +93,22 @@ func reversedArcs(declared, m *dag.PDAG) []dag.Edge {
 	return out
 }
 
+// parentsNode is the node whose parents a causal claim's estimate uses:
+// the outcome of a direct effect, the cause of a total effect.
+func (a *Analysis) parentsNode(c Claim) int {
+	if c.Kind == KindTotal {
+		return a.Study.Index[c.From]
+	}
+	return a.Study.Index[c.To]
+}
+
+// tooManySetsText says why a claim resting on node could not be
+// re-estimated over IDA's parent sets in a class (dag.ErrTooManyParentSets).
+func (a *Analysis) tooManySetsText(node int, class string) string {
+	return fmt.Sprintf("%s has more than %s locally valid parent sets (IDA) in %s, too many to list",
+		a.Study.Names[node], thousands(dag.MaxParentSets), class)
+}
+
 // localGraphs covers a large class by the locally valid parent sets of
 // the node whose parents the claim's estimate uses (IDA, Maathuis, Kalisch
 // & Bühlmann 2009). With background knowledge, a set is kept only when
@@ -155,19 +173,18 @@ func (a *Analysis) acrossEquivalents(c Claim, declared est) (*AcrossEquivalents,
 		return nil, err
 	}
 	if graphs == nil {
-		node := a.Study.Index[c.To]
-		if c.Kind == KindTotal {
-			node = a.Study.Index[c.From]
-		}
+		node := a.parentsNode(c)
 		if graphs, err = a.localGraphs(node); err != nil {
 			return nil, err
 		}
-		method = AcrossParentSets
+		estimate := a.setEstimator(c, a.equivalenceClass().cpdag, node)
+		return a.summarizeAcross(c, declared, graphs, AcrossParentSets, estimate), nil
 	}
-	return a.summarizeAcross(c, declared, graphs, method), nil
+	return a.summarizeAcross(c, declared, graphs, method, a.memberEstimator(c)), nil
 }
 
-func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGraph, method string) *AcrossEquivalents {
+func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGraph, method string,
+	estimate graphEstimator) *AcrossEquivalents {
 	r := &AcrossEquivalents{Method: method}
 	lo, hi, same := math.Inf(1), math.Inf(-1), 0
 	want := declared.category(a.Alpha)
@@ -178,7 +195,7 @@ func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGr
 	var best *alternativeGraph
 	var bestEst est
 	for i := range graphs {
-		e := a.estimateClaim(c, graphs[i].pa)
+		e := estimate(graphs[i])
 		if !e.ok() {
 			r.Failed++
 			continue
@@ -233,4 +250,14 @@ func (a *Analysis) contrast(g alternativeGraph, e est) *Contrast {
 		ct.ParentSet = []string{}
 	}
 	return ct
+}
+
+// thousands writes a non-negative n with commas between groups of three
+// digits: 4096 as "4,096".
+func thousands(n int) string {
+	s := strconv.Itoa(n)
+	for i := len(s) - 3; i > 0; i -= 3 {
+		s = s[:i] + "," + s[i:]
+	}
+	return s
 }

@@ -215,30 +215,13 @@ func (a *Analysis) regress(m *Moments, c Claim, y, focal int, others []int) est 
 
 func (a *Analysis) fitRegression(m *Moments, y, focal int, adj []int, scale string, level float64) est {
 	x := append([]int{focal}, adj...)
-	binary := a.Study.Package.Variables[y].Scale == ScaleBinary
-	switch {
-	case binary && m.Rows != nil:
+	if o, ok := a.olsInput(m, y, scale); ok {
+		return olsEstimate(o.cov, o.means, m.N, y, x, o.scale, level, o.note)
+	}
+	if a.Study.Package.Variables[y].Scale == ScaleBinary && m.Rows != nil {
 		return logisticEstimate(m, y, x, scale, level)
-	case scale == "correlation":
-		return partialEstimate(m, y, focal, adj, level)
-	case scale == "unstandardized" && m.SD != nil:
-		return olsEstimate(m.Cov(), m.Means, m.N, y, x, "unstandardized", level, "")
 	}
-	note := ""
-	if scale != "standardized" {
-		note = fmt.Sprintf(
-			"estimated as a standardized coefficient: the %s scale needs %s",
-			scaleName(scale),
-			needs(scale),
-		)
-	}
-	if binary {
-		note = strings.TrimPrefix(
-			note+"; ",
-			"; ",
-		) + "the binary outcome is treated as continuous (moments without rows allow no logistic regression)"
-	}
-	return olsEstimate(m.Cor, nil, m.N, y, x, "standardized", level, note)
+	return partialEstimate(m, y, focal, adj, level)
 }
 
 func scaleName(s string) string { return strings.ReplaceAll(s, "_", " ") }

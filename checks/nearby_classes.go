@@ -2,6 +2,7 @@ package checks
 
 import (
 	"context"
+	"errors"
 	"math/big"
 	"slices"
 
@@ -14,11 +15,16 @@ type nearClass struct {
 	edits       []nearby.Edit
 	delta       float64
 	g, cpdag    *dag.PDAG
+	key         string // cpdag.Key()
 	bg          []dag.Edge
 	size        *big.Int
 	plausible   *big.Int // nil when it could not be counted
 	alternative string
 	claims      map[int]*AcrossEquivalents // by claim index; nil when not examined
+	// unlisted are the claims (indices, in order) not re-estimated in an
+	// examined class: the node they rest on has more than
+	// dag.MaxParentSets locally valid parent sets there.
+	unlisted []int
 	// approximate: every way into the class changes the equation of a
 	// binary variable, which the linear score treats as continuous.
 	approximate bool
@@ -62,10 +68,13 @@ func (a *Analysis) resolveClass(parents [][]int, edits []nearby.Edit, delta floa
 			c.bg = append(c.bg, dag.ExogenousArcs(c.g, v)...)
 		}
 	}
-	if n, err := dag.PlausibleSize(c.cpdag, c.bg); err == nil {
+	if len(c.bg) == 0 { // no background knowledge: every member is plausible
+		c.plausible = new(big.Int).Set(c.size)
+	} else if n, err := dag.PlausibleSize(c.cpdag, c.bg); err == nil {
 		c.plausible = n
 	}
-	c.alternative = alts[c.cpdag.Key()]
+	c.key = c.cpdag.Key()
+	c.alternative = alts[c.key]
 	return c
 }
 
@@ -104,6 +113,10 @@ func (a *Analysis) examine(ctx context.Context, c *nearClass) error {
 			continue
 		}
 		across, err := a.acrossClass(c, i, members)
+		if errors.Is(err, dag.ErrTooManyParentSets) {
+			c.unlisted = append(c.unlisted, i)
+			continue
+		}
 		if err != nil {
 			return err
 		}
@@ -118,17 +131,14 @@ func (a *Analysis) examine(ctx context.Context, c *nearClass) error {
 func (a *Analysis) acrossClass(c *nearClass, i int, members []alternativeGraph) (*AcrossEquivalents, error) {
 	cl, decl := a.Study.Package.Claims[i], a.declaredEstimate(i)
 	if members != nil {
-		return a.summarizeAcross(cl, decl, members, AcrossMembers), nil
+		return a.summarizeAcross(cl, decl, members, AcrossMembers, a.memberEstimator(cl)), nil
 	}
-	node := a.Study.Index[cl.To]
-	if cl.Kind == KindTotal {
-		node = a.Study.Index[cl.From]
-	}
+	node := a.parentsNode(cl)
 	graphs, err := a.localGraphsOf(c.cpdag, c.bg, node)
 	if err != nil {
 		return nil, err
 	}
-	return a.summarizeAcross(cl, decl, graphs, AcrossParentSets), nil
+	return a.summarizeAcross(cl, decl, graphs, AcrossParentSets, a.setEstimator(cl, c.cpdag, node)), nil
 }
 
 // nearbyReport is the class as the report's graph section shows it.
@@ -150,6 +160,13 @@ func (a *Analysis) nearbyReport(c *nearClass) NearbyGraph {
 				ShareSignificantSameSign: ae.ShareSignificantSameSign, Graphs: ae.Estimates, Method: ae.Method,
 				Changed: ae.Unstable}
 		}
+	}
+	for _, i := range c.unlisted {
+		if r.ClaimsNotExamined == nil {
+			r.ClaimsNotExamined = map[string]string{}
+		}
+		cl := s.Package.Claims[i]
+		r.ClaimsNotExamined[cl.ID] = a.tooManySetsText(a.parentsNode(cl), "this class")
 	}
 	return r
 }

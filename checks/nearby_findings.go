@@ -15,11 +15,11 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 	seen := map[string]bool{}
 	for _, c := range run.listed {
 		if c.claims != nil {
-			seen[c.cpdag.Key()] = true
+			seen[c.key] = true
 			fs = append(fs, a.classFindings(c)...)
 		}
 	}
-	if run.best != nil && !seen[run.best.cpdag.Key()] {
+	if run.best != nil && !seen[run.best.key] {
 		fs = append(fs, a.classFindings(run.best)...)
 	}
 	fs = append(fs, a.searchFinding(run))
@@ -31,6 +31,7 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 		fs = append(fs, Finding{Severity: StatusWarn, Topic: "unexamined-better", Message: fmt.Sprintf(unexaminedBetterFormat,
 			count(left, "more class fits", "more classes fit"), run.examinedBetter)})
 	}
+	fs = append(fs, a.unlistedFinding(run)...)
 	return append(fs, a.binaryScoreFinding()...)
 }
 

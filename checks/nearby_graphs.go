@@ -172,6 +172,9 @@ func nearbyMetrics(run *nearbyRun, declaredBIC float64) map[string]any {
 	if len(run.nb.Classes) > 0 {
 		m["best_delta_bic"] = num(run.nb.Classes[0].DeltaBIC)
 	}
+	if t := run.unlisted(); len(t.claims) > 0 {
+		m["claims_not_examined"], m["classes_with_claims_not_examined"] = len(t.claims), t.classes
+	}
 	return m
 }
 

@@ -24,6 +24,10 @@ type NearbyGraph struct {
 	// plausible members (classes within ΔBIC 2, the listed classes that fit
 	// better by 2 or more, and the search's best).
 	Claims map[string]NearbyClaim `json:"claims,omitempty"`
+	// ClaimsNotExamined are the causal claims that were not re-estimated
+	// in a class whose claims were, each with the reason (too many
+	// locally valid parent sets to list).
+	ClaimsNotExamined map[string]string `json:"claims_not_examined,omitempty"`
 }
 
 // GraphEdit is one edit of the declared graph: the arrow From → To added,

@@ -90,6 +90,10 @@ func nearbyWarnText(run *nearbyRun, fs []Finding) string {
 		why = append(why, fmt.Sprintf("%s better by 2 or more were not re-estimated",
 			count(left, "class", "classes")))
 	}
+	if t := run.unlisted(); len(t.claims) > 0 {
+		why = append(why, fmt.Sprintf("%s could not be re-estimated in some classes (too many parent sets to list)",
+			count(len(t.claims), "claim", "claims")))
+	}
 	if len(why) == 0 {
 		return "The graphs near the declared one need a look; see the findings."
 	}

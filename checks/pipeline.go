@@ -83,6 +83,8 @@ type Analysis struct {
 	across       []*AcrossEquivalents
 	acrossErr    []error
 	acrossDone   []bool
+	condChecked  *Moments // the moments condOK is about (wellConditioned)
+	condOK       bool
 	progress     func(stage string, done, total int)
 }
 

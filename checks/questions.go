@@ -53,6 +53,8 @@ var questions = map[string]string{
 		"the claims hold under the search's graph?",
 	"nearby-graphs/unexamined": "Do the claims hold under the other graphs one edit away that fit the data " +
 		"about as well as the declared one?",
+	"nearby-graphs/unlisted": "Do the claims named here hold under the graphs one edit away in which the " +
+		"screen could not re-estimate them?",
 	"nearby-graphs/unexamined-better": "Do the claims hold under the other graphs one edit away that fit the " +
 		"data better than the declared one?",
 

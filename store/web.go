@@ -144,3 +144,19 @@ func (db *DB) RecentReports(ctx context.Context, sc service.Scope, since time.Ti
 	}
 	return out, false, dbError(rows.Err(), "reports")
 }
+
+// SubmissionPackage returns the package a submission was sent with and the
+// data sent beside it as a multipart part (nil when the data were inline
+// or summary statistics), for a scope that may see it.
+func (db *DB) SubmissionPackage(ctx context.Context, id string, sc service.Scope) ([]byte, []byte, error) {
+	if !uuidRE.MatchString(id) {
+		return nil, nil, service.Errorf(service.ENotFound, "submission not found")
+	}
+	var pkg, data []byte
+	err := db.Pool.QueryRow(ctx, `SELECT s.package, s.data FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`,
+		sc.OfficeID, sc.Editor, sc.KeyID, id).Scan(&pkg, &data)
+	if err != nil {
+		return nil, nil, dbError(err, "submission")
+	}
+	return pkg, data, nil
+}

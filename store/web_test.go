@@ -182,3 +182,34 @@ func TestBandCounts_FailedApart(t *testing.T) {
 		}
 	}
 }
+
+// The package and the data part come back byte for byte, to the scopes
+// that may see the submission; a package without a data part has none.
+func TestSubmissionPackage(t *testing.T) {
+	db, _ := storetest.MustOpenDB(t)
+	author, _ := mustKey(t, db, "Office P", service.RoleSubmitter)
+	editor, _ := mustKey(t, db, "Office P", service.RoleEditor)
+	another, _ := mustKey(t, db, "Office P", service.RoleSubmitter)
+	other, _ := mustKey(t, db, "Office Q", service.RoleEditor)
+	n := newSub(author, "h1", "")
+	n.Data = []byte("a,b\n1,2\n")
+	withData, _, _ := db.CreateSubmission(ctx, n)
+	bare, _, _ := db.CreateSubmission(ctx, newSub(author, "h2", ""))
+	for _, k := range []*service.Key{author, editor} {
+		pkg, data, err := db.SubmissionPackage(ctx, withData.ID, k.Scope())
+		if err != nil || string(pkg) != `{"title": "x"}` || string(data) != "a,b\n1,2\n" {
+			t.Errorf("%s: %q %q %v", k.Role, pkg, data, err)
+		}
+	}
+	if _, data, err := db.SubmissionPackage(ctx, bare.ID, editor.Scope()); err != nil || data != nil {
+		t.Errorf("without a data part: %q %v", data, err)
+	}
+	for _, k := range []*service.Key{another, other} {
+		if _, _, err := db.SubmissionPackage(ctx, withData.ID, k.Scope()); service.ErrorCode(err) != service.ENotFound {
+			t.Errorf("key %d of office %d sees another's package: %v", k.ID, k.OfficeID, err)
+		}
+	}
+	if _, _, err := db.SubmissionPackage(ctx, "not-a-uuid", editor.Scope()); service.ErrorCode(err) != service.ENotFound {
+		t.Errorf("a malformed id: %v", err)
+	}
+}

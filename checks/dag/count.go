@@ -135,6 +135,13 @@ func (c *counter) count(vs []int) (*big.Int, error) {
 	if n, ok := c.memo[key]; ok {
 		return n, nil
 	}
+	if c.clique(vs) { // one maximal clique, put first: φ(K, ∅), the orders of K that respect c.req
+		n, err := c.linearExtensions(vs)
+		if err == nil {
+			c.memo[key] = n
+		}
+		return n, err
+	}
 	l := c.local(vs)
 	cliques, parent := cliqueTree(l)
 	sum := new(big.Int)
@@ -177,23 +184,26 @@ func (c *counter) cliqueTerm(vs []int, l *PDAG, cliques [][]int, parent []int, i
 }
 
 // local builds the undirected graph induced by the lines of c.g on vs,
-// with local indices 0..len(vs)-1.
+// with local indices 0..len(vs)-1. vs being sorted, the local neighbour
+// lists come out sorted, so it is laid out directly, without New.
 func (c *counter) local(vs []int) *PDAG {
 	for i, v := range vs {
 		c.pos[v] = i
 	}
-	var lines [][2]int
+	l := &PDAG{adj: make([][]int, len(vs)), mark: make([][]int8, len(vs))}
 	for i, v := range vs {
-		for _, w := range c.g.Siblings(v) {
-			if j := c.pos[w]; j > i {
-				lines = append(lines, [2]int{i, j})
+		for k, w := range c.g.adj[v] {
+			if j := c.pos[w]; j >= 0 && c.g.mark[v][k] == line {
+				l.adj[i] = append(l.adj[i], j)
 			}
 		}
+		l.mark[i] = make([]int8, len(l.adj[i])) // all lines
 	}
 	for _, v := range vs {
 		c.pos[v] = -1
 	}
-	return New(len(vs), nil, lines)
+	l.at = lookupTables(l.adj)
+	return l
 }
 
 // split puts the clique k (local indices) first in the component vs: it
@@ -223,6 +233,12 @@ func (c *counter) split(vs []int, l *PDAG, k []int) (comps [][]int, arcs []Edge,
 				return nil, nil, false
 			}
 		}
+	}
+	if isComplete(l) { // no rule orients a line among nodes that are all adjacent
+		if rest := len(vs) - len(k); rest >= 2 {
+			comps = [][]int{restOf(vs, inK)}
+		}
+		return comps, arcs, true
 	}
 	var pending [][2]int
 	for _, s := range seeds {

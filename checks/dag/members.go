@@ -89,32 +89,64 @@ var ErrTooManyParentSets = errors.New("dag: too many locally valid parent sets t
 // Bühlmann 2009): the arcs into x plus any subset S of x's undirected
 // neighbours that is a clique, since only then does orienting S → x create
 // no new v-structure at x. The cliques are grown one neighbour at a time,
-// so the work follows the number of sets, not 2^(neighbours). Each set is
-// sorted; the sets come in lexicographic order of the neighbours chosen.
+// so the work follows the number of sets, not 2^(neighbours); they are
+// counted first, without being built, so that a node with more than
+// MaxParentSets (ErrTooManyParentSets) costs at most that many steps. Each
+// set is sorted; the sets come in lexicographic order of the neighbours
+// chosen.
 func LocalParentSets(c *PDAG, x int) ([][]int, error) {
 	pa, sib := c.Parents(x), c.Siblings(x)
+	if tooManyCliques(c, sib) {
+		return nil, ErrTooManyParentSets
+	}
 	var out [][]int
-	var grow func(start int, chosen []int) error
-	grow = func(start int, chosen []int) error {
-		if len(out) == MaxParentSets {
-			return ErrTooManyParentSets
+	var slab []int // the sets are cut from shared blocks: one allocation per block, not per set
+	var grow func(start int, chosen []int)
+	grow = func(start int, chosen []int) {
+		n := len(pa) + len(chosen)
+		if len(slab) < n {
+			slab = make([]int, max(n, 1<<14))
 		}
-		set := append(append([]int(nil), pa...), chosen...)
+		set := append(append(slab[:0:n], pa...), chosen...)
+		slab = slab[n:]
 		sortInts(set)
 		out = append(out, set)
 		for i := start; i < len(sib); i++ {
 			if adjacentToAll(c, sib[i], chosen) {
-				if err := grow(i+1, append(chosen, sib[i])); err != nil {
-					return err
-				}
+				grow(i+1, append(chosen, sib[i]))
 			}
 		}
-		return nil
 	}
-	if err := grow(0, nil); err != nil {
-		return nil, err
-	}
+	grow(0, nil)
 	return out, nil
+}
+
+// tooManyCliques reports whether the neighbours sib have more than
+// MaxParentSets cliques (the empty one included). A clique of m of them
+// found greedily has 2^m subsets, all cliques, which settles a dense
+// neighbourhood at once; otherwise they are counted up to the cap.
+func tooManyCliques(c *PDAG, sib []int) bool {
+	var greedy []int
+	for _, v := range sib {
+		if adjacentToAll(c, v, greedy) {
+			if greedy = append(greedy, v); 1<<len(greedy) > MaxParentSets {
+				return true
+			}
+		}
+	}
+	return countCliques(c, sib, 0, nil, MaxParentSets+1) > MaxParentSets
+}
+
+// countCliques counts the cliques of sib[start:] that extend chosen (the
+// empty one included), stopping once the count reaches limit.
+func countCliques(c *PDAG, sib []int, start int, chosen []int, limit int) int {
+	n := 1
+	for i := start; i < len(sib) && n < limit; i++ {
+		if adjacentToAll(c, sib[i], chosen) {
+			n += countCliques(c, sib, i+1, append(chosen, sib[i]), limit-n)
+		}
+	}
+	return n
 }
 
 func adjacentToAll(c *PDAG, v int, set []int) bool {

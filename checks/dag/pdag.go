@@ -3,6 +3,7 @@ package dag
 import (
 	"fmt"
 	"sort"
+	"strconv"
 )
 
 // Edge is a directed pair of node indices: From → To.
@@ -24,7 +25,16 @@ const (
 type PDAG struct {
 	adj  [][]int  // sorted neighbour lists (the skeleton)
 	mark [][]int8 // mark[u][k] is the state of u and adj[u][k], seen from u
+	// at[u], for a node of degree denseDegree or more, maps every node v
+	// to the place of v in adj[u] (noIndex when not adjacent), so that
+	// lookups at dense nodes take constant time; nil for the others, which
+	// are searched. Part of the skeleton: shared by clones.
+	at [][]int32
 }
+
+// denseDegree is the degree from which a node's adjacencies are looked up
+// in a table of N entries rather than by binary search.
+const denseDegree = 16
 
 // New returns a PDAG on n nodes with the given arcs and lines. It panics on
 // a self-loop, an index out of range or a pair given twice: callers
@@ -60,7 +70,26 @@ func New(n int, arcs []Edge, lines [][2]int) *PDAG {
 			g.adj[u][k], g.mark[u][k] = h.to, h.mark
 		}
 	}
+	g.at = lookupTables(g.adj)
 	return g
+}
+
+// lookupTables builds PDAG.at for the nodes of degree denseDegree or more.
+func lookupTables(adj [][]int) [][]int32 {
+	at := make([][]int32, len(adj))
+	for u, a := range adj {
+		if len(a) < denseDegree {
+			continue
+		}
+		at[u] = make([]int32, len(adj))
+		for v := range at[u] {
+			at[u][v] = noIndex
+		}
+		for k, v := range a {
+			at[u][v] = int32(k)
+		}
+	}
+	return at
 }
 
 // FromArcs returns the DAG (or directed graph) on n nodes with these arcs.
@@ -71,7 +100,7 @@ func (g *PDAG) N() int { return len(g.adj) }
 
 // Clone returns an independent copy.
 func (g *PDAG) Clone() *PDAG {
-	c := &PDAG{adj: g.adj, mark: make([][]int8, len(g.mark))} // the skeleton is shared: it never changes
+	c := &PDAG{adj: g.adj, at: g.at, mark: make([][]int8, len(g.mark))} // the skeleton is shared: it never changes
 	for u, m := range g.mark {
 		c.mark[u] = append([]int8(nil), m...)
 	}
@@ -79,6 +108,9 @@ func (g *PDAG) Clone() *PDAG {
 }
 
 func (g *PDAG) index(u, v int) int {
+	if t := g.at[u]; t != nil {
+		return int(t[v])
+	}
 	a := g.adj[u]
 	k := sort.SearchInts(a, v)
 	if k < len(a) && a[k] == v {
@@ -163,11 +195,15 @@ func (g *PDAG) Key() string {
 	b := make([]byte, 0, 8*len(g.adj))
 	for u := range g.adj {
 		for k, v := range g.adj[u] {
+			sep := byte(0)
 			switch {
 			case g.mark[u][k] == arcOut:
-				b = fmt.Appendf(b, "%d>%d,", u, v)
+				sep = '>'
 			case g.mark[u][k] == line && u < v:
-				b = fmt.Appendf(b, "%d-%d,", u, v)
+				sep = '-'
+			}
+			if sep != 0 { // "u>v," or "u-v,"
+				b = append(strconv.AppendInt(append(strconv.AppendInt(b, int64(u), 10), sep), int64(v), 10), ',')
 			}
 		}
 	}

@@ -10,12 +10,22 @@ import (
 )
 
 // didYouMean suggests the candidate nearest to name, as `; did you mean
-// "conductivity"?`, or returns "" when none is near. Near means an edit
-// distance (Levenshtein 1966: insertions, deletions, substitutions, and
-// here also a swap of two neighbouring characters), ignoring case, of at
-// most a third of the name's length; names shorter than four characters
-// are only matched when they differ in case alone.
+// "conductivity"?`, or returns "" when none is near (Nearest).
 func didYouMean(name string, candidates []string) string {
+	best := Nearest(name, candidates)
+	if best == "" {
+		return ""
+	}
+	return fmt.Sprintf("; did you mean %s?", quoted(best))
+}
+
+// Nearest is the candidate nearest to name, or "" when none is near or
+// the nearest is name itself. Near means an edit distance (Levenshtein
+// 1966: insertions, deletions, substitutions, and here also a swap of two
+// neighbouring characters), ignoring case, of at most a third of the
+// name's length; names shorter than four characters are only matched when
+// they differ in case alone.
+func Nearest(name string, candidates []string) string {
 	a := []rune(strings.ToLower(name))
 	limit := len(a) / 3
 	best, bestD := "", limit+1
@@ -28,10 +38,10 @@ func didYouMean(name string, candidates []string) string {
 			best, bestD = c, n
 		}
 	}
-	if best == "" || best == name {
+	if best == name {
 		return ""
 	}
-	return fmt.Sprintf("; did you mean %s?", quoted(best))
+	return best
 }
 
 // unknown reports at ptr that name is not declared, suggesting the

@@ -3,7 +3,11 @@ package nearby
 import (
 	"errors"
 	"math"
+	"slices"
 
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -26,13 +30,20 @@ func (m Model) in(v int) bool { return m.In == nil || m.In[v] }
 // (add[v][u]) and of removing each parent u (rem[v][u]); NaN elsewhere.
 type rows struct {
 	m        Model
+	s        []float64 // m.S in full, row-major, read in the updates' inner loops
 	lnN, n1  float64
 	add, rem [][]float64
+	scratch  whitened // reused by every update
 }
 
 func newRows(m Model, g *graph) (*rows, error) {
 	p := m.S.SymmetricDim()
-	r := &rows{m: m, lnN: math.Log(float64(m.N)), n1: float64(m.N - 1)}
+	r := &rows{m: m, s: make([]float64, p*p), lnN: math.Log(float64(m.N)), n1: float64(m.N - 1)}
+	for i := range p {
+		for j := range p {
+			r.s[i*p+j] = m.S.At(i, j)
+		}
+	}
 	r.add, r.rem = make([][]float64, p), make([][]float64, p)
 	for v := range p {
 		r.add[v], r.rem[v] = make([]float64, p), make([]float64, p)
@@ -54,64 +65,113 @@ func fill(s []float64, x float64) {
 	}
 }
 
-// update recomputes node v's row for the parents pa. With W = S_pa,pa⁻¹
-// S_pa,·, the covariance of v and u given pa is s_vu − s_v,pa W_·u; the
-// partial correlation of v and a parent u given the other parents is
-// −P_vu / sqrt(P_vv P_uu), P the inverse of S over {v} ∪ pa.
+// update recomputes node v's row for the parents pa, from one Cholesky
+// factorization S_pa,pa = L Lᵀ and Z = L⁻¹ S_pa,u for the nodes u outside
+// pa (their covariances with pa, whitened; v among them). The covariance
+// of a and u given pa is
+//
+//	s_au − s_a,pa S_pa,pa⁻¹ S_pa,u = s_au − Z_·aᵀ Z_·u
+//
+// and the squared partial correlation of v and a parent u given the other
+// parents, from the regression b = S_pa,pa⁻¹ s_pa,v = L⁻ᵀ Z_·v with
+// residual variance σ² = s_vv − Z_·vᵀ Z_·v (P being the inverse of S over
+// {v} ∪ pa, by the block inverse),
+//
+//	r² = P_vu² / (P_vv P_uu) = b_u² / (b_u² + σ² (S_pa,pa⁻¹)_uu)
 func (r *rows) update(v int, pa []int) error {
 	fill(r.add[v], math.NaN())
 	fill(r.rem[v], math.NaN())
-	if err := r.additions(v, pa); err != nil {
+	w, err := r.scratch.whiten(r.s, len(r.add), pa)
+	if err != nil {
 		return err
 	}
-	return r.removals(v, pa)
+	if err := r.additions(v, pa, w); err != nil {
+		return err
+	}
+	return r.removals(v, pa, w)
 }
 
-// onParents returns W = S_pa,pa⁻¹ S_pa,· , the coefficients of every
-// variable regressed on pa (one row per parent; a zero row for no parents).
-func onParents(s mat.Symmetric, pa []int) (*mat.Dense, error) {
-	p := s.SymmetricDim()
-	w := mat.NewDense(max(len(pa), 1), p, nil)
-	if len(pa) == 0 {
-		return w, nil
+// whitened is S_pa,pa = L Lᵀ (L lower triangular, k × k, row-major) and
+// Z = L⁻¹ S_pa,cols (k × len(cols), cols the nodes outside pa, at[u] the
+// column of node u, −1 for a parent); L and Z are empty for no parents.
+type whitened struct {
+	k    int
+	l, z []float64
+	cols []int
+	at   []int
+}
+
+// whiten factors S_pa,pa into w's buffers (grown as needed) without
+// estimating its condition number: a factorization that fails, or a
+// variance it leaves at zero or below (in additions and removals), is
+// ErrNotPositiveDefinite.
+func (w *whitened) whiten(s []float64, p int, pa []int) (*whitened, error) {
+	k := len(pa)
+	w.k, w.cols = k, w.cols[:0]
+	w.at = slices.Grow(w.at[:0], p)[:p]
+	for u := range w.at {
+		w.at[u] = 0
 	}
-	var ch mat.Cholesky
-	if !ch.Factorize(sub(s, pa)) {
-		return nil, ErrNotPositiveDefinite
+	for _, u := range pa {
+		w.at[u] = -1
 	}
-	b := mat.NewDense(len(pa), p, nil)
-	for j, u := range pa {
-		for k := range p {
-			b.Set(j, k, s.At(u, k))
+	for u := range p {
+		if w.at[u] == 0 {
+			w.at[u] = len(w.cols)
+			w.cols = append(w.cols, u)
 		}
 	}
-	if err := ch.SolveTo(w, b); err != nil {
+	m := len(w.cols)
+	w.l, w.z = grow(w.l, k*k), grow(w.z, k*m)
+	if k == 0 {
+		return w, nil
+	}
+	for i, a := range pa {
+		for j, b := range pa[:i+1] {
+			w.l[i*k+j] = s[a*p+b]
+		}
+		for c, u := range w.cols {
+			w.z[i*m+c] = s[a*p+u]
+		}
+	}
+	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: k, Stride: k, Data: w.l}
+	if _, ok := lapack64.Potrf(blas64.Symmetric{Uplo: blas.Lower, N: k, Stride: k, Data: w.l}); !ok {
 		return nil, ErrNotPositiveDefinite
 	}
+	blas64.Trsm(blas.Left, blas.NoTrans, 1, l, blas64.General{Rows: k, Cols: m, Stride: m, Data: w.z})
 	return w, nil
+}
+
+// grow returns buf resized to n, zeroed.
+func grow(buf []float64, n int) []float64 {
+	if cap(buf) < n {
+		return make([]float64, n)
+	}
+	buf = buf[:n]
+	clear(buf)
+	return buf
+}
+
+// col is Z_·aᵀ Z_·u, for nodes a and u outside pa.
+func (w *whitened) col(a, u int) float64 {
+	m, ca, cu := len(w.cols), w.at[a], w.at[u]
+	c := 0.0
+	for j := range w.k {
+		c += w.z[j*m+ca] * w.z[j*m+cu]
+	}
+	return c
 }
 
 // additions fills r.add[v] with the ΔBIC of adding each allowed u → v to
 // the parents pa, from the partial correlation of v and u given pa.
-func (r *rows) additions(v int, pa []int) error {
-	s, p := r.m.S, r.m.S.SymmetricDim()
-	w, err := onParents(s, pa)
-	if err != nil {
-		return err
-	}
-	given := func(a, u int) float64 { // covariance of a and u given pa
-		c := s.At(a, u)
-		for j, q := range pa {
-			c -= s.At(a, q) * w.At(j, u)
-		}
-		return c
-	}
-	cvv := given(v, v)
+func (r *rows) additions(v int, pa []int, w *whitened) error {
+	s, p := r.s, len(r.add)
+	cvv := s[v*p+v] - w.col(v, v)
 	for u := range p {
 		if u == v || !r.m.in(u) || isIn(pa, u) {
 			continue
 		}
-		cvu, cuu := given(v, u), given(u, u)
+		cvu, cuu := s[v*p+u]-w.col(v, u), s[u*p+u]-w.col(u, u)
 		if !(cvv > 0 && cuu > 0) {
 			return ErrNotPositiveDefinite
 		}
@@ -124,38 +184,36 @@ func (r *rows) additions(v int, pa []int) error {
 	return nil
 }
 
-func (r *rows) removals(v int, pa []int) error {
-	if len(pa) == 0 {
+func (r *rows) removals(v int, pa []int, w *whitened) error {
+	k := len(pa)
+	if k == 0 {
 		return nil
 	}
-	idx := append([]int{v}, pa...)
-	var ch mat.Cholesky
-	if !ch.Factorize(sub(r.m.S, idx)) {
+	sigma2 := r.s[v*len(r.add)+v] - w.col(v, v)
+	if !(sigma2 > 0) {
 		return ErrNotPositiveDefinite
 	}
-	var inv mat.SymDense
-	if err := ch.InverseTo(&inv); err != nil {
+	b := make([]float64, k) // L⁻ᵀ Z_·v
+	for j := range k {
+		b[j] = w.z[j*len(w.cols)+w.at[v]]
+	}
+	l := blas64.Triangular{Uplo: blas.Lower, Diag: blas.NonUnit, N: k, Stride: k, Data: w.l}
+	blas64.Trsv(blas.Trans, l, blas64.Vector{N: k, Inc: 1, Data: b})
+	if !lapack64.Trtri(l) { // L⁻¹ in place; (S_pa,pa⁻¹)_uu is the squared norm of its column u
 		return ErrNotPositiveDefinite
 	}
 	for j, u := range pa {
-		pvu := inv.At(0, j+1)
-		r2 := pvu * pvu / (inv.At(0, 0) * inv.At(j+1, j+1))
+		inv := 0.0
+		for i := j; i < k; i++ {
+			inv += w.l[i*k+j] * w.l[i*k+j]
+		}
+		r2 := b[j] * b[j] / (b[j]*b[j] + sigma2*inv)
 		if !(r2 < 1) {
 			return ErrNotPositiveDefinite
 		}
 		r.rem[v][u] = -r.n1*math.Log1p(-r2) - r.lnN
 	}
 	return nil
-}
-
-func sub(s mat.Symmetric, idx []int) *mat.SymDense {
-	out := mat.NewSymDense(len(idx), nil)
-	for i, a := range idx {
-		for j, b := range idx[:i+1] {
-			out.SetSym(i, j, s.At(a, b))
-		}
-	}
-	return out
 }
 
 func isIn(s []int, x int) bool {

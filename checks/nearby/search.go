@@ -3,7 +3,6 @@ package nearby
 import (
 	"context"
 	"fmt"
-	"slices"
 )
 
 // MaxSearchSteps bounds the greedy search; each step lowers the BIC, so
@@ -39,15 +38,12 @@ func Search(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Search
 		return nil, err
 	}
 	res := &SearchResult{}
-	var pool []Edit // every edit, allowed or not, whose ΔBIC is negative
-	for v := range g.n {
-		pool = r.improving(pool, g, v)
-	}
+	pool := newPool(g, r, kn)
 	for res.Steps < MaxSearchSteps {
 		if err := ctx.Err(); err != nil {
 			return nil, err
 		}
-		best, ok := bestAllowed(pool, g, r, kn)
+		best, ok := pool.best()
 		if !ok {
 			break
 		}
@@ -55,7 +51,7 @@ func Search(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Search
 		if err := step(g, r, best); err != nil {
 			return nil, err
 		}
-		pool = r.refresh(pool, g, best)
+		pool.refresh(best)
 		res.DeltaBIC += d
 		res.Steps++
 	}
@@ -65,80 +61,15 @@ func Search(ctx context.Context, m Model, parents [][]int, k Knowledge) (*Search
 	return res, nil
 }
 
-// bestAllowed is the allowed edit of the pool that lowers BIC most, ties
-// to the first in eachEdit's order.
-func bestAllowed(pool []Edit, g *graph, r *rows, kn *knowledge) (Edit, bool) {
-	var best Edit
-	bestDelta, found := 0.0, false
-	for _, e := range pool {
-		d := r.delta(e)
-		if !(d < -improvement) || !kn.allowed(g, e) {
-			continue
-		}
-		if !found || d < bestDelta || d == bestDelta && before(e, best) {
-			best, bestDelta, found = e, d, true
-		}
+// opRank orders the ops of one pair as eachEdit does.
+func opRank(op Op) int {
+	switch op {
+	case Add:
+		return 0
+	case Remove:
+		return 1
 	}
-	return best, found
-}
-
-var opRank = map[Op]int{Add: 0, Remove: 1, Reverse: 2}
-
-func before(a, b Edit) bool {
-	if a.From != b.From {
-		return a.From < b.From
-	}
-	if a.To != b.To {
-		return a.To < b.To
-	}
-	return opRank[a.Op] < opRank[b.Op]
-}
-
-// improving appends the edits whose ΔBIC depends on node w's row and is
-// negative: arrows into w added, removed or reversed, and w's own arrows
-// reversed (which add to w's parents). Edits not allowed now are kept too:
-// they may become allowed after later steps.
-func (r *rows) improving(pool []Edit, g *graph, w int) []Edit {
-	if !r.m.in(w) {
-		return pool
-	}
-	keep := func(e Edit) {
-		if r.delta(e) < -improvement {
-			pool = append(pool, e)
-		}
-	}
-	for u := range g.n {
-		if u == w || !r.m.in(u) {
-			continue
-		}
-		switch {
-		case g.isPa[w].has(u):
-			keep(Edit{Op: Remove, From: u, To: w})
-			keep(Edit{Op: Reverse, From: u, To: w})
-		case g.isPa[u].has(w): // not allowed while w → u stands, kept for after its removal
-			keep(Edit{Op: Reverse, From: w, To: u})
-			keep(Edit{Op: Add, From: u, To: w})
-		default:
-			keep(Edit{Op: Add, From: u, To: w})
-		}
-	}
-	return pool
-}
-
-// refresh drops the pool's edits that depend on the rows the edit e
-// changed and adds those rows' improving edits anew.
-func (r *rows) refresh(pool []Edit, g *graph, e Edit) []Edit {
-	changed := []int{e.To}
-	if e.Op == Reverse {
-		changed = append(changed, e.From)
-	}
-	pool = slices.DeleteFunc(pool, func(p Edit) bool {
-		return slices.Contains(changed, p.To) || p.Op == Reverse && slices.Contains(changed, p.From)
-	})
-	for _, w := range changed {
-		pool = r.improving(pool, g, w)
-	}
-	return pool
+	return 2
 }
 
 func step(g *graph, r *rows, e Edit) error {

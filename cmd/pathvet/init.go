@@ -9,7 +9,6 @@ import (
 	"io"
 	"os"
 	"path/filepath"
-	"slices"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks/load"
@@ -75,6 +74,7 @@ func runInit(args []string, stdout, stderr io.Writer) int {
 // start is a starting package and its notes.
 type start struct {
 	pkg   *obj
+	names []string // the variables' names, for the examples
 	notes strings.Builder
 }
 
@@ -89,7 +89,7 @@ func starter(data, summary, out string) (*start, error) {
 		"format_version", 1,
 		"title", load.Placeholder+" the study's working title",
 		"design", load.Placeholder+" observational, randomized or quasi_experimental",
-		"variables", []*obj{},
+		"variables", []any{},
 		"graph", newObj("edges", []any{}),
 		"claims", []any{},
 	)}
@@ -160,10 +160,9 @@ func writeFile(path string, data []byte, flags int) error {
 // finish adds the examples, what is left to fill in, and the next
 // command to the notes.
 func (st *start) finish(out, notes string) {
-	vars := st.pkg.vals["variables"].([]*obj)
 	a, b := "x", "y"
-	if len(vars) >= 2 {
-		a, b = vars[0].vals["name"].(string), vars[1].vals["name"].(string)
+	if len(st.names) >= 2 {
+		a, b = st.names[0], st.names[1]
 	}
 	fmt.Fprintf(&st.notes, `
 Still to fill in: every "TODO:" placeholder, the claims and the graph's edges.
@@ -184,54 +183,4 @@ These notes are in %s.
 
 Next: pathvet check %s
 `, a, b, a, b, notes, out)
-}
-
-// fromRows fills the package from raw rows: variables, skipped columns,
-// missing codes, and the missing-data method to state.
-func (st *start) fromRows(text []byte, file string) error {
-	cols, n, err := readColumns(text, false)
-	if err != nil {
-		return err
-	}
-	data := newObj("kind", "rows", "file", file)
-	var vars []*obj
-	var ignore, codes []string
-	missing := 0
-	fmt.Fprintf(&st.notes, "%d rows, %d columns. Variables, each scale guessed from the data (check each):\n",
-		n, len(cols))
-	for _, c := range cols {
-		c.inspect()
-		if c.skip != "" {
-			ignore = append(ignore, c.name)
-			continue
-		}
-		vars = append(vars, newObj("name", c.name, "scale", c.scale))
-		fmt.Fprintf(&st.notes, "  %-20s %-10s %s\n", c.name, c.scale, c.why)
-		codes = append(codes, c.codeTexts()...)
-		missing += c.missing
-	}
-	st.notes.WriteString(skippedNotes(cols))
-	st.notes.WriteString(codeNotes(cols))
-	st.pkg.set("variables", vars)
-	if len(vars) < 2 {
-		return fmt.Errorf("fewer than two columns can be variables:\n%s", skippedNotes(cols))
-	}
-	if codes = uniq(codes); codes != nil {
-		data.set("missing_codes", codes)
-	}
-	if ignore != nil {
-		data.set("ignore_columns", ignore)
-	}
-	if missing > 0 {
-		st.pkg.set("missing_data", newObj("method", load.Placeholder+
-			" how the paper handled missing values: complete_cases, available_cases, mean_substitution, "+
-			"single_regression, carry_forward, multiple_imputation, maximum_likelihood or other"))
-	}
-	st.pkg.set("data", data)
-	return nil
-}
-
-func uniq(s []string) []string {
-	slices.Sort(s)
-	return slices.Compact(s)
 }

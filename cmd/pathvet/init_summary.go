@@ -2,8 +2,6 @@ package main
 
 import (
 	"fmt"
-	"maps"
-	"slices"
 	"strings"
 
 	"github.com/pathvet/pathvet/checks/load"
@@ -17,18 +15,8 @@ func (st *start) fromSummary(text []byte) error {
 	if err != nil {
 		return err
 	}
-	vars := make([]*obj, len(tb.Variables))
-	for i, v := range tb.Variables {
-		vars[i] = newObj("name", v.Name)
-		if v.Label != "" && v.Label != v.Name {
-			vars[i].set("label", v.Label)
-		}
-		vars[i].set("scale", "continuous")
-		if tb.Reliabilities != nil && tb.Reliabilities[i] > 0 {
-			vars[i].set("reliability", tb.Reliabilities[i])
-		}
-	}
-	st.pkg.set("variables", vars)
+	st.pkg.set("variables", tb.PackageVariables())
+	st.names = tb.Names()
 	st.pkg.set("data", summarySection(tb))
 	st.summaryNotes(tb)
 	return nil
@@ -72,7 +60,7 @@ func (st *start) summaryNotes(tb *table.Table) {
 	for _, g := range tb.Guesses {
 		fmt.Fprintf(w, "  - %s\n", g)
 	}
-	if marks := markCounts(tb.Marks); marks != "" {
+	if marks := tb.MarkCounts(); marks != "" {
 		fmt.Fprintf(w, "  - significance marks stripped from the figures: %s\n", marks)
 	}
 	w.WriteString("\nEvery scale is set to continuous: a printed table does not show a variable's\n" +
@@ -98,17 +86,4 @@ func readList(tb *table.Table) string {
 		return " only"
 	}
 	return ", " + strings.Join(parts, ", ")
-}
-
-// markCounts words the marks' counts: `"*" 3 times, "**" once`.
-func markCounts(marks map[string]int) string {
-	var parts []string
-	for _, m := range slices.Sorted(maps.Keys(marks)) {
-		times := fmt.Sprintf("%d times", marks[m])
-		if marks[m] == 1 {
-			times = "once"
-		}
-		parts = append(parts, fmt.Sprintf("%q %s", m, times))
-	}
-	return strings.Join(parts, ", ")
 }

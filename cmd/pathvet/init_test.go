@@ -45,7 +45,7 @@ func TestInit_Rows(t *testing.T) {
 		t.Fatalf("init: %d %s", code, errs)
 	}
 	for _, want := range []string{"club                 binary", "rating               ordinal", "hours                continuous",
-		"-99 in score, 2 rows: looks like a missing code", `"." in grade, 1 rows`, "id                   skipped",
+		"-99 in score, 2 rows: looks like a missing code", `"." in grade, 1 row:`, "id                   skipped",
 		"Next: pathvet check " + pkg} {
 		if !strings.Contains(out, want) {
 			t.Errorf("notes lack %q:\n%s", want, out)

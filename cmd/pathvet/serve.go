@@ -34,11 +34,12 @@ type Main struct {
 	done    chan error
 }
 
-// screenFunc is the job the workers run: load the stored package and run
-// the pipeline on it, passing its progress on.
+// screenFunc is the job the workers run: refuse data past the job's
+// memory (the CSV stored beside the package, or inline in it), load the
+// stored package and run the pipeline on it, passing its progress on.
 func screenFunc(cfg Config) store.ScreenFunc {
 	return func(ctx context.Context, pkg, data []byte, progress store.ProgressFunc) (*checks.Report, error) {
-		if err := service.CheckMemory(data, cfg.JobMemoryMiB<<20); err != nil {
+		if err := service.CheckPackageMemory(pkg, data, cfg.JobMemoryMiB<<20); err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}
 		s, err := load.Load(pkg, load.Options{Limits: cfg.Limits, CSV: data})

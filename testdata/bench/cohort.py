@@ -6,7 +6,12 @@ EM to time beside pathvet's (Debian's python3-numpy).
 Usage: cohort.py write DIR CASE [ROWS]  -- DIR/package.json, DIR/rows.csv
            CASE "patterns": 20% of the values missing completely at random
            in 5 columns (32 patterns); "cells": 10% of all cells missing
-           completely at random (nearly every row its own pattern)
+           completely at random (nearly every row its own pattern);
+           "patterns-binary", "cells-binary": the same, with 10% of the
+           binary x01 missing too, so that the imputations keep their rows;
+           "cells-binary-outcome": cells-binary with x30 dichotomized at 0,
+           so that claim C1 is an odds ratio fitted by logistic regression
+           in every imputation (the costliest case for memory)
        cohort.py em DIR                 -- prints "numpy_em SECONDS ITERATIONS"
 """
 import io
@@ -43,6 +48,12 @@ def simulate(n, parents, rng):
 
 
 def hide(x, case, rng):
+    if case.endswith("-outcome"):
+        case = case.removesuffix("-outcome")
+        x[:, P - 1] = x[:, P - 1] > 0
+    if case.endswith("-binary"):
+        case = case.removesuffix("-binary")
+        x[rng.uniform(size=len(x)) < 0.1, 0] = np.nan
     if case == "patterns":
         for j in MISSING_COLUMNS:
             x[rng.uniform(size=len(x)) < 0.2, j] = np.nan
@@ -85,11 +96,15 @@ def write(out, case, n):
                        "estimate_scale": "standardized", "std_error": round(se, 4),
                        "ci": [round(b - 1.96 * se, 3), round(b + 1.96 * se, 3)], "p_value": 0.001,
                        "p_relation": "<", "headline": k == 0})
+        if case.endswith("-outcome") and y == P - 1:  # an odds ratio, its figures only roughly reported
+            claims[-1].update(estimate=1.5, estimate_scale="odds_ratio", ci=[1.3, 1.7])
+            del claims[-1]["std_error"]
     pkg = {
         "format_version": 1,
         "title": "Benchmark cohort: 30 invented measures on 100,000 people (not a study)",
         "design": "observational",
-        "variables": [{"name": nm, "label": f"Invented measure {nm}", "scale": "binary" if j == 0 else "continuous",
+        "variables": [{"name": nm, "label": f"Invented measure {nm}",
+                       "scale": "binary" if j == 0 or j == P - 1 and case.endswith("-outcome") else "continuous",
                        **({"exogenous": True} if j == 0 else {})} for j, nm in enumerate(names)],
         "graph": {"edges": [{"from": names[i], "to": names[j]} for j in range(P) for i in parents[j]],
                   "justification": "Invented for the benchmark: each measure follows its parents in time."},
