@@ -116,8 +116,7 @@ func (s *Server) withdrawComment(c echo.Context) error {
 // the address; never stored by a cache, and not indexed unless the office
 // chose so. It sets no cookie and links nowhere.
 func (s *Server) publishedComment(c echo.Context) error {
-	h := c.Response().Header()
-	h.Set("Cache-Control", "no-store")
+	h := c.Response().Header() // s.page sets Cache-Control: no-store
 	cm, err := s.cfg.Review.PublishedComment(c.Request().Context(), c.Param("token"))
 	if service.ErrorCode(err) == service.ENotFound {
 		h.Set("X-Robots-Tag", "noindex, nofollow")

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"net/http"
 	"regexp"
@@ -254,6 +255,11 @@ func TestComment_EndToEnd(t *testing.T) {
 		if strings.Contains(text, leak) {
 			t.Errorf("the published page shows %q", leak)
 		}
+	}
+	var stored string
+	if err := db.Pool.QueryRow(context.Background(), `SELECT letter::text FROM published_comments`).Scan(&stored); err != nil ||
+		strings.Contains(stored, "DEMO-2026-0141") || strings.Contains(stored, "E-value for C1") {
+		t.Errorf("the comment keeps the manuscript ID or a noted finding (%v): %.300s", err, stored)
 	}
 	for _, tc := range []struct {
 		method, path string
