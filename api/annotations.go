@@ -51,7 +51,8 @@ func (s *Server) putAnnotation(c echo.Context) error {
 }
 
 // decide checks a decision on finding key and keeps it.
-func (s *Server) decide(c echo.Context, st *reviewState, key string, req decisionRequest) (*service.Annotation, error) {
+func (s *Server) decide(c echo.Context, st *reviewState, key string, req decisionRequest) (
+	*service.Annotation, error) {
 	n, err := checkDecision(st, key, req)
 	if err != nil {
 		return nil, err

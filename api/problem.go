@@ -82,7 +82,8 @@ func problemFor(err error) (Problem, bool) {
 			Errors: ip.Problems,
 		}, false
 	case errors.As(err, &ip):
-		return Problem{Status: http.StatusUnprocessableEntity, Detail: invalidPackageDetail, Errors: ip.Problems}, false
+		return Problem{Status: http.StatusUnprocessableEntity, Detail: invalidPackageDetail,
+			Errors: ip.Problems}, false
 	case errors.As(err, &inv):
 		return Problem{Type: invalidRequestType, Status: http.StatusUnprocessableEntity, Detail: invalidFieldsDetail,
 			Errors: inv.problems}, false

@@ -23,9 +23,6 @@ import (
 
 // fillReview adds the review to the page of a submission's newest report.
 func (s *Server) fillReview(c echo.Context, ws *render.Workspace) error {
-	if s.cfg.Review == nil || keyOf(c).Role != service.RoleEditor {
-		return nil
-	}
 	st, err := s.reviewOf(c)
 	if err != nil {
 		return err
@@ -35,7 +32,10 @@ func (s *Server) fillReview(c echo.Context, ws *render.Workspace) error {
 	if ws.Review, err = s.reviewPanel(c, st, l); err != nil {
 		return err
 	}
-	ws.Since, err = s.since(c, st)
+	if st.prev != nil {
+		cmp := review.Compare(st.prevRep, st.prevEff, st.rep, st.eff)
+		ws.Since, err = s.sinceOf(c, st.prev, st.prevRep, st.sub, st.rep, &cmp)
+	}
 	return err
 }
 
@@ -98,27 +98,34 @@ func decisionText(d DecisionView) string {
 	return out
 }
 
-// since compares the submission with its manuscript's previous version:
-// what the authors changed, what became of the points asked, what is new.
-func (s *Server) since(c echo.Context, st *reviewState) (*render.Since, error) {
-	if st.prev == nil {
-		return nil, nil
+// sinceOf compares a submission with its manuscript's previous version:
+// what the authors changed (when the review's store can read the
+// packages), then, with cmp (an editor's page), what became of the points
+// asked and what is new, then how the claims' estimates moved.
+func (s *Server) sinceOf(c echo.Context, prev *service.Submission, prevRep *checks.Report, sub *service.Submission,
+	rep *checks.Report, cmp *review.Comparison) (*render.Since, error) {
+	var changes []review.PackageChange
+	if s.cfg.Review != nil {
+		pkgs, err := s.cfg.Review.Packages(c.Request().Context(), []string{prev.ID, sub.ID}, keyOf(c).Scope())
+		if err != nil {
+			return nil, err
+		}
+		prevPkg, prevData := packageFacts(pkgs[prev.ID], prevRep)
+		curPkg, curData := packageFacts(pkgs[sub.ID], rep)
+		changes = review.PackageChanges(prevPkg, curPkg, prevData, curData)
 	}
-	pkgs, err := s.cfg.Review.Packages(c.Request().Context(), []string{st.prev.ID, st.sub.ID}, keyOf(c).Scope())
-	if err != nil {
-		return nil, err
-	}
-	prevPkg, prevData := packageFacts(pkgs[st.prev.ID], st.prevRep)
-	curPkg, curData := packageFacts(pkgs[st.sub.ID], st.rep)
-	changes := review.PackageChanges(prevPkg, curPkg, prevData, curData)
-	if st.prevRep == nil {
-		sn := render.NewSince(st.prev.ID, webTime(st.prev.CreatedAt), changes, review.Comparison{}, nil)
+	var sn render.Since
+	switch {
+	case prevRep == nil:
+		sn = render.NewSince(prev.ID, webTime(prev.CreatedAt), changes, review.Comparison{}, nil)
 		sn.NoReport = true
-		return &sn, nil
+	case cmp == nil:
+		sn = render.NewSince(prev.ID, webTime(prev.CreatedAt), changes, review.Comparison{},
+			render.Changes(prevRep, rep).Moved)
+		sn.NoAsked = true
+	default:
+		sn = render.NewSince(prev.ID, webTime(prev.CreatedAt), changes, *cmp, render.Changes(prevRep, rep).Moved)
 	}
-	cmp := review.Compare(st.prevRep, st.prevEff, st.rep, st.eff)
-	sn := render.NewSince(st.prev.ID, webTime(st.prev.CreatedAt), changes, cmp,
-		render.Changes(st.prevRep, st.rep).Moved)
 	return &sn, nil
 }
 

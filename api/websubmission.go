@@ -61,10 +61,14 @@ func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []servi
 	if shown > 0 {
 		ws.Earlier = fmt.Sprintf("This is an earlier report, number %d of %d.", len(hist)-shown, len(hist))
 	}
-	if ws.Previous, err = s.previous(c, sub, rep); err != nil || shown > 0 {
-		return rep, ws, err
+	switch {
+	case shown > 0: // an earlier report: the review and the comparison are the newest report's
+		return rep, ws, nil
+	case s.cfg.Review != nil && keyOf(c).Role == service.RoleEditor:
+		return rep, ws, s.fillReview(c, &ws)
 	}
-	return rep, ws, s.fillReview(c, &ws)
+	ws.Since, err = s.plainSince(c, sub, rep)
+	return rep, ws, err
 }
 
 // pending is the page of a submission without a report: its status and,
@@ -110,7 +114,10 @@ func historyEntries(id string, hist []service.ReportEntry, shown int) []render.H
 	return out
 }
 
-func (s *Server) previous(c echo.Context, sub *service.Submission, rep *checks.Report) (*render.Previous, error) {
+// plainSince is the comparison with the previous version for a page
+// without the review (a submitter's session): what the authors changed
+// and how the claims moved, without the points asked.
+func (s *Server) plainSince(c echo.Context, sub *service.Submission, rep *checks.Report) (*render.Since, error) {
 	prev, b, err := s.cfg.Web.PreviousVersion(c.Request().Context(), sub, keyOf(c).Scope())
 	if service.ErrorCode(err) == service.ENotFound {
 		return nil, nil
@@ -118,16 +125,13 @@ func (s *Server) previous(c echo.Context, sub *service.Submission, rep *checks.R
 	if err != nil {
 		return nil, err
 	}
-	p := &render.Previous{ID: prev.ID, Received: prev.CreatedAt.UTC().Format(timeFormat)}
+	var old *checks.Report
 	if b != nil {
-		old, err := decodeReport(b)
-		if err != nil {
+		if old, err = decodeReport(b); err != nil {
 			return nil, err
 		}
-		ch := render.Changes(old, rep)
-		p.Change = &ch
 	}
-	return p, nil
+	return s.sinceOf(c, prev, old, sub, rep, nil)
 }
 
 // webLetter is GET /submissions/{id}/letter.md: the questions for the

@@ -38,8 +38,9 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 		return CheckResult{Status: StatusWarn, Metrics: map[string]any{"alternatives": 0},
 			Summary: "The paper states no alternative graph for its causal claims; ask which other causal orders " +
 				"the authors considered and why they rejected them.",
-			Findings: []Finding{{Severity: StatusWarn, Topic: "none-stated", Message: "No alternative graph is stated, so nothing shows " +
-				"the causal claims were weighed against another causal order."}}}, nil
+			Findings: []Finding{{Severity: StatusWarn, Topic: "none-stated",
+				Message: "No alternative graph is stated, so nothing shows " +
+					"the causal claims were weighed against another causal order."}}}, nil
 	case len(s.Alternatives) == 0:
 		return CheckResult{Status: StatusNotApplicable}, nil
 	case s.Declared == nil:
@@ -160,7 +161,8 @@ func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG,
 		} else {
 			fs = append(fs, Finding{Severity: StatusWarn, Topic: topic("variables", slug(name)),
 				Question: alternativeFitQuestion(name, true), Message: fmt.Sprintf(
-					"The alternative %q does not cover the same variables as the declared graph, so their fits cannot be "+
+					"The alternative %q does not cover the same variables as the declared graph, so their fits "+
+						"cannot be "+
 						"compared.", name)})
 		}
 	}

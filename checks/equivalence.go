@@ -117,7 +117,8 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 	decl := a.declaredEstimate(i)
 	if !decl.ok() {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "not-estimated",
-			Message: fmt.Sprintf("%s could not be estimated under the declared graph (%v), so it could not be re-estimated across the "+
+			Message: fmt.Sprintf("%s could not be estimated under the declared graph (%v), so it could not be "+
+				"re-estimated across the "+
 				"equivalent graphs either.", c.ID, decl.err)})
 	}
 	across, err := a.declaredAcross(i)
@@ -129,20 +130,24 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 	}
 	if err != nil {
 		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "across-equivalents",
-			ask: "across-unestimated", Message: fmt.Sprintf("%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})
+			ask: "across-unestimated",
+			Message: fmt.Sprintf("%s could not be re-estimated across the equivalent graphs: "+
+				"%v.", c.ID, err)})
 	}
 	if across.Failed > 0 && !across.Unstable {
 		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "across-equivalents",
-			ask: "across-unestimated", Message: fmt.Sprintf("%s could not be estimated in %d of the %s it was tried in, so whether its conclusion holds in all of "+
+			ask: "across-unestimated", Message: fmt.Sprintf("%s could not be estimated in %d of the %s it was "+
+				"tried in, so whether its conclusion holds in all of "+
 				"them is not known.",
 				c.ID, across.Failed, acrossNoun(across.Method, across.Failed+across.Estimates))})
 	}
 	if !across.Unstable {
 		if len(structural) > 0 && structural[0].Severity != SeverityInfo {
-			return across, []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "arrow-direction", Message: fmt.Sprintf(
-				"The arrow %s → %s behind %s can point the other way in an equivalent graph, but the claim's "+
-					"conclusion is the same in every plausible one (%s under the declared graph).",
-				c.From, c.To, c.ID, valueText(decl))}}
+			return across, []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "arrow-direction",
+				Message: fmt.Sprintf(
+					"The arrow %s → %s behind %s can point the other way in an equivalent graph, but the claim's "+
+						"conclusion is the same in every plausible one (%s under the declared graph).",
+					c.From, c.To, c.ID, valueText(decl))}}
 		}
 		return across, structural
 	}

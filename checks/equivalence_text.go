@@ -74,7 +74,8 @@ func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
 				"graph among them).", eq.size)}}
 	}
 	if onlyDeclared(eq) { // nothing plausible to discuss: a warning would ask for nothing
-		return []Finding{{Severity: SeverityInfo, Topic: "discussion", Message: fmt.Sprintf(ruledOutFormat, otherGraphs(eq.size))}}
+		return []Finding{{Severity: SeverityInfo, Topic: "discussion",
+			Message: fmt.Sprintf(ruledOutFormat, otherGraphs(eq.size))}}
 	}
 	return []Finding{{Severity: StatusWarn, Topic: "discussion", Message: fmt.Sprintf(
 		"%s fit any data exactly as well as the declared one (%s), and the authors do not discuss them.",

@@ -65,8 +65,9 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 				strings.Join(missingRel, ", "), them(len(missingRel)), plural(len(missingRel), "it is", "they are"))})
 	}
 	if len(low) > 0 {
-		fs = append(fs, Finding{Severity: SeverityInfo, Topic: "low-reliability", Message: "Reliability below .70 (a rule of thumb in the " +
-			"field, no single source): " + strings.Join(low, ", ") + "."})
+		fs = append(fs, Finding{Severity: SeverityInfo, Topic: "low-reliability",
+			Message: "Reliability below .70 (a rule of thumb in the " +
+				"field, no single source): " + strings.Join(low, ", ") + "."})
 	}
 	m, err := a.moments()
 	if err != nil {
@@ -200,8 +201,10 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n, changed int) {
 		decl := a.estimateWith(a.mustMoments(), std, a.declaredParentsFor(c))
 		corr := a.estimateWith(cm, std, a.declaredParentsFor(c))
 		if bad := firstErr(decl, corr); bad != nil {
-			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "corrected", ask: "corrected-unestimated",
-				Message: fmt.Sprintf("%s could not be estimated with and without the correction (%v), so what measurement error does to "+
+			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "corrected",
+				ask: "corrected-unestimated",
+				Message: fmt.Sprintf("%s could not be estimated with and without the correction (%v), so what "+
+					"measurement error does to "+
 					"it is not known.", c.ID, bad)})
 			continue
 		}
@@ -215,10 +218,11 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n, changed int) {
 		a.Claims[i].Measurement = r
 		if r.Changed {
 			changed++
-			fs = append(fs, Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "corrected", Message: fmt.Sprintf(
-				"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: "+
-					"measurement error alone could carry the conclusion.",
-				c.ID, valueText(decl), valueText(corr))})
+			fs = append(fs, Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "corrected",
+				Message: fmt.Sprintf(
+					"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: "+
+						"measurement error alone could carry the conclusion.",
+					c.ID, valueText(decl), valueText(corr))})
 		} else if math.Abs(corr.value-decl.value) >= 0.05 {
 			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Topic: "corrected", Message: fmt.Sprintf(
 				"%s moves from %s to %s (standardized) when corrected for measurement error; it "+

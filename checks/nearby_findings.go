@@ -28,8 +28,9 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 			count(left, "more class fits", "more classes fit"), run.examined)})
 	}
 	if left := run.better - run.examinedBetter; left > 0 {
-		fs = append(fs, Finding{Severity: StatusWarn, Topic: "unexamined-better", Message: fmt.Sprintf(unexaminedBetterFormat,
-			count(left, "more class fits", "more classes fit"), run.examinedBetter)})
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "unexamined-better",
+			Message: fmt.Sprintf(unexaminedBetterFormat,
+				count(left, "more class fits", "more classes fit"), run.examinedBetter)})
 	}
 	fs = append(fs, a.unlistedFinding(run)...)
 	return append(fs, a.binaryScoreFinding()...)

@@ -87,7 +87,8 @@ func (a *Analysis) codesFinding(i int, c Claim, decl, rec est, codes []Suspect) 
 		f.Severity, f.Message = SeverityInfo, fmt.Sprintf(codesMatchMissingFormat, c.ID, a.reportedFigure(i, c),
 			matchVerb(recoded), ph.codes, fr, ph.theCodes, fa, ph.declare, ph.pronoun)
 	case !asRead.bad():
-		f.ask, f.Message = "reported-figure-codes", fmt.Sprintf(codesMatchValuesFormat, c.ID, a.reportedFigure(i, c), matchVerb(asRead), ph.codes,
+		f.ask = "reported-figure-codes"
+		f.Message = fmt.Sprintf(codesMatchValuesFormat, c.ID, a.reportedFigure(i, c), matchVerb(asRead), ph.codes,
 			fa, ph.theCodes, fr, ph.ifCodes, ph.pronoun, ph.measured)
 	default:
 		if asRead == standsOpposite || recoded == standsOpposite {
@@ -109,8 +110,9 @@ func (a *Analysis) singleFinding(i int, c Claim, e est, s standing) Finding {
 				c.ID, a.reportedFigure(i, c), direction(reportedAdditive(c)), a.dataBasis("the data"),
 				direction(e.additive), recomputedFigure(c, e), a.adjustmentName(c))}
 	}
-	return Finding{Severity: StatusWarn, Claim: c.ID, Topic: "reported-figure", Message: fmt.Sprintf(reportedOutsideFormat, c.ID,
-		a.reportedFigure(i, c), a.dataBasis("the data"), recomputedFigure(c, e), a.adjustmentName(c))}
+	return Finding{Severity: StatusWarn, Claim: c.ID, Topic: "reported-figure",
+		Message: fmt.Sprintf(reportedOutsideFormat, c.ID,
+			a.reportedFigure(i, c), a.dataBasis("the data"), recomputedFigure(c, e), a.adjustmentName(c))}
 }
 
 // standing says how claim c's reported estimate stands beside e; a

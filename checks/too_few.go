@@ -128,8 +128,9 @@ func (a *Analysis) fitTooFew(tests []implicationTest, n int) (*Finding, float64)
 	if best == 0 {
 		how = fitNoTest
 	}
-	return &Finding{Severity: StatusWarn, Topic: "too-few-cases", Message: fmt.Sprintf(fitTooFewFormat, count(n, "case", "cases"),
-		which, how),
+	return &Finding{Severity: StatusWarn, Topic: "too-few-cases",
+		Message: fmt.Sprintf(fitTooFewFormat, count(n, "case", "cases"),
+			which, how),
 		Details: map[string]any{"power_large_effect": num(best), tooFewKey: true}}, best
 }
 

@@ -115,7 +115,8 @@ func (db *DB) earlierVersions(ctx context.Context, sub *service.Submission, sc s
 	return out, dbError(rows.Err(), "versions")
 }
 
-func (db *DB) reviewVersion(ctx context.Context, s *service.Submission, sc service.Scope) (service.ReviewVersion, error) {
+func (db *DB) reviewVersion(ctx context.Context, s *service.Submission, sc service.Scope) (
+	service.ReviewVersion, error) {
 	v := service.ReviewVersion{Submission: s}
 	r, err := db.LatestReport(ctx, s.ID, sc, 0)
 	switch {

@@ -77,7 +77,8 @@ func TestComments(t *testing.T) {
 		t.Fatal("the address is not looked up by its SHA-256")
 	}
 	again, created, err := db.PublishComment(ctx, sub.ID, editor.Scope(), editor, []byte(`{"items": [1]}`), true)
-	if err != nil || created || again.Token != c.Token || string(again.Letter) != `{"items": [1]}` || !again.Indexable {
+	if err != nil || created || again.Token != c.Token || string(again.Letter) != `{"items": [1]}` ||
+		!again.Indexable {
 		t.Fatalf("republish: %+v %v %v", again, created, err)
 	}
 	if got, err := db.PublishedComment(ctx, c.Token); err != nil || got.SubmissionID != sub.ID {

@@ -14,6 +14,7 @@ import (
 type Since struct {
 	PrevID, Received string
 	NoReport         bool // the previous version has no report to compare
+	NoAsked          bool // the page shows no review (a submitter's): no points asked
 	Changes          []ChangePart
 	Asked            []AskedRow
 	Raised           []AskedRow

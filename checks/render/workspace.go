@@ -131,7 +131,6 @@ type Workspace struct {
 	ErrorDetail string
 	Running     *Progress // nil unless a new screening runs and has written how far it is
 	History     []HistoryEntry
-	Previous    *Previous
 	// Earlier says which earlier report the page shows ("" for the newest).
 	Earlier string
 	// The review: the letter under the decisions in force, the decisions
@@ -140,12 +139,6 @@ type Workspace struct {
 	Letter *review.Letter
 	Review *ReviewPanel
 	Since  *Since
-}
-
-// Previous is the earlier version of the manuscript and what changed.
-type Previous struct {
-	ID, Received string
-	Change       *Change // nil when the earlier version has no report
 }
 
 // WriteSignIn writes the sign-in page.

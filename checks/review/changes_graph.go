@@ -23,7 +23,8 @@ func arrowChanges(prev, cur *checks.Package) []string {
 		out = append(out, edgeChanges(prev.Graph.Edges, cur.Graph.Edges, "the declared graph")...)
 		out = append(out, edgeChanges(prev.Graph.FixedEdges, cur.Graph.FixedEdges, "the fixed arrows")...)
 		if prev.Graph.EquivalentsDiscussed != cur.Graph.EquivalentsDiscussed {
-			out = append(out, "The authors "+map[bool]string{true: "now say", false: "no longer say"}[cur.Graph.EquivalentsDiscussed]+" that they discussed the graphs equivalent to theirs.")
+			now := map[bool]string{true: "now say", false: "no longer say"}[cur.Graph.EquivalentsDiscussed]
+			out = append(out, "The authors "+now+" that they discussed the graphs equivalent to theirs.")
 		}
 	}
 	out = append(out, exogenousChanges(prev, cur)...)

@@ -39,7 +39,8 @@ type Comparison struct {
 // Compare holds the questions asked of the earlier version (its findings
 // decided "ask" under prevEff) against the new version's report, and
 // lists the new version's fail and warn findings that are new.
-func Compare(prev *checks.Report, prevEff map[string]Annotation, cur *checks.Report, curEff map[string]Annotation) Comparison {
+func Compare(prev *checks.Report, prevEff map[string]Annotation, cur *checks.Report,
+	curEff map[string]Annotation) Comparison {
 	now := map[string]Entry{}
 	for _, e := range Entries(cur) {
 		now[e.Key] = e

@@ -105,7 +105,8 @@ func TestEffective_CarriesStillOpenFindings(t *testing.T) {
 	if a := eff[c3Across]; a.CarriedFrom != "" || a.By != "editor b" {
 		t.Errorf("C3: the version's own decision should win: %+v", a)
 	}
-	if eff2 := Effective([]Version{{ID: "v1", Report: v1, Own: own}, {ID: "v2"}, {ID: "v3", Report: v1}}); eff2[c2Across].CarriedFrom != "v1" {
+	eff2 := Effective([]Version{{ID: "v1", Report: v1, Own: own}, {ID: "v2"}, {ID: "v3", Report: v1}})
+	if eff2[c2Across].CarriedFrom != "v1" {
 		t.Errorf("a version without a report broke the chain: %+v", eff2)
 	}
 }
@@ -156,7 +157,8 @@ func TestCompose_GroupsAndPlurals(t *testing.T) {
 		t.Errorf("notes %+v", l.Notes)
 	}
 	refs := claimRefs(r)
-	if got := mentioned("the pooled estimate of C1, C3 and C10; 1 of C", refs); !slices.Equal(got, []string{"C1", "C3"}) {
+	got := mentioned("the pooled estimate of C1, C3 and C10; 1 of C", refs)
+	if !slices.Equal(got, []string{"C1", "C3"}) {
 		t.Errorf("mentioned %v", got)
 	}
 }

@@ -92,7 +92,8 @@ func TestReview_EndToEnd(t *testing.T) {
 	self := v1.Links.Self
 
 	fs := findingsOf(t, editor, self)
-	if f := fs[c1Across]; f.Decision != "ask" || f.Note != nil || f.Question == nil || f.Claim == nil || *f.Claim != "C1" {
+	if f := fs[c1Across]; f.Decision != "ask" || f.Note != nil || f.Question == nil || f.Claim == nil ||
+		*f.Claim != "C1" {
 		t.Fatalf("C1 across equivalents: %+v", f)
 	}
 	for k, f := range fs {
@@ -110,13 +111,15 @@ func TestReview_EndToEnd(t *testing.T) {
 			{submitter, c2Across, `{"decision": "note"}`, http.StatusForbidden, "editor"},
 			{otherOffice, c2Across, `{"decision": "note"}`, http.StatusNotFound, ""},
 			{editor, c2Across, `{"decision": "dismiss"}`, http.StatusUnprocessableEntity, `"/reason"`},
-			{editor, c2Across, `{"decision": "dismiss", "reason": "   "}`, http.StatusUnprocessableEntity, `"/reason"`},
+			{editor, c2Across, `{"decision": "dismiss", "reason": "   "}`, http.StatusUnprocessableEntity,
+				`"/reason"`},
 			{editor, c2Across, `{"decision": "maybe"}`, http.StatusUnprocessableEntity, `"/decision"`},
 			{editor, "equivalence:C9:across-equivalents", `{"decision": "note"}`, http.StatusNotFound, "C9"},
 			{editor, c2Across, `{"decision": "note", "extra": 1}`, http.StatusBadRequest, ""},
 			{editor, c2Across, `not json`, http.StatusBadRequest, ""},
 		} {
-			if code, b := decide(tc.c, self, tc.key, tc.body); code != tc.want || !strings.Contains(string(b), tc.wantDetail) {
+			if code, b := decide(tc.c, self, tc.key, tc.body); code != tc.want || !strings.Contains(string(b),
+				tc.wantDetail) {
 				t.Errorf("%s %s: %d %s, want %d with %s", tc.key, tc.body, code, b, tc.want, tc.wantDetail)
 			}
 		}
@@ -159,10 +162,12 @@ func TestReview_EndToEnd(t *testing.T) {
 			t.Fatalf("history: %d %s", code, b)
 		}
 		first, last := h.Annotations[1], h.Annotations[3]
-		if first.Before != nil || first.By != editorKey.Label || first.At.IsZero() || *first.After.Question != reworded {
+		if first.Before != nil || first.By != editorKey.Label || first.At.IsZero() ||
+			*first.After.Question != reworded {
 			t.Errorf("first decision on C1: %+v", first)
 		}
-		if last.Before == nil || *last.Before.Question != reworded || !strings.HasSuffix(*last.After.Question, "measured?") {
+		if last.Before == nil || *last.Before.Question != reworded || !strings.HasSuffix(*last.After.Question,
+			"measured?") {
 			t.Errorf("the change of C1's question: %+v", last)
 		}
 	})
@@ -170,7 +175,8 @@ func TestReview_EndToEnd(t *testing.T) {
 		code, hdr, b := editor.call(http.MethodGet, self+"/letter.md", "", nil)
 		letter := string(b)
 		if code != http.StatusOK || !strings.HasPrefix(hdr.Get("Content-Type"), "text/markdown") ||
-			!strings.Contains(letter, reworded+" And when was it measured?") || !strings.HasPrefix(letter, "Dear authors,") {
+			!strings.Contains(letter, reworded+" And when was it measured?") ||
+			!strings.HasPrefix(letter, "Dear authors,") {
 			t.Fatalf("letter: %d %s", code, letter)
 		}
 		if strings.Contains(letter, "C2 is −0.37") || strings.Contains(letter, `("raises")`) ||
@@ -181,7 +187,8 @@ func TestReview_EndToEnd(t *testing.T) {
 	t.Run("CarriedOver", func(t *testing.T) {
 		v2 := submitWait(t, editor, resubmission(t))
 		fs2 := findingsOf(t, editor, v2.Links.Self)
-		if a := fs2[c2Across].Note; a == nil || a.Decision != "dismiss" || a.CarriedFrom == nil || *a.CarriedFrom != v1.ID {
+		if a := fs2[c2Across].Note; a == nil || a.Decision != "dismiss" || a.CarriedFrom == nil ||
+			*a.CarriedFrom != v1.ID {
 			t.Errorf("C2's dismissal, still open, not carried: %+v", a)
 		}
 		if a := fs2[c1Across].Note; a == nil || a.CarriedFrom == nil || !strings.HasSuffix(*a.Question, "measured?") {
@@ -194,7 +201,8 @@ func TestReview_EndToEnd(t *testing.T) {
 			t.Error("the resubmission's figures did not change the finding's sentence: the test tests nothing")
 		}
 		code, _, b := editor.call(http.MethodGet, v2.Links.Self+"/letter.md", "", nil)
-		if code != http.StatusOK || !strings.Contains(string(b), "measured?") || strings.Contains(string(b), "C2 is −") {
+		if code != http.StatusOK || !strings.Contains(string(b), "measured?") || strings.Contains(string(b),
+			"C2 is −") {
 			t.Errorf("v2's letter: %d %s", code, b)
 		}
 	})
@@ -233,8 +241,9 @@ func TestComment_EndToEnd(t *testing.T) {
 	}
 	path := strings.TrimPrefix(cm.URL, base)
 	code, hdr, page := anonymous.call(http.MethodGet, path, "", nil)
-	if code != http.StatusOK || hdr.Get("Cache-Control") != "no-store" || !strings.Contains(hdr.Get("X-Robots-Tag"), "noindex") ||
-		hdr.Get("Set-Cookie") != "" || !strings.Contains(string(page), `<meta name="robots" content="noindex, nofollow">`) {
+	if code != http.StatusOK || hdr.Get("Cache-Control") != "no-store" ||
+		!strings.Contains(hdr.Get("X-Robots-Tag"), "noindex") || hdr.Get("Set-Cookie") != "" ||
+		!strings.Contains(string(page), `<meta name="robots" content="noindex, nofollow">`) {
 		t.Fatalf("the page: %d %v", code, hdr)
 	}
 	html := string(page)
@@ -244,20 +253,24 @@ func TestComment_EndToEnd(t *testing.T) {
 		}
 	}
 	text := regexp.MustCompile(`(?s)<style>.*</style>`).ReplaceAllString(html, "")
-	if regexp.MustCompile(`(?i)\bscor(e|es|ed)\b|\bbands?\b`).MatchString(strings.ReplaceAll(text, "maths scores", "")) {
+	if regexp.MustCompile(`(?i)\bscor(e|es|ed)\b|\bbands?\b`).MatchString(strings.ReplaceAll(text, "maths scores",
+		"")) {
 		t.Error("the published page speaks of a score or band")
 	}
-	for _, claim := range []string{"Maths anxiety lowers end-of-year maths scores", "Tutoring raises maths scores overall"} {
+	for _, claim := range []string{"Maths anxiety lowers end-of-year maths scores",
+		"Tutoring raises maths scores overall"} {
 		text = strings.ReplaceAll(text, claim, "")
 	}
-	for _, leak := range []string{"Office of Invented Studies", editorKey.Label, sub.ID, "DEMO-2026-0141", "href=", "action=",
+	for _, leak := range []string{"Office of Invented Studies", editorKey.Label, sub.ID, "DEMO-2026-0141", "href=",
+		"action=",
 		"src=", "<form", "<script", "of 100", "concern", "points off", "dismiss", "pathvet workspace"} {
 		if strings.Contains(text, leak) {
 			t.Errorf("the published page shows %q", leak)
 		}
 	}
 	var stored string
-	if err := db.Pool.QueryRow(context.Background(), `SELECT letter::text FROM published_comments`).Scan(&stored); err != nil ||
+	if err := db.Pool.QueryRow(context.Background(),
+		`SELECT letter::text FROM published_comments`).Scan(&stored); err != nil ||
 		strings.Contains(stored, "DEMO-2026-0141") || strings.Contains(stored, "E-value for C1") {
 		t.Errorf("the comment keeps the manuscript ID or a noted finding (%v): %.300s", err, stored)
 	}
@@ -266,7 +279,8 @@ func TestComment_EndToEnd(t *testing.T) {
 		headers      []string
 		want         int
 	}{
-		{http.MethodGet, "/v1/submissions", []string{"Authorization", "Bearer " + strings.TrimPrefix(path, "/comments/")}, 401},
+		{http.MethodGet, "/v1/submissions", []string{"Authorization", "Bearer " + strings.TrimPrefix(path,
+			"/comments/")}, 401},
 		{http.MethodGet, self, []string{"Authorization", "Bearer " + strings.TrimPrefix(path, "/comments/")}, 401},
 		{http.MethodGet, path + "x", nil, 404},
 		{http.MethodGet, "/comments/", nil, 404},
@@ -290,7 +304,8 @@ func TestComment_EndToEnd(t *testing.T) {
 	if code, _, _ := editor.call(http.MethodDelete, self+"/comment", "", nil); code != http.StatusNoContent {
 		t.Fatalf("withdraw: %d", code)
 	}
-	if code, hdr, _ := anonymous.call(http.MethodGet, path, "", nil); code != http.StatusNotFound || hdr.Get("Cache-Control") != "no-store" {
+	if code, hdr, _ := anonymous.call(http.MethodGet, path, "", nil); code != http.StatusNotFound ||
+		hdr.Get("Cache-Control") != "no-store" {
 		t.Errorf("withdrawn: %d %v", code, hdr)
 	}
 	for _, method := range []string{http.MethodGet, http.MethodDelete} {

@@ -26,7 +26,8 @@ func TestWeb_Review(t *testing.T) {
 	base := m.URL()
 	token := mustKeyToken(t, db, "Office W", service.RoleEditor)
 	subToken := mustKeyToken(t, db, "Office W", service.RoleSubmitter)
-	v1 := submitWait(t, apiClient{t, &base, subToken}, readFile(t, "../../testdata/demo/tutoring-anxiety/package.json"))
+	v1 := submitWait(t, apiClient{t, &base, subToken}, readFile(t,
+		"../../testdata/demo/tutoring-anxiety/package.json"))
 	w, other, author := signedIn(t, base, token), signedIn(t, base, token), signedIn(t, base, subToken)
 	page := "/submissions/" + v1.ID
 	csrf, otherCSRF := sessionToken(t, w, page), sessionToken(t, other, page)
@@ -44,7 +45,8 @@ func TestWeb_Review(t *testing.T) {
 	if code, _, _ := w.post(action, form); code != http.StatusForbidden {
 		t.Errorf("a decision with another session's token: %d", code)
 	}
-	if code, _, body := author.post(action, url.Values{"_csrf": {sessionToken(t, author, "/")}, "decision": {"note"}}); code != http.StatusForbidden || !strings.Contains(body, "Only an editor") {
+	if code, _, body := author.post(action, url.Values{"_csrf": {sessionToken(t, author, "/")},
+		"decision": {"note"}}); code != http.StatusForbidden || !strings.Contains(body, "Only an editor") {
 		t.Errorf("a submitter's decision: %d", code)
 	}
 	form.Set("_csrf", csrf)
@@ -53,7 +55,8 @@ func TestWeb_Review(t *testing.T) {
 		t.Fatalf("decide: %d %v", code, hdr)
 	}
 	if code, _, body := w.post(page+"/findings/"+c2Across+"/annotation", url.Values{"_csrf": {csrf},
-		"decision": {"dismiss"}}); code != http.StatusUnprocessableEntity || !strings.Contains(body, "needs a reason") {
+		"decision": {"dismiss"}}); code != http.StatusUnprocessableEntity || !strings.Contains(body,
+		"needs a reason") {
 		t.Errorf("a dismissal without a reason: %d %s", code, body)
 	}
 	_, letter := w.get(page + "/letter.md")
@@ -64,11 +67,16 @@ func TestWeb_Review(t *testing.T) {
 		t.Errorf("a submitter's session reads the letter: %d", code)
 	}
 	_, body = w.get(page)
-	if !strings.Contains(html.UnescapeString(body), "asked of the authors, in the reviewer's words: “Which came first") {
+	if !strings.Contains(html.UnescapeString(body),
+		"asked of the authors, in the reviewer's words: “Which came first") {
 		t.Error("the page's history does not show the change")
 	}
+	if _, body := author.get(page); strings.Contains(body, "What goes to the authors") ||
+		strings.Contains(body, "/annotation") || strings.Contains(body, "letter.md") {
+		t.Error("a submitter's page shows the review")
+	}
 	checkWebComment(t, w, page, csrf)
-	checkSince(t, w, token, base)
+	checkSince(t, w, author, subToken, base)
 }
 
 // checkWebComment publishes from the page, finds it on the dashboard and
@@ -98,9 +106,13 @@ func checkWebComment(t *testing.T, w *webClient, page, csrf string) {
 // checkSince sends a second version (other figures, C4 withdrawn) and
 // reads its page: what the authors changed comes before what became of
 // the points asked.
-func checkSince(t *testing.T, w *webClient, token, base string) {
+func checkSince(t *testing.T, w, author *webClient, token, base string) {
 	t.Helper()
 	v2 := submitWait(t, apiClient{t, &base, token}, resubmission(t))
+	if _, body := author.get("/submissions/" + v2.ID); !strings.Contains(body, "What the authors changed") ||
+		strings.Contains(body, "The points asked last time") {
+		t.Error("a submitter's page of the newer version: the package's changes without the points asked, wanted")
+	}
 	_, body := w.get("/submissions/" + v2.ID)
 	body = html.UnescapeString(body)
 	changed := strings.Index(body, "What the authors changed")
@@ -110,7 +122,8 @@ func checkSince(t *testing.T, w *webClient, token, base string) {
 		t.Fatalf("the comparison is missing or out of order: %d %d %d", changed, asked, questions)
 	}
 	for _, want := range []string{"Claim C4 “Students with long commutes attend fewer sessions” is no longer made.",
-		"The data changed", "Answered: the screen of this version no longer raises it.", "Still open: the screen raises it as before",
+		"The data changed", "Answered: the screen of this version no longer raises it.",
+		"Still open: the screen raises it as before",
 		"carried over from"} {
 		if !strings.Contains(body, want) {
 			t.Errorf("the newer version's page lacks %q", want)
