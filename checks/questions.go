@@ -161,14 +161,6 @@ func (a *Analysis) question(check string, f Finding) string {
 	return FallbackQuestion
 }
 
-// HasQuestion reports whether the table has a question for a check's
-// finding kind (tests hold every fail and warn finding to one).
-func HasQuestion(check, kind string) bool {
-	_, ok := questions[check+"/"+kind]
-	_, sub := subjectQuestions[check+"/"+kind]
-	return ok || sub
-}
-
 // subjectQuestions are questions that name their subject: variables by
 // their labels, a value of the data.
 var subjectQuestions = map[string]func(a *Analysis, f Finding) string{

@@ -87,6 +87,9 @@ func Decide(r *checks.Report, eff map[string]Annotation) []Decided {
 	var out []Decided
 	for _, e := range Entries(r) {
 		d := Decided{Entry: e, Decision: DefaultDecision(e.Severity), Question: e.Finding.Question}
+		if d.Question == "" && asked(e.Severity) { // a report made before findings had questions
+			d.Question = checks.FallbackQuestion
+		}
 		if a, ok := eff[e.Key]; ok {
 			d.Annotation, d.Decision = &a, a.Decision
 			if a.Question != "" {

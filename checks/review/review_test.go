@@ -207,3 +207,26 @@ func TestPackageChanges(t *testing.T) {
 		t.Errorf("an unchanged package: %+v", same)
 	}
 }
+
+// A report stored before findings had keys and questions still reviews:
+// each finding gets a key of its own from its check and claim, and a fail
+// or warn finding the fallback question.
+func TestDecide_ReportWithoutKeys(t *testing.T) {
+	r := golden(t, "tutoring-anxiety")
+	for i := range r.Checks {
+		for j := range r.Checks[i].Findings {
+			f := &r.Checks[i].Findings[j]
+			f.Key, f.Topic, f.Question = "", "", ""
+		}
+	}
+	seen := map[string]bool{}
+	for _, d := range Decide(r, nil) {
+		if d.Key == "" || seen[d.Key] || (d.Decision == Ask) != (d.Question == checks.FallbackQuestion) {
+			t.Errorf("%+v", d)
+		}
+		seen[d.Key] = true
+	}
+	if l := Compose(r, Decide(r, nil)); len(l.Items) == 0 || l.Items[0].Question != checks.FallbackQuestion {
+		t.Errorf("letter %+v", l.Items)
+	}
+}
