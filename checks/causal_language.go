@@ -139,11 +139,11 @@ func uniqueMatches(re *regexp.Regexp, text string) []string {
 func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	quoted := `"` + strings.Join(words, `", "`) + `"`
 	if c.Kind == KindAssociation {
-		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s is declared an association but worded causally (%s); from a non-randomized design, say \"is associated with\" or declare it as a causal claim with its graph.",
-			c.ID,
-			quoted,
-		)}
+		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "wording", ask: "wording-association",
+			Message: fmt.Sprintf("%s is declared an association but worded causally (%s); from a non-randomized design, say \"is associated with\" or declare it as a causal claim with its graph.",
+				c.ID,
+				quoted,
+			)}
 	}
 	var lacks []string
 	if a.Study.Declared == nil {
@@ -157,11 +157,11 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	if i := a.claimIndex(c); c.Kind == KindIndirect && !c.AssertsAbsence {
 		if mc, _ := a.mediatorSensitivity(i); mc == nil || mc.RhoAtZero == nil {
 			lacks = append(lacks, "a figure for how much confounding of its mediator and outcome would explain it "+
-				"away (see confounding-sensitivity)")
+				"away")
 		}
 	}
 	if len(lacks) == 0 {
-		return Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+		return Finding{Severity: SeverityInfo, Claim: c.ID, Topic: "wording", Message: fmt.Sprintf(
 			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs%s.",
 			c.ID,
 			quoted,
@@ -172,7 +172,7 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	if a.Study.Declared == nil {
 		sev = headlineSeverity(c)
 	}
-	return Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+	return Finding{Severity: sev, Claim: c.ID, Topic: "wording", Message: fmt.Sprintf(
 		"%s is worded causally (%s) from a non-randomized design without %s.",
 		c.ID,
 		quoted,
@@ -219,6 +219,8 @@ func targetTrialFinding(t *TargetTrial) []Finding {
 		return []Finding{
 			{
 				Severity: StatusWarn,
+				Topic:    "target-trial",
+				ask:      "target-trial-missing",
 				Message:  "No target trial is described: the randomized trial these causal claims emulate (population, intervention, comparator, outcome, follow-up; Hernán & Robins 2016) is left unsaid.",
 			},
 		}
@@ -236,6 +238,7 @@ func targetTrialFinding(t *TargetTrial) []Finding {
 		return []Finding{
 			{
 				Severity: SeverityInfo,
+				Topic:    "target-trial",
 				Message:  "The target trial is described in all five parts (Hernán & Robins 2016).",
 			},
 		}
@@ -243,6 +246,7 @@ func targetTrialFinding(t *TargetTrial) []Finding {
 	return []Finding{
 		{
 			Severity: StatusWarn,
+			Topic:    "target-trial",
 			Message:  "The target trial lacks its " + strings.Join(missing, ", ") + " (Hernán & Robins 2016).",
 		},
 	}

@@ -74,7 +74,8 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 			sev := map[bool]string{true: SeverityInfo, false: StatusWarn}[ce.contradicted]
 			fs = append(
 				fs,
-				Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)},
+				Finding{Severity: sev, Claim: c.ID, Topic: "e-value", ask: "e-value-missing",
+					Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)},
 			)
 			if ce.contradicted {
 				g.contradicted = append(g.contradicted, c.ID)
@@ -278,6 +279,6 @@ func eValueFinding(c Claim, ev *EValue) Finding {
 		how = fmt.Sprintf("an unmeasured confounder of strength %.2f could explain the estimate away, and the "+
 			"interval already includes no effect", *ev.Estimate)
 	}
-	return Finding{Severity: sev, Claim: c.ID,
+	return Finding{Severity: sev, Claim: c.ID, Topic: "e-value",
 		Message: fmt.Sprintf("E-value for %s (%s figures; %s): %s.", c.ID, ev.Source, ev.Conversion, how)}
 }

@@ -93,15 +93,15 @@ func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
 		return nil
 	}
 	if s.Package.Graph.EquivalentsDiscussed {
-		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
+		return []Finding{{Severity: SeverityInfo, Topic: "discussion", Message: fmt.Sprintf(
 			"The authors say they discussed the graphs equivalent to theirs (the class has %s members, the declared "+
 				"graph among them).", eq.size)}}
 	}
 	if onlyDeclared(eq) { // nothing plausible to discuss: a warning would ask for nothing
-		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(ruledOutFormat, otherGraphs(eq.size),
-			knowledgeKinds(s))}}
+		return []Finding{{Severity: SeverityInfo, Topic: "discussion",
+			Message: fmt.Sprintf(ruledOutFormat, otherGraphs(eq.size), knowledgeKinds(s))}}
 	}
-	return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
+	return []Finding{{Severity: StatusWarn, Topic: "discussion", Message: fmt.Sprintf(
 		"%s fit any data exactly as well as the declared one (%s), and the authors do not discuss them.",
 		otherGraphs(eq.size), plausibleOthers(eq.plausible))}}
 }

@@ -316,7 +316,8 @@ func indirectAgainstGraph(s *Study, c Claim) []Finding {
 	if len(paths) >= maxPaths {
 		more += fmt.Sprintf(" (of the first %d paths counted)", maxPaths)
 	}
-	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(pathsFormat, c.ID, c.From, c.To,
+	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "indirect-paths", Message: fmt.Sprintf(pathsFormat,
+		c.ID, c.From, c.To,
 		throughText(c), count(n, "directed path", "directed paths"), strings.Join(shown, "; "), more)}}
 }
 

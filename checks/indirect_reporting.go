@@ -26,7 +26,7 @@ const (
 	skewFormat = "%s reports %s. A test or interval that takes the product of coefficients as normally " +
 		"distributed is inaccurate for an indirect effect, whose sampling distribution is skewed, most often with " +
 		"too little power (Preacher & Hayes 2008; MacKinnon, Lockwood & Williams 2004). A percentile bootstrap or " +
-		"Monte Carlo interval follows the skew; recomputed here: %s."
+		"Monte Carlo interval follows the skew; %s."
 	skewPFormat = "a p-value (%s) for an indirect effect, which comes from Sobel's test or another normal-theory " +
 		"test"
 	skewCIFormat = "an interval symmetric about its estimate to the rounding of its figures (%g to %g around " +
@@ -76,12 +76,12 @@ func skewFinding(c Claim, pr printed, decl est) *Finding {
 	default:
 		return nil
 	}
-	re := "no estimate could be made"
+	re := "the screen could not recompute one from the data"
 	if decl.ok() && decl.method != MethodZero {
-		re = decl.judgedText()
+		re = "from the data, the screen gets a " + decl.judgedText()
 	}
-	return &Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(skewFormat, c.ID, what, re),
-		Details: map[string]any{skewKey: true}}
+	return &Finding{Severity: sev, Claim: c.ID, Topic: "normal-theory-indirect", Message: fmt.Sprintf(skewFormat,
+		c.ID, what, re), Details: map[string]any{skewKey: true}}
 }
 
 // skewKey marks the findings about normal-theory tests of indirect
@@ -139,14 +139,15 @@ func (a *Analysis) proportionFinding(i int, c Claim, decl est) []Finding {
 	tot := a.estimateClaim(tc, a.declaredParentsFor(c))
 	switch {
 	case !tot.ok():
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(noProportionFormat, c.ID,
-			c.From, c.To, "not known", "as it could not be estimated ("+tot.err.Error()+")")}}
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "proportion-mediated",
+			Message: fmt.Sprintf(noProportionFormat, c.ID, c.From, c.To, "not known", "as it could not be estimated ("+tot.err.Error()+")")}}
 	case tot.method == MethodZero || tot.category(a.Alpha) == 0:
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(noProportionFormat, c.ID,
-			c.From, c.To, "not significant", valueText(tot))}}
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "proportion-mediated",
+			Message: fmt.Sprintf(noProportionFormat, c.ID, c.From, c.To, "not significant", valueText(tot))}}
 	case tot.scale != decl.scale || math.Signbit(tot.additive) != math.Signbit(decl.additive):
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(noProportionFormat, c.ID,
-			c.From, c.To, "significant with the other sign than the indirect effect", valueText(tot))}}
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "proportion-mediated",
+			Message: fmt.Sprintf(noProportionFormat, c.ID, c.From, c.To,
+				"significant with the other sign than the indirect effect", valueText(tot))}}
 	}
 	share := decl.value / tot.value
 	a.Claims[i].ProportionMediated = &ProportionMediated{Proportion: finite(share), TotalEffect: a.report(tot),
@@ -155,7 +156,8 @@ func (a *Analysis) proportionFinding(i int, c Claim, decl est) []Finding {
 	if len(tot.adjusted) > 0 {
 		on = joinAnd(append([]string{c.From}, a.names(tot.adjusted)...))
 	}
-	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(proportionFormat, c.ID,
+	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "proportion-mediated", Message: fmt.Sprintf(
+		proportionFormat, c.ID,
 		100*share, c.From, c.To, estText(decl.value), estText(tot.value), c.From, c.To, on, valueText(tot))}}
 }
 
@@ -171,7 +173,8 @@ func (a *Analysis) indirectAbsence(i int, c Claim, decl est) Finding {
 		k, scaled = 1, true
 	}
 	if !decl.ok() || decl.method == MethodZero || decl.judge == nil || !scaled || len(decl.draws) < 2 {
-		return Finding{Severity: StatusWarn, Claim: c.ID, Message: a.noAbsenceTest(c, decl)}
+		return Finding{Severity: StatusWarn, Claim: c.ID, Topic: "absence", ask: "absence-untested",
+			Message: a.noAbsenceTest(c, decl)}
 	}
 	margin, method := a.Study.SmallestEffect(), decl.judge.method
 	t := &AbsenceTest{Margin: margin, Source: "recomputed", Distribution: method}
@@ -185,16 +188,18 @@ func (a *Analysis) indirectAbsence(i int, c Claim, decl est) Finding {
 	switch {
 	case decl.category(a.Alpha) != 0:
 		t.Verdict = "effect_found"
-		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(absenceIndirectFound, c.ID,
-			decl.judgedText())}
+		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "absence", ask: "absence-contradicted",
+			Message: fmt.Sprintf(absenceIndirectFound, c.ID, decl.judgedText())}
 	case lo > -margin && hi < margin:
 		t.Verdict = "excludes_meaningful_effects"
-		f = Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(absenceIndirectExcludes, c.ID,
+		f = Finding{Severity: SeverityInfo, Claim: c.ID, Topic: "absence", Message: fmt.Sprintf(absenceIndirectExcludes,
+			c.ID,
 			level, name, estText(lo), estText(hi), margin, a.Alpha, a.marginSource(margin))}
 	default:
 		t.Verdict = "does_not_tell"
-		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(absenceIndirectUnclear, c.ID,
-			level, name, estText(lo), estText(hi), margin, a.marginSource(margin))}
+		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "absence", ask: "absence-undecided",
+			Message: fmt.Sprintf(absenceIndirectUnclear, c.ID,
+				level, name, estText(lo), estText(hi), margin, a.marginSource(margin))}
 	}
 	a.Claims[i].Absence = t
 	return f

@@ -121,10 +121,12 @@ func (a *Analysis) mediatorFinding(i int, c Claim) (Finding, bool) {
 		if why == "" {
 			why = "the error correlation is not a finite number"
 		}
-		return Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(noRhoFormat, c.ID, why)}, false
+		return Finding{Severity: StatusWarn, Claim: c.ID, Topic: "mediator-confounding", ask: "mediator-confounding-missing",
+			Message: fmt.Sprintf(noRhoFormat, c.ID, why)}, false
 	}
 	a.Claims[i].MediatorConfounding = mc
 	given := joinAnd(append([]string{c.From}, mc.Covariates...))
 	msg := fmt.Sprintf(rhoFormat, c.ID, mc.Mediator, c.To, estText(*mc.RhoAtZero), given, c.From)
-	return Finding{Severity: SeverityInfo, Claim: c.ID, Message: msg + a.directionCaution(i, c)}, true
+	return Finding{Severity: SeverityInfo, Claim: c.ID, Topic: "mediator-confounding",
+		Message: msg + a.directionCaution(i, c)}, true
 }

@@ -264,6 +264,7 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 			res.Findings,
 			Finding{
 				Severity: StatusWarn,
+				Topic:    "principled-failed",
 				Message: "The claims could not be re-estimated by " + principledMissing(
 					r,
 				) + ": " + r.err.Error() + ".",
@@ -294,7 +295,9 @@ func summaryMissing(method string) CheckResult {
 		res.Findings = []Finding{
 			{
 				Severity: StatusWarn,
-				Message:  name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data). With summary statistics only, pathvet cannot re-estimate the claims; ask the authors for the raw rows, or for the analysis by maximum likelihood or multiple imputation.",
+				Topic:    "method",
+				ask:      "method-unsound-summary",
+				Message:  name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data). With summary statistics only, the screen cannot re-estimate the claims by maximum likelihood or multiple imputation.",
 			},
 		}
 		res.Status = StatusWarn
@@ -319,8 +322,9 @@ func completeRows(method string, res CheckResult) CheckResult {
 		res.Findings = []Finding{
 			{
 				Severity: StatusWarn,
+				Topic:    "completed-data",
 				Message: fmt.Sprintf(
-					"The rows have no missing value although the package says missing values were handled by %s: the uploaded data may be the completed data. Ask for the raw rows with their missing cells.",
+					"The rows have no missing value although the package says missing values were handled by %s: the uploaded data may be the completed data.",
 					lowerFirst(name),
 				),
 			},

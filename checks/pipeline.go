@@ -182,6 +182,7 @@ func runCheck(ctx context.Context, c Check, a *Analysis) (res CheckResult) {
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}
+	a.identify(c.ID, res.Findings)
 	if res.Metrics == nil {
 		res.Metrics = map[string]any{}
 	}

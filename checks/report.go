@@ -93,11 +93,21 @@ type CheckResult struct {
 }
 
 // Finding is one observation, tied to a claim where it is about one.
+// Key names it for good: the check, the claim and the topic (what it is
+// about, never its wording or numbers), so that the same finding on a
+// resubmission has the same key (keys.go). Question is the default
+// question for the authors, for a fail or warn finding (questions.go).
 type Finding struct {
+	Key      string         `json:"key"`
 	Severity string         `json:"severity"`
 	Claim    string         `json:"claim,omitempty"`
+	Topic    string         `json:"topic"`
 	Message  string         `json:"message"`
+	Question string         `json:"question,omitempty"`
 	Details  map[string]any `json:"details,omitempty"`
+	// ask picks the question where a topic's question depends on what was
+	// found (an unexported question kind; "" takes the topic's).
+	ask string
 }
 
 // GraphReport describes the declared graph and its equivalence class.

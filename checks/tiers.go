@@ -54,7 +54,7 @@ func (a *Analysis) tierFinding(eq *equivalenceResult) []Finding {
 	}
 	order := count(len(s.Tiers), "tier", "tiers")
 	if len(lines) == 0 {
-		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(tiersAllFormat, order)}}
+		return []Finding{{Severity: SeverityInfo, Topic: "tiers", Message: fmt.Sprintf(tiersAllFormat, order)}}
 	}
 	var parts []string
 	for _, l := range lines {
@@ -64,6 +64,6 @@ func (a *Analysis) tierFinding(eq *equivalenceResult) []Finding {
 		}
 		parts = append(parts, fmt.Sprintf("%s — %s (%s)", s.Names[l.U], s.Names[l.V], where))
 	}
-	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(tiersOpenFormat, order,
+	return []Finding{{Severity: SeverityInfo, Topic: "tiers", Message: fmt.Sprintf(tiersOpenFormat, order,
 		count(len(lines), "edge", "edges"), strings.Join(parts, ", "), plural(len(lines), "it points", "they point"))}}
 }

@@ -157,6 +157,8 @@ func TestBrowser_Workspace(t *testing.T) {
 		mustContain(t, ctx, "h1", "Not found")
 	})
 	t.Run("NoCSRF", func(t *testing.T) { checkCSRF(t, ctx, f) })
+	t.Run("Review", func(t *testing.T) { checkReview(t, ctx, f) })
+	t.Run("Delete", func(t *testing.T) { checkDelete(t, ctx, f) })
 	t.Run("SignOut", func(t *testing.T) { checkSignOut(t, ctx, f) })
 }
 

@@ -93,7 +93,7 @@ func (m *Main) apiConfig(metrics *api.Metrics, egress *service.Egress) api.Confi
 		m.Logger.Warn("behind a TLS proxy but no --trusted-proxies: sign-in failures are counted by the " +
 			"proxy's address, which every client shares")
 	}
-	return api.Config{Store: m.DB, Web: m.DB, TLSProxy: m.Config.TLSProxy, TrustedProxies: proxies,
+	return api.Config{Store: m.DB, Web: m.DB, Review: m.DB, TLSProxy: m.Config.TLSProxy, TrustedProxies: proxies,
 		Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics, LargeIngests: m.Config.LargeIngests,
 		Egress: egress, JobMemory: m.Config.JobMemoryMiB << 20}
 }
