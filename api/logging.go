@@ -8,6 +8,16 @@ import (
 	"github.com/labstack/echo/v4/middleware"
 )
 
+// loggedURI is the request's URI as the log keeps it: a published
+// comment's address without its secret part, which only those the office
+// gave it to should hold.
+func loggedURI(v middleware.RequestLoggerValues) string {
+	if v.RoutePath == commentPath+":token" {
+		return commentPath + "(address withheld)"
+	}
+	return v.URI
+}
+
 // logRequests writes one structured log line per request, with its id.
 func (s *Server) logRequests() echo.MiddlewareFunc {
 	return middleware.RequestLoggerWithConfig(middleware.RequestLoggerConfig{
@@ -20,7 +30,7 @@ func (s *Server) logRequests() echo.MiddlewareFunc {
 			}
 			attrs := []slog.Attr{
 				slog.String("method", v.Method),
-				slog.String("uri", v.URI),
+				slog.String("uri", loggedURI(v)),
 				slog.String("route", v.RoutePath),
 				slog.Int(
 					"status",

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"net/http"
+	"strings"
 
 	"github.com/labstack/echo/v4"
 
@@ -41,6 +42,10 @@ var problemTypes = map[int]string{
 	http.StatusGatewayTimeout:              "https://pathvet.example/problems/timeout",
 }
 
+// invalidRequestType is the type of a 422 about a request's fields rather
+// than a package.
+const invalidRequestType = "https://pathvet.example/problems/invalid-request"
+
 // problemError is an error with the HTTP status and detail to show.
 func problemError(status int, detail string) error {
 	return &echo.HTTPError{Code: status, Message: detail}
@@ -65,6 +70,7 @@ func problemFor(err error) (Problem, bool) {
 	var he *echo.HTTPError
 	var ip *checks.InvalidPackageError
 	var ce *checks.Error
+	var inv *invalidFields
 	switch {
 	case errors.As(err, &he):
 		detail, _ := he.Message.(string)
@@ -76,7 +82,11 @@ func problemFor(err error) (Problem, bool) {
 			Errors: ip.Problems,
 		}, false
 	case errors.As(err, &ip):
-		return Problem{Status: http.StatusUnprocessableEntity, Detail: invalidPackageDetail, Errors: ip.Problems}, false
+		return Problem{Status: http.StatusUnprocessableEntity, Detail: invalidPackageDetail,
+			Errors: ip.Problems}, false
+	case errors.As(err, &inv):
+		return Problem{Type: invalidRequestType, Status: http.StatusUnprocessableEntity, Detail: invalidFieldsDetail,
+			Errors: inv.problems}, false
 	case errors.As(err, &ce) && ce.Code == checks.EInvalid:
 		return Problem{Status: http.StatusUnprocessableEntity, Detail: ce.Message}, false
 	case errors.Is(err, errTimeout):
@@ -89,6 +99,20 @@ func problemFor(err error) (Problem, bool) {
 }
 
 var errTimeout = errors.New("timeout")
+
+// invalidFields is a request whose fields break the rules (a decision on
+// a finding): 422 with each field's JSON pointer.
+type invalidFields struct{ problems []checks.Problem }
+
+func (e *invalidFields) Error() string {
+	parts := make([]string, len(e.problems))
+	for i, p := range e.problems {
+		parts[i] = p.String()
+	}
+	return strings.Join(parts, "; ")
+}
+
+const invalidFieldsDetail = "The request's fields break a rule; each problem is named by its JSON pointer."
 
 // retryAfter is the Retry-After of every 503, in seconds.
 const retryAfter = "5"
@@ -129,7 +153,9 @@ func (s *Server) problem(err error, c echo.Context) Problem {
 	if allow := c.Response().Header().Get(echo.HeaderAllow); p.Status == http.StatusMethodNotAllowed && allow != "" {
 		p.Detail = fmt.Sprintf("%s is not a method of this path; it answers %s.", c.Request().Method, allow)
 	}
-	p.Type = problemTypes[p.Status]
+	if p.Type == "" {
+		p.Type = problemTypes[p.Status]
+	}
 	if p.Type == "" {
 		p.Type = "about:blank"
 	}

@@ -6,6 +6,7 @@ import (
 	"github.com/labstack/echo/v4"
 	"github.com/labstack/echo/v4/middleware"
 
+	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks/render"
 )
 
@@ -40,6 +41,9 @@ func (s *Server) routes() {
 	v1.GET("/webhook", s.getWebhook, auth, editorOnly)
 	v1.DELETE("/webhook", s.deleteWebhook, auth, editorOnly)
 	v1.GET("/webhook/deliveries", s.listDeliveries, auth, editorOnly)
+	if s.cfg.Review != nil {
+		s.reviewRoutes(v1, auth)
+	}
 
 	if s.cfg.Web != nil {
 		s.webRoutes()
@@ -69,6 +73,36 @@ func (s *Server) webRoutes() {
 	e.GET("/submissions/new", s.newScreening, signedIn...)
 	e.POST("/submissions/new", s.postScreening, form...)
 	e.GET(render.ScreeningScriptPath, s.screeningScript, s.webPage)
+	if s.cfg.Review != nil {
+		e.GET("/submissions/:id/delete", s.webConfirmDelete, signedIn...)
+		e.POST("/submissions/:id/findings/:key/annotation", s.webAnnotate, signedIn...)
+		e.POST("/submissions/:id/comment", s.webPublish, signedIn...)
+		e.POST("/submissions/:id/comment/withdraw", s.webWithdraw, signedIn...)
+	}
+}
+
+// reviewRoutes registers the review: findings with their decisions, the
+// letter and the published comment, for editor keys; and the published
+// comment's page, for anyone with its address (no key, no session).
+func (s *Server) reviewRoutes(v1 *echo.Group, auth echo.MiddlewareFunc) {
+	v1.GET("/submissions/:id/findings", s.listFindings, auth, reviewersOnly)
+	v1.PUT("/submissions/:id/findings/:key/annotation", s.putAnnotation, auth, reviewersOnly)
+	v1.GET("/submissions/:id/annotations", s.listAnnotations, auth, reviewersOnly)
+	v1.GET("/submissions/:id/letter.md", s.apiLetter, auth, reviewersOnly)
+	v1.POST("/submissions/:id/comment", s.publishComment, auth, reviewersOnly)
+	v1.GET("/submissions/:id/comment", s.getComment, auth, reviewersOnly)
+	v1.DELETE("/submissions/:id/comment", s.withdrawComment, auth, reviewersOnly)
+	s.echo.GET(commentPath+":token", s.publishedComment)
+}
+
+// reviewersOnly lets editor keys through; a submitter key gets 403.
+func reviewersOnly(next echo.HandlerFunc) echo.HandlerFunc {
+	return func(c echo.Context) error {
+		if keyOf(c).Role != service.RoleEditor {
+			return problemError(http.StatusForbidden, "Only an editor key may read or make the review's decisions.")
+		}
+		return next(c)
+	}
 }
 
 func (s *Server) healthz(c echo.Context) error {

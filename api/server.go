@@ -48,7 +48,10 @@ type Config struct {
 	// routes are not served. TLSProxy: the server sits behind a
 	// TLS-terminating proxy (Secure cookies). SessionTTL is how long a
 	// sign-in lasts.
-	Web        WebStore
+	Web WebStore
+	// Review is the review's storage (decisions on findings, published
+	// comments); without it the review's routes are not served.
+	Review     ReviewStore
 	TLSProxy   bool
 	SessionTTL time.Duration
 	// TrustedProxies are the proxies whose X-Forwarded-For entries are

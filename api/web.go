@@ -72,6 +72,9 @@ func (s *Server) dashboard(c echo.Context) (*render.Dashboard, error) {
 	if err := s.fillCounts(c, d); err != nil {
 		return nil, err
 	}
+	if err := s.fillReviewed(c, d); err != nil {
+		return nil, err
+	}
 	return d, s.fillRecurring(c, d, sc)
 }
 
@@ -156,6 +159,34 @@ func keyLabel(sub *service.Submission) string {
 		return l
 	}
 	return "key " + strconv.FormatInt(sub.SubmitterKeyID, 10) + " (no label)"
+}
+
+// dashboardComments is how many published comments the dashboard lists.
+const dashboardComments = 20
+
+// fillReviewed says what was just deleted (?deleted= names it) and lists
+// the office's published comments.
+func (s *Server) fillReviewed(c echo.Context, d *render.Dashboard) error {
+	if s.cfg.Review == nil {
+		return nil
+	}
+	ctx, sc := c.Request().Context(), keyOf(c).Scope()
+	if id := c.QueryParam("deleted"); id != "" {
+		del, err := s.cfg.Review.Deletion(ctx, id, sc)
+		switch {
+		case err == nil:
+			d.Deleted = &render.Deleted{Title: del.Title, ManuscriptID: del.ManuscriptID, By: byWords(del.By),
+				At: webTime(del.At), Reports: del.Reports, Comment: del.Comment}
+		case service.ErrorCode(err) != service.ENotFound:
+			return err
+		}
+	}
+	cs, err := s.cfg.Review.Comments(ctx, sc, dashboardComments)
+	for _, cm := range cs {
+		d.Comments = append(d.Comments, render.PublishedRow{SubmissionID: cm.SubmissionID, Title: cm.Title,
+			URL: s.commentURL(c, cm.Token), At: webTime(cm.PublishedAt)})
+	}
+	return err
 }
 
 func (s *Server) fillCounts(c echo.Context, d *render.Dashboard) error {

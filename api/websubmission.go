@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"net/http"
+	"net/url"
 	"strconv"
 	"strings"
 
@@ -60,7 +61,13 @@ func (s *Server) workspace(c echo.Context, sub *service.Submission, hist []servi
 	if shown > 0 {
 		ws.Earlier = fmt.Sprintf("This is an earlier report, number %d of %d.", len(hist)-shown, len(hist))
 	}
-	ws.Previous, err = s.previous(c, sub, rep)
+	switch {
+	case shown > 0: // an earlier report: the review and the comparison are the newest report's
+		return rep, ws, nil
+	case s.cfg.Review != nil && keyOf(c).Role == service.RoleEditor:
+		return rep, ws, s.fillReview(c, &ws)
+	}
+	ws.Since, err = s.plainSince(c, sub, rep)
 	return rep, ws, err
 }
 
@@ -107,7 +114,10 @@ func historyEntries(id string, hist []service.ReportEntry, shown int) []render.H
 	return out
 }
 
-func (s *Server) previous(c echo.Context, sub *service.Submission, rep *checks.Report) (*render.Previous, error) {
+// plainSince is the comparison with the previous version for a page
+// without the review (a submitter's session): what the authors changed
+// and how the claims moved, without the points asked.
+func (s *Server) plainSince(c echo.Context, sub *service.Submission, rep *checks.Report) (*render.Since, error) {
 	prev, b, err := s.cfg.Web.PreviousVersion(c.Request().Context(), sub, keyOf(c).Scope())
 	if service.ErrorCode(err) == service.ENotFound {
 		return nil, nil
@@ -115,37 +125,26 @@ func (s *Server) previous(c echo.Context, sub *service.Submission, rep *checks.R
 	if err != nil {
 		return nil, err
 	}
-	p := &render.Previous{ID: prev.ID, Received: prev.CreatedAt.UTC().Format(timeFormat)}
+	var old *checks.Report
 	if b != nil {
-		old, err := decodeReport(b)
-		if err != nil {
+		if old, err = decodeReport(b); err != nil {
 			return nil, err
 		}
-		ch := render.Changes(old, rep)
-		p.Change = &ch
 	}
-	return p, nil
+	return s.sinceOf(c, prev, old, sub, rep, nil)
 }
 
 // webLetter is GET /submissions/{id}/letter.md: the questions for the
 // authors of the newest report, as Markdown.
 func (s *Server) webLetter(c echo.Context) error {
-	r, err := s.cfg.Store.LatestReport(c.Request().Context(), c.Param("id"), keyOf(c).Scope(), 0)
+	if ok, err := s.editorsOnly(c); !ok {
+		return err
+	}
+	st, err := s.reviewOf(c)
 	if err != nil {
 		return err
 	}
-	rep, err := decodeReport(r.JSON)
-	if err != nil {
-		return err
-	}
-	var out strings.Builder
-	if err := render.WriteLetter(&out, rep); err != nil {
-		return err
-	}
-	h := c.Response().Header()
-	h.Set("Content-Disposition", fmt.Sprintf(`inline; filename="questions-%s.md"`, c.Param("id")))
-	h.Set("Cache-Control", "no-store")
-	return c.Blob(http.StatusOK, "text/markdown; charset=utf-8", []byte(out.String()))
+	return writeLetter(c, st)
 }
 
 // webRerun is POST /submissions/{id}/rerun from the page's form.
@@ -161,10 +160,40 @@ func (s *Server) webRerun(c echo.Context) error {
 	return c.Redirect(http.StatusSeeOther, "/submissions/"+sub.ID)
 }
 
-// webDelete is POST /submissions/{id}/delete from the page's form.
+// webDelete is POST /submissions/{id}/delete. Only the form of the page
+// that asks first (confirm=yes) deletes; any other post is sent to that
+// page. The dashboard then says what was deleted.
 func (s *Server) webDelete(c echo.Context) error {
-	if err := s.cfg.Store.DeleteSubmission(c.Request().Context(), c.Param("id"), keyOf(c).Scope()); err != nil {
+	id := c.Param("id")
+	if c.FormValue("confirm") != "yes" {
+		return c.Redirect(http.StatusSeeOther, "/submissions/"+url.PathEscape(id)+"/delete")
+	}
+	if err := s.cfg.Store.DeleteSubmission(c.Request().Context(), id, keyOf(c).Scope()); err != nil {
 		return err
 	}
-	return c.Redirect(http.StatusSeeOther, "/")
+	return c.Redirect(http.StatusSeeOther, "/?deleted="+url.QueryEscape(id))
+}
+
+// webConfirmDelete is GET /submissions/{id}/delete: what a deletion takes
+// with it, and the one form that deletes.
+func (s *Server) webConfirmDelete(c echo.Context) error {
+	ctx, sc := c.Request().Context(), keyOf(c).Scope()
+	sub, err := s.cfg.Store.Submission(ctx, c.Param("id"), sc)
+	if err != nil {
+		return err
+	}
+	d := render.ConfirmDelete{Nav: s.nav(c), ID: sub.ID, Title: sub.Title, ManuscriptID: sub.ManuscriptID,
+		Received: sub.CreatedAt.UTC().Format(timeFormat), Reports: sub.Reports}
+	if s.cfg.Review != nil {
+		as, err := s.cfg.Review.Annotations(ctx, sub.ID, sc)
+		if err != nil {
+			return err
+		}
+		_, err = s.cfg.Review.Comment(ctx, sub.ID, sc)
+		if err != nil && service.ErrorCode(err) != service.ENotFound {
+			return err
+		}
+		d.Decisions, d.Comment = len(as), err == nil
+	}
+	return s.page(c, http.StatusOK, func(b *strings.Builder) error { return render.WriteConfirmDelete(b, d) })
 }

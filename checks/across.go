@@ -3,6 +3,7 @@ package checks
 import (
 	"fmt"
 	"math"
+	"math/big"
 	"slices"
 	"strconv"
 
@@ -38,6 +39,9 @@ type AcrossEquivalents struct {
 	Differing int       `json:"estimates_differing"`
 	Failed    int       `json:"estimates_failed,omitempty"`
 	Contrast  *Contrast `json:"contrast,omitempty"`
+	// NotComputed says why the claim was not re-estimated across the
+	// class (an indirect effect in a class too large to list).
+	NotComputed string `json:"not_computed,omitempty"`
 	// zero counts the estimates in which the graph gives the claim no
 	// effect (the arrow reversed, no path left).
 	zero int
@@ -172,6 +176,9 @@ func (a *Analysis) acrossEquivalents(c Claim, declared est) (*AcrossEquivalents,
 	if err != nil {
 		return nil, err
 	}
+	if graphs == nil && c.Kind == KindIndirect {
+		return notComputedAcross(a.equivalenceClass().plausible), nil
+	}
 	if graphs == nil {
 		node := a.parentsNode(c)
 		if graphs, err = a.localGraphs(node); err != nil {
@@ -228,6 +235,23 @@ func (a *Analysis) summarizeAcross(c Claim, declared est, graphs []alternativeGr
 		r.Contrast = a.contrast(*best, bestEst)
 	}
 	return r
+}
+
+// notComputedFormat says why an indirect effect is not re-estimated in a
+// class past the listing limit.
+const notComputedFormat = "the class has %s plausible members, more than the %d in which claims are re-estimated " +
+	"one by one, and an indirect effect needs whole graphs, which IDA's locally valid parent sets (the parents " +
+	"of one variable) are not; it was not computed"
+
+// notComputedAcross is an indirect claim's summary over a class too large
+// to list.
+func notComputedAcross(plausible *big.Int) *AcrossEquivalents {
+	n := "more than " + fmt.Sprint(MaxMembersForEstimation)
+	if plausible != nil {
+		n = plausible.String()
+	}
+	return &AcrossEquivalents{Method: AcrossMembers,
+		NotComputed: fmt.Sprintf(notComputedFormat, n, MaxMembersForEstimation)}
 }
 
 // zeroOnScale is the value of "no effect" on a scale: 1 for odds ratios.

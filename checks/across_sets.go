@@ -17,7 +17,25 @@ func (a *Analysis) memberEstimator(c Claim) graphEstimator {
 	return func(g alternativeGraph) est { return a.estimateClaim(c, g.pa) }
 }
 
+// parentSetEstimator is what an estimator (estimator.go) may offer beside
+// the seam's two methods: a claim estimated over many locally valid
+// parent sets of one node at once, each the same estimate that under and
+// claim would give. The observed path model offers it; an estimator
+// without it is asked set by set.
+type parentSetEstimator interface {
+	overParentSets(c Claim, cpdag *dag.PDAG, node int) graphEstimator
+}
+
 // setEstimator estimates claim c over the locally valid parent sets of
+// node in the class of cpdag, through the study's estimator.
+func (a *Analysis) setEstimator(c Claim, cpdag *dag.PDAG, node int) graphEstimator {
+	if p, ok := a.estimator().(parentSetEstimator); ok {
+		return p.overParentSets(c, cpdag, node)
+	}
+	return a.memberEstimator(c)
+}
+
+// overParentSets estimates claim c over the locally valid parent sets of
 // node (parentsNode) in the class of cpdag. Every such set is the node's
 // arcs in the CPDAG plus some of its undirected neighbours, so the OLS fits
 // share the compelled parents (a total effect: the cause and its
@@ -27,7 +45,8 @@ func (a *Analysis) memberEstimator(c Claim) graphEstimator {
 // matrix that might fail FromMoments' condition check, a structural zero,
 // a fit that fails) a set is estimated by estimateClaim, so the estimates
 // are the same either way (TestSetEstimator_AgreesWithEstimateClaim).
-func (a *Analysis) setEstimator(c Claim, cpdag *dag.PDAG, node int) graphEstimator {
+func (obs observedEstimator) overParentSets(c Claim, cpdag *dag.PDAG, node int) graphEstimator {
+	a := obs.a
 	slow := a.memberEstimator(c)
 	m, err := a.moments()
 	if err != nil || !(c.Kind == KindDirect || c.Kind == KindTotal) {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"github.com/pathvet/pathvet/checks/dag"
 )
@@ -38,8 +39,9 @@ func runAlternatives(ctx context.Context, a *Analysis) (CheckResult, error) {
 		return CheckResult{Status: StatusWarn, Metrics: map[string]any{"alternatives": 0},
 			Summary: "The paper states no alternative graph for its causal claims; ask which other causal orders " +
 				"the authors considered and why they rejected them.",
-			Findings: []Finding{{Severity: StatusWarn, Message: "No alternative graph is stated, so nothing shows " +
-				"the causal claims were weighed against another causal order."}}}, nil
+			Findings: []Finding{{Severity: StatusWarn, Topic: "none-stated",
+				Message: "No alternative graph is stated, so nothing shows " +
+					"the causal claims were weighed against another causal order."}}}, nil
 	case len(s.Alternatives) == 0:
 		return CheckResult{Status: StatusNotApplicable}, nil
 	case s.Declared == nil:
@@ -135,17 +137,17 @@ func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG,
 	equivalent := same && dag.CPDAG(alt).Key() == declCPDAG
 	row := map[string]any{"name": name, "equivalent": equivalent, "same_variables": same}
 	var fs []Finding
-	delta, fitted := 0.0, false
+	delta, fitted, fit := 0.0, false, topic("fit", slug(name))
 	switch {
 	case equivalent:
-		fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
+		fs = append(fs, Finding{Severity: SeverityInfo, Topic: fit, Message: fmt.Sprintf(
 			"The alternative %q is Markov equivalent to the declared graph: it fits any data exactly as well, so the "+
 				"data cannot tell the two apart.", name)})
 	default:
 		af, err := a.fitGraph(ctx, alt, in)
 		if err != nil {
-			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf("The alternative %q could not be "+
-				"fitted to the data: %v.", name, err)})
+			fs = append(fs, Finding{Severity: StatusWarn, Topic: fit, Question: alternativeFitQuestion(name, false),
+				Message: fmt.Sprintf("The alternative %q could not be fitted to the data: %v.", name, err)})
 			break
 		}
 		delta, fitted = af.fit.BIC-declFit.fit.BIC, true
@@ -153,14 +155,16 @@ func (a *Analysis) compareAlternative(ctx context.Context, j int, alt *dag.PDAG,
 		row["p_value"], row["bic"] = num(af.fit.P), num(af.fit.BIC)
 		if same {
 			row["delta_bic"] = num(delta)
-			fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
+			fs = append(fs, Finding{Severity: SeverityInfo, Topic: fit, Message: fmt.Sprintf(
 				"The alternative %q: χ² = %.2f on %d df against %.2f on %d df for the declared graph; ΔBIC = %+.1f "+
 					"(negative favours the alternative).",
 				name, af.fit.ChiSquare, af.fit.DF, declFit.fit.ChiSquare, declFit.fit.DF, delta)})
 		} else {
-			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-				"The alternative %q does not cover the same variables as the declared graph, so their fits cannot be "+
-					"compared.", name)})
+			fs = append(fs, Finding{Severity: StatusWarn, Topic: topic("variables", slug(name)),
+				Question: alternativeFitQuestion(name, true), Message: fmt.Sprintf(
+					"The alternative %q does not cover the same variables as the declared graph, so their fits "+
+						"cannot be "+
+						"compared.", name)})
 		}
 	}
 	// About as well: equivalent, or |ΔBIC| < 2; better: ΔBIC ≤ −2 (Raftery
@@ -196,13 +200,14 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	e := a.estimateClaim(c, alt.Parents)
 	r := a.report(e)
 	ae.Estimate, ae.CI, ae.PValue, ae.Method, ae.Error = r.Estimate, r.CI, r.PValue, r.Method, r.Error
-	ae.StructuralZero = r.StructuralZero
+	ae.StructuralZero, ae.Significance = r.StructuralZero, r.Significance
 	if !e.ok() && decl.ok() && challenges {
 		fit := "which the data cannot tell from the declared graph"
 		if !equivalent {
 			fit = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", fitWord(delta), delta)
 		}
 		return ae, []Finding{{Severity: StatusWarn, Claim: c.ID, Details: map[string]any{"not_estimated": true},
+			Topic: topic("under", slug(name)), Question: alternativeQuestion("unestimated", name),
 			Message: fmt.Sprintf("%s could not be estimated under the alternative %q, %s (%s), so whether its "+
 				"conclusion holds there is not known.", c.ID, name, fit, ae.Error)}}
 	}
@@ -217,6 +222,9 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 	if !equivalent {
 		how = fmt.Sprintf("which fits the data %s (ΔBIC = %+.1f)", fitWord(delta), delta)
 	}
+	if e.method == MethodZero && c.Kind == KindIndirect { // say why, in words
+		how = "which has " + strings.TrimSuffix(e.zero, " in this graph") + " and " + how
+	}
 	sev := SeverityInfo
 	if challenges {
 		sev = StatusWarn
@@ -224,7 +232,8 @@ func (a *Analysis) claimUnderAlternative(i int, c Claim, name string, alt *dag.P
 			sev = StatusFail
 		}
 	}
-	return ae, []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
-		"%s is %s under the declared graph but %s under the alternative %q, "+
-			"%s.", c.ID, valueText(decl), valueText(e), name, how)}}
+	return ae, []Finding{{Severity: sev, Claim: c.ID, Topic: topic("under", slug(name)),
+		Question: alternativeQuestion("changed", name), Message: fmt.Sprintf(
+			"%s is %s under the declared graph but %s under the alternative %q, "+
+				"%s.", c.ID, valueText(decl), valueText(e), name, how)}}
 }

@@ -35,6 +35,7 @@ var calibration = []struct {
 	},
 	{"../testdata/demo/tutoring-anxiety/package.json", "tutoring-anxiety (25)", 25, checks.BandHigh},
 	{"../testdata/demo/sleep-attention/package.json", "sleep-attention (35)", 35, checks.BandHigh},
+	{"../testdata/demo/mentoring-waves/package.json", "mentoring-waves (10)", 10, checks.BandHigh},
 	{
 		"../testdata/demo/coding-club/package.json",
 		"coding-club demo scores 65 (moderate concern)",

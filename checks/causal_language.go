@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"regexp"
+	"slices"
 	"strings"
 )
 
@@ -21,6 +22,16 @@ var causalWords = []string{
 }
 
 var causalRE = regexp.MustCompile(`(?i)\b(` + strings.Join(causalWords, "|") + `)\b`)
+
+// mediationWords state mediation, which is causal: that an effect runs
+// through a mediator. They are read in indirect-effect and association
+// claims only (a direct effect's text may name the path it is part of).
+var mediationWords = []string{
+	"through", "via", "mediate", "mediates", "mediated", "mediating", "mediation", "mediator", "mediators",
+	"explain", "explains", "explained", "explaining",
+}
+
+var mediationRE = regexp.MustCompile(`(?i)\b(` + strings.Join(mediationWords, "|") + `)\b`)
 
 // causal-language: do causal words in claims match the design, and is the
 // emulated trial described? (README, "Checks")
@@ -42,7 +53,7 @@ func runCausalLanguage(_ context.Context, a *Analysis) (CheckResult, error) {
 	var fs []Finding
 	worded := 0
 	for _, c := range s.Package.Claims {
-		words := uniqueMatches(c.Text)
+		words := claimWording(c)
 		if len(words) == 0 {
 			continue
 		}
@@ -96,10 +107,24 @@ func hasCausalClaim(p *Package) bool {
 	return false
 }
 
-func uniqueMatches(text string) []string {
+// claimWording lists the causal words of a claim's text, and for an
+// indirect effect or an association its mediation words too.
+func claimWording(c Claim) []string {
+	words := uniqueMatches(causalRE, c.Text)
+	if c.Kind == KindIndirect || c.Kind == KindAssociation {
+		for _, w := range uniqueMatches(mediationRE, c.Text) {
+			if !slices.Contains(words, w) {
+				words = append(words, w)
+			}
+		}
+	}
+	return words
+}
+
+func uniqueMatches(re *regexp.Regexp, text string) []string {
 	seen := map[string]bool{}
 	var out []string
-	for _, w := range causalRE.FindAllString(text, -1) {
+	for _, w := range re.FindAllString(text, -1) {
 		w = strings.ToLower(w)
 		if !seen[w] {
 			seen[w] = true
@@ -114,11 +139,11 @@ func uniqueMatches(text string) []string {
 func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	quoted := `"` + strings.Join(words, `", "`) + `"`
 	if c.Kind == KindAssociation {
-		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s is declared an association but worded causally (%s); from a non-randomized design, say \"is associated with\" or declare it as a causal claim with its graph.",
-			c.ID,
-			quoted,
-		)}
+		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "wording", ask: "wording-association",
+			Message: fmt.Sprintf("%s is declared an association but worded causally (%s); from a non-randomized design, say \"is associated with\" or declare it as a causal claim with its graph.",
+				c.ID,
+				quoted,
+			)}
 	}
 	var lacks []string
 	if a.Study.Declared == nil {
@@ -129,8 +154,14 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	if ce := a.claimEValue(c); ce.ev == nil && ce.why != "" && !ce.contradicted {
 		lacks = append(lacks, "figures from which an E-value can be computed (an estimate with its SE or interval)")
 	}
+	if i := a.claimIndex(c); c.Kind == KindIndirect && !c.AssertsAbsence {
+		if mc, _ := a.mediatorSensitivity(i); mc == nil || mc.RhoAtZero == nil {
+			lacks = append(lacks, "a figure for how much confounding of its mediator and outcome would explain it "+
+				"away")
+		}
+	}
 	if len(lacks) == 0 {
-		return Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+		return Finding{Severity: SeverityInfo, Claim: c.ID, Topic: "wording", Message: fmt.Sprintf(
 			"%s is worded causally (%s) and backed by a declared graph, a discussion of equivalent graphs%s.",
 			c.ID,
 			quoted,
@@ -141,7 +172,7 @@ func (a *Analysis) wordingFinding(c Claim, words []string) Finding {
 	if a.Study.Declared == nil {
 		sev = headlineSeverity(c)
 	}
-	return Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+	return Finding{Severity: sev, Claim: c.ID, Topic: "wording", Message: fmt.Sprintf(
 		"%s is worded causally (%s) from a non-randomized design without %s.",
 		c.ID,
 		quoted,
@@ -155,7 +186,20 @@ func (a *Analysis) eValueBacking(c Claim) string {
 	if a.claimEValue(c).ev != nil {
 		return " and E-values"
 	}
+	if mc, _ := a.mediatorSensitivity(a.claimIndex(c)); c.Kind == KindIndirect && mc != nil && mc.RhoAtZero != nil {
+		return " and the error correlation of mediator and outcome that would explain it away"
+	}
 	return ""
+}
+
+// claimIndex is the position of claim c in the package.
+func (a *Analysis) claimIndex(c Claim) int {
+	for i, cc := range a.Study.Package.Claims {
+		if cc.ID == c.ID {
+			return i
+		}
+	}
+	return -1
 }
 
 // claimEValue finds the E-value computed for a claim, if any.
@@ -175,6 +219,8 @@ func targetTrialFinding(t *TargetTrial) []Finding {
 		return []Finding{
 			{
 				Severity: StatusWarn,
+				Topic:    "target-trial",
+				ask:      "target-trial-missing",
 				Message:  "No target trial is described: the randomized trial these causal claims emulate (population, intervention, comparator, outcome, follow-up; Hernán & Robins 2016) is left unsaid.",
 			},
 		}
@@ -192,6 +238,7 @@ func targetTrialFinding(t *TargetTrial) []Finding {
 		return []Finding{
 			{
 				Severity: SeverityInfo,
+				Topic:    "target-trial",
 				Message:  "The target trial is described in all five parts (Hernán & Robins 2016).",
 			},
 		}
@@ -199,6 +246,7 @@ func targetTrialFinding(t *TargetTrial) []Finding {
 	return []Finding{
 		{
 			Severity: StatusWarn,
+			Topic:    "target-trial",
 			Message:  "The target trial lacks its " + strings.Join(missing, ", ") + " (Hernán & Robins 2016).",
 		},
 	}

@@ -52,6 +52,16 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	var fs []Finding
 	var g eValueGroups
 	for i, c := range s.Package.Claims {
+		if c.Kind == KindIndirect && !c.AssertsAbsence {
+			f, ok := a.mediatorFinding(i, c)
+			fs = append(fs, f)
+			if ok {
+				g.rho = append(g.rho, c.ID)
+			} else {
+				g.noRho = append(g.noRho, c.ID)
+			}
+			continue
+		}
 		ce := a.eValues()[i] // shared with causal-language (shared.go)
 		ev, note := ce.ev, ce.why
 		if ev == nil && note == "" {
@@ -64,7 +74,8 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 			sev := map[bool]string{true: SeverityInfo, false: StatusWarn}[ce.contradicted]
 			fs = append(
 				fs,
-				Finding{Severity: sev, Claim: c.ID, Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)},
+				Finding{Severity: sev, Claim: c.ID, Topic: "e-value", ask: "e-value-missing",
+					Message: fmt.Sprintf("No E-value for %s: %s.", c.ID, note)},
 			)
 			if ce.contradicted {
 				g.contradicted = append(g.contradicted, c.ID)
@@ -98,7 +109,8 @@ func runConfounding(ctx context.Context, a *Analysis) (CheckResult, error) {
 	res := CheckResult{Findings: fs, Status: statusOf(fs),
 		Metrics: map[string]any{"claims_with_e_value": len(g.computed), "weak_e_value_below": weakEValue}}
 	res.Summary = confoundingSummary(g)
-	if len(g.computed) == 0 && len(g.missing) == 0 { // only claims the declared graph gives no effect
+	if len(g.computed) == 0 && len(g.missing) == 0 && len(g.rho)+len(g.noRho) == 0 {
+		// only claims the declared graph gives no effect
 		res.Status, res.Summary = StatusNotApplicable, "No causal claim is left to explain away: "+
 			"the declared graph gives each no effect (see graph-declared)."+g.absentText()
 	}
@@ -267,6 +279,6 @@ func eValueFinding(c Claim, ev *EValue) Finding {
 		how = fmt.Sprintf("an unmeasured confounder of strength %.2f could explain the estimate away, and the "+
 			"interval already includes no effect", *ev.Estimate)
 	}
-	return Finding{Severity: sev, Claim: c.ID,
+	return Finding{Severity: sev, Claim: c.ID, Topic: "e-value",
 		Message: fmt.Sprintf("E-value for %s (%s figures; %s): %s.", c.ID, ev.Source, ev.Conversion, how)}
 }

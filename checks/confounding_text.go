@@ -15,6 +15,10 @@ import (
 // no effect, which nothing need explain away).
 type eValueGroups struct {
 	computed, weak, missing, contradicted, absent []string
+	// rho and noRho are the indirect-effect claims with and without the
+	// error correlation of mediator and outcome that would explain them
+	// away (mediator_confounding.go).
+	rho, noRho []string
 }
 
 // confoundingSummary says what the E-values show, in each case only what
@@ -31,16 +35,39 @@ func confoundingSummary(g eValueGroups) string {
 		parts = append(parts, fmt.Sprintf("%s no E-value, so how much confounding would explain %s away is not known",
 			plural(len(g.missing), joinAnd(g.missing)+" has", joinAnd(g.missing)+" have"), them(len(g.missing))))
 	}
-	if len(parts) == 0 {
-		which := "each causal claim (" + joinAnd(g.computed) + ")"
-		if len(g.computed) == 1 {
-			which = "the causal claim " + g.computed[0]
-		}
-		return fmt.Sprintf("For %s, an unmeasured confounder would need a risk-ratio association of at least %.1f "+
-			"with both cause and outcome to move the interval to include no effect; see the E-values.%s%s", which,
-			weakEValue, g.contradictedText(), g.absentText())
+	if len(g.noRho) > 0 {
+		parts = append(parts, fmt.Sprintf("%s no figure for confounding of %s mediator and outcome, so how much "+
+			"such confounding would explain %s away is not known",
+			plural(len(g.noRho), joinAnd(g.noRho)+" has", joinAnd(g.noRho)+" have"),
+			plural(len(g.noRho), "its", "their"), them(len(g.noRho))))
 	}
-	return strings.Join(parts, "; ") + "; see the findings." + g.contradictedText() + g.absentText()
+	switch {
+	case len(parts) > 0:
+		return strings.Join(parts, "; ") + "; see the findings." + g.rhoText() + g.contradictedText() + g.absentText()
+	case len(g.computed) == 0:
+		return strings.TrimPrefix(g.rhoText(), " ") + g.contradictedText() + g.absentText()
+	}
+	which := "each causal claim (" + joinAnd(g.computed) + ")"
+	if len(g.computed) == 1 {
+		which = "the causal claim " + g.computed[0]
+	}
+	if len(g.rho) > 0 {
+		which = plural(len(g.computed), "the causal claim ", "the causal claims ") + joinAnd(g.computed)
+	}
+	return fmt.Sprintf("For %s, an unmeasured confounder would need a risk-ratio association of at least %.1f "+
+		"with both cause and outcome to move the interval to include no effect; see the E-values.%s%s%s", which,
+		weakEValue, g.rhoText(), g.contradictedText(), g.absentText())
+}
+
+// rhoText says which indirect-effect claims have the error correlation of
+// mediator and outcome that would explain them away ("" when none).
+func (g eValueGroups) rhoText() string {
+	if len(g.rho) == 0 {
+		return ""
+	}
+	return fmt.Sprintf(" For the indirect %s %s, the findings give the correlation of the mediator's and the "+
+		"outcome's errors that would explain %s away; no threshold is set, since none is published.",
+		plural(len(g.rho), "effect", "effects"), joinAnd(g.rho), plural(len(g.rho), "it", "each"))
 }
 
 // absentText says which causal claims have no E-value because they

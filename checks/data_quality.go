@@ -57,6 +57,7 @@ func suspectFinding(s Suspect) Finding {
 	}
 	return Finding{
 		Severity: StatusWarn,
+		Topic:    topic("suspect-value", s.Variable, numberSlug(s.Value)),
 		Message:  fmt.Sprintf(suspectMessage, s.Variable, v, s.Count, s.Q1, s.Q3, what),
 		Details: map[string]any{
 			"variable": s.Variable, "value": s.Value, "count": s.Count, "likely_missing_code": s.Code,

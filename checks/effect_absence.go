@@ -30,7 +30,8 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	m, _ := a.moments()
 	in, ok := a.absenceInputs(c, decl, m)
 	if !ok {
-		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: a.noAbsenceTest(c, decl)}}
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Topic: "absence", ask: "absence-untested",
+			Message: a.noAbsenceTest(c, decl)}}
 	}
 	t := &AbsenceTest{Margin: a.Study.SmallestEffect(), Source: in.source, Distribution: distName(in.df)}
 	tp, pw := effects.TOST(in.b, in.se, in.delta, in.df), effects.Power(in.delta, in.se, a.Alpha, in.df)
@@ -41,20 +42,20 @@ func (a *Analysis) absenceFinding(i int, c Claim, decl est) []Finding {
 	var f Finding
 	switch t.Verdict {
 	case "effect_found":
-		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, but the %s is %.2f (%s, %s), significant at α = %g: the data do not "+
+		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "absence", ask: "absence-contradicted",
+			Message: fmt.Sprintf("%s says there is no effect, but the %s is %.2f (%s, %s), significant at α = %g: the data do not "+
 				"support \"no effect\".",
-			c.ID, a.sourceText(in.source), in.shown, pText(p), t.Distribution, a.Alpha)}
+				c.ID, a.sourceText(in.source), in.shown, pText(p), t.Distribution, a.Alpha)}
 	case "excludes_meaningful_effects":
-		f = Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+		f = Finding{Severity: SeverityInfo, Claim: c.ID, Topic: "absence", Message: fmt.Sprintf(
 			"%s says there is no effect, and the data exclude effects of ±%g or larger at α = %g (equivalence test "+
 				"%s, "+
 				"%s%s).", c.ID, t.Margin, a.Alpha, pText(tp), t.Distribution, a.marginSource(t.Margin))}
 	default:
-		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-			"%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
+		f = Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "absence", ask: "absence-undecided",
+			Message: fmt.Sprintf("%s says there is no effect, but its %g%% interval reaches effects of ±%g or beyond (equivalence test %s, "+
 				"%s; the study had %.0f%% power to detect an effect of that size%s): the data do not tell.",
-			c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw, a.marginSource(t.Margin))}
+				c.ID, 100*(1-2*a.Alpha), t.Margin, pText(tp), t.Distribution, 100*pw, a.marginSource(t.Margin))}
 	}
 	if in.source == "recomputed" {
 		f.Message += a.absenceRecoded(i, c, t.Verdict)

@@ -65,6 +65,8 @@ func runEffectReporting(ctx context.Context, a *Analysis) (CheckResult, error) {
 		"smallest_effect_of_interest": a.Study.SmallestEffect(),
 	}}
 	switch only, n := tooFewOnly(fs); {
+	case skewOnly(fs) != nil: // the only warnings are normal-theory tests of indirect effects
+		res.Summary = skewSummary(skewOnly(fs))
 	case only: // the declared warning speaks of reporting, which is not at fault
 		res.Summary = fmt.Sprintf(tooFewSummary, map[bool]string{true: "the claim", false: "the claims"}[n == 1])
 	case n > 0:
@@ -87,15 +89,16 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 	hasEst, hasUnc, hasP := c.Estimate != nil, c.StdError != nil || len(c.CI) == 2, c.PValue != nil
 	switch {
 	case !hasEst && hasP:
-		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect "+
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "figures", ask: "p-without-estimate",
+			Message: fmt.Sprintf("%s reports a p-value (%s) but no effect size, so readers cannot judge how large the effect "+
 				"is.", c.ID, reportedP(c))})
 	case !hasEst && !hasP:
-		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: c.ID + " reports no estimate, interval " +
-			"or p-value at all."})
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "figures", ask: "no-figures",
+			Message: c.ID + " reports no estimate, interval or p-value at all."})
 	case !hasUnc:
-		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s reports an estimate (%g) without an interval or standard error.", c.ID, *c.Estimate)})
+		fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "figures", ask: "no-interval",
+			Message: fmt.Sprintf("%s reports an estimate (%g) without an interval or standard error.", c.ID,
+				*c.Estimate)})
 	}
 	ok = hasEst && hasUnc
 	decl := a.declaredEstimate(i)
@@ -106,7 +109,10 @@ func (a *Analysis) claimReporting(i int, c Claim, pr printed) (fs []Finding, ok,
 	if f := a.claimTooFew(c, decl); f != nil {
 		fs = append(fs, *f)
 	}
-	if c.AssertsAbsence {
+	switch {
+	case c.Kind == KindIndirect:
+		fs = append(fs, a.indirectReporting(i, c, pr, decl)...)
+	case c.AssertsAbsence:
 		fs = append(fs, a.absenceFinding(i, c, decl)...)
 	}
 	fs = append(fs, a.oddsRatioFinding(i, c, decl)...)
@@ -146,7 +152,7 @@ func (a *Analysis) consistency(c Claim, pr printed, decl est) *Finding {
 	if consistent {
 		return nil
 	}
-	return &Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
+	return &Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "p-consistency", Message: fmt.Sprintf(
 		"%s reports %s, but its estimate and %s give p between %s and %s under %s, allowing for the rounding of the "+
 			"printed figures.",
 		c.ID, reportedP(c), uncertaintyName(c), pNumber(lo), pNumber(hi), distName(df)),
@@ -308,7 +314,7 @@ func (a *Analysis) oddsRatioFinding(i int, c Claim, decl est) []Finding {
 	if r.RangeCI != nil {
 		ci = fmt.Sprintf(" (%g%% interval %.2f to %.2f)", 100*claimLevel(c), r.RangeCI[0], r.RangeCI[1])
 	}
-	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+	return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "odds-range", Message: fmt.Sprintf(
 		"For %s: from the 10th to the 90th percentile of %s (%g to %g), the odds of %s change by a factor of %.2f%s.",
 		c.ID, c.From, r.P10, r.P90, c.To, *r.Range, ci)}}
 }

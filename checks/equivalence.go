@@ -102,6 +102,7 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 			return CheckResult{}, err
 		}
 	}
+	fs = append(fs, a.tierFinding(eq)...)
 	fs = append(fs, discussionFinding(s, eq)...)
 	res := CheckResult{Status: statusOf(fs), Findings: fs, Metrics: equivalenceMetrics(eq, reversible)}
 	res.Metrics["claims_unstable"] = unstable
@@ -116,32 +117,43 @@ func runEquivalence(ctx context.Context, a *Analysis) (CheckResult, error) {
 func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEquivalents, []Finding) {
 	decl := a.declaredEstimate(i)
 	if !decl.ok() {
-		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be estimated under the declared graph (%v), so it could not be re-estimated across the "+
+		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "not-estimated",
+			Message: fmt.Sprintf("%s could not be estimated under the declared graph (%v), so it could not be "+
+				"re-estimated across the "+
 				"equivalent graphs either.", c.ID, decl.err)})
 	}
 	across, err := a.declaredAcross(i)
 	if errors.Is(err, dag.ErrTooManyParentSets) {
-		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be re-estimated across the equivalent graphs: %s, so whether its conclusion holds in "+
-				"them is not known.", c.ID, a.tooManySetsText(a.parentsNode(c), "the declared graph's class"))})
+		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "across-equivalents",
+			ask: "across-unestimated", Message: fmt.Sprintf(
+				"%s could not be re-estimated across the equivalent graphs: %s, so whether its conclusion holds in "+
+					"them is not known.", c.ID, a.tooManySetsText(a.parentsNode(c), "the declared graph's class"))})
 	}
 	if err != nil {
-		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be re-estimated across the equivalent graphs: %v.", c.ID, err)})
+		return nil, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "across-equivalents",
+			ask: "across-unestimated",
+			Message: fmt.Sprintf("%s could not be re-estimated across the equivalent graphs: "+
+				"%v.", c.ID, err)})
+	}
+	if across.NotComputed != "" {
+		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "across-equivalents",
+			ask: "across-indirect-unlisted", Message: fmt.Sprintf(
+				"%s could not be re-estimated across the equivalent graphs: %s.", c.ID, across.NotComputed)})
 	}
 	if across.Failed > 0 && !across.Unstable {
-		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			"%s could not be estimated in %d of the %s it was tried in, so whether its conclusion holds in all of "+
+		return across, append(structural, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "across-equivalents",
+			ask: "across-unestimated", Message: fmt.Sprintf("%s could not be estimated in %d of the %s it was "+
+				"tried in, so whether its conclusion holds in all of "+
 				"them is not known.",
-			c.ID, across.Failed, acrossNoun(across.Method, across.Failed+across.Estimates))})
+				c.ID, across.Failed, acrossNoun(across.Method, across.Failed+across.Estimates))})
 	}
 	if !across.Unstable {
 		if len(structural) > 0 && structural[0].Severity != SeverityInfo {
-			return across, []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-				"The arrow %s → %s behind %s can point the other way in an equivalent graph, but the claim's "+
-					"conclusion is the same in every plausible one (%s under the declared graph).",
-				c.From, c.To, c.ID, valueText(decl))}}
+			return across, []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "arrow-direction",
+				Message: fmt.Sprintf(
+					"The arrow %s → %s behind %s can point the other way in an equivalent graph, but the claim's "+
+						"conclusion is the same in every plausible one (%s under the declared graph).",
+					c.From, c.To, c.ID, valueText(decl))}}
 		}
 		return across, structural
 	}
@@ -149,7 +161,8 @@ func (a *Analysis) claimAcross(i int, c Claim, structural []Finding) (*AcrossEqu
 	if c.Headline && !a.Study.Package.Graph.EquivalentsDiscussed {
 		sev = StatusFail
 	}
-	return across, []Finding{{Severity: sev, Claim: c.ID, Message: a.unstableText(c, decl, across),
+	return across, []Finding{{Severity: sev, Claim: c.ID, Topic: "across-equivalents",
+		Message: a.unstableText(c, decl, across),
 		Details: map[string]any{"estimates": across.Estimates, "estimates_differing": across.Differing,
 			"method": across.Method}}}
 }
@@ -214,23 +227,23 @@ func arrowFinding(s *Study, eq *equivalenceResult, c Claim) ([]Finding, *Reversi
 		append(append([]dag.Edge(nil), s.Background...), dag.Edge{From: to, To: from}),
 	)
 	if err != nil {
-		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Topic: "arrow-direction", Message: fmt.Sprintf(
 			"%s: whether background knowledge fixes the direction of %s → %s could not be counted exactly "+
 				"(%v).", c.ID, c.From, c.To, err)}}, rev, nil
 	}
 	rev.PlausibleReversed, _ = exactCount(n)
 	rev.InPlausible = n.Sign() > 0
 	if !rev.InPlausible {
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "arrow-direction", Message: fmt.Sprintf(
 			"The data alone cannot orient the arrow %s → %s behind %s; only the stated background knowledge "+
-				"(exogenous variables, fixed arrows) does.",
-			c.From, c.To, c.ID)}}, rev, nil
+				"(%s) does.",
+			c.From, c.To, c.ID, knowledgeKinds(s))}}, rev, nil
 	}
 	sev := StatusWarn
 	if c.Headline && !s.Package.Graph.EquivalentsDiscussed {
 		sev = StatusFail
 	}
-	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+	return []Finding{{Severity: sev, Claim: c.ID, Topic: "arrow-direction", Message: fmt.Sprintf(
 		"The arrow %s → %s behind %s can point the other way: in %s of the %s plausible members of the declared "+
 			"graph's class it does, those graphs fit the data exactly as well, and in them the direct effect of %s "+
 			"on %s %s.",
@@ -250,16 +263,12 @@ func graphReport(s *Study, eq *equivalenceResult) (*GraphReport, error) {
 	g.Background, g.Exogenous = backgroundNames(s)
 	g.CPDAG = edgeSets(s, eq.cpdag)
 	if eq.plausible != nil && eq.plausible.Sign() > 0 {
-		m := eq.cpdag.Clone()
-		for _, e := range s.Background {
-			if m.HasLine(e.From, e.To) {
-				m.Orient(e.From, e.To)
-			}
+		if m, ok, err := dag.MaximallyOriented(eq.cpdag, s.Background); err == nil && ok {
+			mp := edgeSets(s, m)
+			g.PlausibleCPDAG = &mp
 		}
-		m.CloseUnderMeek()
-		mp := edgeSets(s, m)
-		g.PlausibleCPDAG = &mp
 	}
+	g.Tiers = tierNames(s)
 	g.EquivalenceClassSize, g.EquivalenceClassSizeLog10 = exactCount(eq.size)
 	if eq.plausible != nil {
 		g.PlausibleClassSize, g.PlausibleClassSizeLog10 = exactCount(eq.plausible)

@@ -15,14 +15,7 @@ import (
 // among equivalent graphs.
 func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) string {
 	ct := across.Contrast
-	other := noEffect(claimScale(c))
-	if ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
-		p := math.NaN()
-		if ct.Estimate.PValue != nil {
-			p = *ct.Estimate.PValue
-		}
-		other = fmt.Sprintf("%s (%s)", estText(*ct.Estimate.Estimate), pText(p))
-	}
+	other := closeAside(contrastText(c, ct.Estimate))
 	where := ""
 	switch {
 	case len(ct.ReversedArrows) > 0:
@@ -49,6 +42,37 @@ func (a *Analysis) unstableText(c Claim, decl est, across *AcrossEquivalents) st
 		c.ID, valueText(decl), other, scope, where)
 }
 
+// contrastText writes the estimate of a claim in the graph that differs
+// most: its value with its p-value, or with the interval that judges an
+// indirect effect; or no effect, saying for an indirect effect that the
+// graph has no directed path through its mediators (a parenthetical
+// phrase: inside a sentence it needs the comma of closeAside after it).
+func contrastText(c Claim, e *Estimate) string {
+	switch {
+	case e.Method == MethodZero && c.Kind == KindIndirect:
+		return "zero, with " + strings.TrimSuffix(e.StructuralZero, " in this graph")
+	case e.Method == MethodZero || e.Estimate == nil:
+		return noEffect(claimScale(c))
+	case e.Significance != nil && len(e.Significance.CI) == 2:
+		return fmt.Sprintf("%s (%g%% %s interval %s to %s)", estText(*e.Estimate), 100*e.Significance.Level,
+			intervalName(e.Significance.Method), estText(e.Significance.CI[0]), estText(e.Significance.CI[1]))
+	}
+	p := math.NaN()
+	if e.PValue != nil {
+		p = *e.PValue
+	}
+	return fmt.Sprintf("%s (%s)", estText(*e.Estimate), pText(p))
+}
+
+// closeAside ends with a comma a contrast that opens an aside ("zero,
+// with no directed path ..."), where more of the sentence follows.
+func closeAside(s string) string {
+	if strings.HasPrefix(s, "zero, with ") {
+		return s + ","
+	}
+	return s
+}
+
 // verb picks the singular or plural form for a count.
 func verb(n *big.Int, one, many string) string {
 	if n != nil && n.Cmp(big.NewInt(1)) == 0 {
@@ -69,14 +93,15 @@ func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
 		return nil
 	}
 	if s.Package.Graph.EquivalentsDiscussed {
-		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
+		return []Finding{{Severity: SeverityInfo, Topic: "discussion", Message: fmt.Sprintf(
 			"The authors say they discussed the graphs equivalent to theirs (the class has %s members, the declared "+
 				"graph among them).", eq.size)}}
 	}
 	if onlyDeclared(eq) { // nothing plausible to discuss: a warning would ask for nothing
-		return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(ruledOutFormat, otherGraphs(eq.size))}}
+		return []Finding{{Severity: SeverityInfo, Topic: "discussion",
+			Message: fmt.Sprintf(ruledOutFormat, otherGraphs(eq.size), knowledgeKinds(s))}}
 	}
-	return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
+	return []Finding{{Severity: StatusWarn, Topic: "discussion", Message: fmt.Sprintf(
 		"%s fit any data exactly as well as the declared one (%s), and the authors do not discuss them.",
 		otherGraphs(eq.size), plausibleOthers(eq.plausible))}}
 }
@@ -84,8 +109,17 @@ func discussionFinding(s *Study, eq *equivalenceResult) []Finding {
 // ruledOutFormat: the class has other members, but the background
 // knowledge rules every one out, so the directions rest on that knowledge.
 const ruledOutFormat = "%s fit any data exactly as well as the declared one, and the authors do not discuss them; " +
-	"the stated background knowledge (exogenous variables, fixed arrows) rules them all out, so the arrows it " +
-	"orients rest on that knowledge, not on the data."
+	"the stated background knowledge (%s) rules them all out, so the arrows it orients rest on that knowledge, " +
+	"not on the data."
+
+// knowledgeKinds names the kinds of background knowledge a package can
+// state, the time order of tiers among them where it has one.
+func knowledgeKinds(s *Study) string {
+	if s.Tiers != nil {
+		return "exogenous variables, fixed arrows, the time order of tiers"
+	}
+	return "exogenous variables, fixed arrows"
+}
 
 // otherGraphs counts the members of a class besides the declared graph.
 func otherGraphs(size *big.Int) string {

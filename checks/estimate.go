@@ -1,16 +1,9 @@
 package checks
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"slices"
-	"strings"
-
-	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/stat/distuv"
-
-	"github.com/pathvet/pathvet/checks/linmod"
 )
 
 // Estimation methods named in reports.
@@ -42,6 +35,13 @@ type est struct {
 	mcse     float64
 	nearLine bool
 	err      error
+	// An indirect effect has no p-value (p is NaN): intervals are its
+	// intervals by method (indirect.go), judge the one at level 1 − α by
+	// which its significance is judged, and draws the sorted draws behind
+	// it (Monte Carlo or bootstrap), for pooling over imputations.
+	intervals []namedInterval
+	judge     *namedInterval
+	draws     []float64
 }
 
 func (e est) ok() bool { return e.err == nil }
@@ -49,6 +49,9 @@ func (e est) ok() bool { return e.err == nil }
 // category is +1 or −1 for an estimate significant at alpha with that
 // sign, 0 otherwise.
 func (e est) category(alpha float64) int {
+	if e.judge != nil && e.method != MethodZero && e.judge.excludesZero() {
+		return int(math.Copysign(1, e.judge.lo))
+	}
 	if e.method == MethodZero || !(e.p < alpha) {
 		return 0
 	}
@@ -79,6 +82,38 @@ type Estimate struct {
 	// Distribution is what the p-value and interval are taken under:
 	// "t(df)" for OLS, "normal" for a logistic Wald test or Fisher's z.
 	Distribution string `json:"distribution,omitempty"`
+	// Intervals are an indirect effect's intervals at the claim's level,
+	// each with its method (delta_method, monte_carlo,
+	// bootstrap_percentile, monte_carlo_imputations_mixed); CI is the one
+	// named by Significance.
+	Intervals []NamedInterval `json:"intervals,omitempty"`
+	// Significance is the interval, at level 1 − α, by whose exclusion of
+	// zero an indirect effect is judged significant (it has no p-value).
+	Significance *NamedInterval `json:"significance,omitempty"`
+}
+
+// NamedInterval is one interval of an estimate, with its method.
+type NamedInterval struct {
+	Method string    `json:"method"`
+	CI     []float64 `json:"ci"`
+	Level  float64   `json:"level"`
+	// Draws counts the Monte Carlo draws or bootstrap resamples that gave
+	// a value, Failed those that did not (a singular resample).
+	Draws        int   `json:"draws,omitempty"`
+	Failed       int   `json:"failed,omitempty"`
+	ExcludesZero *bool `json:"excludes_zero,omitempty"`
+}
+
+func (iv namedInterval) report(judged bool) NamedInterval {
+	r := NamedInterval{Method: iv.method, Level: iv.level, Draws: iv.draws, Failed: iv.failed, CI: []float64{}}
+	if lo, hi := finite(iv.lo), finite(iv.hi); lo != nil && hi != nil {
+		r.CI = []float64{*lo, *hi}
+	}
+	if judged {
+		x := iv.excludesZero()
+		r.ExcludesZero = &x
+	}
+	return r
 }
 
 // finite returns a pointer to x rounded for a report, or nil where x is
@@ -113,53 +148,14 @@ func (a *Analysis) report(e est) *Estimate {
 	if lo, hi := finite(e.lo), finite(e.hi); lo != nil && hi != nil {
 		r.CI = []float64{*lo, *hi}
 	}
+	for _, iv := range e.intervals {
+		r.Intervals = append(r.Intervals, iv.report(false))
+	}
+	if e.judge != nil {
+		j := e.judge.report(true)
+		r.Significance = &j
+	}
 	return r
-}
-
-// parentsFunc gives the parents of a node in some graph.
-type parentsFunc func(v int) []int
-
-// estimateClaim estimates claim c with parents pa (README, "Checks",
-// "equivalence"): a direct effect is the coefficient of from when to is
-// regressed on its parents, zero where from is not one of them; a total
-// effect is the coefficient of from when to is regressed on from and the
-// parents of from, zero where to is a parent of from; an association is
-// the coefficient of from when to is regressed on from and adjust_for, as
-// is any claim when pa is nil (no graph declared).
-func (a *Analysis) estimateClaim(c Claim, pa parentsFunc) est {
-	m, err := a.moments()
-	if err != nil {
-		return est{err: a.dataError(), scale: claimScale(c)}
-	}
-	return a.estimateWith(m, c, pa)
-}
-
-// estimateWith estimates claim c with parents pa from the moments m (the
-// study's own, or those of one way of handling missing data).
-func (a *Analysis) estimateWith(m *Moments, c Claim, pa parentsFunc) est {
-	s := a.Study
-	from, to := s.Index[c.From], s.Index[c.To]
-	switch {
-	case pa == nil: // no graph: the authors' own adjustment set
-	case c.Kind == KindDirect:
-		parents := pa(to)
-		if !slices.Contains(parents, from) {
-			return structuralZero(c, parents, directZeroWhy(c, pa(from), to, "this graph"))
-		}
-		return a.regress(m, c, to, from, parents)
-	case c.Kind == KindTotal:
-		parents := pa(from)
-		if slices.Contains(parents, to) {
-			return structuralZero(c, parents, fmt.Sprintf(
-				"no directed path from %s to %s in this graph (%s is a parent of %s)", c.From, c.To, c.To, c.From))
-		}
-		return a.regress(m, c, to, from, parents)
-	}
-	var adj []int
-	for _, v := range c.AdjustFor {
-		adj = append(adj, s.Index[v])
-	}
-	return a.regress(m, c, to, from, adj)
 }
 
 func structuralZero(c Claim, adjusted []int, why string) est {
@@ -189,108 +185,6 @@ func claimLevel(c Claim) float64 {
 	return 0.95
 }
 
-// regress estimates the coefficient of focal for outcome y adjusted for
-// others, on the claim's scale, from m, caching the result.
-func (a *Analysis) regress(m *Moments, c Claim, y, focal int, others []int) est {
-	var adj []int
-	for _, v := range others {
-		if v != focal && v != y && !slices.Contains(adj, v) {
-			adj = append(adj, v)
-		}
-	}
-	slices.Sort(adj)
-	scale, level := claimScale(c), claimLevel(c)
-	key := fmt.Sprint(m.Method, y, focal, adj, scale, level)
-	if e, ok := a.fits[key]; ok {
-		return e
-	}
-	e := a.fitRegression(m, y, focal, adj, scale, level)
-	e.adjusted = adj
-	if a.fits == nil {
-		a.fits = map[string]est{}
-	}
-	a.fits[key] = e
-	return e
-}
-
-func (a *Analysis) fitRegression(m *Moments, y, focal int, adj []int, scale string, level float64) est {
-	x := append([]int{focal}, adj...)
-	if o, ok := a.olsInput(m, y, scale); ok {
-		return olsEstimate(o.cov, o.means, m.N, y, x, o.scale, level, o.note)
-	}
-	if a.Study.Package.Variables[y].Scale == ScaleBinary && m.Rows != nil {
-		return logisticEstimate(m, y, x, scale, level)
-	}
-	return partialEstimate(m, y, focal, adj, level)
-}
-
-func scaleName(s string) string { return strings.ReplaceAll(s, "_", " ") }
-
-func needs(scale string) string {
-	if scale == "unstandardized" {
-		return "the SDs"
-	}
-	return "raw rows and a binary outcome"
-}
-
-func olsEstimate(cov mat.Symmetric, means []float64, n, y int, x []int, scale string, level float64, note string) est {
-	fit, err := linmod.FromMoments(cov, means, n, y, x, level)
-	if errors.Is(err, linmod.ErrTooFewCases) {
-		err = fmt.Errorf("%s for a regression with %d parameters besides its intercept: it needs at least %d (%w)",
-			count(n, "case", "cases"), len(x), len(x)+2, err)
-	}
-	if err != nil {
-		return est{err: err, scale: scale, method: MethodOLS, n: n}
-	}
-	c := fit.Coefs[0]
-	return est{value: c.Estimate, additive: c.Estimate, se: c.StdError, lo: c.CI[0], hi: c.CI[1], p: c.P,
-		method: MethodOLS, scale: scale, n: n, df: float64(fit.DF), note: note}
-}
-
-func partialEstimate(m *Moments, y, focal int, adj []int, level float64) est {
-	r, err := linmod.PartialCorrelation(m.Cor, focal, y, adj)
-	e := est{method: MethodPartial, scale: "correlation", n: m.N}
-	if err != nil {
-		e.err = err
-		return e
-	}
-	_, p, ok := linmod.FisherZ(r, m.N, len(adj))
-	if !ok {
-		e.err = errors.New("too few cases for Fisher's z")
-		return e
-	}
-	half := distuv.UnitNormal.Quantile(0.5+level/2) / math.Sqrt(float64(m.N-len(adj)-3))
-	e.value, e.additive, e.p = r, r, p
-	e.lo, e.hi = math.Tanh(math.Atanh(r)-half), math.Tanh(math.Atanh(r)+half)
-	e.se = math.NaN() // intervals for correlations come from Fisher's z, not an SE
-	return e
-}
-
-func logisticEstimate(m *Moments, y int, x []int, scale string, level float64) est {
-	n, _ := m.Rows.Dims()
-	xs := mat.NewDense(n, len(x), nil)
-	for j, v := range x {
-		xs.SetCol(j, mat.Col(nil, v, m.Rows))
-	}
-	fit, err := linmod.Logistic(xs, mat.Col(nil, y, m.Rows), level)
-	e := est{method: MethodLogit, scale: "log_odds", n: n}
-	if err != nil {
-		e.err = err
-		return e
-	}
-	c := fit.Coefs[0]
-	e.value, e.additive, e.se, e.lo, e.hi, e.p = c.Estimate, c.Estimate, c.StdError, c.CI[0], c.CI[1], c.P
-	if scale == "odds_ratio" {
-		e.scale = "odds_ratio"
-		e.value, e.lo, e.hi = math.Exp(c.Estimate), math.Exp(c.CI[0]), math.Exp(c.CI[1])
-		e.se = math.NaN()
-		e.note = "odds ratio per unit of the predictor; its interval is the exponentiated Wald interval of the log-odds"
-	} else if scale != "log_odds" {
-		e.note = "the outcome is binary, so its equation is a logistic regression: the estimate is in log-odds"
-	}
-	return e
-}
-
 // declaredEstimate is claim i under the declared graph (or, with none, its
 // own adjustment set), computed once.
 func (a *Analysis) declaredEstimate(i int) est {
@@ -304,6 +198,9 @@ func (a *Analysis) declaredEstimate(i int) est {
 		}
 		c := a.Study.Package.Claims[i]
 		e := a.estimateClaim(c, pa)
+		if m, err := a.moments(); err == nil {
+			e = a.estimator().under(a.context(), m, pa).resampled(c, e)
+		}
 		if why := a.graphContradiction(c); why != "" && e.ok() {
 			e = structuralZero(c, e.adjusted, why) // a total effect with no directed path, too
 		}
@@ -319,7 +216,7 @@ func (a *Analysis) claimInGraph(c Claim) bool {
 	if s.Declared == nil {
 		return false
 	}
-	for _, v := range append([]string{c.From, c.To}, c.AdjustFor...) {
+	for _, v := range append(append([]string{c.From, c.To}, c.AdjustFor...), c.Through...) {
 		if !s.InGraph[s.Index[v]] {
 			return false
 		}

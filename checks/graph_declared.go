@@ -38,7 +38,7 @@ func runGraphDeclared(_ context.Context, a *Analysis) (CheckResult, error) {
 		}
 	}
 	if len(outside) > 0 {
-		fs = append(fs, Finding{Severity: SeverityInfo, Message: fmt.Sprintf(
+		fs = append(fs, Finding{Severity: SeverityInfo, Topic: "outside-graph", Message: fmt.Sprintf(
 			"Measured but not in the graph: %s. The graph says nothing about %s, and no check tests %s.",
 			strings.Join(outside, ", "), them(len(outside)), them(len(outside)))})
 	}
@@ -47,6 +47,7 @@ func runGraphDeclared(_ context.Context, a *Analysis) (CheckResult, error) {
 			fs,
 			Finding{
 				Severity: SeverityInfo,
+				Topic:    "skipped-columns",
 				Message:  "Data columns skipped as the package asks: " + strings.Join(ign, ", ") + ".",
 			},
 		)
@@ -76,7 +77,7 @@ func noGraph(s *Study) CheckResult {
 	var fs []Finding
 	for _, c := range s.Package.Claims {
 		if Causal(c.Kind) {
-			fs = append(fs, Finding{Severity: StatusFail, Claim: c.ID, Message: fmt.Sprintf(
+			fs = append(fs, Finding{Severity: StatusFail, Claim: c.ID, Topic: "no-graph", Message: fmt.Sprintf(
 				"%s is a causal claim (%s of %s on %s), but the package declares no causal graph, so nothing says which variables it was adjusted for or why.",
 				c.ID,
 				kindText(c.Kind),
@@ -104,7 +105,7 @@ func kindText(kind string) string {
 // that a direct effect is an arrow and a total effect a directed path.
 func claimAgainstGraph(s *Study, c Claim) []Finding {
 	var missing []string
-	for _, v := range append([]string{c.From, c.To}, c.AdjustFor...) {
+	for _, v := range append(append([]string{c.From, c.To}, c.AdjustFor...), c.Through...) {
 		if !s.InGraph[s.Index[v]] {
 			missing = append(missing, v)
 		}
@@ -114,16 +115,18 @@ func claimAgainstGraph(s *Study, c Claim) []Finding {
 		sev = StatusFail
 	}
 	if len(missing) > 0 {
-		return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+		return []Finding{{Severity: sev, Claim: c.ID, Topic: "claim-outside-graph", Message: fmt.Sprintf(
 			"%s names %s, which no arrow of the declared graph touches.", c.ID, strings.Join(missing, ", "))}}
 	}
 	from, to := s.Index[c.From], s.Index[c.To]
 	switch c.Kind {
 	case KindDirect:
 		return directAgainstGraph(s.Declared, c, from, to)
+	case KindIndirect:
+		return indirectAgainstGraph(s, c)
 	case KindTotal:
 		if !dag.HasDirectedPath(s.Declared, from, to) {
-			return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
+			return []Finding{{Severity: StatusWarn, Claim: c.ID, Topic: "no-path", Message: fmt.Sprintf(
 				"%s claims a total effect of %s on %s, but the declared graph has no directed path from %s to %s, "+
 					"so by the graph itself that effect %s.",
 				c.ID,
@@ -162,11 +165,11 @@ func directAgainstGraph(g *dag.PDAG, c Claim, from, to int) []Finding {
 	case g.HasArc(from, to):
 		return nil
 	case g.HasArc(to, from):
-		return []Finding{{Severity: StatusFail, Claim: c.ID, Message: fmt.Sprintf(
+		return []Finding{{Severity: StatusFail, Claim: c.ID, Topic: "arrow-reversed", Message: fmt.Sprintf(
 			"%s claims a direct effect of %s on %s, but the declared graph has the arrow the other way, %s → %s.",
 			c.ID, c.From, c.To, c.To, c.From)}}
 	}
-	return []Finding{{Severity: StatusFail, Claim: c.ID, Message: fmt.Sprintf(
+	return []Finding{{Severity: StatusFail, Claim: c.ID, Topic: "no-arrow", Message: fmt.Sprintf(
 		"%s claims a direct effect of %s on %s, but the declared graph has no arrow %s → %s.",
 		c.ID, c.From, c.To, c.From, c.To)}}
 }

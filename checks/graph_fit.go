@@ -2,15 +2,11 @@ package checks
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"math"
 	"strings"
 
-	"gonum.org/v1/gonum/mat"
-
 	"github.com/pathvet/pathvet/checks/dag"
-	"github.com/pathvet/pathvet/checks/linmod"
 	"github.com/pathvet/pathvet/checks/sem"
 )
 
@@ -42,46 +38,6 @@ var graphFitCheck = Check{
 type modelFit struct {
 	fit   *sem.Fit
 	nodes []int // variable index of each row of the fitted matrix
-}
-
-// fitGraph fits g over the variables marked in nodes.
-func (a *Analysis) fitGraph(ctx context.Context, g *dag.PDAG, in []bool) (*modelFit, error) {
-	m, err := a.moments()
-	if err != nil {
-		return nil, err
-	}
-	var nodes []int
-	pos := map[int]int{}
-	for v, ok := range in {
-		if ok {
-			pos[v] = len(nodes)
-			nodes = append(nodes, v)
-		}
-	}
-	sub := mat.NewSymDense(len(nodes), nil)
-	parents := make([][]int, len(nodes))
-	for i, v := range nodes {
-		for j, w := range nodes[:i+1] {
-			sub.SetSym(i, j, m.Cor.At(v, w))
-		}
-		for _, p := range g.Parents(v) {
-			parents[i] = append(parents[i], pos[p])
-		}
-	}
-	f, err := sem.FitDAG(ctx, sub, m.N, parents)
-	var ee *sem.EquationError
-	if errors.As(err, &ee) && errors.Is(ee.Err, linmod.ErrTooFewCases) {
-		k := len(parents[ee.Variable])
-		return nil, fmt.Errorf("the equation of %s has %s and the data %s; it needs at least %d (%w)",
-			a.Study.Names[nodes[ee.Variable]], count(k, "parent", "parents"), count(m.N, "case", "cases"), k+2, ee.Err)
-	}
-	if errors.As(err, &ee) {
-		return nil, fmt.Errorf("the equation of %s: %w", a.Study.Names[nodes[ee.Variable]], ee.Err)
-	}
-	if err != nil {
-		return nil, err
-	}
-	return &modelFit{fit: f, nodes: nodes}, nil
 }
 
 func runGraphFit(ctx context.Context, a *Analysis) (CheckResult, error) {
@@ -183,14 +139,16 @@ func (a *Analysis) rejectedFindings(tests []implicationTest) []Finding {
 		if t.method == "logistic_wald" {
 			what = "a logistic regression finds an association"
 		}
-		fs = append(fs, Finding{Severity: StatusFail, Message: fmt.Sprintf(
-			"The data contradict an independence the graph implies: %s and %s should be independent given %s, but %s (Holm-adjusted %s).",
-			a.Study.Names[t.imp.X],
-			a.Study.Names[t.imp.Y],
-			a.setText(t.imp.Given),
-			what,
-			pText(t.pHolm),
-		)})
+		x, y := a.Study.Names[t.imp.X], a.Study.Names[t.imp.Y]
+		fs = append(fs, Finding{Severity: StatusFail, Topic: topic("independence", min(x, y), max(x, y)),
+			Details: map[string]any{"x": x, "y": y}, Message: fmt.Sprintf(
+				"The data contradict an independence the graph implies: %s and %s should be independent given %s, but %s (Holm-adjusted %s).",
+				x,
+				y,
+				a.setText(t.imp.Given),
+				what,
+				pText(t.pHolm),
+			)})
 	}
 	return fs
 }
@@ -216,7 +174,7 @@ func fitFindings(f *sem.Fit, alpha float64) []Finding {
 	}
 	var fs []Finding
 	if f.P < alpha {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "chi-square", Message: fmt.Sprintf(
 			"The chi-square test rejects the graph: χ² = %.2f on %d df, %s (with large samples it rejects small misfits too).",
 			f.ChiSquare,
 			f.DF,
@@ -235,12 +193,13 @@ func fitFindings(f *sem.Fit, alpha float64) []Finding {
 		{"SRMR", f.SRMR, f.SRMR > cutSRMR, fmt.Sprintf("above the conventional %.2f", cutSRMR)},
 	} {
 		if c.bad {
-			fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-				"%s is %.3f, %s; the cut-offs of Hu & Bentler (1999) are a guide, not a verdict.",
-				c.name,
-				c.value,
-				c.thresh,
-			)})
+			fs = append(fs, Finding{Severity: StatusWarn, Topic: topic("fit-index", strings.ToLower(c.name)),
+				Message: fmt.Sprintf(
+					"%s is %.3f, %s; the cut-offs of Hu & Bentler (1999) are a guide, not a verdict.",
+					c.name,
+					c.value,
+					c.thresh,
+				)})
 		}
 	}
 	return fs
@@ -262,7 +221,7 @@ func (a *Analysis) binaryNodeFindings(m *Moments) []Finding {
 	if m.Rows == nil {
 		how = "summary statistics allow no logistic regression, so every test treats them as continuous"
 	}
-	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
+	return []Finding{{Severity: SeverityInfo, Topic: "binary-approximation", Message: fmt.Sprintf(
 		"%s: binary, with arrows into %s. The linear chi-square and the fit indices treat %s as continuous and are approximate there; %s.",
 		strings.Join(names, ", "),
 		them(len(names)),

@@ -58,14 +58,16 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 	}
 	var fs []Finding
 	if len(missingRel) > 0 {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
-			"No reliability is reported for %s; how much measurement error weakens the claims that use %s cannot be "+
-				"judged, and %s left uncorrected below.",
-			strings.Join(missingRel, ", "), them(len(missingRel)), plural(len(missingRel), "it is", "they are"))})
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "no-reliability",
+			Details: map[string]any{"variables": missingRel}, Message: fmt.Sprintf(
+				"No reliability is reported for %s; how much measurement error weakens the claims that use %s cannot "+
+					"be judged, and %s left uncorrected.",
+				strings.Join(missingRel, ", "), them(len(missingRel)), plural(len(missingRel), "it is", "they are"))})
 	}
 	if len(low) > 0 {
-		fs = append(fs, Finding{Severity: SeverityInfo, Message: "Reliability below .70 (a rule of thumb in the " +
-			"field, no single source): " + strings.Join(low, ", ") + "."})
+		fs = append(fs, Finding{Severity: SeverityInfo, Topic: "low-reliability",
+			Message: "Reliability below .70 (a rule of thumb in the " +
+				"field, no single source): " + strings.Join(low, ", ") + "."})
 	}
 	m, err := a.moments()
 	if err != nil {
@@ -75,7 +77,8 @@ func runMeasurement(ctx context.Context, a *Analysis) (CheckResult, error) {
 	corrected, problem := correctedMoments(m, rel)
 	metrics := map[string]any{"variables_without_reliability": len(missingRel), "variables_low_reliability": len(low)}
 	if problem != "" {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: "Corrected for attenuation (Spearman 1904), the " +
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "corrected-impossible", Message: "Corrected for " +
+			"attenuation (Spearman 1904), the " +
 			"correlation matrix " + problem + ", so the claims are not re-estimated on it; the reliabilities and " +
 			"the correlations cannot all be right."})
 	} else {
@@ -195,11 +198,13 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n, changed int) {
 		if std.EstimateScale != "correlation" {
 			std.EstimateScale = "standardized"
 		}
-		decl := a.estimateWith(a.mustMoments(), std, a.declaredParentsFor(c))
-		corr := a.estimateWith(cm, std, a.declaredParentsFor(c))
+		decl := a.estimateUnder(a.mustMoments(), a.declaredParentsFor(c), std)
+		corr := a.estimateUnder(cm, a.declaredParentsFor(c), std)
 		if bad := firstErr(decl, corr); bad != nil {
-			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-				"%s could not be estimated with and without the correction (%v), so what measurement error does to "+
+			fs = append(fs, Finding{Severity: StatusWarn, Claim: c.ID, Topic: "corrected",
+				ask: "corrected-unestimated",
+				Message: fmt.Sprintf("%s could not be estimated with and without the correction (%v), so what "+
+					"measurement error does to "+
 					"it is not known.", c.ID, bad)})
 			continue
 		}
@@ -213,19 +218,21 @@ func (a *Analysis) correctedClaims(cm *Moments) (fs []Finding, n, changed int) {
 		a.Claims[i].Measurement = r
 		if r.Changed {
 			changed++
-			fs = append(fs, Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(
-				"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: "+
-					"measurement error alone could carry the conclusion.",
-				c.ID, valueText(decl), valueText(corr))})
+			fs = append(fs, Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "corrected",
+				Message: fmt.Sprintf(
+					"%s is %s as measured but %s once the correlations are corrected for the reported reliabilities: "+
+						"measurement error alone could carry the conclusion.",
+					c.ID, valueText(decl), valueText(corr))})
 		} else if math.Abs(corr.value-decl.value) >= 0.05 {
-			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+			fs = append(fs, Finding{Severity: SeverityInfo, Claim: c.ID, Topic: "corrected", Message: fmt.Sprintf(
 				"%s moves from %s to %s (standardized) when corrected for measurement error; it "+
 					"%s.", c.ID, estText(decl.value), estText(corr.value),
 				agreement(decl, corr, a.Alpha))})
 		}
 	}
 	if n == 0 && len(skipped) > 0 {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: "No claim could be re-estimated on the corrected " +
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "none-corrected", Message: "No claim could be " +
+			"re-estimated on the corrected " +
 			"correlations, so what measurement error does to the claims is not known: " +
 			strings.Join(skipped, "; ") + "."})
 	}
@@ -241,7 +248,7 @@ func (a *Analysis) notCorrectable(c Claim) string {
 	case a.Study.Package.Variables[a.Study.Index[c.To]].Scale == ScaleBinary:
 		return "has a binary outcome, and the correction for attenuation is not made for a logistic model"
 	case a.graphContradiction(c) != "":
-		return "is given no effect by the declared graph (see graph-declared)"
+		return "is given no effect by the declared graph"
 	}
 	return ""
 }

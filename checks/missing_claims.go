@@ -8,35 +8,37 @@ import (
 // methodFindings judge the declared method against the missingness.
 func methodFindings(method string, r *missingResult, alpha float64) []Finding {
 	share := 100 * float64(r.summary.MissingCells) / float64(r.summary.Rows*len(r.summary.MissingByVariable))
-	fs := []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(
+	fs := []Finding{{Severity: SeverityInfo, Topic: "patterns", Message: fmt.Sprintf(
 		"%d of %d rows are complete; %.1f%% of the data cells are missing, in %s.",
 		r.summary.CompleteRows, r.summary.Rows, share, count(r.summary.Patterns, "pattern", "patterns"))}}
 	switch name, bad := unsoundMethods[method]; {
 	case method == "":
-		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "method", ask: "method-unstated", Message: fmt.Sprintf(
 			unstatedFormat, share, r.summary.CompleteRows, r.summary.Rows)})
 	case method == MissingNone:
-		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "method", ask: "method-none", Message: fmt.Sprintf(
 			noneMissingFormat, share, r.summary.CompleteRows, r.summary.Rows)})
 	case bad:
-		fs = append(fs, Finding{Severity: StatusWarn, Message: name + unsoundText + reestimatedText(method, r)})
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "method", ask: "method-unsound",
+			Message: name + unsoundText + reestimatedText(method, r)})
 	case method == MissingAvailableCases && r.pairwiseErr != "":
-		fs = append(fs, Finding{Severity: StatusWarn, Message: "Available-case analysis: " + r.pairwiseErr + "."})
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "method", ask: "available-cases",
+			Message: "Available-case analysis: " + r.pairwiseErr + "."})
 	}
 	if r.mcar != nil && !math.IsNaN(r.mcar.P) {
-		sev, tail := SeverityInfo, ""
+		sev, tail, ask := SeverityInfo, "", ""
 		rejected := r.mcar.P < alpha
 		if rejected && (method == MissingCompleteCases || method == MissingAvailableCases || method == "") {
-			sev, tail = StatusWarn, fmt.Sprintf(littleRejectedTail, "")
+			sev, tail = StatusWarn, littleRejectedTail
 			if method == "" {
-				tail = fmt.Sprintf(littleRejectedTail, "if the paper analysed them, ")
+				ask = "mcar-unstated"
 			}
 		}
 		verdict := "does not reject"
 		if rejected {
 			verdict = "rejects"
 		}
-		fs = append(fs, Finding{Severity: sev, Message: fmt.Sprintf(littleFormat,
+		fs = append(fs, Finding{Severity: sev, Topic: "mcar", ask: ask, Message: fmt.Sprintf(littleFormat,
 			verdict, alpha, r.mcar.ChiSquare, r.mcar.DF, pText(r.mcar.P), tail)})
 	}
 	return fs
@@ -55,10 +57,11 @@ const (
 	// complete-case regression stays unbiased when the missingness depends
 	// on its predictors alone (Little & Rubin, Statistical Analysis with
 	// Missing Data, 2nd ed., sec. 3.2), which the test cannot tell.
+	// The question asks why the analysis of complete or available cases
+	// holds (only if the paper analysed them, where it does not say).
 	littleRejectedTail = " That speaks against missing completely at random only: the complete or available " +
 		"cases are then no random subset of the rows, but a complete-case regression stays unbiased when the " +
-		"missingness depends on its predictors alone, which the test cannot tell; %ssay why the analysis of " +
-		"complete or available cases holds, or re-analyse by multiple imputation or maximum likelihood."
+		"missingness depends on its predictors alone, which the test cannot tell."
 	littleFormat = "Little's test %s at the %g level that values are missing completely at random " +
 		"(χ² = %.2f on %d df, %s).%s"
 	uncomparedFormat = "%s could not be estimated by %s (%s), so whether its conclusion depends on how " +
@@ -76,14 +79,14 @@ const (
 func reestimatedText(method string, r *missingResult) string {
 	done := principledDone(r)
 	if done == "" {
-		return "; the claims could not be re-estimated by a principled method (see below)."
+		return "; the claims could not be re-estimated by a principled method."
 	}
 	has := methodsRun(r)
 	dk, pk := comparison(method, has)
 	if _, ok := has[pk]; !ok {
-		return "; the claims are re-estimated by " + done + " (see below)."
+		return "; the claims are re-estimated by " + done + "."
 	}
-	return fmt.Sprintf("; the claims are re-estimated by %s, and below, each claim's %s estimate is held against "+
+	return fmt.Sprintf("; the claims are re-estimated by %s, and each claim's %s estimate is held against "+
 		"its estimate by %s.", done, r.label(dk), r.label(pk))
 }
 
@@ -140,10 +143,7 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	pa := a.declaredParentsFor(c)
 	ests := map[string]est{}
 	for key, m := range r.moments {
-		ests[key] = a.estimateWith(m, c, pa)
-		if key == MissingMaximumLikelihood {
-			ests[key] = a.mlInference(c, ests[key], r)
-		}
+		ests[key] = a.estimateUnder(m, pa, c)
 	}
 	if len(r.imputed) > 0 {
 		ests[MissingMultipleImputation] = a.pooled(c, r.imputedEst[i], r.imputed)
@@ -154,8 +154,8 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 	}
 	a.Claims[i].MissingData = out
 	if why := a.graphContradiction(c); why != "" {
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
-			"%s is not weighed here: the declared graph itself gives it no effect, %s (see graph-declared).",
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "by-method", Message: fmt.Sprintf(
+			"%s is not weighed here: the declared graph itself gives it no effect, %s.",
 			c.ID,
 			why,
 		)}}, false
@@ -166,7 +166,7 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 		return f, false
 	}
 	if d.category(a.Alpha) == p.category(a.Alpha) {
-		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Message: fmt.Sprintf(
+		return []Finding{{Severity: SeverityInfo, Claim: c.ID, Topic: "by-method", Message: fmt.Sprintf(
 			"%s %s: %s by %s, %s by %s.", c.ID, agreement(d, p, a.Alpha),
 			valueText(d), r.label(declaredKey), valueText(p), r.label(principledKey))}}, false
 	}
@@ -175,7 +175,7 @@ func (a *Analysis) claimMissing(i int, c Claim, method string, r *missingResult)
 		sev = StatusFail
 	}
 	level := claimLevel(c)
-	return []Finding{{Severity: sev, Claim: c.ID, Message: fmt.Sprintf(
+	return []Finding{{Severity: sev, Claim: c.ID, Topic: "by-method", Message: fmt.Sprintf(
 		"%s is %s by %s (%s) but %s by %s (%s): the conclusion depends on how missing values were handled.",
 		c.ID, valueText(d), r.label(declaredKey), ciText(d, level), valueText(p), r.label(principledKey),
 		ciText(p, level))}}, true
@@ -194,8 +194,8 @@ func (r *missingResult) uncompared(c Claim, ests map[string]est, declaredKey, pr
 		if ok {
 			why = e.err.Error()
 		}
-		return []Finding{{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(
-			uncomparedFormat, c.ID, r.label(key), why)}}
+		return []Finding{{Severity: StatusWarn, Claim: c.ID, Topic: "by-method", ask: "by-method-unestimated",
+			Message: fmt.Sprintf(uncomparedFormat, c.ID, r.label(key), why)}}
 	}
 	return nil
 }

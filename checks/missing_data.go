@@ -9,6 +9,7 @@ import (
 
 	"gonum.org/v1/gonum/mat"
 
+	"github.com/pathvet/pathvet/checks/mediation"
 	"github.com/pathvet/pathvet/checks/missing"
 )
 
@@ -47,10 +48,6 @@ type missingResult struct {
 	summary missing.Summary
 	em      *missing.EMResult
 	mcar    *missing.MCARTest
-	// mlCov is the covariance of EM's (μ̂, vech Σ̂), the inverse of the
-	// observed information; mlCovErr why it could not be had.
-	mlCov    *missing.Covariance
-	mlCovErr error
 	// moments by method key: complete_cases, maximum_likelihood, the
 	// declared single imputation; and one per imputed dataset.
 	moments map[string]*Moments
@@ -90,8 +87,10 @@ func (a *Analysis) missingData(ctx context.Context) *missingResult {
 	if t, err := missing.LittleMCAR(d.Columns, em); err == nil {
 		r.mcar = &t
 	}
-	r.moments[MissingMaximumLikelihood] = emMoments(em, d.N)
-	r.mlCov, r.mlCovErr = missing.EstimateCovariance(ctx, d.Columns, em)
+	ml := emMoments(em, d.N)
+	ml.ml = &mlMoments{em: em}
+	ml.ml.acov, ml.ml.acovErr = missing.EstimateCovariance(ctx, d.Columns, em)
+	r.moments[MissingMaximumLikelihood] = ml
 	a.declaredMethodMoments(r)
 	if err := a.imputeClaims(ctx, r, Imputations); err != nil {
 		r.err = err
@@ -124,10 +123,11 @@ func (a *Analysis) imputeClaims(ctx context.Context, r *missingResult, m int) er
 		if err != nil {
 			return err
 		}
+		mo.draws = max(1, mediation.DefaultDraws/m)
 		mu.Lock()
 		defer mu.Unlock()
 		for i, c := range claims {
-			ests[i][k] = a.estimateWith(mo, c, a.declaredParentsFor(c))
+			ests[i][k] = a.estimateUnder(mo, a.declaredParentsFor(c), c)
 		}
 		mo.Rows, imputed[k] = nil, mo
 		done++
@@ -264,6 +264,7 @@ func runMissingData(ctx context.Context, a *Analysis) (CheckResult, error) {
 			res.Findings,
 			Finding{
 				Severity: StatusWarn,
+				Topic:    "principled-failed",
 				Message: "The claims could not be re-estimated by " + principledMissing(
 					r,
 				) + ": " + r.err.Error() + ".",
@@ -294,7 +295,9 @@ func summaryMissing(method string) CheckResult {
 		res.Findings = []Finding{
 			{
 				Severity: StatusWarn,
-				Message:  name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data). With summary statistics only, pathvet cannot re-estimate the claims; ask the authors for the raw rows, or for the analysis by maximum likelihood or multiple imputation.",
+				Topic:    "method",
+				ask:      "method-unsound-summary",
+				Message:  name + " biases coefficients and understates their uncertainty (Little & Rubin, Statistical Analysis with Missing Data). With summary statistics only, the screen cannot re-estimate the claims by maximum likelihood or multiple imputation.",
 			},
 		}
 		res.Status = StatusWarn
@@ -319,8 +322,9 @@ func completeRows(method string, res CheckResult) CheckResult {
 		res.Findings = []Finding{
 			{
 				Severity: StatusWarn,
+				Topic:    "completed-data",
 				Message: fmt.Sprintf(
-					"The rows have no missing value although the package says missing values were handled by %s: the uploaded data may be the completed data. Ask for the raw rows with their missing cells.",
+					"The rows have no missing value although the package says missing values were handled by %s: the uploaded data may be the completed data.",
 					lowerFirst(name),
 				),
 			},

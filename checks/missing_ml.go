@@ -21,14 +21,24 @@ const (
 	mlNoSEFormat = "no standard error: %v"
 )
 
+// mlMoments are what maximum-likelihood moments under missing data (EM)
+// carry for their standard errors: the EM estimate, and the covariance of
+// its (μ̂, vech Σ̂), the inverse of the observed information of the
+// saturated normal model, held as the information's factor (missing.EstimateCovariance, computed once in
+// missingData), or why it could not be had.
+type mlMoments struct {
+	em      *missing.EMResult
+	acov    *missing.Covariance
+	acovErr error
+}
+
 // mlInference gives a maximum-likelihood estimate e of claim c (the
 // estimator run on the EM mean and covariance) its SE, p-value and
-// interval from the observed information of the saturated normal model
-// (missing.EstimateCovariance, computed once in missingData), carried to
-// the coefficient by the delta method (missing.DeltaSE), under the
-// normal. Where the information could not be had, e becomes an error that
-// says why, so that no comparison rests on a complete-data SE.
-func (a *Analysis) mlInference(c Claim, e est, r *missingResult) est {
+// interval from the observed information, carried to the coefficient by
+// the delta method (missing.DeltaSE), under the normal. Where the
+// information could not be had, e becomes an error that says why, so that
+// no comparison rests on a complete-data SE.
+func (a *Analysis) mlInference(c Claim, e est, r *mlMoments) est {
 	if !e.ok() || e.method == MethodZero {
 		return e
 	}
@@ -37,11 +47,11 @@ func (a *Analysis) mlInference(c Claim, e est, r *missingResult) est {
 		return e.failed(fmt.Errorf(mlNoSEFormat, "the delta method is carried to linear coefficients and "+
 			"partial correlations only"))
 	}
-	if r.mlCovErr != nil {
-		return e.failed(fmt.Errorf(mlNoSEFormat, strings.TrimPrefix(r.mlCovErr.Error(), "missing: ")))
+	if r.acovErr != nil {
+		return e.failed(fmt.Errorf(mlNoSEFormat, strings.TrimPrefix(r.acovErr.Error(), "missing: ")))
 	}
 	y, x := a.Study.Index[c.To], append([]int{a.Study.Index[c.From]}, e.adjusted...)
-	_, se, err := missing.DeltaSE(r.em.Cov, r.mlCov, y, x, kind)
+	_, se, err := missing.DeltaSE(r.em.Cov, r.acov, y, x, kind)
 	if err != nil {
 		return e.failed(fmt.Errorf(mlNoSEFormat, strings.TrimPrefix(err.Error(), "missing: ")))
 	}

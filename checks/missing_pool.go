@@ -38,6 +38,9 @@ func (a *Analysis) pooled(c Claim, ests []est, imputed []*Moments) est {
 		qk, uk := pooledScale(e, m.N, claimLevel(c))
 		q, u = append(q, qk), append(u, uk)
 	}
+	if first.method == MethodProduct {
+		return a.pooledIndirect(c, ests)
+	}
 	dfCom := float64(first.n - len(first.adjusted) - 2)
 	level := claimLevel(c)
 	pr, err := missing.Pool(q, u, dfCom, level)
@@ -113,7 +116,7 @@ func raisedFindings(r *missingResult) []Finding {
 	}
 	ids := strings.Join(r.raised, ", ")
 	if r.raiseErr != nil {
-		return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(
+		return []Finding{{Severity: StatusWarn, Topic: "imputations", Message: fmt.Sprintf(
 			"With %d imputations the Monte Carlo error could carry the pooled estimate of %s across the significance "+
 				"line, and m was not raised (%v): read %s as on the line.",
 			Imputations, ids, r.raiseErr, ids)}}
@@ -125,7 +128,7 @@ func raisedFindings(r *missingResult) []Finding {
 		msg += fmt.Sprintf(" With %d it still could for %s: read %s as on the "+
 			"line.", len(r.imputed), strings.Join(r.stillNear, ", "), strings.Join(r.stillNear, ", "))
 	}
-	return []Finding{{Severity: SeverityInfo, Message: msg}}
+	return []Finding{{Severity: SeverityInfo, Topic: "imputations", Message: msg}}
 }
 
 // monteCarloError is the Monte Carlo standard error of a pooled estimate,

@@ -25,9 +25,18 @@ type Moments struct {
 	SD    []float64 // nil when unknown
 	Means []float64 // nil when unknown
 	Rows  *mat.Dense
-	// Method says where the moments come from: "summary" or
-	// "complete_cases".
+	// Method says where the moments come from: "summary",
+	// "complete_cases", a missing-data method or one imputed dataset. It
+	// names them uniquely within a run: estimates are cached by it.
 	Method string
+	// ml is set for maximum-likelihood moments under missing data: what
+	// their standard errors need (missing_ml.go).
+	ml *mlMoments
+	// draws is the number of Monte Carlo draws of an indirect effect's
+	// interval on these moments (0: mediation.DefaultDraws); one imputed
+	// dataset of m takes DefaultDraws/m, as many as the mixture over the
+	// imputations keeps of each (pooledIndirect).
+	draws int
 }
 
 // Cov returns the covariance matrix, or nil without SDs.

@@ -42,6 +42,9 @@ func (a *Analysis) nearbyInput(m *Moments) (nearby.Model, [][]int, nearby.Knowle
 	for _, e := range s.Package.Graph.FixedEdges {
 		k.Fixed = append(k.Fixed, [2]int{s.Index[e.From], s.Index[e.To]})
 	}
+	if s.Tiers != nil {
+		k.Tier, _ = s.Tiers.Index(len(s.Names)) // checked by the loader
+	}
 	return nearby.Model{S: m.Cor, N: m.N, In: s.InGraph}, parents, k
 }
 
@@ -67,6 +70,10 @@ func (a *Analysis) resolveClass(parents [][]int, edits []nearby.Edit, delta floa
 		if in && s.Package.Variables[v].Exogenous {
 			c.bg = append(c.bg, dag.ExogenousArcs(c.g, v)...)
 		}
+	}
+	if s.Tiers != nil {
+		arcs, _ := dag.TierArcs(c.cpdag, s.Tiers) // checked by the loader
+		c.bg = append(c.bg, arcs...)
 	}
 	if len(c.bg) == 0 { // no background knowledge: every member is plausible
 		c.plausible = new(big.Int).Set(c.size)
@@ -133,6 +140,9 @@ func (a *Analysis) acrossClass(c *nearClass, i int, members []alternativeGraph) 
 	if members != nil {
 		return a.summarizeAcross(cl, decl, members, AcrossMembers, a.memberEstimator(cl)), nil
 	}
+	if cl.Kind == KindIndirect {
+		return notComputedAcross(c.plausible), nil
+	}
 	node := a.parentsNode(cl)
 	graphs, err := a.localGraphsOf(c.cpdag, c.bg, node)
 	if err != nil {
@@ -158,7 +168,7 @@ func (a *Analysis) nearbyReport(c *nearClass) NearbyGraph {
 		for i, ae := range c.claims {
 			r.Claims[s.Package.Claims[i].ID] = NearbyClaim{Min: ae.Min, Max: ae.Max,
 				ShareSignificantSameSign: ae.ShareSignificantSameSign, Graphs: ae.Estimates, Method: ae.Method,
-				Changed: ae.Unstable}
+				Changed: ae.Unstable, NotComputed: ae.NotComputed}
 		}
 	}
 	for _, i := range c.unlisted {

@@ -11,7 +11,7 @@ import (
 // changes in a close class or the search's best, the search, classes left
 // unexamined, and the linear score's approximation for binary variables.
 func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
-	fs := []Finding{overviewFinding(run)}
+	fs := []Finding{overviewFinding(run, knowledgeKinds(a.Study))}
 	seen := map[string]bool{}
 	for _, c := range run.listed {
 		if c.claims != nil {
@@ -24,12 +24,13 @@ func (a *Analysis) nearbyFindings(run *nearbyRun) []Finding {
 	}
 	fs = append(fs, a.searchFinding(run))
 	if left := run.near - run.examined; left > 0 {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(unexaminedFormat,
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "unexamined", Message: fmt.Sprintf(unexaminedFormat,
 			count(left, "more class fits", "more classes fit"), run.examined)})
 	}
 	if left := run.better - run.examinedBetter; left > 0 {
-		fs = append(fs, Finding{Severity: StatusWarn, Message: fmt.Sprintf(unexaminedBetterFormat,
-			count(left, "more class fits", "more classes fit"), run.examinedBetter)})
+		fs = append(fs, Finding{Severity: StatusWarn, Topic: "unexamined-better",
+			Message: fmt.Sprintf(unexaminedBetterFormat,
+				count(left, "more class fits", "more classes fit"), run.examinedBetter)})
 	}
 	fs = append(fs, a.unlistedFinding(run)...)
 	return append(fs, a.binaryScoreFinding()...)
@@ -43,33 +44,34 @@ const (
 		"claims were not re-estimated (only the search's end point among them may be), so this check cannot say " +
 		"that every claim holds in them."
 	overviewFormat = "%s one edit from the declared graph within the background knowledge; %s%s. " +
-		"The score is graph-fit's BIC (χ² + free parameters · ln N), refitting only the equations whose parents change."
+		"Each is compared with the declared graph by BIC (χ² + free parameters · ln N), refitting only the equations " +
+		"whose parents change."
 	searchFormat = "A greedy search from the declared graph (%s that lowers BIC most%s) " +
 		"ends at the graphs %s (%s). A search result is a hint, not a discovery: one greedy path through many " +
 		"candidate edits also finds chance improvements, so it says where to look, not which graph is true."
-	binaryScoreFormat = "%s: binary. The nearby graphs are scored by the same linear BIC as graph-fit's χ², which " +
-		"treats %s as continuous: where an edit changes a binary variable's equation its ΔBIC is approximate, and a " +
-		"headline claim that changes there is warned about, not failed (the claims themselves are estimated as " +
-		"elsewhere in the report)."
-	noNeighbourText = "No graph lies one edit from the declared one within the background knowledge " +
-		"(exogenous variables, fixed arrows)."
-	differsFormat = "%s is %s under the declared graph, but its sign or significance differs in %d of %s " +
+	binaryScoreFormat = "%s: binary. The graphs one edit away are compared by a linear BIC, like the chi-square " +
+		"test of fit, which treats %s as continuous: where an edit changes a binary variable's equation its ΔBIC " +
+		"is approximate, and a headline claim that changes there is warned about, not failed (the claims " +
+		"themselves are estimated as in the rest of the screen)."
+	noNeighbourFormat = "No graph lies one edit from the declared one within the background knowledge (%s)."
+	differsFormat     = "%s is %s under the declared graph, but its sign or significance differs in %d of %s " +
 		"(%s; in the one nearest zero it is %s)"
-	coveredText = " It already changes among the declared graph's own equivalent graphs (see the equivalence " +
-		"check), so the equivalence check's finding covers it."
-	approximateText = " The edit changes the equation of a binary variable, which the linear score treats as " +
-		"continuous, so this ΔBIC is approximate and the finding a warning rather than a failure; the paper " +
-		"neither states nor discusses this graph."
+	coveredText = " It already changes among the declared graph's own equivalent graphs, which fit the data " +
+		"exactly as well, and is weighed with them rather than here."
+	approximateText = " The edit changes the equation of a binary variable, which the linear BIC treats as " +
+		"continuous, so this ΔBIC is approximate; the paper neither states nor discusses this graph."
 	undiscussedText = " The paper neither states nor discusses this graph, so the data do not decide this claim; " +
 		"the choice of graph does."
+	notComputedNearFormat = "%s could not be re-estimated in the graphs %s (%s): %s, so whether its conclusion " +
+		"holds there is not known."
 	noSearchStepText = "A greedy search from the declared graph finds no single edit that lowers BIC: " +
-		"the declared graph is a local optimum of the score."
+		"the declared graph is a local optimum of BIC."
 )
 
-func overviewFinding(run *nearbyRun) Finding {
+func overviewFinding(run *nearbyRun, kinds string) Finding {
 	nb := run.nb
 	if nb.DAGs == 0 {
-		return Finding{Severity: SeverityInfo, Message: noNeighbourText}
+		return Finding{Severity: SeverityInfo, Topic: "overview", Message: fmt.Sprintf(noNeighbourFormat, kinds)}
 	}
 	own := "none is Markov equivalent to the declared graph"
 	switch {
@@ -85,7 +87,7 @@ func overviewFinding(run *nearbyRun) Finding {
 	} else if n > 0 {
 		others = fmt.Sprintf("; they fall in %s", classesText(run))
 	}
-	return Finding{Severity: SeverityInfo, Message: fmt.Sprintf(overviewFormat,
+	return Finding{Severity: SeverityInfo, Topic: "overview", Message: fmt.Sprintf(overviewFormat,
 		count(nb.DAGs, "graph lies", "graphs lie"), own, others)}
 }
 
@@ -115,6 +117,11 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 	slices.Sort(idx)
 	for _, i := range idx {
 		ae, cl := c.claims[i], a.Study.Package.Claims[i]
+		if ae.NotComputed != "" {
+			fs = append(fs, Finding{Severity: StatusWarn, Claim: cl.ID, Topic: topic("nearby", a.editsSubject(c.edits)),
+				ask: "nearby-indirect-unlisted", Message: fmt.Sprintf(notComputedNearFormat,
+					cl.ID, a.editsText(c.edits), deltaText(c.delta), ae.NotComputed)})
+		}
 		if !ae.Unstable {
 			continue
 		}
@@ -125,7 +132,8 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 		case near && cl.Headline && c.alternative == "" && !c.approximate:
 			sev = StatusFail
 		}
-		fs = append(fs, Finding{Severity: sev, Claim: cl.ID, Message: a.changedText(c, i, ae, sev),
+		fs = append(fs, Finding{Severity: sev, Claim: cl.ID, Topic: topic("nearby", a.editsSubject(c.edits)),
+			Message: a.changedText(c, i, ae, sev),
 			Details: map[string]any{"delta_bic": num(c.delta), "graphs": ae.Estimates,
 				"graphs_differing": ae.Differing, "method": ae.Method}})
 	}
@@ -136,12 +144,8 @@ func (a *Analysis) classFindings(c *nearClass) []Finding {
 func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev string) string {
 	cl, decl := a.Study.Package.Claims[i], a.declaredEstimate(i)
 	other := noEffect(claimScale(cl))
-	if ct := ae.Contrast; ct != nil && ct.Estimate.Method != MethodZero && ct.Estimate.Estimate != nil {
-		p := math.NaN()
-		if ct.Estimate.PValue != nil {
-			p = *ct.Estimate.PValue
-		}
-		other = fmt.Sprintf("%.2f (%s)", *ct.Estimate.Estimate, pText(p))
+	if ct := ae.Contrast; ct != nil {
+		other = contrastText(cl, ct.Estimate)
 	}
 	edits := a.editsText(c.edits)
 	graphs := fmt.Sprintf("the %d plausible graphs %s", ae.Estimates, edits)
@@ -155,10 +159,10 @@ func (a *Analysis) changedText(c *nearClass, i int, ae *AcrossEquivalents, sev s
 	switch {
 	case ae.Estimates == 1:
 		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in %s (%s)",
-			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+			cl.ID, valueText(decl), closeAside(other), graphs, deltaText(c.delta))
 	case ae.Differing == 1:
 		fmt.Fprintf(&b, "%s is %s under the declared graph but %s in one of %s (%s)",
-			cl.ID, valueText(decl), other, graphs, deltaText(c.delta))
+			cl.ID, valueText(decl), closeAside(other), graphs, deltaText(c.delta))
 	default:
 		fmt.Fprintf(&b, differsFormat,
 			cl.ID, valueText(decl), ae.Differing, graphs, deltaText(c.delta), other)
@@ -199,7 +203,7 @@ func shareText(x *float64) string {
 func (a *Analysis) searchFinding(run *nearbyRun) Finding {
 	sr := run.sr
 	if sr.Steps == 0 {
-		return Finding{Severity: SeverityInfo, Message: noSearchStepText}
+		return Finding{Severity: SeverityInfo, Topic: "search", Message: noSearchStepText}
 	}
 	sev := SeverityInfo
 	if sr.DeltaBIC < clearlyBetterBIC {
@@ -209,7 +213,7 @@ func (a *Analysis) searchFinding(run *nearbyRun) Finding {
 	if sr.Stopped {
 		stopped = ", stopped at its step limit"
 	}
-	return Finding{Severity: sev, Message: fmt.Sprintf(searchFormat,
+	return Finding{Severity: sev, Topic: "search", Message: fmt.Sprintf(searchFormat,
 		count(sr.Steps, "step: the single edit", "steps, each the single edit"), stopped, a.editsText(sr.Edits),
 		deltaText(sr.DeltaBIC))}
 }
@@ -226,6 +230,6 @@ func (a *Analysis) binaryScoreFinding() []Finding {
 	if len(names) == 0 {
 		return nil
 	}
-	return []Finding{{Severity: SeverityInfo, Message: fmt.Sprintf(binaryScoreFormat,
+	return []Finding{{Severity: SeverityInfo, Topic: "binary-approximation", Message: fmt.Sprintf(binaryScoreFormat,
 		strings.Join(names, ", "), them(len(names)))}}
 }

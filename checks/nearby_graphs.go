@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -194,6 +195,19 @@ func (a *Analysis) editsText(edits []nearby.Edit) string {
 		parts = append(parts, fmt.Sprintf("%d more edits", len(edits)-shown))
 	}
 	return strings.Join(parts, " and ")
+}
+
+// editsSubject names edits in a finding's key: "drop-a-b", "add-a-b",
+// "reverse-a-b", sorted and joined by "+" (a class is the same class
+// whichever order its edits were found in).
+func (a *Analysis) editsSubject(edits []nearby.Edit) string {
+	parts := make([]string, len(edits))
+	for i, e := range edits {
+		op := map[nearby.Op]string{nearby.Add: "add", nearby.Remove: "drop", nearby.Reverse: "reverse"}[e.Op]
+		parts[i] = op + "-" + a.Study.Names[e.From] + "-" + a.Study.Names[e.To]
+	}
+	slices.Sort(parts)
+	return strings.Join(parts, "+")
 }
 
 // deltaText gives ΔBIC with Raftery's band and the graph it favours.

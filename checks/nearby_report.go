@@ -48,4 +48,6 @@ type NearbyClaim struct {
 	// Changed: the claim's sign or significance differs from the declared
 	// graph's in some graph of the class.
 	Changed bool `json:"changed"`
+	// NotComputed says why the claim was not re-estimated in the class.
+	NotComputed string `json:"not_computed,omitempty"`
 }

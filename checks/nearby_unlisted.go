@@ -59,8 +59,9 @@ func (a *Analysis) unlistedFinding(run *nearbyRun) []Finding {
 	if n > 1 {
 		holds = "these claims hold"
 	}
-	return []Finding{{Severity: StatusWarn, Message: fmt.Sprintf(unlistedFormat, a.claimIDsText(t.claims),
-		unlistedWhere(t, n), thousands(dag.MaxParentSets), holds),
+	return []Finding{{Severity: StatusWarn, Topic: "unlisted",
+		Message: fmt.Sprintf(unlistedFormat, a.claimIDsText(t.claims),
+			unlistedWhere(t, n), thousands(dag.MaxParentSets), holds),
 		Details: map[string]any{"claims": n, "classes": t.classes}}}
 }
 

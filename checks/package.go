@@ -45,10 +45,14 @@ type Edge struct {
 
 // Graph is the declared causal graph.
 type Graph struct {
-	Edges                []Edge `json:"edges" validate:"dive"`
-	FixedEdges           []Edge `json:"fixed_edges,omitempty" validate:"dive"`
-	Justification        string `json:"justification,omitempty" validate:"max=20000"`
-	EquivalentsDiscussed bool   `json:"equivalents_discussed,omitempty"`
+	Edges      []Edge `json:"edges" validate:"dive"`
+	FixedEdges []Edge `json:"fixed_edges,omitempty" validate:"dive"`
+	// Tiers is a time order over variables, earliest first (waves, or
+	// before, during and after the exposure): nothing in a later tier
+	// causes anything in an earlier one.
+	Tiers                [][]string `json:"tiers,omitempty"`
+	Justification        string     `json:"justification,omitempty" validate:"max=20000"`
+	EquivalentsDiscussed bool       `json:"equivalents_discussed,omitempty"`
 }
 
 // Alternative is another graph the authors considered.
@@ -64,18 +68,25 @@ const (
 	KindDirect      = "direct_effect"
 	KindTotal       = "total_effect"
 	KindAssociation = "association"
+	// KindIndirect is the effect of from on to through the mediators of
+	// through: the sum over the directed paths through all of them of the
+	// products of their coefficients; through empty, the total indirect
+	// effect (total minus direct).
+	KindIndirect = "indirect_effect"
 )
 
 // Causal reports whether claims of this kind are causal.
-func Causal(kind string) bool { return kind == KindDirect || kind == KindTotal }
+func Causal(kind string) bool { return kind == KindDirect || kind == KindTotal || kind == KindIndirect }
 
 // Claim is one finding the paper states.
 type Claim struct {
-	ID             string    `json:"id" validate:"required,claimid"`
-	Text           string    `json:"text" validate:"required,max=5000"`
-	Kind           string    `json:"kind" validate:"required,oneof=direct_effect total_effect association"`
-	From           string    `json:"from" validate:"required"`
-	To             string    `json:"to" validate:"required"`
+	ID   string `json:"id" validate:"required,claimid"`
+	Text string `json:"text" validate:"required,max=5000"`
+	Kind string `json:"kind" validate:"required,oneof=direct_effect total_effect indirect_effect association"`
+	From string `json:"from" validate:"required"`
+	To   string `json:"to" validate:"required"`
+	// Through are the mediators of an indirect effect, in any order.
+	Through        []string  `json:"through,omitempty"`
 	AdjustFor      []string  `json:"adjust_for,omitempty"`
 	Estimate       *float64  `json:"estimate,omitempty"`
 	EstimateScale  string    `json:"estimate_scale,omitempty" validate:"omitempty,oneof=standardized unstandardized correlation odds_ratio log_odds"`

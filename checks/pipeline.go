@@ -53,6 +53,9 @@ type Options struct {
 	// imputations) and how many of its total units are done. Calls come
 	// one at a time, not always from the goroutine that called Run.
 	Progress func(stage string, done, total int)
+	// Resamples is the number of bootstrap resamples of an indirect
+	// effect with raw rows; 0 means mediation.DefaultResamples.
+	Resamples int
 }
 
 // Analysis is one run of the pipeline over a study: the study, results
@@ -86,6 +89,19 @@ type Analysis struct {
 	condChecked  *Moments // the moments condOK is about (wellConditioned)
 	condOK       bool
 	progress     func(stage string, done, total int)
+	// estimation is the study's estimator (estimator.go); ctx the run's
+	// context, for estimates started lazily.
+	estimation estimator
+	ctx        context.Context
+	// bootResamples is Options.Resamples; seed the run's seed of every
+	// draw, once seeded (indirect_draws.go).
+	bootResamples int
+	seed          uint64
+	seeded        bool
+	// rhos and rhoWhy are the indirect claims' mediator–outcome
+	// sensitivity, or why there is none (mediatorSensitivity).
+	rhos   []*MediatorConfounding
+	rhoWhy []string
 }
 
 // reportProgress passes progress to Options.Progress, if set.
@@ -108,7 +124,8 @@ func Run(ctx context.Context, s *Study, opt Options) (*Report, error) {
 	if opt.Checks == nil {
 		opt.Checks = Pipeline()
 	}
-	a := &Analysis{Study: s, Alpha: opt.Alpha, Claims: claimReports(s.Package), progress: opt.Progress}
+	a := &Analysis{Study: s, Alpha: opt.Alpha, Claims: claimReports(s.Package), progress: opt.Progress, ctx: ctx,
+		bootResamples: opt.Resamples}
 	rep := &Report{
 		FormatVersion: ReportFormatVersion, ToolVersion: ToolVersion, PackageSHA256: s.SHA256,
 		Title: s.Package.Title, ManuscriptID: s.Package.ManuscriptID, Design: s.Package.Design,
@@ -165,6 +182,7 @@ func runCheck(ctx context.Context, c Check, a *Analysis) (res CheckResult) {
 	if res.Findings == nil {
 		res.Findings = []Finding{}
 	}
+	a.identify(c.ID, res.Findings)
 	if res.Metrics == nil {
 		res.Metrics = map[string]any{}
 	}
@@ -255,7 +273,7 @@ func claimReports(pkg *Package) []ClaimReport {
 	out := make([]ClaimReport, len(pkg.Claims))
 	for i, c := range pkg.Claims {
 		out[i] = ClaimReport{
-			ID: c.ID, Text: c.Text, Kind: c.Kind, From: c.From, To: c.To, Headline: c.Headline,
+			ID: c.ID, Text: c.Text, Kind: c.Kind, From: c.From, To: c.To, Through: c.Through, Headline: c.Headline,
 			Reported: Reported{
 				Estimate: c.Estimate, EstimateScale: c.EstimateScale, StdError: c.StdError,
 				CI: c.CI, CILevel: c.CILevel, PValue: c.PValue, PRelation: c.PRelation,

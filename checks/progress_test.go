@@ -39,3 +39,27 @@ func TestRun_Progress(t *testing.T) {
 		t.Errorf("imputation progress %q", imps)
 	}
 }
+
+// The percentile bootstrap of an indirect effect with raw rows reports
+// its resamples as the imputations do, counting up to Options.Resamples,
+// which sets how many it draws (the declared interval's draws and
+// failures add up to it).
+func TestRun_BootstrapProgressAndResamples(t *testing.T) {
+	var got []string
+	opt := checks.Options{Now: fixedNow, Resamples: 300, Progress: func(stage string, done, total int) {
+		if strings.HasPrefix(stage, "indirect effect W1: bootstrap resamples") {
+			got = append(got, fmt.Sprintf("%d/%d", done, total))
+		}
+	}}
+	r, err := checks.Run(context.Background(), MustLoad(t, "../testdata/demo/mentoring-waves/package.json"), opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got) == 0 || got[len(got)-1] != "300/300" {
+		t.Errorf("bootstrap progress %q", got)
+	}
+	sig := claimByID(r, "W1").Declared.Significance
+	if sig == nil || sig.Method != checks.IntervalBootstrap || sig.Draws+sig.Failed != 300 {
+		t.Errorf("significance %+v, want the bootstrap's 300 resamples", sig)
+	}
+}

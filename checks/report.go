@@ -93,11 +93,21 @@ type CheckResult struct {
 }
 
 // Finding is one observation, tied to a claim where it is about one.
+// Key names it for good: the check, the claim and the topic (what it is
+// about, never its wording or numbers), so that the same finding on a
+// resubmission has the same key (keys.go). Question is the default
+// question for the authors, for a fail or warn finding (questions.go).
 type Finding struct {
+	Key      string         `json:"key"`
 	Severity string         `json:"severity"`
 	Claim    string         `json:"claim,omitempty"`
+	Topic    string         `json:"topic"`
 	Message  string         `json:"message"`
+	Question string         `json:"question,omitempty"`
 	Details  map[string]any `json:"details,omitempty"`
+	// ask picks the question where a topic's question depends on what was
+	// found (an unexported question kind; "" takes the topic's).
+	ask string
 }
 
 // GraphReport describes the declared graph and its equivalence class.
@@ -111,7 +121,10 @@ type GraphReport struct {
 	Declared   [][2]string `json:"declared,omitempty"`
 	Background [][2]string `json:"background_arcs,omitempty"`
 	Exogenous  []string    `json:"exogenous,omitempty"`
-	CPDAG      EdgeSets    `json:"cpdag"`
+	// Tiers are graph.tiers, earliest first, each with the variables of
+	// the graph in it (a tier with none of them is left empty).
+	Tiers [][]string `json:"tiers,omitempty"`
+	CPDAG EdgeSets   `json:"cpdag"`
 	// PlausibleCPDAG is the CPDAG with the background knowledge's arcs
 	// oriented and closed under Meek's rules R1–R4: its arcs are exactly
 	// the edges every plausible member orients alike (Meek 1995). Absent
@@ -142,11 +155,14 @@ type EdgeSets struct {
 
 // ClaimReport gathers what the checks found about one claim.
 type ClaimReport struct {
-	ID       string   `json:"id"`
-	Text     string   `json:"text,omitempty"`
-	Kind     string   `json:"kind"`
-	From     string   `json:"from"`
-	To       string   `json:"to"`
+	ID   string `json:"id"`
+	Text string `json:"text,omitempty"`
+	Kind string `json:"kind"`
+	From string `json:"from"`
+	To   string `json:"to"`
+	// Through are an indirect effect's mediators (none: the total
+	// indirect effect).
+	Through  []string `json:"through,omitempty"`
 	Headline bool     `json:"headline"`
 	Reported Reported `json:"reported"`
 	// ArrowReversible says, for a direct effect, whether the arrow can
@@ -172,6 +188,12 @@ type ClaimReport struct {
 	// Measurement: the claim re-estimated after correcting for
 	// measurement error.
 	Measurement *MeasurementResult `json:"measurement,omitempty"`
+	// MediatorConfounding: a single-mediator indirect effect with a
+	// continuous mediator and outcome (confounding-sensitivity).
+	MediatorConfounding *MediatorConfounding `json:"mediator_confounding,omitempty"`
+	// ProportionMediated: an indirect effect whose total effect is
+	// significant with the same sign (effect-reporting).
+	ProportionMediated *ProportionMediated `json:"proportion_mediated,omitempty"`
 }
 
 // AlternativeEstimate is a claim re-estimated under a stated alternative.
@@ -186,6 +208,9 @@ type AlternativeEstimate struct {
 	// StructuralZero: as in Estimate, why the graph makes it zero.
 	StructuralZero string `json:"structural_zero,omitempty"`
 	Error          string `json:"error,omitempty"`
+	// Significance: as in Estimate, the interval that judges an indirect
+	// effect.
+	Significance *NamedInterval `json:"significance,omitempty"`
 }
 
 // Reported are the figures the package reports for a claim.

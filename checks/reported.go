@@ -34,17 +34,17 @@ func (s standing) bad() bool { return s >= standsOutside }
 
 // Sentences of the comparisons (reportedFinding).
 const (
-	reportedOutsideFormat  = "%s reports %s, but %s give %s with %s; ask how the reported figure was obtained."
+	reportedOutsideFormat  = "%s reports %s, but %s give %s with %s."
 	reportedOppositeFormat = "%s reports %s, a %s estimate, but %s give a %s one, %s, with %s: the data " +
-		"contradict the reported direction; ask how the reported figure was obtained."
+		"contradict the reported direction."
 	codesMatchMissingFormat = "%s reports %s, which the data %s with %s read as missing: %s. With %s " +
 		"counted as real values, the data give another figure: %s. Declare %s in /data/missing_codes, so that " +
 		"every estimate reads %s as missing."
 	codesMatchValuesFormat = "%s reports %s, which the data %s with %s counted as real values: %s. With %s " +
 		"read as missing, the data give another figure: %s. If %s, the reported figure appears to count %s as " +
-		"%s; ask the authors."
+		"%s."
 	codesMatchNeitherFormat = "%s reports %s, but the data give %s with %s counted as real values, and %s with " +
-		"%s read as missing (both with %s); ask how the reported figure was obtained."
+		"%s read as missing (both with %s)."
 )
 
 // reportedFinding compares claim i's reported estimate with its
@@ -79,7 +79,7 @@ func (a *Analysis) reportedFinding(i int, c Claim, decl est) []Finding {
 func (a *Analysis) codesFinding(i int, c Claim, decl, rec est, codes []Suspect) *Finding {
 	asRead, recoded := a.standing(c, decl), a.standing(c, rec)
 	fa, fr := directed(recomputedFigure(c, decl), asRead), directed(recomputedFigure(c, rec), recoded)
-	f := &Finding{Severity: StatusWarn, Claim: c.ID}
+	f := &Finding{Severity: StatusWarn, Claim: c.ID, Topic: "reported-figure"}
 	switch ph := codesPhrases(codes); {
 	case !asRead.bad() && !recoded.bad():
 		return nil
@@ -87,6 +87,7 @@ func (a *Analysis) codesFinding(i int, c Claim, decl, rec est, codes []Suspect) 
 		f.Severity, f.Message = SeverityInfo, fmt.Sprintf(codesMatchMissingFormat, c.ID, a.reportedFigure(i, c),
 			matchVerb(recoded), ph.codes, fr, ph.theCodes, fa, ph.declare, ph.pronoun)
 	case !asRead.bad():
+		f.ask = "reported-figure-codes"
 		f.Message = fmt.Sprintf(codesMatchValuesFormat, c.ID, a.reportedFigure(i, c), matchVerb(asRead), ph.codes,
 			fa, ph.theCodes, fr, ph.ifCodes, ph.pronoun, ph.measured)
 	default:
@@ -104,12 +105,14 @@ func (a *Analysis) codesFinding(i int, c Claim, decl, rec est, codes []Suspect) 
 // likely code.
 func (a *Analysis) singleFinding(i int, c Claim, e est, s standing) Finding {
 	if s == standsOpposite {
-		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Message: fmt.Sprintf(reportedOppositeFormat,
-			c.ID, a.reportedFigure(i, c), direction(reportedAdditive(c)), a.dataBasis("the data"),
-			direction(e.additive), recomputedFigure(c, e), a.adjustmentName(c))}
+		return Finding{Severity: headlineSeverity(c), Claim: c.ID, Topic: "reported-figure",
+			Message: fmt.Sprintf(reportedOppositeFormat,
+				c.ID, a.reportedFigure(i, c), direction(reportedAdditive(c)), a.dataBasis("the data"),
+				direction(e.additive), recomputedFigure(c, e), a.adjustmentName(c))}
 	}
-	return Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(reportedOutsideFormat, c.ID,
-		a.reportedFigure(i, c), a.dataBasis("the data"), recomputedFigure(c, e), a.adjustmentName(c))}
+	return Finding{Severity: StatusWarn, Claim: c.ID, Topic: "reported-figure",
+		Message: fmt.Sprintf(reportedOutsideFormat, c.ID,
+			a.reportedFigure(i, c), a.dataBasis("the data"), recomputedFigure(c, e), a.adjustmentName(c))}
 }
 
 // standing says how claim c's reported estimate stands beside e; a
@@ -214,6 +217,10 @@ func recomputedFigure(c Claim, e est) string {
 	}
 	out := fmt.Sprintf("%s (%s, %g%% interval %s to %s)", figure(e.value), pText(e.p), 100*claimLevel(c),
 		figure(e.lo), figure(e.hi))
+	if e.isIndirect() {
+		out = fmt.Sprintf("%s (%g%% %s interval %s to %s)", figure(e.value), 100*claimLevel(c),
+			intervalName(e.intervals[len(e.intervals)-1].method), figure(e.lo), figure(e.hi))
+	}
 	if e.scale != claimScale(c) {
 		out = scaleNoun(e.scale) + " " + out
 	}

@@ -98,7 +98,7 @@ func (a *Analysis) recodedEstimate(i int) est {
 	if err != nil {
 		return est{err: err, scale: claimScale(c)}
 	}
-	e := a.estimateWith(m, c, a.declaredParentsFor(c))
+	e := a.estimateUnder(m, a.declaredParentsFor(c), c)
 	if why := a.graphContradiction(c); why != "" && e.ok() {
 		e = structuralZero(c, e.adjusted, why)
 	}

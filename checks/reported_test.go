@@ -96,7 +96,7 @@ func TestEffectReporting_LikelyCodeBothWays(t *testing.T) {
 	}
 	f := reportingFinding(codedPackage(t, 0.95, 0.9, 0.99, ""), "C1 reports")
 	if f == nil || f.Severity != checks.StatusWarn || !strings.Contains(f.Message, "counted as real values, and") ||
-		!strings.Contains(f.Message, "ask how the reported figure was obtained") {
+		!strings.HasPrefix(f.Question, "How was the reported figure obtained") {
 		t.Errorf("matching neither reading: %+v", f)
 	}
 	if f := reportingFinding(codedPackage(t, *probe.Estimate, probe.CI[0], probe.CI[1], `"-99"`),

@@ -25,11 +25,11 @@ func (a *Analysis) eValues() []claimEValue {
 	a.evs = make([]claimEValue, len(a.Study.Package.Claims))
 	for i, c := range a.Study.Package.Claims {
 		switch {
-		case !Causal(c.Kind) || c.AssertsAbsence:
-			continue // nothing to explain away
+		case !Causal(c.Kind) || c.AssertsAbsence || c.Kind == KindIndirect:
+			continue // nothing to explain away, or mediatorSensitivity's
 		case a.graphContradiction(c) != "":
 			a.evs[i] = claimEValue{contradicted: true, why: "the declared graph itself gives it no effect: " +
-				a.graphContradiction(c) + " (see graph-declared)"}
+				a.graphContradiction(c)}
 		default:
 			ev, why := a.eValue(i, c)
 			a.evs[i] = claimEValue{ev: ev, why: why}
@@ -77,7 +77,12 @@ func (a *Analysis) directionCaution(i int, c Claim) string {
 	if ae.Method == AcrossParentSets {
 		in = fmt.Sprintf("%d of the %d locally valid parent sets of the equivalent graphs", ae.zero, ae.Estimates)
 	}
+	if c.Kind == KindIndirect {
+		return fmt.Sprintf(" The figure assumes the declared directions of the paths from %s %s to %s, which the "+
+			"data cannot settle: in %s, the indirect effect is zero.", c.From,
+			throughText(c), c.To, in)
+	}
 	return fmt.Sprintf(" The E-value speaks to unmeasured confounding under the declared direction of %s on %s; "+
 		"it says nothing of that direction, which the data cannot settle: in %s, the claimed effect of %s on "+
-		"%s %s (see equivalence).", c.From, c.To, in, c.From, c.To, isNoEffect(claimScale(c)))
+		"%s %s.", c.From, c.To, in, c.From, c.To, isNoEffect(claimScale(c)))
 }

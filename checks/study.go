@@ -22,10 +22,14 @@ type Study struct {
 	// Alternatives are the stated alternative graphs, in package order.
 	Alternatives []*dag.PDAG
 	// Background are the arcs that background knowledge requires of the
-	// declared graph's equivalents: out of every exogenous variable, and
-	// every fixed edge.
+	// declared graph's equivalents: out of every exogenous variable, every
+	// fixed edge, and every adjacent pair across tiers, from the earlier
+	// tier to the later one (dag.TierArcs).
 	Background []dag.Edge
-	Data       *Dataset
+	// Tiers is graph.tiers by variable index, earliest first; nil when
+	// none are given.
+	Tiers dag.Tiers
+	Data  *Dataset
 	// SHA256 is the hash of the canonical package bytes, data included.
 	SHA256 string
 	// Printed holds each claim's numbers as the package document prints

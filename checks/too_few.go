@@ -128,8 +128,9 @@ func (a *Analysis) fitTooFew(tests []implicationTest, n int) (*Finding, float64)
 	if best == 0 {
 		how = fitNoTest
 	}
-	return &Finding{Severity: StatusWarn, Message: fmt.Sprintf(fitTooFewFormat, count(n, "case", "cases"),
-		which, how),
+	return &Finding{Severity: StatusWarn, Topic: "too-few-cases",
+		Message: fmt.Sprintf(fitTooFewFormat, count(n, "case", "cases"),
+			which, how),
 		Details: map[string]any{"power_large_effect": num(best), tooFewKey: true}}, best
 }
 
@@ -155,7 +156,7 @@ func (a *Analysis) claimTooFew(c Claim, e est) *Finding {
 	if pw == 0 {
 		how = tooFewNoTest
 	}
-	return &Finding{Severity: StatusWarn, Claim: c.ID, Message: fmt.Sprintf(claimTooFewFormat,
+	return &Finding{Severity: StatusWarn, Claim: c.ID, Topic: "too-few-cases", Message: fmt.Sprintf(claimTooFewFormat,
 		count(e.n, "case", "cases"), adj, c.ID, how, interval),
 		Details: map[string]any{"power_large_effect": num(pw), tooFewKey: true}}
 }

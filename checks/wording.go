@@ -102,5 +102,8 @@ func valueText(e est) string {
 	if e.method == MethodZero {
 		return noEffect(e.scale)
 	}
+	if e.isIndirect() {
+		return fmt.Sprintf("%s (%s)", estText(e.value), e.judgedText())
+	}
 	return fmt.Sprintf("%s (%s)", estText(e.value), pText(e.p))
 }

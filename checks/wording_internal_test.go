@@ -81,14 +81,14 @@ func TestReestimatedText_NamesTheComparison(t *testing.T) {
 	r := &missingResult{moments: map[string]*Moments{MissingMaximumLikelihood: {}, MissingMeanSubstitution: {}},
 		imputed: []*Moments{{}}}
 	got := reestimatedText(MissingMeanSubstitution, r)
-	want := "; the claims are re-estimated by maximum likelihood and multiple imputation, and below, each claim's " +
+	want := "; the claims are re-estimated by maximum likelihood and multiple imputation, and each claim's " +
 		"mean substitution estimate is held against its estimate by multiple imputation with"
 	if !strings.HasPrefix(got, want) {
 		t.Errorf("%q\nwant prefix %q", got, want)
 	}
 	r.imputed = nil // MI did not run: no comparison to name
 	got = reestimatedText(MissingMeanSubstitution, r)
-	if got != "; the claims are re-estimated by maximum likelihood (see below)." {
+	if got != "; the claims are re-estimated by maximum likelihood." {
 		t.Errorf("without imputations: %q", got)
 	}
 }

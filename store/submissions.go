@@ -232,8 +232,7 @@ func (db *DB) DeleteSubmission(ctx context.Context, id string, sc service.Scope)
 	if !uuidRE.MatchString(id) {
 		return service.Errorf(service.ENotFound, "submission not found")
 	}
-	tag, err := db.Pool.Exec(ctx, `DELETE FROM submissions s WHERE`+scopeSQL+` AND s.id = $4`,
-		sc.OfficeID, sc.Editor, sc.KeyID, id)
+	tag, err := db.Pool.Exec(ctx, deleteSQL, sc.OfficeID, sc.Editor, sc.KeyID, id, db.now())
 	if err != nil {
 		return dbError(err, "submission")
 	}
@@ -242,6 +241,18 @@ func (db *DB) DeleteSubmission(ctx context.Context, id string, sc service.Scope)
 	}
 	return nil
 }
+
+// deleteSQL deletes a submission (its reports, decisions and published
+// comment go with it) and, in the same statement, keeps what was deleted
+// and by which key (deleted_submissions, for the dashboard).
+const deleteSQL = `WITH gone AS (DELETE FROM submissions s WHERE` + scopeSQL + ` AND s.id = $4
+	RETURNING s.id, s.office_id, s.title, s.manuscript_id, s.report_count,
+		EXISTS (SELECT 1 FROM published_comments c WHERE c.submission_id = s.id) AS had_comment)
+INSERT INTO deleted_submissions (submission_id, office_id, title, manuscript_id, reports, had_comment, key_id,
+	key_label, deleted_at)
+SELECT g.id, g.office_id, g.title, g.manuscript_id, g.report_count, g.had_comment, $3,
+	coalesce((SELECT label FROM api_keys WHERE id = $3), ''), $5 FROM gone g
+ON CONFLICT (submission_id) DO NOTHING`
 
 // Rerun queues a finished submission again (after a pipeline upgrade); its
 // earlier reports are kept.

@@ -44,7 +44,8 @@ var listBounds = map[string]func(Limits) (int, string){
 var boundOf = map[string]string{
 	"Package.variables": "variables", "Package.claims": "claims", "Package.alternatives": "alternatives",
 	"Graph.edges": "edges", "Graph.fixed_edges": "edges", "Alternative.edges": "edges",
-	"Claim.adjust_for": "per-variable", "Data.variables": "per-variable", "Data.correlations": "per-variable",
+	"Claim.adjust_for": "per-variable", "Claim.through": "per-variable", "Graph.tiers": "per-variable",
+	"Data.variables": "per-variable", "Data.correlations": "per-variable",
 	"Data.sds": "per-variable", "Data.means": "per-variable",
 }
 

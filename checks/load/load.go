@@ -100,6 +100,7 @@ func newStudy(doc []byte, pkg *checks.Package, ps *problems) *study {
 	}
 	s.resolveGraphs(ps)
 	checkClaims(pkg, s.Index, ps)
+	s.checkIndirectPaths(ps)
 	return s
 }
 
@@ -107,9 +108,11 @@ func newStudy(doc []byte, pkg *checks.Package, ps *problems) *study {
 // their DAGs and the background knowledge.
 func (s *study) resolveGraphs(ps *problems) {
 	pkg, n := s.Package, len(s.Names)
+	tiers := s.resolveTiers(ps)
 	if g := pkg.Graph; g != nil {
 		edges := graphEdges("/graph/edges", g.Edges, s.Index, ps)
 		checkExogenous("/graph/edges", pkg, g.Edges, s.Index, ps)
+		s.checkTierOrder("/graph/edges", edges, tiers, ps)
 		if edges != nil {
 			s.Declared = acyclicGraph("/graph/edges", n, edges, s.Names, ps)
 			s.InGraph = make([]bool, n)
@@ -121,6 +124,11 @@ func (s *study) resolveGraphs(ps *problems) {
 		if s.Declared != nil && fixed != nil {
 			s.background(fixed, ps)
 		}
+		if s.Declared != nil && tiers != nil {
+			s.Tiers = tiers
+			arcs, _ := dag.TierArcs(dag.CPDAG(s.Declared), tiers) // tiers checked by resolveTiers
+			s.Background = append(s.Background, arcs...)
+		}
 	}
 	names := map[string]int{}
 	for i, a := range pkg.Alternatives {
@@ -131,6 +139,7 @@ func (s *study) resolveGraphs(ps *problems) {
 		names[a.Name] = i
 		checkExogenous(base+"/edges", pkg, a.Edges, s.Index, ps)
 		if edges := graphEdges(base+"/edges", a.Edges, s.Index, ps); edges != nil {
+			s.checkTierOrder(base+"/edges", edges, tiers, ps)
 			s.Alternatives = append(s.Alternatives, acyclicGraph(base+"/edges", n, edges, s.Names, ps))
 		}
 	}

@@ -250,6 +250,7 @@ func checkClaims(pkg *checks.Package, index map[string]int, ps *problems) {
 			ps.at(at+"/to", "is the same variable as from")
 		}
 		checkAdjustFor(at, c, index, ps)
+		checkThrough(at, c, index, ps)
 		checkReported(at, c, ps)
 	}
 }

@@ -63,6 +63,12 @@ func Percentile(t []float64, alpha float64) float64 {
 	return t[k-1] + (q(alpha)-lo)/(hi-lo)*(t[k]-t[k-1])
 }
 
+// IntervalOf is the percentile interval (Percentile) of draws at level,
+// as MonteCarlo and Bootstrap make it: the draws that are not finite are
+// counted in Failed and left out, and draws is sorted in place. It serves
+// intervals from draws made elsewhere (a mixture over imputed datasets).
+func IntervalOf(draws []float64, level float64) (*Interval, error) { return newInterval(draws, level) }
+
 // newInterval sorts the finite draws and reads the interval off them.
 func newInterval(draws []float64, level float64) (*Interval, error) {
 	ok := slices.DeleteFunc(draws, func(v float64) bool { return math.IsNaN(v) || math.IsInf(v, 0) })

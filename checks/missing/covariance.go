@@ -48,6 +48,26 @@ func (c *Covariance) Quadratic(idx []int, g []float64) float64 {
 	return floats.Dot(z, z)
 }
 
+// Block is V over the parameters idx, in their order: z_aᵀ z_b for the
+// solves Uᵀ z_a = e_idx[a], each from its own parameter on.
+func (c *Covariance) Block(idx []int) *mat.SymDense {
+	first, z := make([]int, len(idx)), make([][]float64, len(idx))
+	for a, i := range idx {
+		first[a], z[a] = c.solve([]int{i}, []float64{1})
+	}
+	out := mat.NewSymDense(len(idx), nil)
+	for a := range idx {
+		for b := range a + 1 {
+			za, zb, off := z[a], z[b], first[a]-first[b]
+			if off < 0 {
+				za, zb, off = zb, za, -off
+			}
+			out.SetSym(a, b, floats.Dot(za, zb[off:]))
+		}
+	}
+	return out
+}
+
 // solve is z of Uᵀ z = g (g as in Quadratic) from the first parameter g
 // touches, the entries of z before it being zero.
 func (c *Covariance) solve(idx []int, g []float64) (first int, z []float64) {

@@ -157,6 +157,30 @@ func covAt(c *Covariance, i, j int) float64 {
 	return floats.Dot(zi, zj[fi-fj:])
 }
 
+// A block of the covariance is its entries (covAt), in the order asked,
+// on airquality's incomplete columns. Tolerance 1e-12 relative (the same
+// solves, summed in another order).
+func TestCovariance_BlockIsItsEntries(t *testing.T) {
+	_, aq := referenceColumns(t, "../airquality/airquality.csv")
+	em, err := EM(context.Background(), aq, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	v, err := EstimateCovariance(context.Background(), aq, em)
+	if err != nil {
+		t.Fatal(err)
+	}
+	idx := []int{CovParam(6, 4, 1), MeanParam(0), CovParam(6, 0, 0), CovParam(6, 5, 2), MeanParam(3)}
+	b := v.Block(idx)
+	for x, i := range idx {
+		for y, j := range idx {
+			if got, want := b.At(x, y), covAt(v, i, j); !scalar.EqualWithinAbsOrRel(got, want, 1e-15, 1e-12) {
+				t.Errorf("block[%d][%d] = %v, V[%d][%d] = %v", x, y, got, i, j, want)
+			}
+		}
+	}
+}
+
 // The information refuses what it cannot hold, and stops with its context.
 func TestObservedInformation_BoundsAndContext(t *testing.T) {
 	_, aq := referenceColumns(t, "../airquality/airquality.csv")

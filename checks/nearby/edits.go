@@ -6,11 +6,18 @@ import "context"
 type knowledge struct {
 	exo   []bool
 	fixed map[[2]int]bool
+	tier  []int
 }
 
 func newKnowledge(n int, k Knowledge) *knowledge {
-	kn := &knowledge{exo: make([]bool, n), fixed: map[[2]int]bool{}}
+	kn := &knowledge{exo: make([]bool, n), fixed: map[[2]int]bool{}, tier: make([]int, n)}
 	copy(kn.exo, k.Exogenous)
+	for v := range kn.tier {
+		kn.tier[v] = -1
+		if v < len(k.Tier) {
+			kn.tier[v] = k.Tier[v]
+		}
+	}
 	for _, f := range k.Fixed {
 		kn.fixed[f] = true
 	}
@@ -61,16 +68,23 @@ func ops(g *graph, u, v int) []Op {
 
 // allowed reports whether the edit keeps g acyclic and respects the
 // knowledge: an arrow added between non-adjacent nodes (not into an
-// exogenous node, not closing a cycle), an arrow that is not fixed removed,
-// or reversed (not into an exogenous node, not when another directed path
-// joins its ends).
+// exogenous node, not from a later tier to an earlier one, not closing a
+// cycle), an arrow that is not fixed removed, or reversed (not into an
+// exogenous node, not to point from a later tier to an earlier one, not
+// when another directed path joins its ends).
 func (kn *knowledge) allowed(g *graph, e Edit) bool {
 	u, v := e.From, e.To
 	switch e.Op {
 	case Add:
-		return !g.adjacent(u, v) && !kn.exo[v] && !g.reach[v].has(u)
+		return !g.adjacent(u, v) && !kn.exo[v] && !kn.backward(u, v) && !g.reach[v].has(u)
 	case Remove:
 		return g.isPa[v].has(u) && !kn.fixed[[2]int{u, v}]
 	}
-	return g.isPa[v].has(u) && !kn.fixed[[2]int{u, v}] && !kn.exo[u] && !g.otherPath(u, v)
+	return g.isPa[v].has(u) && !kn.fixed[[2]int{u, v}] && !kn.exo[u] && !kn.backward(v, u) && !g.otherPath(u, v)
+}
+
+// backward reports whether an arrow u → v would point from a later tier
+// to an earlier one.
+func (kn *knowledge) backward(u, v int) bool {
+	return kn.tier[u] >= 0 && kn.tier[v] >= 0 && kn.tier[u] > kn.tier[v]
 }

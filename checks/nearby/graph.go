@@ -28,6 +28,10 @@ type Knowledge struct {
 	Exogenous []bool
 	// Fixed are arrows that may be neither removed nor reversed.
 	Fixed [][2]int
+	// Tier is each node's tier in a time order, earliest first (nil, or a
+	// negative entry: not in one): no arrow may point from a later tier to
+	// an earlier one.
+	Tier []int
 }
 
 // graph is a DAG held for quick edits: sorted parent and child lists, the

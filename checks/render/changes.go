@@ -6,15 +6,11 @@ import (
 	"github.com/pathvet/pathvet/checks"
 )
 
-// Change is what changed from one version of a manuscript to the next.
+// Change is how the claims' estimates moved from one version of a
+// manuscript to the next (what became of the findings is the review's:
+// review.Compare).
 type Change struct {
-	ScoreFrom, ScoreTo int
-	BandFrom, BandTo   string
-	// Resolved are the previous version's fail and warn findings with no
-	// counterpart now, New the current ones with none before; findings
-	// are matched by check, claim and severity (their numbers may differ).
-	Resolved, New []string
-	Moved         []ClaimMove
+	Moved []ClaimMove
 }
 
 // ClaimMove is a claim whose estimate under the declared graph moved.
@@ -28,9 +24,7 @@ const movedBy = 0.01
 
 // Changes compares the report of a previous version with the current one.
 func Changes(prev, cur *checks.Report) Change {
-	ch := Change{ScoreFrom: prev.Score, ScoreTo: cur.Score, BandFrom: bandWords(prev.Band), BandTo: bandWords(cur.Band)}
-	ch.Resolved = unmatched(prev, cur)
-	ch.New = unmatched(cur, prev)
+	var ch Change
 	before := map[string]checks.ClaimReport{}
 	for _, c := range prev.Claims {
 		before[c.ID] = c
@@ -59,30 +53,4 @@ func estOf(e *checks.Estimate) *float64 {
 		return nil
 	}
 	return e.Estimate
-}
-
-// unmatched lists a's fail and warn findings that b has no counterpart
-// for, counting repeats.
-func unmatched(a, b *checks.Report) []string {
-	have := map[[3]string]int{}
-	for _, c := range b.Checks {
-		for _, f := range c.Findings {
-			have[[3]string{c.ID, f.Claim, f.Severity}]++
-		}
-	}
-	var out []string
-	for _, c := range a.Checks {
-		for _, f := range c.Findings {
-			if f.Severity != checks.StatusFail && f.Severity != checks.StatusWarn {
-				continue
-			}
-			k := [3]string{c.ID, f.Claim, f.Severity}
-			if have[k] > 0 {
-				have[k]--
-				continue
-			}
-			out = append(out, c.Title+": "+Prose(f.Message))
-		}
-	}
-	return out
 }

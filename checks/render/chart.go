@@ -231,7 +231,7 @@ func drawPoint(b *strings.Builder, sc Scale, p point, y, alpha float64) {
 		return
 	}
 	class := "dot sig"
-	if p.P == nil || *p.P >= alpha {
+	if sig, ok := p.significant(alpha); !ok || !sig {
 		class = "dot nonsig"
 	}
 	fmt.Fprintf(b, `<circle class="%s" cx="%.1f" cy="%.1f" r="%.0f"/>`, class, sc.At(*p.Est), y, dotR)

@@ -47,13 +47,13 @@ func claimRows(r *checks.Report) []ClaimRow {
 	for i, c := range r.Claims {
 		ref := fromEstimate(c.Declared)
 		out[i] = ClaimRow{
-			ID: c.ID, Text: c.Text, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind), Headline: c.Headline,
+			ID: c.ID, Text: c.Text, Arrow: claimArrow(c), Kind: Words(c.Kind), Headline: c.Headline,
 			Reported:     reportedCell(c.Reported),
 			Declared:     declaredCell(c.Declared),
 			Equivalents:  equivalentsCell(c.AcrossEquivalents),
 			Alternatives: alternativesCell(c, ref, r.SignificanceLevel),
 			MissingData:  missingCell(c, ref, r.SignificanceLevel),
-			EValue:       eValueCell(c.EValue),
+			EValue:       eValueCell(c),
 		}
 	}
 	return out
@@ -93,7 +93,55 @@ func declaredCell(e *checks.Estimate) Cell {
 	if len(e.AdjustedFor) > 0 {
 		l = append(l, Line{Text: "adjusted for " + strings.Join(e.AdjustedFor, ", ")})
 	}
-	return Cell{Lines: l}
+	return Cell{Lines: append(l, intervalLines(e)...)}
+}
+
+// claimArrow is a claim's path: "x → y", or for an indirect effect
+// "x → m → y" (the mediators in the claim's order) or "x → … → y" for the
+// total indirect effect.
+func claimArrow(c checks.ClaimReport) string {
+	switch {
+	case c.Kind != checks.KindIndirect:
+		return c.From + " → " + c.To
+	case len(c.Through) == 0:
+		return c.From + " → … → " + c.To
+	}
+	return c.From + " → " + strings.Join(c.Through, " → ") + " → " + c.To
+}
+
+// intervalLines say by which interval an indirect effect is judged, and
+// list its other intervals.
+func intervalLines(e *checks.Estimate) []Line {
+	if e.Significance == nil {
+		return nil
+	}
+	verdict := "includes zero"
+	if x := e.Significance.ExcludesZero; x != nil && *x {
+		verdict = "excludes zero"
+	}
+	l := []Line{{Text: fmt.Sprintf("judged by its %s interval, which %s", intervalWords(e.Significance.Method),
+		verdict)}}
+	for _, iv := range e.Intervals {
+		if iv.Method != e.Significance.Method && len(iv.CI) == 2 {
+			l = append(l, Line{Text: intervalWords(iv.Method) + ": " + interval(iv.CI)})
+		}
+	}
+	return l
+}
+
+// intervalWords names an interval method in words.
+func intervalWords(method string) string {
+	switch method {
+	case checks.IntervalDelta:
+		return "delta-method"
+	case checks.IntervalMonteCarlo:
+		return "Monte Carlo"
+	case checks.IntervalBootstrap:
+		return "percentile bootstrap"
+	case checks.IntervalMixture:
+		return "Monte Carlo (imputations mixed)"
+	}
+	return Words(method)
 }
 
 func equivalentsCell(a *checks.AcrossEquivalents) Cell {
@@ -141,7 +189,16 @@ func missingCell(c checks.ClaimReport, ref point, alpha float64) Cell {
 	return Cell{Lines: ls}
 }
 
-func eValueCell(e *checks.EValue) Cell {
+func eValueCell(c checks.ClaimReport) Cell {
+	e := c.EValue
+	if mc := c.MediatorConfounding; mc != nil && mc.RhoAtZero != nil {
+		return Cell{Lines: []Line{{Text: "no E-value for an indirect effect"},
+			{Text: "mediator–outcome error correlation that would explain it away: " + numPtr(mc.RhoAtZero, 2)}}}
+	}
+	if c.Kind == checks.KindIndirect && c.Absence == nil { // a claim of no effect has nothing to explain away
+		return Cell{Lines: []Line{{Text: "no E-value for an indirect effect"},
+			{Text: "no mediator–outcome figure (see confounding-sensitivity)"}}}
+	}
 	if e == nil {
 		return Cell{Lines: []Line{{Text: "not applicable"}}}
 	}

@@ -12,7 +12,7 @@ import (
 	"github.com/pathvet/pathvet/checks"
 )
 
-var demos = []string{"tutoring-anxiety", "coding-club", "sleep-attention"}
+var demos = []string{"tutoring-anxiety", "coding-club", "sleep-attention", "mentoring-waves"}
 
 var calibrations = []string{"calibration/bare-claims", "calibration/clean-randomized", "calibration/nearby-headline"}
 

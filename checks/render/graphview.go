@@ -82,10 +82,66 @@ const (
 		"its arrows are listed in words below."
 )
 
-// layoutInput is what the report's drawings are laid out from. Tiers and
-// constructs are left empty until the report carries them.
+// layoutInput is what the report's drawings are laid out from: the
+// graph's variables and every drawing's arrows, and its tiers, each its
+// own labelled row (tierRows). Constructs are left empty until the report
+// carries them.
 func layoutInput(g *checks.GraphReport, drawings [][]drawnArc) LayoutInput {
-	return LayoutInput{Nodes: g.Nodes, Arcs: layoutArcs(drawings...)}
+	arcs := layoutArcs(drawings...)
+	tiers, labels := tierRows(g.Tiers, g.Nodes, arcs)
+	return LayoutInput{Nodes: g.Nodes, Arcs: arcs, Tiers: tiers, TierLabels: labels}
+}
+
+// Labels of the tier rows.
+const (
+	tierLabel   = "tier %d"
+	firstLabel  = "tier %d, earliest"
+	lastLabel   = "tier %d, latest"
+	noTierLabel = "in no tier"
+)
+
+// tierRows are the report's tiers as rows of the drawing, earliest first,
+// each labelled with its number (a tier without a variable of the graph is
+// left out, the others keep their numbers), and the graph's variables in
+// no tier in a row of their own: above the first tier when no arrow comes
+// into them from a tier, else below the last. Nil without tiers.
+func tierRows(tiers [][]string, nodes []string, arcs []LayoutArc) ([][]string, []string) {
+	if len(tiers) == 0 {
+		return nil, nil
+	}
+	var rows [][]string
+	var labels []string
+	tiered := map[string]bool{}
+	for k, t := range tiers {
+		for _, v := range t {
+			tiered[v] = true
+		}
+		if len(t) == 0 {
+			continue
+		}
+		label := fmt.Sprintf(tierLabel, k+1)
+		switch {
+		case k == 0:
+			label = fmt.Sprintf(firstLabel, k+1)
+		case k == len(tiers)-1:
+			label = fmt.Sprintf(lastLabel, k+1)
+		}
+		rows, labels = append(rows, t), append(labels, label)
+	}
+	var rest []string
+	for _, v := range nodes {
+		if !tiered[v] {
+			rest = append(rest, v)
+		}
+	}
+	if len(rest) == 0 {
+		return rows, labels
+	}
+	into := slices.ContainsFunc(arcs, func(a LayoutArc) bool { return tiered[a.From] && !tiered[a.To] })
+	if into {
+		return append(rows, rest), append(labels, noTierLabel)
+	}
+	return append([][]string{rest}, rows...), append([]string{noTierLabel}, labels...)
 }
 
 // kindWords say what each kind of declared arrow means, after the arrow.

@@ -197,8 +197,8 @@ func loadGolden(t *testing.T, demo string) *checks.Report {
 var nodeRe = regexp.MustCompile(`<g class="node[^"]*" data-name="([^"]+)"`)
 
 // TestDeclaredDrawing draws each demo's declared graph: one variable per
-// graph variable, every declared arrow once, pointing down, in exactly
-// one kind: compelled when the CPDAG directs it, settled when only the
+// graph variable, every declared arrow once, pointing down (or level,
+// within a tier's row), in exactly one kind: compelled when the CPDAG directs it, settled when only the
 // background knowledge does (the plausible CPDAG directs it), reversible
 // when the plausible CPDAG leaves it open. (The drawing used to mark an
 // arrow both "reversible" and "fixed"; an arrow has one kind now.)
@@ -230,9 +230,16 @@ func checkArcs(t *testing.T, demo string, r *checks.Report, arcs []svgArc) {
 	open := pairSet(r.Graph.CPDAG.Undirected, true)
 	plausOpen := pairSet(r.Graph.PlausibleCPDAG.Undirected, true)
 	kinds := map[string]int{}
+	tier := map[string]int{}
+	for k, names := range r.Graph.Tiers {
+		for _, v := range names {
+			tier[v] = k + 1
+		}
+	}
 	for _, a := range arcs {
 		key := [2]string{a.from, a.to}
-		if a.pts[0].Y >= a.pts[len(a.pts)-1].Y {
+		y0, y1 := a.pts[0].Y, a.pts[len(a.pts)-1].Y
+		if y0 > y1 || y0 == y1 && (tier[a.from] == 0 || tier[a.from] != tier[a.to]) {
 			t.Errorf("%s: %s points up", demo, arrow(key))
 		}
 		want := arcCompelled

@@ -55,28 +55,30 @@ var hostileTexts = []string{
 	"tutor_sessions and p < .001 and 2 > 1",
 }
 
-// The letter of a report whose title, manuscript id and finding carry
-// hostile text, read by a real CommonMark reader with GitHub's extensions
-// (goldmark with GFM: autolinks, strike-through, tables), holds only the
-// letter's own markup (one heading, one strong title, one quote, one
-// numbered list, one code span for the hash), and its text reads exactly
-// as the author wrote it.
+// The letter of a report whose title, manuscript id, claim text and
+// finding carry hostile text, read by a real CommonMark reader with
+// GitHub's extensions (goldmark with GFM: autolinks, strike-through,
+// tables), holds only the letter's own markup (no heading, a strong
+// caution and a strong claim id, one quote, one numbered list, one code
+// span for the hash), and its text reads exactly as the author wrote it.
 func TestLetter_HostileTextStaysText(t *testing.T) {
 	md := goldmark.New(goldmark.WithExtensions(extension.GFM))
 	for _, text := range hostileTexts {
 		r := loadGolden(t, "coding-club")
 		r.Title, r.ManuscriptID = text, text
+		r.Claims[0].Text = text
 		r.Checks = []checks.CheckResult{{ID: "graph-fit", Title: "Graph fit", Status: checks.StatusWarn,
-			Findings: []checks.Finding{{Severity: checks.StatusWarn, Message: text}}}}
+			Findings: []checks.Finding{{Severity: checks.StatusWarn, Claim: r.Claims[0].ID, Message: text,
+				Question: "Could you say?"}}}}
 		var letter, page bytes.Buffer
-		if err := WriteLetter(&letter, r); err != nil {
+		if err := WriteLetter(&letter, DefaultLetter(r)); err != nil {
 			t.Fatal(err)
 		}
 		if err := md.Convert(letter.Bytes(), &page); err != nil {
 			t.Fatal(err)
 		}
 		out := page.String()
-		for tag, want := range map[string]int{"<h1": 1, "<strong": 1, "<blockquote": 1, "<ol": 1, "<li": 1,
+		for tag, want := range map[string]int{"<h1": 0, "<strong": 2, "<blockquote": 1, "<ol": 1, "<li": 1,
 			"<code": 1, "<em": 0, "<del": 0, "<a ": 0, "<img": 0, "<h2": 0, "<ul": 0, "<table": 0, "<hr": 0,
 			"<script": 0, "<b>": 0, "<i>": 0, "<!--": 0, "<p>": 4} {
 			if got := strings.Count(out, tag); got != want {
@@ -84,8 +86,8 @@ func TestLetter_HostileTextStaysText(t *testing.T) {
 			}
 		}
 		plain := html.UnescapeString(tags.ReplaceAllString(out, ""))
-		if want := strings.Join(strings.Fields(text), " "); strings.Count(plain, want) != 3 {
-			t.Errorf("%q does not read as written (title, manuscript, finding):\n%s", text, plain)
+		if want := strings.Join(strings.Fields(text), " "); strings.Count(plain, want) != 4 {
+			t.Errorf("%q does not read as written (title, manuscript, claim, finding):\n%s", text, plain)
 		}
 	}
 }

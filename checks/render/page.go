@@ -7,9 +7,10 @@ import (
 	"io"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/review"
 )
 
-//go:embed page.html workspace.html
+//go:embed page.html workspace.html review.html
 var pageFiles embed.FS
 
 //go:embed style.css
@@ -27,6 +28,12 @@ type PageOptions struct {
 	Nav     template.HTML // navigation, at the top
 	Actions template.HTML // forms acting on the submission
 	History template.HTML // the report history section
+	// Since compares a newer version with the previous one, near the top;
+	// Review is the reviewer's decisions on the findings, after the
+	// questions; Letter, when set, is the letter under those decisions,
+	// whose points the questions show (else every fail and warn finding).
+	Since, Review template.HTML
+	Letter        *review.Letter
 }
 
 // pageView is what the page template reads.
@@ -36,7 +43,7 @@ type pageView struct {
 	Generated string
 	Design    string
 	Band      string
-	Questions []Question
+	Questions []ItemView
 	Claims    []ClaimRow
 	Graph     *GraphView
 	Nearby    []NearbyRow
@@ -87,7 +94,7 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 		return nil, fmt.Errorf("render: drawing the graph: %w", err)
 	}
 	v := &pageView{R: r, Opts: o, Generated: r.GeneratedAt.UTC().Format("2 January 2006, 15:04 UTC"),
-		Design: Words(r.Design), Band: bandWords(r.Band), Questions: Questions(r), Claims: claimRows(r),
+		Design: Words(r.Design), Band: bandWords(r.Band), Questions: pageQuestions(r, o), Claims: claimRows(r),
 		Graph: g, Nearby: nearbyRows(r.Graph), Concern: concernOf(r)}
 	for _, c := range r.Claims {
 		v.Charts = append(v.Charts, chartView{ID: c.ID, Arrow: c.From + " → " + c.To, Kind: Words(c.Kind),
@@ -99,23 +106,34 @@ func newPageView(r *checks.Report, o PageOptions) (*pageView, error) {
 
 // checkViews are the checks worst first, each finding with its group and
 // lead word and the number of the question made from it.
-func checkViews(cs []checks.CheckResult, qs []Question) []checkView {
-	asked := map[questionSource]int{}
+func checkViews(cs []checks.CheckResult, qs []ItemView) []checkView {
+	asked := map[string]int{}
 	for _, q := range qs {
-		asked[q.from] = q.N
+		for _, k := range q.Keys {
+			asked[k] = q.N
+		}
 	}
 	var out []checkView
 	for _, c := range ByConcern(cs) {
 		c.Summary, c.RunError = Prose(c.Summary), Prose(c.RunError)
 		cv := checkView{CheckResult: c, Verdict: verdict(c.Status)}
-		for i, f := range c.Findings {
+		for _, f := range c.Findings {
 			f.Message = Prose(f.Message)
 			cv.Findings = append(cv.Findings, findingView{Finding: f, Group: findingGroup(f.Severity),
-				Lead: findingLead[findingGroup(f.Severity)], Question: asked[questionSource{c.ID, i}]})
+				Lead: findingLead[findingGroup(f.Severity)], Question: asked[f.Key]})
 		}
 		out = append(out, cv)
 	}
 	return out
+}
+
+// pageQuestions are the letter's points: the reviewer's letter, else the
+// default one.
+func pageQuestions(r *checks.Report, o PageOptions) []ItemView {
+	if o.Letter != nil {
+		return ItemViews(o.Letter.Items)
+	}
+	return Questions(r)
 }
 
 // shellView is a page of the workspace in the project's frame.

@@ -17,6 +17,30 @@ type point struct {
 	// Null is the value of no effect on the estimate's scale: 1 for an
 	// odds ratio, else 0.
 	Null float64
+	// Sig is set for an estimate judged by an interval rather than a
+	// p-value (an indirect effect): whether that interval excludes zero.
+	Sig *bool
+}
+
+// significant says whether p is significant at alpha, by its interval or
+// its p-value; ok is false when it has neither.
+func (p point) significant(alpha float64) (sig, ok bool) {
+	switch {
+	case p.Sig != nil:
+		return *p.Sig, true
+	case p.P != nil:
+		return *p.P < alpha, true
+	}
+	return false, false
+}
+
+// excludesZero is the verdict of an estimate's judging interval, nil
+// without one.
+func excludesZero(s *checks.NamedInterval) *bool {
+	if s == nil {
+		return nil
+	}
+	return s.ExcludesZero
 }
 
 // acrossWhat says what a claim was estimated over across the equivalents:
@@ -39,14 +63,15 @@ func plural(n int, one, many string) string {
 // the declared estimate ref.
 func altPoint(a checks.AlternativeEstimate, ref point) point {
 	return point{Est: a.Estimate, CI: a.CI, P: a.PValue, Zero: a.StructuralZero != "" || a.Method == checks.MethodZero,
-		Null: ref.Null}
+		Null: ref.Null, Sig: excludesZero(a.Significance)}
 }
 
 func fromEstimate(e *checks.Estimate) point {
 	if e == nil {
 		return point{}
 	}
-	p := point{Est: e.Estimate, CI: e.CI, P: e.PValue, Zero: e.StructuralZero != "" || e.Method == checks.MethodZero}
+	p := point{Est: e.Estimate, CI: e.CI, P: e.PValue, Zero: e.StructuralZero != "" || e.Method == checks.MethodZero,
+		Sig: excludesZero(e.Significance)}
 	if e.Scale == "odds_ratio" {
 		p.Null = 1
 	}
@@ -70,10 +95,12 @@ func shift(ref, p point, alpha float64) string {
 	case sr*sp < 0:
 		return "sign flips"
 	}
-	if ref.P == nil || p.P == nil {
+	rs, okr := ref.significant(alpha)
+	ps, okp := p.significant(alpha)
+	if !okr || !okp {
 		return ""
 	}
-	switch rs, ps := *ref.P < alpha, *p.P < alpha; {
+	switch {
 	case rs && !ps:
 		return "significance lost"
 	case !rs && ps:

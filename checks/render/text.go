@@ -34,6 +34,7 @@ func WriteText(w io.Writer, r *checks.Report) error {
 		writeCheck(&b, ch)
 	}
 	writeNearby(&b, r.Graph)
+	writeIndirect(&b, r)
 	b.WriteString("\nPackage sha256 " + r.PackageSHA256 + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err

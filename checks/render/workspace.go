@@ -4,8 +4,10 @@ import (
 	"bytes"
 	"html/template"
 	"io"
+	"reflect"
 
 	"github.com/pathvet/pathvet/checks"
+	"github.com/pathvet/pathvet/checks/review"
 )
 
 // The pages of the web workspace around a report: sign-in, the office's
@@ -73,6 +75,10 @@ type Dashboard struct {
 	Periods      []string
 	Next         string // the URL of the next page, or ""
 	Refresh      bool   // some listed submission is queued or running
+	// Deleted says what was just deleted (nil otherwise); Comments are the
+	// office's published comments, newest first.
+	Deleted  *Deleted
+	Comments []PublishedRow
 }
 
 // HistoryEntry is one earlier report of a submission.
@@ -125,15 +131,14 @@ type Workspace struct {
 	ErrorDetail string
 	Running     *Progress // nil unless a new screening runs and has written how far it is
 	History     []HistoryEntry
-	Previous    *Previous
 	// Earlier says which earlier report the page shows ("" for the newest).
 	Earlier string
-}
-
-// Previous is the earlier version of the manuscript and what changed.
-type Previous struct {
-	ID, Received string
-	Change       *Change // nil when the earlier version has no report
+	// The review: the letter under the decisions in force, the decisions
+	// with their forms, and the comparison with the previous version; nil
+	// where the page shows none (an earlier report).
+	Letter *review.Letter
+	Review *ReviewPanel
+	Since  *Since
 }
 
 // WriteSignIn writes the sign-in page.
@@ -160,12 +165,17 @@ func WriteSubmission(w io.Writer, r *checks.Report, ws Workspace) error {
 		name string
 		data any
 		out  *template.HTML
-	}{{"navbar", ws.Nav, &opts.Nav}, {"actions", ws, &opts.Actions}, {"history", ws, &opts.History}} {
+	}{{"navbar", ws.Nav, &opts.Nav}, {"actions", ws, &opts.Actions}, {"history", ws, &opts.History},
+		{"reviewpanel", ws.Review, &opts.Review}, {"since", ws.Since, &opts.Since}} {
+		if v := reflect.ValueOf(part.data); v.Kind() == reflect.Pointer && v.IsNil() {
+			continue
+		}
 		var b bytes.Buffer
 		if err := pageTmpl.ExecuteTemplate(&b, part.name, part.data); err != nil {
 			return err
 		}
 		*part.out = template.HTML(b.String())
 	}
+	opts.Letter = ws.Letter
 	return WritePage(w, r, opts)
 }

@@ -58,7 +58,7 @@ func checkReport(t *testing.T, ctx context.Context, f *browserFixture) {
 	if claims != len(f.tutoringReport.Claims) {
 		t.Errorf("claims table has %d rows, want %d", claims, len(f.tutoringReport.Claims))
 	}
-	mustContain(t, ctx, "#history", "Since the previous version")
+	mustContain(t, ctx, "#since", "What the authors changed")
 	mustContain(t, ctx, ".caution", "not a verdict")
 	checkDrawingText(t, ctx, "submission at 1280 px", false)
 	checkCSP(t, ctx, "submission page")
@@ -83,7 +83,7 @@ func checkLetter(t *testing.T, ctx context.Context, f *browserFixture) {
 	if !strings.HasPrefix(ctype, "text/markdown") {
 		t.Fatalf("letter: %s", ctype)
 	}
-	for _, want := range []string{"# Questions for the authors", "1. ", f.tutoringReport.PackageSHA256, "not a verdict"} {
+	for _, want := range []string{"Dear authors,", "1. ", f.tutoringReport.PackageSHA256, "not a verdict"} {
 		if !strings.Contains(string(body), want) {
 			t.Errorf("the letter lacks %q", want)
 		}

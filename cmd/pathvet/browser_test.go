@@ -146,6 +146,7 @@ func TestBrowser_Workspace(t *testing.T) {
 	t.Run("Dashboard", func(t *testing.T) { checkDashboard(t, ctx, f) })
 	t.Run("Report", func(t *testing.T) { checkReport(t, ctx, f) })
 	t.Run("Letter", func(t *testing.T) { checkLetter(t, ctx, f) })
+	t.Run("Mediation", func(t *testing.T) { checkMediation(t, ctx, f) })
 	t.Run("Narrow", func(t *testing.T) { checkNarrow(t, ctx, f) })
 	t.Run("Print", func(t *testing.T) { checkWorkspacePrint(t, ctx, f) })
 	t.Run("OtherOffice", func(t *testing.T) {
@@ -156,6 +157,8 @@ func TestBrowser_Workspace(t *testing.T) {
 		mustContain(t, ctx, "h1", "Not found")
 	})
 	t.Run("NoCSRF", func(t *testing.T) { checkCSRF(t, ctx, f) })
+	t.Run("Review", func(t *testing.T) { checkReview(t, ctx, f) })
+	t.Run("Delete", func(t *testing.T) { checkDelete(t, ctx, f) })
 	t.Run("SignOut", func(t *testing.T) { checkSignOut(t, ctx, f) })
 }
 

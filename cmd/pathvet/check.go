@@ -14,6 +14,7 @@ import (
 
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/mediation"
 	"github.com/pathvet/pathvet/checks/render"
 )
 
@@ -44,6 +45,8 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	allowOff := fs.Int("allow-points-off", 100,
 		"exit with status 1 when more than this many of the 100 points are taken off (0 to 100)")
 	alpha := fs.Float64("alpha", checks.DefaultAlpha, "significance level")
+	resamples := fs.Int("resamples", mediation.DefaultResamples,
+		"bootstrap resamples of an indirect effect with raw rows ("+resamplesRange+")")
 	quiet := fs.Bool("quiet", false, "draw no progress line on standard error")
 	if renamed := renamedFlag(args); renamed != "" {
 		fmt.Fprintln(stderr, "pathvet check: "+renamed)
@@ -66,8 +69,12 @@ func runCheck(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	case *alpha <= 0 || *alpha >= 1:
 		fmt.Fprintln(stderr, "pathvet check: --alpha must lie strictly between 0 and 1")
 		return exitInvalid
+	case badResamples(*resamples):
+		fmt.Fprintln(stderr, "pathvet check: --resamples must be "+resamplesRange)
+		return exitInvalid
 	}
-	rep, code := screenFile(ctx, pos[0], *alpha, stderr, newProgressLine(stderr, *quiet))
+	opt := checks.Options{Alpha: *alpha, Resamples: *resamples}
+	rep, code := screenFile(ctx, pos[0], opt, stderr, newProgressLine(stderr, *quiet))
 	if rep == nil {
 		return code
 	}
@@ -108,7 +115,7 @@ func renamedFlag(args []string) string {
 func screenFile(
 	ctx context.Context,
 	path string,
-	alpha float64,
+	opt checks.Options,
 	stderr io.Writer,
 	progress *progressLine,
 ) (*checks.Report, int) {
@@ -133,7 +140,8 @@ func screenFile(
 		fmt.Fprintln(stderr, "pathvet check:", err)
 		return nil, exitInternal
 	}
-	rep, err := checks.Run(ctx, study, checks.Options{Alpha: alpha, Progress: progress.callback()})
+	opt.Progress = progress.callback()
+	rep, err := checks.Run(ctx, study, opt)
 	progress.clear()
 	if err != nil {
 		fmt.Fprintln(stderr, "pathvet check:", err)
@@ -141,6 +149,16 @@ func screenFile(
 	}
 	return rep, exitOK
 }
+
+// The bounds of --resamples: enough resamples for the tails of a 95%
+// percentile interval, and a cost that stays within a job's deadline.
+const (
+	minResamples   = 200
+	maxResamples   = 100_000
+	resamplesRange = "from 200 to 100000"
+)
+
+func badResamples(n int) bool { return n < minResamples || n > maxResamples }
 
 // readBeside reads a data file named relative to the package's folder,
 // of at most limit bytes.

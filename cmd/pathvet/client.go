@@ -158,8 +158,10 @@ The API key comes from PATHVET_TOKEN.`
 
 const reportUsage = `Usage: pathvet report [--server URL] [--format text|json] [--letter] ID
 
-Prints the newest report of a submission, or with --letter its questions for
-the authors as Markdown. The API key comes from PATHVET_TOKEN.`
+Prints the newest report of a submission, or with --letter the letter for
+the authors as Markdown: the points the office asks, under the reviewers'
+decisions (an editor key's; a submitter key is refused). The API key comes
+from PATHVET_TOKEN.`
 
 // runSubmit is `pathvet submit --server URL PACKAGE.json [--wait]`.
 func runSubmit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -244,7 +246,7 @@ func runReport(ctx context.Context, args []string, stdout, stderr io.Writer) int
 	fs := newCommand("report", reportUsage, stdout, stderr)
 	server := serverFlag(fs)
 	format := fs.String("format", "text", "text or json")
-	letter := fs.Bool("letter", false, "print the questions for the authors as Markdown instead")
+	letter := fs.Bool("letter", false, "print the letter for the authors as Markdown instead (an editor key)")
 	c, pos, code := clientArgs(fs, args, server)
 	if c == nil {
 		return code

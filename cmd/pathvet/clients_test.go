@@ -62,7 +62,7 @@ func TestCommands_KeysSubmitReport(t *testing.T) {
 		t.Fatalf("report: %d %.200q", code, out)
 	}
 	code, out, _ = runCLI("report", "--server", m.URL(), "--letter", id)
-	if code != exitOK || !strings.HasPrefix(out, "# Questions for the authors") || !strings.Contains(out, "1. ") ||
+	if code != exitOK || !strings.HasPrefix(out, "Dear authors,") || !strings.Contains(out, "1. ") ||
 		!strings.Contains(out, rep["package_sha256"].(string)) {
 		t.Fatalf("report --letter: %d %.300q", code, out)
 	}

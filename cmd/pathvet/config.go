@@ -11,6 +11,7 @@ import (
 	"github.com/pathvet/pathvet/api/service"
 	"github.com/pathvet/pathvet/checks"
 	"github.com/pathvet/pathvet/checks/load"
+	"github.com/pathvet/pathvet/checks/mediation"
 	"github.com/pathvet/pathvet/store"
 )
 
@@ -29,8 +30,11 @@ type Config struct {
 	RescueAfter        time.Duration
 	Migrate            bool // apply migrations at start
 	Alpha              float64
-	Limits             load.Limits
-	Shutdown           time.Duration
+	// Resamples is the number of bootstrap resamples of an indirect
+	// effect with raw rows.
+	Resamples int
+	Limits    load.Limits
+	Shutdown  time.Duration
 	// JobMemoryMiB is the memory one screening job may use (the worker's
 	// memory divided among its workers, less headroom); LargeIngests the
 	// large uploads the API checks and stores at once.
@@ -64,6 +68,7 @@ func defaultConfig(getenv func(string) string) Config {
 		JobTimePer10MCells: time.Minute,
 		RescueAfter:        5 * time.Minute,
 		Alpha:              checks.DefaultAlpha,
+		Resamples:          mediation.DefaultResamples,
 		Limits:             load.DefaultLimits,
 		Shutdown:           20 * time.Second,
 		// The worker manifest's 2 GiB, 2 workers, 10% headroom.
@@ -90,6 +95,9 @@ func defaultConfig(getenv func(string) string) Config {
 	}
 	if v, err := strconv.ParseInt(getenv("PATHVET_JOB_MEMORY_MIB"), 10, 64); err == nil {
 		c.JobMemoryMiB = v
+	}
+	if v, err := strconv.Atoi(getenv("PATHVET_RESAMPLES")); err == nil {
+		c.Resamples = v
 	}
 	return c
 }
@@ -134,6 +142,8 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 		"on SIGTERM, how long running jobs and requests may take to finish (PATHVET_SHUTDOWN_GRACE)")
 	fs.BoolVar(&c.Migrate, "migrate", c.Migrate, "apply the database migrations before starting")
 	fs.Float64Var(&c.Alpha, "alpha", c.Alpha, "significance level")
+	fs.IntVar(&c.Resamples, "resamples", c.Resamples,
+		"bootstrap resamples of an indirect effect with raw rows, "+resamplesRange+" (PATHVET_RESAMPLES)")
 	fs.Int64Var(&c.Limits.PackageBytes, "max-package-bytes", c.Limits.PackageBytes, "largest package JSON")
 	fs.Int64Var(&c.Limits.CSVBytes, "max-csv-bytes", c.Limits.CSVBytes, "largest CSV data")
 	fs.IntVar(&c.Limits.Rows, "max-rows", c.Limits.Rows, "most data rows")
@@ -143,7 +153,7 @@ func (c *Config) bindServerFlags(fs *flag.FlagSet, serve bool) {
 var serveUsage = map[string]string{
 	"serve": `Usage: pathvet serve [--database-url URL] [--addr HOST:PORT] [--workers N] [--job-timeout D]
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
-       [--large-ingests N] [--job-memory-mib N] [--webhook-allow LIST]
+       [--resamples N] [--large-ingests N] [--job-memory-mib N] [--webhook-allow LIST]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N] [--behind-tls]
        [--trusted-proxies LIST]
 
@@ -152,7 +162,7 @@ SIGTERM or an interrupt stops it cleanly within --shutdown-grace; a second
 one stops it at once.`,
 	"work": `Usage: pathvet work [--database-url URL] [--workers N] [--job-timeout D]
        [--job-time-per-10m-cells D] [--rescue-after D] [--shutdown-grace D] [--migrate] [--alpha A]
-       [--job-memory-mib N] [--webhook-allow LIST]
+       [--resamples N] [--job-memory-mib N] [--webhook-allow LIST]
        [--max-package-bytes N] [--max-csv-bytes N] [--max-rows N]
 
 Screens queued submissions (no HTTP API), for scaling workers out.
@@ -166,6 +176,8 @@ func (c Config) validate() error {
 		return fmt.Errorf("no database: set PATHVET_DATABASE_URL or --database-url")
 	case c.Alpha <= 0 || c.Alpha >= 1:
 		return fmt.Errorf("--alpha must lie strictly between 0 and 1")
+	case badResamples(c.Resamples):
+		return fmt.Errorf("--resamples must be %s", resamplesRange)
 	case c.JobTimeout <= 0:
 		return fmt.Errorf("--job-timeout must be positive")
 	case c.JobTimePer10MCells < 0:

@@ -82,7 +82,7 @@ func (c *command) databaseURLFlag() func() string {
 
 // checkUsage is the usage of `pathvet check`, with every exit status.
 const checkUsage = `Usage: pathvet check [--format text|json|html] [--out FILE] [--allow-points-off N] [--alpha A]
-       [--quiet] PACKAGE.json
+       [--resamples N] [--quiet] PACKAGE.json
 
 Screens a submission package offline and prints its report. A data file
 named in data.file is read relative to the package file.

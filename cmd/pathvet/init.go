@@ -178,9 +178,16 @@ paper does not give):
    "estimate": "TODO: the estimate", "std_error": "TODO: its standard error",
    "p_value": "TODO: the p-value", "headline": true}
 
+A mediation claim ("x affects y through m") is "kind": "indirect_effect"
+with "through": ["m"] (a list of mediators; [] for the total indirect
+effect), and needs a directed path from x through m to y in graph.edges.
+Waves, or before and after an exposure, go in graph.tiers, earliest
+first, for instance [[%q], [%q]]: nothing in a later tier may point into
+an earlier one.
+
 The format: checks/schema/package-format.md in the pathvet repository.
 These notes are in %s.
 
 Next: pathvet check %s
-`, a, b, a, b, notes, out)
+`, a, b, a, b, a, b, notes, out)
 }

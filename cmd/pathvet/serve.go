@@ -52,7 +52,8 @@ func screenFunc(cfg Config) store.ScreenFunc {
 		if err != nil {
 			return nil, errors.Join(store.ErrPermanent, err)
 		}
-		return checks.Run(ctx, s, checks.Options{Alpha: cfg.Alpha, Checks: cfg.checks, Progress: progress})
+		return checks.Run(ctx, s, checks.Options{Alpha: cfg.Alpha, Resamples: cfg.Resamples, Checks: cfg.checks,
+			Progress: progress})
 	}
 }
 
@@ -98,7 +99,7 @@ func (m *Main) apiConfig(metrics *api.Metrics, egress *service.Egress) api.Confi
 		m.Logger.Warn("behind a TLS proxy but no --trusted-proxies: sign-in failures are counted by the " +
 			"proxy's address, which every client shares")
 	}
-	return api.Config{Store: m.DB, Web: m.DB, TLSProxy: m.Config.TLSProxy, TrustedProxies: proxies,
+	return api.Config{Store: m.DB, Web: m.DB, Review: m.DB, TLSProxy: m.Config.TLSProxy, TrustedProxies: proxies,
 		Limits: m.Config.Limits, Logger: m.Logger, Metrics: metrics, LargeIngests: m.Config.LargeIngests,
 		Egress: egress, JobMemory: m.Config.JobMemoryMiB << 20}
 }

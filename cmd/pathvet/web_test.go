@@ -148,13 +148,7 @@ func checkRerunDelete(t *testing.T, w *webClient, m *Main, token string, sub api
 		!strings.Contains(page, "earlier report, number 1 of 2") {
 		t.Fatalf("the earlier report: %d", code)
 	}
-	code, hdr, _ = w.post("/submissions/"+sub.ID+"/delete", url.Values{"_csrf": {csrf}})
-	if code != http.StatusSeeOther || hdr.Get("Location") != "/" {
-		t.Fatalf("delete: %d %v", code, hdr)
-	}
-	if code, _ := w.get("/submissions/" + sub.ID); code != http.StatusNotFound {
-		t.Fatalf("a deleted submission: %d", code)
-	}
+	checkDeleteAsksFirst(t, w, sub.ID, csrf)
 }
 
 // checkSubmitterScope: a submitter's session sees its own submissions
@@ -183,4 +177,38 @@ func checkSubmitterScope(t *testing.T, m *Main, db *store.DB, editorToken string
 		t.Error("a submitter's dashboard lists an editor's submission")
 	}
 	return sub
+}
+
+// checkDeleteAsksFirst: the plain form's post deletes nothing and is sent
+// to a page of its own that says what goes with the submission; only that
+// page's form (confirm=yes) deletes, and the dashboard then says what was
+// deleted.
+func checkDeleteAsksFirst(t *testing.T, w *webClient, id, csrf string) {
+	t.Helper()
+	code, hdr, _ := w.post("/submissions/"+id+"/delete", url.Values{"_csrf": {csrf}})
+	if code != http.StatusSeeOther || hdr.Get("Location") != "/submissions/"+id+"/delete" {
+		t.Fatalf("delete without confirmation: %d %v", code, hdr)
+	}
+	if code, _ := w.get("/submissions/" + id); code != http.StatusOK {
+		t.Fatalf("deleted without confirmation: %d", code)
+	}
+	code, page := w.get("/submissions/" + id + "/delete")
+	if code != http.StatusOK || !strings.Contains(page, "2 reports") || !strings.Contains(page, `name="confirm" value="yes"`) ||
+		!strings.Contains(page, "cannot be undone") {
+		t.Fatalf("the page that asks: %d %s", code, page)
+	}
+	if code, _, _ := w.post("/submissions/"+id+"/delete", url.Values{"confirm": {"yes"}}); code != http.StatusBadRequest {
+		t.Fatalf("a confirmation without its CSRF token: %d", code)
+	}
+	code, hdr, _ = w.post("/submissions/"+id+"/delete", url.Values{"_csrf": {csrf}, "confirm": {"yes"}})
+	if code != http.StatusSeeOther || hdr.Get("Location") != "/?deleted="+id {
+		t.Fatalf("delete: %d %v", code, hdr)
+	}
+	if code, _ := w.get("/submissions/" + id); code != http.StatusNotFound {
+		t.Fatalf("a deleted submission: %d", code)
+	}
+	if code, page := w.get(hdr.Get("Location")); code != http.StatusOK || !strings.Contains(page, "Deleted: “") ||
+		!strings.Contains(page, "with 2 reports") {
+		t.Fatalf("the dashboard after the deletion: %d", code)
+	}
 }

@@ -181,6 +181,36 @@ case("problems-cut", "package: the list stops at 500 problems and there are more
      setp(["graph", "edges"], [{"from": f"x{i}", "to": f"y{i}"} for i in range(300)]),
      also=['/graph/edges/0/from: "x0" names no declared variable'])
 
+# indirect effects and tiers (issue 18)
+def indirect(through, frm="a", to="d", **kw):
+    def m(doc):
+        c = {"id": "C3", "text": "a acts on d through its mediators", "kind": "indirect_effect",
+             "from": frm, "to": to, "through": through}
+        c.update(kw)
+        doc["claims"].append(c)
+    return m
+case("indirect-through-unknown", "/claims/2/through/0", False, indirect(["e"]))
+case("indirect-through-is-from", "/claims/2/through/0: \"a\" is the claim's own from or to variable", False,
+     indirect(["a"]))
+case("indirect-through-twice", "/claims/2/through/1: \"b\" is listed twice", True, indirect(["b", "b"]))
+case("indirect-no-path", "/claims/2/through: the declared graph has no directed path from b to d through a", False,
+     indirect(["a"], frm="b"))
+case("indirect-no-path-total", "/claims/2/through: the declared graph has no directed path of two arrows or more "
+     "from c to d, so c has no indirect effect on d", False, indirect([], frm="c"))
+case("indirect-scale", "/claims/2/estimate_scale: an indirect effect is a product of path coefficients", True,
+     indirect(["b"], estimate_scale="odds_ratio"))
+case("through-on-direct-claim", "/claims/0/through: only an indirect_effect claim has mediators", True,
+     setp(["claims", 0, "through"], ["d"]))
+case("tier-unknown-variable", "/graph/tiers/0/1", False, setp(["graph", "tiers"], [["a", "e"], ["b"]]))
+case("tier-twice", "/graph/tiers/1/0: \"b\" is already in /graph/tiers/0", False,
+     setp(["graph", "tiers"], [["a", "b"], ["b", "c"]]))
+case("tier-empty", "/graph/tiers/1: is an empty tier", True, setp(["graph", "tiers"], [["a"], []]))
+case("tier-backward-arrow", "/graph/edges/1: the arrow b → c points from tier 2 (b) back to tier 1 (a, c)", False,
+     setp(["graph", "tiers"], [["a", "c"], ["b"]]))
+case("tier-backward-alternative", "/alternatives/0/edges/2: the arrow d → c points from tier 4 (d) back to tier 3 (c)",
+     False, both(setp(["graph", "tiers"], [["a"], ["b"], ["c"], ["d"]]), setp(["alternatives"], [
+         {"name": "d-first", "edges": [{"from": "a", "to": "b"}, {"from": "b", "to": "c"}, {"from": "d", "to": "c"}]}])))
+
 with open("cases.json", "w") as f:
     json.dump(cases, f, indent=1, ensure_ascii=False)
     f.write("\n")
